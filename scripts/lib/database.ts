@@ -1,0 +1,39 @@
+import knex, { type Knex } from 'knex'
+import knexConfig from '../../knexfile'
+
+function connectTo(database: string): Knex {
+  const connection = { ...(knexConfig.connection as Knex.PgConnectionConfig), database }
+  return knex({ ...knexConfig, connection, pool: { min: 0, max: 2 } })
+}
+
+async function recreate(name: string, fresh: boolean): Promise<void> {
+  const admin = connectTo('postgres')
+  try {
+    const exists = await admin.raw('select 1 from pg_database where datname = ?', [name])
+    if (exists.rows.length && fresh) {
+      await admin.raw('drop database ?? with (force)', [name])
+    }
+    if (!exists.rows.length || fresh) await admin.raw('create database ??', [name])
+  } finally {
+    await admin.destroy()
+  }
+}
+
+/**
+ * Creates the database when missing (or anew when `fresh`), migrates it to the latest schema and,
+ * when asked, seeds the demo scenario. Seeds are idempotent, so this is safe on every start.
+ */
+export async function prepareDatabase(name: string, { fresh = false, seed = false } = {}): Promise<void> {
+  await recreate(name, fresh)
+  const db = connectTo(name)
+  try {
+    const [, applied] = await db.migrate.latest()
+    if (applied.length) console.log(`[setup] ${name}: applied ${applied.length} migration(s)`)
+    if (seed) {
+      await db.seed.run()
+      console.log(`[setup] ${name}: demo scenario seeded`)
+    }
+  } finally {
+    await db.destroy()
+  }
+}

@@ -1,0 +1,44 @@
+import { existsSync } from 'node:fs'
+import { z } from 'zod'
+
+// .env is optional; real environment variables win over it.
+if (existsSync('.env')) process.loadEnvFile('.env')
+
+const ConfigSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().positive().default(3000),
+  PUBLIC_URL: z.string().url().optional(),
+  PGHOST: z.string().default('127.0.0.1'),
+  PGPORT: z.coerce.number().int().positive().default(54329),
+  PGUSER: z.string().default('nestwise'),
+  PGPASSWORD: z.string().default('nestwise-local'),
+  PGDATABASE: z.string().default('nestwise'),
+  SESSION_SECRET: z.string().min(16).default('dev-only-session-secret-change-me'),
+  SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(12),
+  LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
+  UPLOAD_MAX_MB: z.coerce.number().positive().default(250),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().positive().default(2525),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  MAIL_FROM: z.string().default('Nestwise <no-reply@nestwise.invalid>'),
+})
+
+export type Config = z.infer<typeof ConfigSchema>
+
+function loadConfig(): Config {
+  const parsed = ConfigSchema.safeParse(process.env)
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`)
+    throw new Error(`Invalid configuration:\n${lines.join('\n')}`)
+  }
+  if (parsed.data.NODE_ENV === 'production' && parsed.data.SESSION_SECRET.startsWith('dev-only')) {
+    throw new Error('SESSION_SECRET must be set in production')
+  }
+  return parsed.data
+}
+
+export const config = loadConfig()
+
+export const publicUrl = config.PUBLIC_URL ?? `http://${config.HOST}:${config.PORT}`
