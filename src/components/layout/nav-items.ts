@@ -1,0 +1,51 @@
+import type { RouteLocationRaw } from 'vue-router'
+import type { CurrentUser, Role } from '../../../shared/schemas/auth'
+import { hasAnyRole } from '@/router/access'
+
+export type NavRule = (user: CurrentUser) => boolean
+
+/** Building blocks for `visibleFor`, mirroring the route meta the guard checks. */
+export const visibleFor = {
+  everyone: (): NavRule => () => true,
+  roles:
+    (...roles: Role[]): NavRule =>
+    (user) =>
+      hasAnyRole(user, roles),
+  admin: (): NavRule => (user) => user.isAdmin,
+}
+
+export interface NavItem {
+  /** Stable id, used as a test hook. */
+  id: string
+  title: string
+  icon: string
+  to: RouteLocationRaw & { name: string }
+  section: 'work' | 'instance'
+  visibleFor: NavRule
+}
+
+/**
+ * The drawer's entries. A feature adds its entry here together with its route; features not built
+ * yet have no entry (no links to empty pages). nav-items.test.ts checks that each rule agrees with
+ * the route guard, so the drawer never offers a page the guard would refuse.
+ */
+export const navItems: NavItem[] = [
+  {
+    id: 'overview',
+    title: 'Overview',
+    icon: 'mdi-home-outline',
+    to: { name: 'overview' },
+    section: 'work',
+    visibleFor: visibleFor.everyone(),
+  },
+]
+
+export const sectionTitles: Record<NavItem['section'], string | null> = {
+  work: null,
+  instance: 'This instance',
+}
+
+export function navItemsFor(user: CurrentUser | null, items: NavItem[] = navItems): NavItem[] {
+  if (!user) return []
+  return items.filter((item) => item.visibleFor(user))
+}

@@ -1,0 +1,43 @@
+import type { ThemeDefinition } from 'vuetify'
+
+/**
+ * Nestwise colours: one deep teal as the primary colour, an ochre accent for warnings,
+ * and quiet neutrals so charts and badges carry the colour on analysis screens.
+ */
+export const LIGHT_THEME = 'nestwiseLight'
+export const DARK_THEME = 'nestwiseDark'
+export type ThemeName = typeof LIGHT_THEME | typeof DARK_THEME
+
+export const nestwiseLight: ThemeDefinition = {
+  dark: false,
+  colors: {
+    background: '#f5f7f7',
+    surface: '#ffffff',
+    'surface-variant': '#dde5e6',
+    'on-surface-variant': '#2b3a3d',
+    primary: '#1d5e66',
+    'primary-darken-1': '#144a51',
+    secondary: '#4b5f66',
+    warning: '#a86200',
+    error: '#b3261e',
+    success: '#2e7d4f',
+    info: '#35607a',
+  },
+}
+
+export const nestwiseDark: ThemeDefinition = {
+  dark: true,
+  colors: {
+    background: '#101617',
+    surface: '#182022',
+    'surface-variant': '#2b3739',
+    'on-surface-variant': '#d6e1e2',
+    primary: '#74c3c9',
+    'primary-darken-1': '#5aa9af',
+    secondary: '#a9bcc2',
+    warning: '#f0b45a',
+    error: '#f2b8b5',
+    success: '#84d1a4',
+    info: '#9cc3dc',
+  },
+}
