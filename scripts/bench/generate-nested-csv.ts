@@ -1,0 +1,96 @@
+import { closeSync, openSync, writeSync } from 'node:fs'
+import seedrandom from 'seedrandom'
+
+/**
+ * Writes an invented consortium data set: neurite length per neuron, neurons nested in mice,
+ * mice nested in labs, half of each lab's mice given the fictional compound NW-117. Animal labels
+ * repeat across labs (m01 exists in every lab), as they do in real spreadsheets.
+ */
+export interface NestedCsvSpec {
+  seed: string
+  labs: number
+  animalsPerLab: number
+  minCells: number
+  maxCells: number
+  grandMean: number
+  compoundEffect: number
+  labSd: number
+  animalSd: number
+  residualSd: number
+}
+
+export const BENCH_SPEC: NestedCsvSpec = {
+  seed: 'nestwise-bench-1',
+  labs: 12,
+  animalsPerLab: 40,
+  minCells: 1000,
+  maxCells: 3000,
+  grandMean: 120,
+  compoundEffect: 6,
+  labSd: 8,
+  animalSd: 5,
+  residualSd: 25,
+}
+
+export const QUICK_SPEC: NestedCsvSpec = { ...BENCH_SPEC, seed: 'nestwise-bench-quick', animalsPerLab: 10, minCells: 100, maxCells: 300 }
+
+export const CSV_HEADER = 'lab,animal,treatment,neurite_length_um'
+
+/** Standard normal draws from a seeded uniform source (Box–Muller, both values used). */
+function normalSource(uniform: () => number): () => number {
+  let spare: number | null = null
+  return () => {
+    if (spare !== null) {
+      const value = spare
+      spare = null
+      return value
+    }
+    let u = 0
+    while (u === 0) u = uniform()
+    const radius = Math.sqrt(-2 * Math.log(u))
+    const angle = 2 * Math.PI * uniform()
+    spare = radius * Math.sin(angle)
+    return radius * Math.cos(angle)
+  }
+}
+
+const pad = (n: number) => String(n).padStart(2, '0')
+
+/** Writes the CSV to `path` and returns the number of data rows. */
+export function writeNestedCsv(path: string, spec: NestedCsvSpec): number {
+  const uniform = seedrandom(spec.seed)
+  const normal = normalSource(uniform)
+  const fd = openSync(path, 'w')
+  let rows = 0
+  try {
+    writeSync(fd, CSV_HEADER + '\n')
+    for (let lab = 1; lab <= spec.labs; lab++) {
+      const labLabel = `lab-${pad(lab)}`
+      const labShift = spec.labSd * normal()
+      const treatedAnimals = new Set(shuffledIndices(spec.animalsPerLab, uniform).slice(0, Math.floor(spec.animalsPerLab / 2)))
+      for (let animal = 0; animal < spec.animalsPerLab; animal++) {
+        const treated = treatedAnimals.has(animal)
+        const treatment = treated ? 'NW-117' : 'vehicle'
+        const prefix = `${labLabel},m${pad(animal + 1)},${treatment},`
+        const centre = spec.grandMean + labShift + spec.animalSd * normal() + (treated ? spec.compoundEffect : 0)
+        const cells = spec.minCells + Math.floor(uniform() * (spec.maxCells - spec.minCells + 1))
+        const lines: string[] = new Array(cells)
+        for (let cell = 0; cell < cells; cell++) lines[cell] = prefix + (centre + spec.residualSd * normal()).toFixed(3)
+        writeSync(fd, lines.join('\n') + '\n')
+        rows += cells
+      }
+    }
+  } finally {
+    closeSync(fd)
+  }
+  return rows
+}
+
+function shuffledIndices(n: number, uniform: () => number): number[] {
+  const order = Array.from({ length: n }, (_, i) => i)
+  for (let i = n - 1; i > 0; i--) {
+    const j = Math.floor(uniform() * (i + 1))
+    ;[order[i], order[j]] = [order[j], order[i]]
+  }
+  return order
+}

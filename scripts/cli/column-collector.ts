@@ -1,0 +1,157 @@
+import type { Factor, NestedColumns } from '../../shared/stats/types'
+import { CliInputError } from './cli-input-error'
+
+export interface ColumnSelection {
+  response: string
+  /** Nesting levels, outermost first. */
+  levels: string[]
+  condition?: string | null
+  /** Decimal mark of the response values. */
+  decimal?: '.' | ','
+}
+
+/** Spreadsheet spellings of "no value": such a response leaves its row out (counted by the engine). */
+const MISSING_TOKENS = new Set(['', 'NA', 'N/A', 'NaN', 'nan', 'na', 'n/a', '.', '-', 'NULL', 'null'])
+
+/** A factor under construction: codes grow by doubling, labels get codes in order of appearance. */
+class FactorBuilder {
+  readonly codeOf = new Map<string, number>()
+  readonly labels: string[] = []
+  codes = new Int32Array(1024)
+
+  constructor(readonly name: string) {}
+
+  /** Code of a (trimmed, non-empty) label, adding it on first sight. */
+  code(label: string): number {
+    let code = this.codeOf.get(label)
+    if (code === undefined) {
+      code = this.labels.length
+      this.labels.push(label)
+      this.codeOf.set(label, code)
+    }
+    return code
+  }
+
+  toFactor(length: number): Factor {
+    return { name: this.name, codes: this.codes.slice(0, length), labels: this.labels }
+  }
+}
+
+/**
+ * Turns parsed rows (arrays of strings, first one the header) into engine columns without keeping
+ * any per-row object: labels become integer codes through Map lookups, the response goes straight
+ * into a Float64Array. A row with a missing label or a missing response gets NaN as its response
+ * so the engine leaves it out and counts it.
+ */
+export class ColumnCollector {
+  private responseIndex = -1
+  private levelIndices: number[] = []
+  private conditionIndex = -1
+  private levels: FactorBuilder[] = []
+  private condition: FactorBuilder | null = null
+  private response = new Float64Array(1024)
+  private rows = 0
+  private headerSeen = false
+  private readonly decimalComma: boolean
+
+  constructor(private readonly selection: ColumnSelection) {
+    this.decimalComma = selection.decimal === ','
+    const names = [selection.response, ...selection.levels, ...(selection.condition ? [selection.condition] : [])]
+    const repeated = names.find((name, i) => names.indexOf(name) !== i)
+    if (repeated !== undefined) throw new CliInputError(`The column "${repeated}" is used twice; response, levels and condition must be different columns.`)
+  }
+
+  get rowCount(): number {
+    return this.rows
+  }
+
+  /** Feeds one parsed row; the first row fed is the header. */
+  add(fields: string[]): void {
+    if (!this.headerSeen) {
+      this.readHeader(fields)
+      return
+    }
+    if (this.rows === this.response.length) this.grow()
+    const row = this.rows++
+    let missing = false
+    for (let l = 0; l < this.levels.length; l++) {
+      const label = (fields[this.levelIndices[l]] ?? '').trim()
+      if (label === '') missing = true
+      // A row with a missing label still needs a code; it is left out through its NaN response.
+      this.levels[l].codes[row] = label === '' ? 0 : this.levels[l].code(label)
+    }
+    if (this.condition) {
+      const label = (fields[this.conditionIndex] ?? '').trim()
+      if (label === '') missing = true
+      this.condition.codes[row] = label === '' ? 0 : this.condition.code(label)
+    }
+    if (missing && this.isBlank(fields)) {
+      // A row of separators only (spreadsheet leftovers) is not data: forget it instead of counting it.
+      this.rows--
+      return
+    }
+    this.response[row] = missing ? NaN : this.parseResponse(fields[this.responseIndex], row)
+  }
+
+  finish(): NestedColumns {
+    if (!this.headerSeen) throw new CliInputError('The file is empty: no header row.')
+    if (this.rows === 0) throw new CliInputError('The file has a header but no data rows.')
+    return {
+      responseName: this.selection.response,
+      response: this.response.slice(0, this.rows),
+      levels: this.levels.map((level) => level.toFactor(this.rows)),
+      condition: this.condition ? this.condition.toFactor(this.rows) : null,
+    }
+  }
+
+  private readHeader(fields: string[]): void {
+    const header = fields.map((field, i) => (i === 0 ? field.replace(/^\uFEFF/, '') : field).trim())
+    const find = (name: string): number => {
+      const index = header.indexOf(name)
+      if (index < 0) {
+        const available = header.filter((h) => h !== '').join(', ')
+        throw new CliInputError(`Column "${name}" not found. Available columns: ${available || '(none)'}.`)
+      }
+      if (header.indexOf(name, index + 1) >= 0) throw new CliInputError(`Column "${name}" appears more than once in the header; rename one of them.`)
+      return index
+    }
+    this.responseIndex = find(this.selection.response)
+    this.levelIndices = this.selection.levels.map(find)
+    this.levels = this.selection.levels.map((name) => new FactorBuilder(name))
+    if (this.selection.condition) {
+      this.conditionIndex = find(this.selection.condition)
+      this.condition = new FactorBuilder(this.selection.condition)
+    }
+    this.headerSeen = true
+  }
+
+  private isBlank(fields: string[]): boolean {
+    return fields.every((field) => field.trim() === '')
+  }
+
+  private parseResponse(raw: string | undefined, row: number): number {
+    const text = (raw ?? '').trim()
+    if (MISSING_TOKENS.has(text)) return NaN
+    const value = Number(this.decimalComma ? text.replace(',', '.') : text)
+    if (!Number.isFinite(value)) {
+      // Data row r sits on file line r + 2 when no field spans lines (header is line 1).
+      const hint = !this.decimalComma && /^-?\d+,\d+$/.test(text) ? ' (for a decimal comma use --decimal ",")' : ''
+      throw new CliInputError(
+        `Row ${row + 1} (line ${row + 2}): the response column "${this.selection.response}" holds "${text}", which is not a number${hint}.`,
+      )
+    }
+    return value
+  }
+
+  private grow(): void {
+    const size = this.response.length * 2
+    const response = new Float64Array(size)
+    response.set(this.response)
+    this.response = response
+    for (const factor of [...this.levels, ...(this.condition ? [this.condition] : [])]) {
+      const codes = new Int32Array(size)
+      codes.set(factor.codes)
+      factor.codes = codes
+    }
+  }
+}

@@ -1,0 +1,115 @@
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { afterAll, describe, expect, it } from 'vitest'
+import iconv from 'iconv-lite'
+import { readColumnsFromFile, readColumnsFromText } from './read-columns'
+
+const selection = { response: 'length', levels: ['lab', 'animal'], condition: 'treatment' }
+
+describe('readColumnsFromText', () => {
+  it('codes labels in order of appearance and keeps the response as doubles', () => {
+    const columns = readColumnsFromText('lab,animal,treatment,length\nA,1,vehicle,10.5\nA,2,NW-117,11\nB,1,vehicle,9.25\n', selection)
+    expect(Array.from(columns.response)).toEqual([10.5, 11, 9.25])
+    expect(columns.response).toBeInstanceOf(Float64Array)
+    expect(columns.levels[0]).toMatchObject({ name: 'lab', labels: ['A', 'B'] })
+    expect(Array.from(columns.levels[0].codes)).toEqual([0, 0, 1])
+    // Animal "1" of lab B gets the same code as animal "1" of lab A: paths are the engine's job.
+    expect(Array.from(columns.levels[1].codes)).toEqual([0, 1, 0])
+    expect(columns.condition?.labels).toEqual(['vehicle', 'NW-117'])
+    expect(columns.responseName).toBe('length')
+  })
+
+  it('detects tab and semicolon separators and handles quotes and CRLF', () => {
+    const tsv = readColumnsFromText('lab\tanimal\ttreatment\tlength\r\n"A x"\t1\tvehicle\t3\r\nB\t1\tvehicle\t4\r\n', selection)
+    expect(tsv.levels[0].labels).toEqual(['A x', 'B'])
+    expect(Array.from(tsv.response)).toEqual([3, 4])
+    const semi = readColumnsFromText('lab;animal;treatment;length\n"A;1";1;"veh""icle";3\nB;1;vehicle;4\n', selection)
+    expect(semi.levels[0].labels).toEqual(['A;1', 'B'])
+    expect(semi.condition?.labels).toEqual(['veh"icle', 'vehicle'])
+  })
+
+  it('reads a decimal comma on request, with a semicolon separator detected', () => {
+    const columns = readColumnsFromText('lab;animal;treatment;length\nA;1;v;1,5\nA;2;v;-2,25\nB;1;v;3\n', { ...selection, decimal: ',' })
+    expect(Array.from(columns.response)).toEqual([1.5, -2.25, 3])
+  })
+
+  it('marks missing responses and missing labels as NaN and skips separator-only rows', () => {
+    const columns = readColumnsFromText('lab,animal,treatment,length\nA,1,v,NA\nA,,v,2\nA,2,v,\n,,,\nB,1,v,4\n', selection)
+    expect(columns.response.length).toBe(4)
+    expect(Array.from(columns.response).map((v) => Number.isNaN(v))).toEqual([true, true, true, false])
+    expect(columns.levels[1].labels).toEqual(['1', '2'])
+  })
+
+  it('names the row, line and column of a value that is not a number', () => {
+    expect(() => readColumnsFromText('lab,animal,treatment,length\nA,1,v,1\nA,2,v,abc\n', selection)).toThrow(
+      'Row 2 (line 3): the response column "length" holds "abc", which is not a number.',
+    )
+    expect(() => readColumnsFromText('lab;animal;treatment;length\nA;1;v;1,5\n', selection)).toThrow(/--decimal ","/)
+  })
+
+  it('lists the available columns when one is missing', () => {
+    expect(() => readColumnsFromText('lab,mouse,treatment,length\nA,1,v,1\n', selection)).toThrow(
+      'Column "animal" not found. Available columns: lab, mouse, treatment, length.',
+    )
+  })
+
+  it('rejects a column used twice, a duplicated header and an empty table', () => {
+    expect(() => readColumnsFromText('lab,length\nA,1\n', { response: 'length', levels: ['lab', 'length'] })).toThrow(/used twice/)
+    expect(() => readColumnsFromText('lab,lab,length\nA,B,1\n', { response: 'length', levels: ['lab'] })).toThrow(/more than once/)
+    expect(() => readColumnsFromText('lab,length\n', { response: 'length', levels: ['lab'] })).toThrow(/no data rows/)
+    expect(() => readColumnsFromText('', { response: 'length', levels: ['lab'] })).toThrow(/empty/)
+  })
+
+  it('grows past its initial capacity without losing rows', () => {
+    const lines = ['lab,length']
+    for (let i = 0; i < 5000; i++) lines.push(`L${i % 7},${i}`)
+    const columns = readColumnsFromText(lines.join('\n'), { response: 'length', levels: ['lab'] })
+    expect(columns.response.length).toBe(5000)
+    expect(columns.response[4999]).toBe(4999)
+    expect(columns.levels[0].codes[4999]).toBe(4999 % 7)
+  })
+})
+
+describe('readColumnsFromFile', () => {
+  const folder = mkdtempSync(join(tmpdir(), 'nestwise-read-'))
+  afterAll(() => rmSync(folder, { recursive: true, force: true }))
+  const text = 'lab,animal,treatment,length\r\nA,1,vehicle,1.5\r\nA,2,NW-117,2.5\r\n'
+
+  it('strips a UTF-8 byte-order mark from the first header name', async () => {
+    const path = join(folder, 'bom.csv')
+    writeFileSync(path, '\uFEFF' + text)
+    const columns = await readColumnsFromFile(path, selection)
+    expect(Array.from(columns.response)).toEqual([1.5, 2.5])
+    expect(columns.levels[0].labels).toEqual(['A'])
+  })
+
+  it('decodes UTF-16 little-endian files with a byte-order mark', async () => {
+    const path = join(folder, 'utf16.tsv')
+    writeFileSync(path, iconv.encode('lab\tanimal\ttreatment\tlength\nÄ\t1\tv\t3\n', 'utf16le', { addBOM: true }))
+    const columns = await readColumnsFromFile(path, selection)
+    expect(columns.levels[0].labels).toEqual(['Ä'])
+    expect(Array.from(columns.response)).toEqual([3])
+  })
+
+  it('keeps multi-byte characters intact across read chunks', async () => {
+    const lines = ['lab,animal,treatment,length']
+    for (let i = 0; i < 20000; i++) lines.push(`Läb-ü${i % 3},m${i % 11},β,${i}`)
+    const path = join(folder, 'long.csv')
+    writeFileSync(path, lines.join('\n'))
+    const columns = await readColumnsFromFile(path, selection)
+    expect(columns.response.length).toBe(20000)
+    expect(columns.levels[0].labels).toEqual(['Läb-ü0', 'Läb-ü1', 'Läb-ü2'])
+    expect(columns.condition?.labels).toEqual(['β'])
+  })
+
+  it('reports an unreadable path and the first bad value of a long file', async () => {
+    await expect(readColumnsFromFile(join(folder, 'absent.csv'), selection)).rejects.toThrow(/Cannot read ".*absent.csv": no such file/)
+    await expect(readColumnsFromFile(folder, selection)).rejects.toThrow(/is a folder/)
+    const lines = ['lab,animal,treatment,length']
+    for (let i = 0; i < 30000; i++) lines.push(`A,${i % 5},v,${i === 25000 ? 'x1' : i}`)
+    const path = join(folder, 'bad.csv')
+    writeFileSync(path, lines.join('\n'))
+    await expect(readColumnsFromFile(path, selection)).rejects.toThrow('Row 25001 (line 25002)')
+  })
+})
