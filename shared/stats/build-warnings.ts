@@ -1,0 +1,219 @@
+import type { Warning } from './types'
+
+/** Facts about one analysis that the warnings are decided on; plain data so they can be tested alone. */
+export interface WarningFacts {
+  responseName: string
+  /** Given nesting levels, outer → inner, with the number of observations in each unit. */
+  levels: { name: string; unitSizes: ArrayLike<number>; childrenPerUnit: ArrayLike<number> | null }[]
+  condition: {
+    name: string
+    /** Outermost level whose units each carry one condition; null when the condition varies within the innermost units. */
+    level: string | null
+    /** Units at `level` per condition (empty when `level` is null). */
+    unitsPerCondition: { condition: string; nUnits: number }[]
+    /** Conditions whose observations all have the same value. */
+    constantConditions: string[]
+  } | null
+  /** Random levels (including an added "<level>:condition") whose variance was estimated as 0. */
+  zeroVarianceLevels: string[]
+  implicitNesting: { level: string; labels: string[] }[]
+  nDropped: number
+  /** A naive test (every observation independent) is part of the result. */
+  naiveShown: boolean
+  converged: boolean
+}
+
+/** Fewer units per condition than this: common practice, no source (a t-test on 2 vs 2 units has 2 df). */
+export const MIN_UNITS_PER_CONDITION = 3
+/** Fewer outermost units than this give a poorly determined top-level variance: common practice, no source. */
+export const MIN_OUTER_UNITS = 5
+/**
+ * Unit sizes count as extremely unbalanced when their coefficient of variation exceeds 1 (SD larger
+ * than the mean): at that point the unequal-size design effect counts each unit as if it were twice
+ * its mean size ((cv² + 1) m̄ with cv = 1, Eldridge, Ashby & Kerry 2006). The cut-off itself is
+ * common practice, no source.
+ */
+export const UNBALANCED_CV = 1
+
+const MAX_EXAMPLES = 3
+
+/**
+ * The warnings of an analysis, in a fixed order, each with a stable code (ours) and a message a
+ * bench scientist can act on. Codes: ROWS_DROPPED, NO_VARIATION, IMPLICIT_NESTING,
+ * SINGLE_OBSERVATION_UNITS, SINGLE_CHILD_UNITS, UNBALANCED_UNITS, FEW_OUTER_UNITS, FEW_UNITS,
+ * CONDITION_CONFOUNDED, UNIT_MEANS_UNAVAILABLE, BOUNDARY_FIT, NOT_CONVERGED, NAIVE_TEST_INVALID.
+ *
+ * @example
+ * buildWarnings({ ...facts, nDropped: 2 })
+ * // → [{ code: 'ROWS_DROPPED', message: '2 rows were left out because a value was missing …' }]
+ */
+export function buildWarnings(facts: WarningFacts): Warning[] {
+  const warnings: Warning[] = []
+  const add = (code: string, message: string) => warnings.push({ code, message })
+  const condition = facts.condition
+
+  if (facts.nDropped > 0) {
+    add(
+      'ROWS_DROPPED',
+      `${plural(facts.nDropped, 'row was', 'rows were')} left out because the response or a label was missing.`,
+    )
+  }
+
+  if (condition && condition.constantConditions.length > 0) {
+    add(
+      'NO_VARIATION',
+      `Every observation of "${facts.responseName}" under ${quoteList(condition.constantConditions)} has the same value. ` +
+        'Check that the column holds measurements, not a copy of a label or a placeholder.',
+    )
+  }
+
+  for (const { level, labels } of facts.implicitNesting) {
+    const parent = parentOf(facts, level)
+    add(
+      'IMPLICIT_NESTING',
+      `The ${level} labels ${examples(labels)} occur in more than one ${parent ?? 'parent unit'}. ` +
+        `Nestwise treats them as different ${level} units (${parent ?? 'parent'} A/${labels[0]} is not ${parent ?? 'parent'} B/${labels[0]}). ` +
+        'If they are really the same units, give them labels that are unique across the whole table.',
+    )
+  }
+
+  const innermost = facts.levels[facts.levels.length - 1]
+  if (innermost) {
+    const singles = countBelow(innermost.unitSizes, 2)
+    if (singles > 0) {
+      add(
+        'SINGLE_OBSERVATION_UNITS',
+        `${singles} of ${innermost.unitSizes.length} ${innermost.name} units have a single observation. ` +
+          `They count towards the means but say nothing about the spread within a ${innermost.name}.`,
+      )
+    }
+  }
+  for (const level of facts.levels.slice(0, -1)) {
+    const singles = level.childrenPerUnit ? countBelow(level.childrenPerUnit, 2) : 0
+    if (singles > 0) {
+      const child = facts.levels[facts.levels.indexOf(level) + 1].name
+      add(
+        'SINGLE_CHILD_UNITS',
+        `${singles} of ${level.childrenPerUnit!.length} ${level.name} units hold a single ${child}. ` +
+          `In those, ${level.name} and ${child} differences cannot be told apart.`,
+      )
+    }
+  }
+
+  for (const level of facts.levels) {
+    const { cv, min, max } = sizeSpread(level.unitSizes)
+    if (cv > UNBALANCED_CV) {
+      add(
+        'UNBALANCED_UNITS',
+        `The number of observations per ${level.name} is very uneven (from ${min} to ${max}; coefficient of variation ${cv.toFixed(2)}, above ${UNBALANCED_CV}). ` +
+          `Large ${level.name} units weigh heavily in a plain mean; the mixed model and the design effect allow for this, the naive numbers do not.`,
+      )
+    }
+  }
+
+  const outer = facts.levels[0]
+  if (outer && outer.unitSizes.length < MIN_OUTER_UNITS && facts.levels.length > 1) {
+    add(
+      'FEW_OUTER_UNITS',
+      `There are only ${outer.unitSizes.length} ${outer.name} units. The variance between ${outer.name} units is estimated from ` +
+        `so few values that it is very uncertain; fewer than ${MIN_OUTER_UNITS} is commonly considered too few.`,
+    )
+  }
+
+  if (condition && condition.level) {
+    const thin = condition.unitsPerCondition.filter((c) => c.nUnits < MIN_UNITS_PER_CONDITION)
+    if (thin.length > 0) {
+      add(
+        'FEW_UNITS',
+        `${thin.map((c) => `"${c.condition}" has ${plural(c.nUnits, condition.level + ' unit', condition.level + ' units')}`).join('; ')}. ` +
+          `The condition is assigned per ${condition.level}, so each ${condition.level} counts once in the comparison; ` +
+          `with fewer than ${MIN_UNITS_PER_CONDITION} per condition the comparison has very little power and its p-value is fragile.`,
+      )
+    }
+    if (facts.levels.length > 1 && condition.level === facts.levels[0].name) {
+      add(
+        'CONDITION_CONFOUNDED',
+        `Every ${condition.level} ran a single ${condition.name}, so ${condition.name} differences cannot be separated from ` +
+          `${condition.level}-to-${condition.level} differences. The comparison rests on ${outer.unitSizes.length} ${condition.level} units, ` +
+          `not on the ${facts.levels.slice(1).map((l) => l.name).join(' or ')} units inside them.`,
+      )
+    }
+  }
+
+  if (condition && condition.level === null) {
+    add(
+      'UNIT_MEANS_UNAVAILABLE',
+      `The ${condition.name} varies inside every ${innermost?.name ?? 'unit'}, so no level has units with a single ${condition.name}; ` +
+        'the test on unit means is not shown. The mixed model compares conditions within units.',
+    )
+  }
+
+  if (facts.zeroVarianceLevels.length > 0) {
+    const names = facts.zeroVarianceLevels
+    add(
+      'BOUNDARY_FIT',
+      `The variance between ${quoteList(names)} units was estimated as 0 (a boundary fit). That is a valid result, not a failure: ` +
+        `the data show no extra spread at ${names.length === 1 ? 'that level' : 'those levels'} beyond what the inner levels explain. ` +
+        'With few units, real but small differences can look like 0.',
+    )
+  }
+
+  if (!facts.converged) {
+    add(
+      'NOT_CONVERGED',
+      'The model fit stopped before it fully converged. The estimates are the best found, but check them against another tool.',
+    )
+  }
+
+  if (facts.naiveShown) {
+    add(
+      'NAIVE_TEST_INVALID',
+      'The naive test treats every observation as independent. Observations that share a unit are correlated, so its standard ' +
+        'errors are too small and its p-value too optimistic. It is shown only to show the size of that mistake.',
+    )
+  }
+
+  return warnings
+}
+
+function parentOf(facts: WarningFacts, level: string): string | null {
+  const index = facts.levels.findIndex((l) => l.name === level)
+  return index > 0 ? facts.levels[index - 1].name : null
+}
+
+function countBelow(values: ArrayLike<number>, limit: number): number {
+  let count = 0
+  for (let i = 0; i < values.length; i++) if (values[i] < limit) count++
+  return count
+}
+
+function sizeSpread(sizes: ArrayLike<number>): { cv: number; min: number; max: number } {
+  const k = sizes.length
+  if (k === 0) return { cv: 0, min: 0, max: 0 }
+  let sum = 0
+  let min = Infinity
+  let max = -Infinity
+  for (let i = 0; i < k; i++) {
+    sum += sizes[i]
+    if (sizes[i] < min) min = sizes[i]
+    if (sizes[i] > max) max = sizes[i]
+  }
+  const mean = sum / k
+  let squares = 0
+  for (let i = 0; i < k; i++) squares += (sizes[i] - mean) ** 2
+  // SD with divisor k, as in the design-effect formulas.
+  return { cv: Math.sqrt(squares / k) / mean, min, max }
+}
+
+function plural(n: number, one: string, many: string): string {
+  return `${n} ${n === 1 ? one : many}`
+}
+
+function quoteList(names: string[]): string {
+  return names.map((n) => `"${n}"`).join(', ')
+}
+
+function examples(labels: string[]): string {
+  const shown = labels.slice(0, MAX_EXAMPLES).map((l) => `"${l}"`).join(', ')
+  return labels.length > MAX_EXAMPLES ? `${shown} (and ${labels.length - MAX_EXAMPLES} more)` : shown
+}
