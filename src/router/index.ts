@@ -1,10 +1,13 @@
-import { createRouter, createWebHistory, type RouterHistory } from 'vue-router'
+import { createRouter, createWebHistory, type RouteRecordRaw, type RouterHistory } from 'vue-router'
 import { useSessionStore } from '@/stores/session'
 import { decideAccess, safeRedirect } from './access'
 import { routes } from './routes'
 
-export function createAppRouter(history: RouterHistory = createWebHistory()) {
-  const router = createRouter({ history, routes })
+export function createAppRouter(
+  history: RouterHistory = createWebHistory(),
+  routeRecords: RouteRecordRaw[] = routes,
+) {
+  const router = createRouter({ history, routes: routeRecords })
 
   router.beforeEach(async (to) => {
     const session = useSessionStore()
