@@ -12,6 +12,8 @@ declare module 'jstat' {
     chisquare: ContinuousDistribution
     noncentralt: ContinuousDistribution
     beta: ContinuousDistribution
+    /** Regularised incomplete beta function I_x(a, b). */
+    ibeta(x: number, a: number, b: number): number
     [name: string]: unknown
   }
   const jStat: JStatStatic
