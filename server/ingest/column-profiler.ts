@@ -1,0 +1,175 @@
+import type { ColumnProfile, ColumnType } from '../../shared/schemas/datasets'
+import { isIntegerText, isNumberText, parseNumberText, trimCell, type DecimalMark } from './number-text'
+
+/** Code stored for a missing cell in the per-row codes. */
+export const MISSING_CODE = 0xffff
+
+export interface ProfilerOptions {
+  decimalMark: DecimalMark
+  naValues: ReadonlySet<string>
+  /** Most distinct values tracked; must stay below MISSING_CODE so codes fit 16 bits. */
+  distinctCap: number
+}
+
+/** Per-row label codes of a low-cardinality column, kept for the nesting suggestion. */
+export interface ColumnCodes {
+  codes: Uint16Array
+  labels: string[]
+}
+
+const SAMPLE_SIZE = 5
+const TOP_VALUES = 20
+
+/**
+ * Profiles one column in a single pass: type, missing count, distinct values (up to a cap), numeric
+ * range, mean and SD, and per-row codes for the nesting suggestion. Each distinct value is classified
+ * once, so low-cardinality columns (labs, animals, conditions) cost one map lookup per row.
+ */
+export class ColumnProfiler {
+  private rows = 0
+  private missing = 0
+  private maybeNumeric = true
+  private allInteger = true
+  private sawValue = false
+  private distinct: Map<string, number> | null = new Map()
+  private labels: string[] = []
+  private valueOfCode: Float64Array | null = new Float64Array(256)
+  private counts: Uint32Array | null = new Uint32Array(256)
+  private codes: Uint16Array | null = new Uint16Array(1024)
+  private numericCount = 0
+  private mean = 0
+  private m2 = 0
+  private min = Infinity
+  private max = -Infinity
+  private samples: string[] = []
+  /** First cell written as a number too large for a double (row index, text). */
+  overflow: { rowIndex: number; text: string } | null = null
+
+  constructor(
+    readonly position: number,
+    readonly name: string,
+    private readonly options: ProfilerOptions,
+  ) {
+    if (options.distinctCap >= MISSING_CODE) throw new Error('distinctCap must stay below 65535')
+  }
+
+  add(raw: string | null): void {
+    const rowIndex = this.rows++
+    const text = raw === null ? '' : trimCell(raw)
+    if (this.options.naValues.has(text)) {
+      this.missing++
+      if (this.codes) this.setCode(rowIndex, MISSING_CODE)
+      return
+    }
+    this.sawValue = true
+    let value: number
+    if (this.distinct) {
+      let code = this.distinct.get(text)
+      if (code === undefined) code = this.addDistinct(text, rowIndex)
+      if (code !== undefined) {
+        this.setCode(rowIndex, code)
+        this.counts![code]++
+        if (!this.maybeNumeric) return
+        value = this.valueOfCode![code]
+      } else {
+        if (!this.maybeNumeric) return
+        value = this.classify(text, rowIndex)
+      }
+    } else {
+      if (!this.maybeNumeric) return
+      value = this.classify(text, rowIndex)
+    }
+    if (!this.maybeNumeric || !Number.isFinite(value)) return
+    // Welford's running mean and sum of squares: stable for a million values.
+    this.numericCount++
+    const delta = value - this.mean
+    this.mean += delta / this.numericCount
+    this.m2 += delta * (value - this.mean)
+    if (value < this.min) this.min = value
+    if (value > this.max) this.max = value
+  }
+
+  /** Registers a new distinct value; returns its code, or undefined when the cap was just passed. */
+  private addDistinct(text: string, rowIndex: number): number | undefined {
+    const distinct = this.distinct!
+    if (distinct.size >= this.options.distinctCap) {
+      this.distinct = null
+      this.codes = null
+      this.counts = null
+      this.valueOfCode = null
+      return undefined
+    }
+    const code = distinct.size
+    distinct.set(text, code)
+    this.labels.push(text)
+    if (this.samples.length < SAMPLE_SIZE) this.samples.push(text)
+    if (code >= this.valueOfCode!.length) {
+      this.valueOfCode = grow(this.valueOfCode!, code + 1) as Float64Array
+      this.counts = grow(this.counts!, code + 1) as Uint32Array
+    }
+    this.valueOfCode![code] = this.maybeNumeric ? this.classify(text, rowIndex) : NaN
+    return code
+  }
+
+  /** Numeric value of a cell, or NaN after marking the column as text. */
+  private classify(text: string, rowIndex: number): number {
+    if (isIntegerText(text)) return Number(text)
+    if (isNumberText(text, this.options.decimalMark)) {
+      this.allInteger = false
+      const value = parseNumberText(text, this.options.decimalMark)
+      if (!Number.isFinite(value) && this.overflow === null) this.overflow = { rowIndex, text }
+      return value
+    }
+    this.maybeNumeric = false
+    return NaN
+  }
+
+  private setCode(rowIndex: number, code: number): void {
+    if (rowIndex >= this.codes!.length) this.codes = grow(this.codes!, rowIndex + 1) as Uint16Array
+    this.codes![rowIndex] = code
+  }
+
+  get type(): ColumnType {
+    if (!this.sawValue) return 'empty'
+    if (!this.maybeNumeric) return 'text'
+    return this.allInteger ? 'integer' : 'numeric'
+  }
+
+  /** Codes for every row, or null when the column has more distinct values than the cap. */
+  columnCodes(): ColumnCodes | null {
+    if (!this.codes) return null
+    return { codes: this.codes.subarray(0, this.rows), labels: this.labels }
+  }
+
+  profile(): ColumnProfile {
+    const numeric = this.type === 'integer' || this.type === 'numeric'
+    const hasNumbers = numeric && this.numericCount > 0
+    let topValues: ColumnProfile['topValues'] = null
+    if (this.counts) {
+      const order = this.labels.map((_, code) => code).sort((a, b) => this.counts![b] - this.counts![a] || a - b)
+      topValues = order.slice(0, TOP_VALUES).map((code) => ({ value: this.labels[code], count: this.counts![code] }))
+    }
+    return {
+      position: this.position,
+      name: this.name,
+      type: this.type,
+      missingCount: this.missing,
+      distinctCount: this.distinct ? this.distinct.size : this.options.distinctCap,
+      distinctCapped: this.distinct === null,
+      min: hasNumbers ? this.min : null,
+      max: hasNumbers ? this.max : null,
+      mean: hasNumbers ? this.mean : null,
+      sd: hasNumbers && this.numericCount > 1 ? Math.sqrt(this.m2 / (this.numericCount - 1)) : null,
+      sampleValues: this.samples,
+      topValues,
+    }
+  }
+}
+
+function grow<T extends Uint16Array | Uint32Array | Float64Array>(array: T, atLeast: number): T {
+  let size = array.length * 2
+  while (size < atLeast) size *= 2
+  const bigger = new (array.constructor as new (n: number) => T)(size)
+  bigger.set(array)
+  return bigger
+}

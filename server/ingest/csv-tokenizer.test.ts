@@ -1,0 +1,125 @@
+import Papa from 'papaparse'
+import seedrandom from 'seedrandom'
+import { describe, expect, it } from 'vitest'
+import { CsvSyntaxError, CsvTokenizer } from './csv-tokenizer'
+
+function tokenize(chunks: string[], delimiter = ',', limits = { maxFieldChars: 1000, maxFieldsPerRow: 100 }) {
+  const rows: { fields: string[]; recordNo: number }[] = []
+  const tokenizer = new CsvTokenizer({ delimiter, ...limits, onRow: (fields, recordNo) => rows.push({ fields: [...fields], recordNo }) })
+  for (const chunk of chunks) tokenizer.push(chunk)
+  tokenizer.end()
+  return { rows, tokenizer }
+}
+
+const fieldsOf = (chunks: string[], delimiter = ',') => tokenize(chunks, delimiter).rows.map((r) => r.fields)
+
+/** Every way to cut `text` into two chunks, plus one-character chunks: boundaries must not matter. */
+function splits(text: string): string[][] {
+  const out: string[][] = [[text], text.split('')]
+  for (let k = 1; k < text.length; k++) out.push([text.slice(0, k), text.slice(k)])
+  return out
+}
+
+describe('CsvTokenizer', () => {
+  it('reads plain rows with LF, CRLF and CR line endings', () => {
+    for (const eol of ['\n', '\r\n', '\r']) {
+      const text = `a,b${eol}1,2${eol}3,4${eol}`
+      for (const chunks of splits(text)) {
+        expect(fieldsOf(chunks)).toEqual([['a', 'b'], ['1', '2'], ['3', '4']])
+      }
+    }
+  })
+
+  it('handles quoted delimiters, doubled quotes and newlines inside quotes at any chunk boundary', () => {
+    const text = 'name,note\r\n"Smith, J.","said ""hi""\r\nthen left"\r\nx,""\r\n'
+    for (const chunks of splits(text)) {
+      expect(fieldsOf(chunks)).toEqual([
+        ['name', 'note'],
+        ['Smith, J.', 'said "hi"\r\nthen left'],
+        ['x', ''],
+      ])
+    }
+  })
+
+  it('keeps a last row without a newline and an empty last field after a trailing delimiter', () => {
+    expect(fieldsOf(['a,b\n1,'])).toEqual([['a', 'b'], ['1', '']])
+    expect(fieldsOf(['a,b\n1,2'])).toEqual([['a', 'b'], ['1', '2']])
+  })
+
+  it('ignores blank lines at the end but reports blank lines between rows with their row number', () => {
+    expect(fieldsOf(['a,b\n1,2\n\n\r\n'])).toEqual([['a', 'b'], ['1', '2']])
+    const { rows } = tokenize(['a,b\n1,2\n\n3,4\n'])
+    expect(rows.map((r) => [r.recordNo, r.fields])).toEqual([
+      [1, ['a', 'b']],
+      [2, ['1', '2']],
+      [3, ['']],
+      [4, ['3', '4']],
+    ])
+  })
+
+  it('uses the tab or semicolon as delimiter when told', () => {
+    expect(fieldsOf(['a\tb\n1,5\t2,5\n'], '\t')).toEqual([['a', 'b'], ['1,5', '2,5']])
+    expect(fieldsOf(['a;b\n"x;y";2\n'], ';')).toEqual([['a', 'b'], ['x;y', '2']])
+  })
+
+  it('flags what PostgreSQL reads differently, so ingest stores parsed rows instead of raw bytes', () => {
+    expect(tokenize(['a,b\n1,2\n']).tokenizer.fastPathBlocker).toBeNull()
+    expect(tokenize(['a,b\r\n1,2\n3,4\n']).tokenizer.fastPathBlocker).toBe('mixed line endings')
+    expect(tokenize(['a,b\n1,x"y\n']).tokenizer.fastPathBlocker).toBe('a quote inside an unquoted value')
+    expect(tokenize(['a\n\\.\n2\n']).tokenizer.fastPathBlocker).toBe('a line holding only \\.')
+  })
+
+  it('throws with row and field for an unterminated quote, text after a quote, and over-long fields', () => {
+    const error = (chunks: string[], limits?: { maxFieldChars: number; maxFieldsPerRow: number }) => {
+      try {
+        tokenize(chunks, ',', limits)
+      } catch (e) {
+        return e as CsvSyntaxError
+      }
+      throw new Error('expected a CsvSyntaxError')
+    }
+    expect(error(['a,b\n1,"open\n2,3\n'])).toMatchObject({ kind: 'unterminated-quote', recordNo: 2, fieldIndex: 1 })
+    expect(error(['a,b\n1,"x"y\n'])).toMatchObject({ kind: 'text-after-quote', recordNo: 2, fieldIndex: 1 })
+    const long = 'x'.repeat(11)
+    expect(error([`a,b\n1,${long}\n`], { maxFieldChars: 10, maxFieldsPerRow: 5 })).toMatchObject({ kind: 'field-too-long', recordNo: 2, fieldIndex: 1, length: 11 })
+    // A never-closed quote stops at the field limit instead of reading the whole file into memory.
+    const chunks = ['a,b\n1,"', ...Array.from({ length: 50 }, () => 'yyyyyyyyyy')]
+    expect(error(chunks, { maxFieldChars: 100, maxFieldsPerRow: 5 })).toMatchObject({ kind: 'field-too-long', recordNo: 2 })
+    expect(error(['a,b,c,d,e,f\n'], { maxFieldChars: 10, maxFieldsPerRow: 5 })).toMatchObject({ kind: 'too-many-fields', recordNo: 1 })
+  })
+
+  it('agrees with papaparse on random well-formed files cut into random chunks', () => {
+    // Differential check against papaparse (the reference CSV reader of the stack).
+    const random = seedrandom('tokenizer-differential')
+    const alphabet = ['a', 'b', '1', '.', ' ', ',', '"', '\n', '\r\n', 'µ', 'é']
+    for (let trial = 0; trial < 300; trial++) {
+      const columns = 1 + Math.floor(random() * 4)
+      const eol = random() < 0.5 ? '\n' : '\r\n'
+      const rows: string[][] = []
+      const rowCount = 1 + Math.floor(random() * 6)
+      for (let r = 0; r < rowCount; r++) {
+        const row: string[] = []
+        for (let c = 0; c < columns; c++) {
+          let value = ''
+          const length = Math.floor(random() * 6)
+          for (let k = 0; k < length; k++) value += alphabet[Math.floor(random() * alphabet.length)]
+          // Values that start with a letter keep the row from being blank.
+          row.push(c === 0 ? `v${value}` : value)
+        }
+        rows.push(row)
+      }
+      const needsQuotes = (v: string) => /[",\r\n]/.test(v) || random() < 0.3
+      const encode = (v: string) => (needsQuotes(v) ? `"${v.replaceAll('"', '""')}"` : v)
+      const text = rows.map((row) => row.map(encode).join(',')).join(eol) + eol
+      const expected = Papa.parse<string[]>(text, { delimiter: ',', newline: eol, skipEmptyLines: true }).data
+      const chunks: string[] = []
+      for (let at = 0; at < text.length; ) {
+        const size = 1 + Math.floor(random() * 7)
+        chunks.push(text.slice(at, at + size))
+        at += size
+      }
+      expect(fieldsOf(chunks)).toEqual(expected)
+      expect(expected).toEqual(rows)
+    }
+  })
+})

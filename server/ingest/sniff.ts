@@ -1,0 +1,181 @@
+import { extname } from 'node:path'
+import iconv from 'iconv-lite'
+import jschardet from 'jschardet'
+import { CsvTokenizer } from './csv-tokenizer'
+import { badFile } from './ingest-errors'
+import type { DecimalMark } from './number-text'
+
+/** Bytes read from the start of a file to decide how to read the rest. */
+export const SNIFF_BYTES = 64 * 1024
+
+export interface TextSniff {
+  fileType: 'csv'
+  /** An iconv-lite / WHATWG encoding label: utf-8, utf-16le, utf-16be, windows-1252, … */
+  encoding: string
+  /** Byte-order mark to skip. */
+  bomBytes: number
+  delimiter: string
+  decimalMark: DecimalMark
+}
+
+export interface WorkbookSniff {
+  fileType: 'xlsx'
+}
+
+export type Sniff = TextSniff | WorkbookSniff
+
+const TEXT_EXTENSIONS = new Set(['.csv', '.tsv', '.tab', '.txt'])
+const DELIMITERS = [',', ';', '\t', '|']
+/** Encodings jschardet may name that are not Western European; trusted only when it is sure. */
+const TRUSTED_DETECTIONS = new Set(['shift_jis', 'euc-jp', 'euc-kr', 'gb2312', 'big5', 'windows-1251', 'koi8-r', 'iso-8859-7', 'windows-1253', 'iso-8859-8', 'windows-1255'])
+
+const startsWith = (head: Buffer, bytes: number[]) => bytes.every((b, k) => head[k] === b)
+
+/**
+ * Decides from the first bytes what kind of file this is and how to read it: workbook or text,
+ * encoding (BOM, UTF-16 byte pattern, UTF-8 validity, then jschardet), delimiter and decimal mark.
+ * Refuses files that are not tables with a message that says what they are.
+ */
+export function sniffFile(head: Buffer, filename: string, totalBytes: number): Sniff {
+  if (totalBytes === 0) throw badFile('EMPTY_FILE', 'The file is empty.')
+  const ext = extname(filename).toLowerCase()
+  const isZip = startsWith(head, [0x50, 0x4b, 0x03, 0x04])
+  const isOle = startsWith(head, [0xd0, 0xcf, 0x11, 0xe0])
+  if (ext === '.xls' || isOle) {
+    throw badFile('OLD_EXCEL_FORMAT', `"${filename}" is in the old Excel format (.xls). Open it in Excel or LibreOffice and save it as .xlsx or CSV, then upload that.`)
+  }
+  if (ext === '.xlsx') {
+    if (!isZip) throw badFile('BROKEN_WORKBOOK', `"${filename}" is named .xlsx but is not an Excel workbook. Save it again from the spreadsheet program, or as CSV.`)
+    return { fileType: 'xlsx' }
+  }
+  if (!TEXT_EXTENSIONS.has(ext)) {
+    throw badFile('UNSUPPORTED_FILE_TYPE', `Nestwise reads tables saved as .csv, .tsv, .txt or .xlsx; "${filename}" is not one of these.`)
+  }
+  if (isZip) {
+    throw badFile('WORKBOOK_AS_TEXT', `"${filename}" is an Excel workbook (or another zipped file) with a ${ext} name. Upload the workbook with its .xlsx name, or export the sheet as CSV.`)
+  }
+  const { encoding, bomBytes } = detectEncoding(head)
+  const body = head.subarray(bomBytes)
+  const complete = head.length >= totalBytes
+  const text = decodeSample(body, encoding, complete)
+  if (looksBinary(text)) {
+    throw badFile('BINARY_FILE', `"${filename}" does not contain text: it looks like a binary file (an image, PDF or program data). Export the table as CSV or .xlsx.`)
+  }
+  const delimiter = guessDelimiter(text, ext)
+  return { fileType: 'csv', encoding, bomBytes, delimiter, decimalMark: guessDecimalMark(text, delimiter) }
+}
+
+export function detectEncoding(head: Buffer): { encoding: string; bomBytes: number } {
+  if (startsWith(head, [0xef, 0xbb, 0xbf])) return { encoding: 'utf-8', bomBytes: 3 }
+  if (startsWith(head, [0xff, 0xfe])) return { encoding: 'utf-16le', bomBytes: 2 }
+  if (startsWith(head, [0xfe, 0xff])) return { encoding: 'utf-16be', bomBytes: 2 }
+  // UTF-16 without a BOM: ASCII text leaves every other byte zero.
+  const probe = head.subarray(0, 4096)
+  let zeroEven = 0
+  let zeroOdd = 0
+  for (let k = 0; k < probe.length; k++) if (probe[k] === 0) k % 2 === 0 ? zeroEven++ : zeroOdd++
+  const half = probe.length / 2
+  if (half >= 2 && zeroOdd > 0.3 * half && zeroEven < 0.05 * half) return { encoding: 'utf-16le', bomBytes: 0 }
+  if (half >= 2 && zeroEven > 0.3 * half && zeroOdd < 0.05 * half) return { encoding: 'utf-16be', bomBytes: 0 }
+  if (isValidUtf8Prefix(head)) return { encoding: 'utf-8', bomBytes: 0 }
+  const guess = jschardet.detect(head.subarray(0, 16 * 1024))
+  const name = guess.encoding?.toLowerCase()
+  if (name && guess.confidence >= 0.8 && TRUSTED_DETECTIONS.has(name) && iconv.encodingExists(name)) return { encoding: name, bomBytes: 0 }
+  // Excel on Windows in Western Europe and the Americas writes Windows-1252 (a superset of Latin-1's printable range).
+  return { encoding: 'windows-1252', bomBytes: 0 }
+}
+
+/** True when the bytes are UTF-8, allowing a character cut off at the end of the sample. */
+export function isValidUtf8Prefix(bytes: Buffer): boolean {
+  try {
+    new TextDecoder('utf-8', { fatal: true }).decode(bytes, { stream: true })
+    return true
+  } catch {
+    return false
+  }
+}
+
+function decodeSample(body: Buffer, encoding: string, complete: boolean): string {
+  const text = encoding === 'utf-8' ? new TextDecoder('utf-8').decode(body, { stream: !complete }) : iconv.decode(body, encoding)
+  if (complete) return text
+  // Drop the last, probably cut, line.
+  const lastBreak = Math.max(text.lastIndexOf('\n'), text.lastIndexOf('\r'))
+  return lastBreak > 0 ? text.slice(0, lastBreak + 1) : text
+}
+
+function looksBinary(text: string): boolean {
+  let control = 0
+  const n = Math.min(text.length, 16 * 1024)
+  for (let k = 0; k < n; k++) {
+    const c = text.charCodeAt(k)
+    if (c === 0) return true
+    if (c < 32 && c !== 9 && c !== 10 && c !== 13) control++
+    else if (c === 0xfffd) control++
+  }
+  return n > 0 && control / n > 0.02
+}
+
+interface DelimiterScore {
+  delimiter: string
+  headerFields: number
+  consistent: number
+}
+
+function scoreDelimiter(text: string, delimiter: string): DelimiterScore | null {
+  const counts: number[] = []
+  const tokenizer = new CsvTokenizer({
+    delimiter,
+    maxFieldChars: Number.MAX_SAFE_INTEGER,
+    maxFieldsPerRow: Number.MAX_SAFE_INTEGER,
+    onRow: (fields) => {
+      if (counts.length < 200) counts.push(fields.length)
+    },
+  })
+  try {
+    tokenizer.push(text)
+    tokenizer.end()
+  } catch {
+    return null
+  }
+  if (counts.length === 0) return null
+  const headerFields = counts[0]
+  const rest = counts.slice(1)
+  const consistent = rest.length === 0 ? 1 : rest.filter((c) => c === headerFields).length / rest.length
+  return { delimiter, headerFields, consistent }
+}
+
+/** The delimiter that gives the header more than one column and the most rows of the same width. */
+export function guessDelimiter(text: string, ext: string): string {
+  const preferred = ext === '.tsv' || ext === '.tab' ? '\t' : ','
+  const scores = DELIMITERS.map((d) => scoreDelimiter(text, d)).filter((s): s is DelimiterScore => s !== null && s.headerFields > 1)
+  if (scores.length === 0) return preferred
+  scores.sort((a, b) => b.consistent - a.consistent || b.headerFields - a.headerFields || Number(b.delimiter === preferred) - Number(a.delimiter === preferred))
+  return scores[0].delimiter
+}
+
+/** A decimal comma is only possible when the delimiter is not a comma; it wins when no cell uses a point. */
+export function guessDecimalMark(text: string, delimiter: string): DecimalMark {
+  if (delimiter === ',') return '.'
+  let commas = 0
+  let points = 0
+  const tokenizer = new CsvTokenizer({
+    delimiter,
+    maxFieldChars: Number.MAX_SAFE_INTEGER,
+    maxFieldsPerRow: Number.MAX_SAFE_INTEGER,
+    onRow: (fields, recordNo) => {
+      if (recordNo === 1) return
+      for (const field of fields) {
+        const value = field.trim()
+        if (/^[+-]?\d*,\d+$/.test(value)) commas++
+        else if (/^[+-]?\d*\.\d+$/.test(value)) points++
+      }
+    },
+  })
+  try {
+    tokenizer.push(text)
+    tokenizer.end()
+  } catch {
+    return '.'
+  }
+  return commas > 0 && points === 0 ? ',' : '.'
+}

@@ -1,0 +1,145 @@
+import type { ColumnProfile } from '../../shared/schemas/datasets'
+import { ColumnProfiler, type ColumnCodes, type ProfilerOptions } from './column-profiler'
+import { badFile, describeColumn, thinFile } from './ingest-errors'
+import type { DecimalMark } from './number-text'
+
+export interface IntakeLimits {
+  maxColumns: number
+  maxFieldChars: number
+  maxNameChars: number
+  naValues: readonly string[]
+  distinctCap: number
+}
+
+export interface IntakeResult {
+  columnNames: string[]
+  rowCount: number
+  profiles: ColumnProfile[]
+  codes: (ColumnCodes | null)[]
+}
+
+const formatCount = (n: number) => n.toLocaleString('en-US')
+
+/**
+ * Receives the rows of a table (from CSV or XLSX), checks the header and the shape of every row,
+ * and feeds each cell to its column's profiler. Throws messages a scientist can act on, naming row
+ * (header = row 1, as a spreadsheet numbers it) and column.
+ */
+export class TableIntake {
+  columnNames: string[] | null = null
+  dataRows = 0
+  /** File row of the header; data row i (0-based) is file row headerRow + 1 + i. */
+  private headerRow = 1
+  private profilers: ColumnProfiler[] = []
+  private readonly profilerOptions: ProfilerOptions
+
+  constructor(
+    private readonly limits: IntakeLimits,
+    decimalMark: DecimalMark,
+  ) {
+    this.profilerOptions = { decimalMark, naValues: new Set(limits.naValues), distinctCap: limits.distinctCap }
+  }
+
+  /** `row` is the 1-based row number of these values in the file. Cells may be null (an empty spreadsheet cell). */
+  addRow(values: readonly (string | null)[], row: number): void {
+    if (this.columnNames === null) {
+      this.headerRow = row
+      this.acceptHeader(values)
+      return
+    }
+    const names = this.columnNames
+    if (values.length !== names.length) this.raggedRow(values, row)
+    const maxChars = this.limits.maxFieldChars
+    for (let k = 0; k < values.length; k++) {
+      const value = values[k]
+      if (value !== null && value.length > maxChars) this.fieldTooLong(row, k, value.length)
+      this.profilers[k].add(value)
+    }
+    this.dataRows++
+  }
+
+  private acceptHeader(values: readonly (string | null)[]): void {
+    const { maxColumns, maxNameChars } = this.limits
+    if (values.length > maxColumns) {
+      throw badFile('TOO_MANY_COLUMNS', `The header row has ${formatCount(values.length)} columns; Nestwise accepts at most ${formatCount(maxColumns)}. Remove the columns you do not need and upload again.`, { row: 1 })
+    }
+    const names: string[] = []
+    const firstIndex = new Map<string, number>()
+    values.forEach((raw, k) => {
+      const name = (raw ?? '').trim()
+      if (name === '') {
+        const onlyColumn = values.length === 1
+        throw badFile(
+          'BLANK_HEADER',
+          onlyColumn
+            ? 'The first row is empty. Nestwise reads the first row as the column names.'
+            : `Column ${k + 1} has no name in the header row (row 1). Give every column a name and upload again.`,
+          { row: 1, columnNumber: k + 1 },
+        )
+      }
+      if (name.length > maxNameChars) {
+        throw badFile('NAME_TOO_LONG', `The name of column ${k + 1} is ${formatCount(name.length)} characters long; names can have at most ${maxNameChars}. Is row 1 really the header?`, { row: 1, columnNumber: k + 1 })
+      }
+      const earlier = firstIndex.get(name)
+      if (earlier !== undefined) {
+        throw badFile('DUPLICATE_HEADER', `Columns ${earlier + 1} and ${k + 1} are both named "${name}". Give each column its own name and upload again.`, { row: 1, column: name, columnNumber: k + 1 })
+      }
+      firstIndex.set(name, k)
+      names.push(name)
+    })
+    this.columnNames = names
+    this.profilers = names.map((name, k) => new ColumnProfiler(k + 1, name, this.profilerOptions))
+  }
+
+  private raggedRow(values: readonly (string | null)[], row: number): never {
+    const expected = this.columnNames!.length
+    if (values.length === 1 && (values[0] ?? '') === '') {
+      throw badFile('BLANK_ROW', `Row ${row} is empty. Remove empty lines between rows and upload again.`, { row })
+    }
+    const valuesWord = values.length === 1 ? 'value' : 'values'
+    throw badFile(
+      'RAGGED_ROW',
+      values.length < expected
+        ? `Row ${row} has ${values.length} ${valuesWord}, but the header names ${expected} columns: values for ${describeColumn(values.length, this.columnNames![values.length])} onwards are missing. Check for a missing delimiter in that row.`
+        : `Row ${row} has ${values.length} values, but the header names only ${expected} columns. Check for an extra delimiter, or a value with a delimiter that should be in quotes.`,
+      { row, columnNumber: Math.min(values.length, expected) + (values.length < expected ? 1 : 0) },
+    )
+  }
+
+  fieldTooLong(row: number, index: number, length: number): never {
+    const name = this.columnNames?.[index]
+    throw badFile(
+      'FIELD_TOO_LONG',
+      `Row ${row}, ${describeColumn(index, name)}: the value is ${formatCount(length)} characters long; the limit is ${formatCount(this.limits.maxFieldChars)}. This often means a quote is never closed.`,
+      { row, column: name, columnNumber: index + 1 },
+    )
+  }
+
+  /** The checks that need the whole file: empty, header only, one row, numbers out of range. */
+  finish(): IntakeResult {
+    if (this.columnNames === null) throw badFile('EMPTY_FILE', 'The file is empty.')
+    if (this.dataRows === 0) {
+      throw badFile('HEADER_ONLY', `The file has a header row (${this.columnNames.length} columns) but no data rows.`, { row: 1 })
+    }
+    if (this.dataRows === 1) {
+      throw thinFile('ONE_ROW', 'The file has only one data row. Nestwise needs many observations per unit to say anything about variation; upload the full table.')
+    }
+    for (const profiler of this.profilers) {
+      const overflow = profiler.overflow
+      if (overflow && (profiler.type === 'numeric' || profiler.type === 'integer')) {
+        const row = this.headerRow + 1 + overflow.rowIndex
+        throw badFile(
+          'NUMBER_OVERFLOW',
+          `Row ${row}, ${describeColumn(profiler.position - 1, profiler.name)}: ${overflow.text} is too large to store as a number (the largest is about 1.8e308). Check the value or its unit.`,
+          { row, column: profiler.name, columnNumber: profiler.position },
+        )
+      }
+    }
+    return {
+      columnNames: this.columnNames,
+      rowCount: this.dataRows,
+      profiles: this.profilers.map((p) => p.profile()),
+      codes: this.profilers.map((p) => p.columnCodes()),
+    }
+  }
+}

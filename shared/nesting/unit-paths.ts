@@ -1,0 +1,142 @@
+/**
+ * Units keyed by their full path. Labs reuse labels ("m01" in every lab), so a unit at depth d is
+ * the combination of its own label and its parent unit, not the label alone.
+ */
+
+/** A column as per-row codes into a label list. */
+export interface CodedColumn {
+  name: string
+  codes: ArrayLike<number>
+  labels: readonly string[]
+  /** The code that marks a missing label (rows with it belong to no unit). */
+  missingCode: number
+}
+
+export interface PathLevel {
+  column: CodedColumn
+  /** Per row: the id of its unit at this depth, -1 when a label on its path is missing. */
+  ids: Int32Array
+  /** Number of distinct units. */
+  count: number
+  /** Per unit: the id of its parent unit one level up (0 for the outermost level, which has one notional parent). */
+  parent: Int32Array
+  /** Per unit: its label code in this column. */
+  label: Int32Array
+}
+
+const DENSE_LIMIT = 1 << 22
+
+/**
+ * Splits the units of `parent` (or the whole table when null) by the labels of `column`, in one
+ * pass over the rows. Ids are dense, in order of first appearance.
+ *
+ * @example
+ * // lab: A A B B, animal: m1 m2 m1 m1 → units A·m1, A·m2, B·m1 (count 3), ids [0, 1, 2, 2]
+ */
+export function extendPaths(parent: PathLevel | null, column: CodedColumn, rowCount: number): PathLevel {
+  const labelCount = Math.max(column.labels.length, 1)
+  const parentCount = parent ? parent.count : 1
+  const ids = new Int32Array(rowCount)
+  const parentOf: number[] = []
+  const labelOf: number[] = []
+  const codes = column.codes
+  const missing = column.missingCode
+  const parentIds = parent?.ids
+  const dense = parentCount * labelCount <= DENSE_LIMIT
+  const table = dense ? new Int32Array(parentCount * labelCount).fill(-1) : null
+  const map = dense ? null : new Map<number, number>()
+  for (let r = 0; r < rowCount; r++) {
+    const p = parentIds ? parentIds[r] : 0
+    const code = codes[r]
+    if (p < 0 || code === missing || code < 0) {
+      ids[r] = -1
+      continue
+    }
+    const key = p * labelCount + code
+    let id = table ? table[key] : (map!.get(key) ?? -1)
+    if (id === -1) {
+      id = parentOf.length
+      parentOf.push(p)
+      labelOf.push(code)
+      if (table) table[key] = id
+      else map!.set(key, id)
+    }
+    ids[r] = id
+  }
+  return { column, ids, count: parentOf.length, parent: Int32Array.from(parentOf), label: Int32Array.from(labelOf) }
+}
+
+/** Paths for each level, outermost first. */
+export function buildPaths(levels: readonly CodedColumn[], rowCount: number): PathLevel[] {
+  const out: PathLevel[] = []
+  let parent: PathLevel | null = null
+  for (const column of levels) {
+    parent = extendPaths(parent, column, rowCount)
+    out.push(parent)
+  }
+  return out
+}
+
+export interface Spread {
+  min: number
+  median: number
+  max: number
+}
+
+export function spreadOf(values: ArrayLike<number>): Spread | null {
+  if (values.length === 0) return null
+  const sorted = Float64Array.from(values).sort()
+  const mid = sorted.length >> 1
+  const median = sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2
+  return { min: sorted[0], median, max: sorted[sorted.length - 1] }
+}
+
+/** Units per parent unit (for a level below the outermost). */
+export function childrenPerParent(level: PathLevel, parentCount: number): Spread | null {
+  const counts = new Int32Array(parentCount)
+  for (let u = 0; u < level.count; u++) counts[level.parent[u]]++
+  return spreadOf(counts)
+}
+
+/** Rows per unit of a level. */
+export function rowsPerUnit(level: PathLevel): Spread | null {
+  const counts = new Int32Array(level.count)
+  for (let r = 0; r < level.ids.length; r++) if (level.ids[r] >= 0) counts[level.ids[r]]++
+  return spreadOf(counts)
+}
+
+/** Labels that name units under more than one parent ("m01" in two labs), up to `limit`, in label order. */
+export function reusedLabels(level: PathLevel, limit = 5): string[] {
+  const unitsPerLabel = new Int32Array(level.column.labels.length)
+  for (let u = 0; u < level.count; u++) unitsPerLabel[level.label[u]]++
+  const out: string[] = []
+  for (let code = 0; code < unitsPerLabel.length && out.length < limit; code++) {
+    if (unitsPerLabel[code] > 1) out.push(level.column.labels[code])
+  }
+  return out
+}
+
+/**
+ * Index of the outermost level whose every unit has a single condition value, or -1 when the
+ * condition varies inside units of every level. Rows without a condition value are ignored.
+ */
+export function conditionDepth(paths: readonly PathLevel[], condition: CodedColumn): number {
+  const codes = condition.codes
+  for (let d = 0; d < paths.length; d++) {
+    const level = paths[d]
+    const seen = new Int32Array(level.count).fill(-1)
+    let constant = true
+    for (let r = 0; r < level.ids.length; r++) {
+      const id = level.ids[r]
+      const c = codes[r]
+      if (id < 0 || c === condition.missingCode || c < 0) continue
+      if (seen[id] === -1) seen[id] = c
+      else if (seen[id] !== c) {
+        constant = false
+        break
+      }
+    }
+    if (constant) return d
+  }
+  return -1
+}
