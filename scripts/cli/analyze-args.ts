@@ -84,8 +84,8 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
   let bootstrap: AnalyzeArgs['bootstrap'] = null
   if (values.bootstrap !== undefined) {
     const resamples = Number(values.bootstrap)
-    if (!Number.isInteger(resamples) || resamples < 10 || resamples > 100_000) {
-      throw new CliInputError(`--bootstrap must be a whole number of resamples from 10 to 100000, got "${values.bootstrap}".`)
+    if (!Number.isInteger(resamples) || resamples < 100 || resamples > 100_000) {
+      throw new CliInputError(`--bootstrap must be a whole number of resamples from 100 to 100000, got "${values.bootstrap}".`)
     }
     if (values.seed === undefined || values.seed === '') throw new CliInputError('--bootstrap needs --seed S so the result can be reproduced.')
     bootstrap = { resamples, seed: values.seed }

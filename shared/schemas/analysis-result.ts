@@ -100,54 +100,65 @@ export const MixedModelContrast = z.object({
 })
 export type MixedModelContrast = z.infer<typeof MixedModelContrast>
 
-export const UnitMeansTest = z.discriminatedUnion('test', [
+export const UnitMeansTest = z.discriminatedUnion('method', [
   z.object({
-    /** Two conditions: Welch t-test on unit means. */
-    test: z.literal('welch'),
+    /** Two conditions: Student's pooled-variance t-test on unit means (Lord et al. 2020). */
+    method: z.literal('student-t'),
     level: z.string(),
+    /** Units compared (all conditions together). */
     nUnits: count,
-    /** mean of unit means (second condition) − mean of unit means (reference). */
+    /** Condition pair, oriented as the first mixed-model contrast: mean of a's unit means − mean of b's. */
+    a: z.string(),
+    b: z.string(),
     estimate: z.number(),
+    se: z.number().nonnegative(),
     t: z.number(),
     df: z.number().positive(),
     p: probability,
   }),
   z.object({
     /** Three or more conditions: one-way ANOVA on unit means. */
-    test: z.literal('anova'),
+    method: z.literal('one-way-anova'),
     level: z.string(),
     nUnits: count,
     f: z.number().nonnegative(),
     df1: z.number().positive(),
-    df: z.number().positive(),
+    df2: z.number().positive(),
     p: probability,
   }),
 ])
 export type UnitMeansTest = z.infer<typeof UnitMeansTest>
 
-export const NaiveTest = z.discriminatedUnion('test', [
+export const NaiveTest = z.discriminatedUnion('method', [
   z.object({
     /** Two conditions: Welch t-test on all observations, as if independent. Wrong for nested data. */
-    test: z.literal('welch'),
+    method: z.literal('welch'),
+    a: z.string(),
+    b: z.string(),
+    /** mean(a) − mean(b) of the observations. */
     estimate: z.number(),
+    se: z.number().nonnegative(),
     t: z.number(),
     df: z.number().positive(),
     p: probability,
   }),
   z.object({
     /** Three or more conditions: one-way ANOVA on all observations, as if independent. */
-    test: z.literal('anova'),
+    method: z.literal('one-way-anova'),
     f: z.number().nonnegative(),
     df1: z.number().positive(),
-    df: z.number().positive(),
+    df2: z.number().positive(),
     p: probability,
   }),
 ])
 export type NaiveTest = z.infer<typeof NaiveTest>
 
 export const BootstrapInterval = z.object({
+  /** The statistic on the original data (plain mean of the observations, or difference of such means). */
   estimate: z.number(),
+  /** SD over the resamples. */
   se: z.number().nonnegative(),
+  /** Percentile interval. */
   ciLow: z.number(),
   ciHigh: z.number(),
 })
@@ -156,25 +167,32 @@ export const BootstrapResult = z.object({
   resamples: z.number().int().positive(),
   seed: z.string(),
   confidence: probability,
-  /** What is resampled, outermost first (units with replacement at every level, then observations). */
-  method: z.string(),
+  /** Innermost groups of at least this many observations have their resampled sum drawn from its normal approximation. */
+  exactBelow: z.number(),
+  approximatedGroups: count,
+  innermostGroups: count,
   groups: z.array(BootstrapInterval.extend({ condition: z.string() })),
   contrasts: z.array(
     BootstrapInterval.extend({
       a: z.string(),
       b: z.string(),
-      /** Two-sided bootstrap p-value (share of resamples on the other side of 0, doubled), when computed. */
-      p: probability.nullable(),
+      /** 2 · min(share of resampled differences ≤ 0, share ≥ 0); a resampling summary, not an exact test. */
+      p: probability,
     }),
   ),
 })
 export type BootstrapResult = z.infer<typeof BootstrapResult>
 
 export const BalancedAnovaCheck = z.object({
-  /** Variance components from expected mean squares; they equal REML when no estimate hits 0. */
+  table: z.array(
+    z.object({ level: z.string(), df: z.number(), sumOfSquares: z.number(), meanSquare: z.number(), unitSize: z.number() }),
+  ),
+  /** Variance components from expected mean squares (can be negative). */
   components: z.array(z.object({ level: z.string(), variance: z.number() })),
-  /** Largest |ANOVA − REML| / max(REML, 1e-12 · total) over the components. */
-  maxRelativeDifference: z.number().nonnegative(),
+  /** True when an estimate is negative; REML then truncates it at 0 and the two disagree. */
+  anyNegative: z.boolean(),
+  /** Largest |ANOVA − REML| / REML total variance over the components. */
+  maxDifferenceToReml: z.number().nonnegative(),
 })
 export type BalancedAnovaCheck = z.infer<typeof BalancedAnovaCheck>
 
@@ -229,7 +247,7 @@ export const AnalysisResult = z.object({
     naive: NaiveTest.nullable(),
     bootstrap: BootstrapResult.nullable(),
   }),
-  /** Classic ANOVA estimates when the design is balanced (equal sizes at every level), else null. */
+  /** Classic ANOVA estimates when the design has no condition and is balanced (equal sizes at every level), else null. */
   balancedAnova: BalancedAnovaCheck.nullable(),
   warnings: z.array(EngineWarning),
   engine: z.object({ version: z.string() }),

@@ -18,6 +18,7 @@ function cleanFacts(): WarningFacts {
       ],
       constantConditions: [],
     },
+    unitMeansProblem: null,
     zeroVarianceLevels: [],
     implicitNesting: [],
     nDropped: 0,
@@ -109,12 +110,13 @@ describe('buildWarnings', () => {
     expect(codes(facts)).toEqual(['FEW_OUTER_UNITS'])
   })
 
-  it('UNIT_MEANS_UNAVAILABLE when the condition varies inside the innermost units; ROWS_DROPPED counts rows', () => {
-    const facts = { ...cleanFacts(), nDropped: 1 }
+  it('UNIT_MEANS_UNAVAILABLE passes on the reason; ROWS_DROPPED counts rows', () => {
+    const facts = { ...cleanFacts(), nDropped: 1, unitMeansProblem: 'the treatment varies inside every unit.' }
     facts.condition!.level = null
     facts.condition!.unitsPerCondition = []
     const warnings = buildWarnings(facts)
     expect(warnings.map((w) => w.code)).toEqual(['ROWS_DROPPED', 'UNIT_MEANS_UNAVAILABLE'])
+    expect(warnings[1].message).toBe('The test on unit means is not shown: the treatment varies inside every unit. The mixed-model comparison does not need it.')
     expect(warnings[0].message).toBe('1 row was left out because the response or a label was missing.')
   })
 

@@ -14,6 +14,8 @@ export interface WarningFacts {
     /** Conditions whose observations all have the same value. */
     constantConditions: string[]
   } | null
+  /** Why the test on unit means is missing (null when it is shown or there is no condition). */
+  unitMeansProblem: string | null
   /** Random levels (including an added "<level>:condition") whose variance was estimated as 0. */
   zeroVarianceLevels: string[]
   implicitNesting: { level: string; labels: string[] }[]
@@ -140,11 +142,10 @@ export function buildWarnings(facts: WarningFacts): Warning[] {
     }
   }
 
-  if (condition && condition.level === null) {
+  if (condition && facts.unitMeansProblem) {
     add(
       'UNIT_MEANS_UNAVAILABLE',
-      `The ${condition.name} varies inside every ${innermost?.name ?? 'unit'}, so no level has units with a single ${condition.name}; ` +
-        'the test on unit means is not shown. The mixed model compares conditions within units.',
+      `The test on unit means is not shown: ${facts.unitMeansProblem.replace(/\.$/, '')}. The mixed-model comparison does not need it.`,
     )
   }
 

@@ -1,0 +1,19 @@
+import type { AnalysisResult } from '../../shared/schemas/analysis-result'
+import { analyzeNested } from '../../shared/stats/analyze-nested'
+import type { AnalyzeArgs } from './analyze-args'
+import { readColumnsFromFile } from './read-columns'
+
+/** Reads the file named in the arguments and analyses it. */
+export async function runAnalyze(args: AnalyzeArgs): Promise<AnalysisResult> {
+  const columns = await readColumnsFromFile(args.file, {
+    response: args.response,
+    levels: args.levels,
+    condition: args.condition,
+    delimiter: args.delimiter,
+    decimal: args.decimal,
+  })
+  return analyzeNested(columns, {
+    ...(args.reference === null ? {} : { reference: args.reference }),
+    bootstrap: args.bootstrap,
+  })
+}
