@@ -1,0 +1,3 @@
+export * from './auth'
+export * from './labs'
+export * from './users'
