@@ -1,0 +1,38 @@
+import type { CurrentUser, Membership } from '../../shared/schemas/auth'
+import { findActiveUserById, findActiveUserWithHashByEmail, type User } from '../repositories/users.repo'
+import { listMembershipsOfUsers } from '../repositories/memberships.repo'
+import { hashPassword, verifyPassword } from './passwords'
+
+// Verifying against a throwaway hash when the email is unknown makes "no such user" take as long
+// as "wrong password", so response times do not reveal which emails have accounts.
+let decoyHash: Promise<string> | undefined
+function getDecoyHash(): Promise<string> {
+  decoyHash ??= hashPassword('decoy password that matches no account')
+  return decoyHash
+}
+
+export function toCurrentUser(user: User, memberships: Membership[]): CurrentUser {
+  return { id: user.id, email: user.email, name: user.name, isAdmin: user.isAdmin, memberships }
+}
+
+/** The signed-in view of a user (with lab memberships), or undefined when the account is gone. */
+export async function loadCurrentUser(userId: number): Promise<CurrentUser | undefined> {
+  const user = await findActiveUserById(userId)
+  if (!user) return undefined
+  const memberships = await listMembershipsOfUsers([user.id])
+  return toCurrentUser(
+    user,
+    memberships.map(({ labId, labName, role }) => ({ labId, labName, role })),
+  )
+}
+
+/** The user whose email and password match, or null. Deleted accounts never match. */
+export async function verifyCredentials(email: string, password: string): Promise<CurrentUser | null> {
+  const user = await findActiveUserWithHashByEmail(email)
+  if (!user) {
+    await verifyPassword(password, await getDecoyHash())
+    return null
+  }
+  if (!(await verifyPassword(password, user.passwordHash))) return null
+  return (await loadCurrentUser(user.id)) ?? null
+}
