@@ -1,0 +1,81 @@
+import { existsSync } from 'node:fs'
+import { fileURLToPath } from 'node:url'
+import express, { type Express } from 'express'
+import type { Store } from 'express-session'
+import { config, publicUrl } from './config'
+import { createPassport } from './auth/passport'
+import { getSharedSessionStore, sessionMiddleware } from './auth/session'
+import { clientApp } from './middleware/client-app'
+import { errorHandler, notFound } from './middleware/error-handler'
+import { loginRateLimits } from './middleware/rate-limits'
+import { requestId } from './middleware/request-id'
+import { requestLog } from './middleware/request-log'
+import { requireSameOriginWrites } from './middleware/same-origin'
+import { securityHeaders } from './middleware/security-headers'
+import { pingDatabase } from './repositories/health.repo'
+import { adminRoutes } from './routes/admin.routes'
+import { authRoutes } from './routes/auth.routes'
+import { healthRoutes } from './routes/health.routes'
+import { labsRoutes } from './routes/labs.routes'
+
+const defaultClientDir = fileURLToPath(new URL('../dist/client', import.meta.url))
+
+export interface AppOptions {
+  /** Where sessions are kept; defaults to the process-wide PostgreSQL store. */
+  sessionStore?: Store
+  /** Built client to serve; null serves none. Defaults to dist/client when it has an index.html. */
+  clientDir?: string | null
+  /** Failed sign-ins per address + email in 15 minutes; defaults to LOGIN_RATE_LIMIT. */
+  loginRateLimit?: number
+  /** Origins allowed to send writes, besides the one each request is addressed to. Defaults to PUBLIC_URL. */
+  allowedOrigins?: string[]
+  /** Database probe for the health route. */
+  pingDatabase?: () => Promise<void>
+}
+
+function defaultClient(): string | null {
+  return existsSync(`${defaultClientDir}/index.html`) ? defaultClientDir : null
+}
+
+/** The whole Nestwise HTTP application, without listening (server/index.ts listens; tests use supertest). */
+export function createApp(options: AppOptions = {}): Express {
+  const app = express()
+  const https = publicUrl.startsWith('https:')
+  // Behind an https address the app normally sits behind a local reverse proxy that terminates TLS;
+  // trusting it (loopback only) lets secure cookies and client addresses work.
+  if (https) app.set('trust proxy', 'loopback')
+  app.disable('x-powered-by')
+
+  const cookie = { secure: config.NODE_ENV === 'production' && https }
+  const passport = createPassport()
+
+  app.use(requestId())
+  app.use(requestLog())
+  app.use(securityHeaders({ https }))
+
+  app.use('/api', express.json({ limit: '1mb' }))
+  app.use('/api', requireSameOriginWrites(options.allowedOrigins ?? [publicUrl]))
+  app.use('/api/health', healthRoutes(options.pingDatabase ?? (() => pingDatabase())))
+
+  app.use('/api/v1', sessionMiddleware(options.sessionStore ?? getSharedSessionStore(), cookie))
+  app.use('/api/v1', passport.initialize())
+  app.use('/api/v1', passport.session())
+  app.use(
+    '/api/v1/auth',
+    authRoutes({
+      passport,
+      loginLimits: loginRateLimits(options.loginRateLimit ?? config.LOGIN_RATE_LIMIT),
+      cookie,
+    }),
+  )
+  app.use('/api/v1/labs', labsRoutes())
+  app.use('/api/v1/admin', adminRoutes())
+  app.use('/api', notFound())
+
+  const clientDir = options.clientDir === undefined ? defaultClient() : options.clientDir
+  if (clientDir) app.use(clientApp(clientDir))
+
+  app.use(notFound())
+  app.use(errorHandler())
+  return app
+}

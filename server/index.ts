@@ -1,0 +1,39 @@
+import { createApp } from './app'
+import { closeSharedSessionStore } from './auth/session'
+import { config, publicUrl } from './config'
+import { db } from './db'
+import { logger } from './logger'
+
+// Give in-flight requests this long to finish on shutdown before connections are cut.
+const SHUTDOWN_GRACE_MS = 10_000
+
+const app = createApp()
+const server = app.listen(config.PORT, config.HOST, (err?: Error) => {
+  if (err) {
+    logger.error('could not start the server', { host: config.HOST, port: config.PORT, err })
+    process.exit(1)
+  }
+  logger.info(`Nestwise API listening on http://${config.HOST}:${config.PORT}`, {
+    publicUrl,
+    env: config.NODE_ENV,
+  })
+})
+
+let stopping = false
+async function shutdown(signal: string): Promise<void> {
+  if (stopping) return
+  stopping = true
+  logger.info('shutting down', { signal })
+  const force = setTimeout(() => server.closeAllConnections(), SHUTDOWN_GRACE_MS).unref()
+  await new Promise<void>((resolve) => {
+    server.close(() => resolve())
+    server.closeIdleConnections()
+  })
+  clearTimeout(force)
+  await Promise.allSettled([closeSharedSessionStore(), db.destroy()])
+  logger.info('stopped')
+  process.exit(0)
+}
+
+process.once('SIGTERM', () => void shutdown('SIGTERM'))
+process.once('SIGINT', () => void shutdown('SIGINT'))

@@ -1,0 +1,40 @@
+import { Router, type RequestHandler } from 'express'
+import { LoginRequest } from '../../shared/schemas/auth'
+import { authenticateWithPassword, destroySession, logIn } from '../auth/passport'
+import type { createPassport } from '../auth/passport'
+import { SESSION_COOKIE, cookieOptions, type CookieSettings } from '../auth/session'
+import { UnauthenticatedError } from '../errors/app-error'
+import { requireUser } from '../middleware/auth'
+import { validate } from '../middleware/validate'
+
+export interface AuthRoutesOptions {
+  passport: ReturnType<typeof createPassport>
+  loginLimits: RequestHandler[]
+  cookie: CookieSettings
+}
+
+/** /api/v1/auth: sign in, sign out, and who am I. */
+export function authRoutes({ passport, loginLimits, cookie }: AuthRoutesOptions): Router {
+  const router = Router()
+
+  router.post('/login', ...loginLimits, validate({ body: LoginRequest }), async (req, res) => {
+    const user = await authenticateWithPassword(passport, req, res)
+    // One message for unknown email and wrong password: it must not reveal which accounts exist.
+    if (!user) throw new UnauthenticatedError('The email or password is not right.')
+    await logIn(req, user)
+    res.json({ data: user })
+  })
+
+  router.post('/logout', async (req, res) => {
+    await destroySession(req)
+    res.clearCookie(SESSION_COOKIE, cookieOptions(cookie))
+    res.status(204).end()
+  })
+
+  router.get('/me', requireUser, (req, res) => {
+    res.setHeader('Cache-Control', 'no-store')
+    res.json({ data: req.user })
+  })
+
+  return router
+}
