@@ -86,7 +86,7 @@ export function buildWarnings(facts: WarningFacts): Warning[] {
       add(
         'SINGLE_OBSERVATION_UNITS',
         `${singles} of ${innermost.unitSizes.length} ${innermost.name} units have a single observation. ` +
-          `They count towards the means but say nothing about the spread within a ${innermost.name}.`,
+          `They count towards the means but say nothing about the spread within a single ${innermost.name}.`,
       )
     }
   }
