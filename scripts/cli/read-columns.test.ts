@@ -82,6 +82,9 @@ describe('readColumnsFromFile', () => {
     const columns = await readColumnsFromFile(path, selection)
     expect(Array.from(columns.response)).toEqual([1.5, 2.5])
     expect(columns.levels[0].labels).toEqual(['A'])
+    const quoted = join(folder, 'bom-quoted.csv')
+    writeFileSync(quoted, '\uFEFF"lab","animal",treatment,length\nA,1,v,3\n')
+    expect((await readColumnsFromFile(quoted, selection)).levels[0].name).toBe('lab')
   })
 
   it('decodes UTF-16 little-endian files with a byte-order mark', async () => {

@@ -29,7 +29,7 @@ export function readColumnsFromText(text: string, options: ReadColumnsOptions): 
   return collector.finish()
 }
 
-type Encoding = 'utf8' | 'utf16le' | 'utf16be'
+type Encoding = 'utf8' | 'utf8-bom' | 'utf16le' | 'utf16be'
 
 /** Byte-order marks tell UTF-16 exports (spreadsheet "Unicode text") apart from UTF-8. */
 function sniffEncoding(path: string): Encoding {
@@ -39,6 +39,7 @@ function sniffEncoding(path: string): Encoding {
     const n = readSync(fd, head, 0, 4, 0)
     if (n >= 2 && head[0] === 0xff && head[1] === 0xfe) return 'utf16le'
     if (n >= 2 && head[0] === 0xfe && head[1] === 0xff) return 'utf16be'
+    if (n >= 3 && head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf) return 'utf8-bom'
     return 'utf8'
   } finally {
     closeSync(fd)
@@ -59,7 +60,9 @@ function openText(path: string): Readable {
   }
   // Default 64 KiB reads: papaparse's chunk handling slows down markedly with much larger chunks.
   if (encoding === 'utf8') return createReadStream(path, { encoding: 'utf8' })
-  // Decoding through iconv keeps characters split across chunk borders intact.
+  // Skipping the mark's bytes (papaparse strips it only from whole strings) keeps a quoted first header intact.
+  if (encoding === 'utf8-bom') return createReadStream(path, { encoding: 'utf8', start: 3 })
+  // Decoding through iconv keeps characters split across chunk borders intact; it drops the mark.
   return createReadStream(path).pipe(iconv.decodeStream(encoding)) as unknown as Readable
 }
 

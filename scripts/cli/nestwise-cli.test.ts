@@ -1,0 +1,77 @@
+/**
+ * End-to-end: spawns the command line on fixture files (invented data) and checks the single
+ * JSON document on stdout, the exit codes and the one-line messages on stderr.
+ */
+import { spawnSync } from 'node:child_process'
+import { dirname, join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { describe, expect, it } from 'vitest'
+import { AnalysisResult } from '../../shared/schemas/analysis-result'
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
+const fixture = (name: string) => join('tests', 'fixtures', 'cli', name)
+
+function nestwise(...args: string[]) {
+  const run = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/nestwise.ts', ...args], { cwd: root, encoding: 'utf8' })
+  return { code: run.status, stdout: run.stdout, stderr: run.stderr }
+}
+
+const analyzeCells = ['--response', 'neurite_length_um', '--levels', 'lab,mouse', '--condition', 'treatment']
+
+describe('nestwise analyze', () => {
+  const csv = nestwise('analyze', fixture('cells.csv'), ...analyzeCells, '--reference', 'vehicle')
+
+  it('prints exactly one JSON document matching the result schema, nothing else', () => {
+    expect(csv.stderr).toBe('')
+    expect(csv.code).toBe(0)
+    expect(csv.stdout.trim().split('\n')).toHaveLength(1)
+    const result = AnalysisResult.parse(JSON.parse(csv.stdout))
+    expect(result).toMatchObject({ nObs: 62, response: 'neurite_length_um', condition: 'treatment', reference: 'vehicle', conditionLevel: 'mouse' })
+    expect(result.levels.map((l) => [l.name, l.nUnits])).toEqual([['lab', 4], ['mouse', 16]])
+    expect(result.varianceComponents.map((c) => c.level)).toEqual(['lab', 'mouse', 'residual'])
+    expect(result.groups.map((g) => g.condition).sort()).toEqual(['NW-117', 'vehicle'])
+    expect(result.comparisons.mixedModel!.contrasts[0]).toMatchObject({ a: 'NW-117', b: 'vehicle' })
+    expect(result.engine.version).toMatch(/^\d+\.\d+\.\d+$/)
+  })
+
+  it('reads the same table with semicolons and decimal commas, and as a TSV with BOM and CRLF', () => {
+    const semicolon = nestwise('analyze', fixture('cells-semicolon-decimal-comma.csv'), ...analyzeCells, '--reference', 'vehicle', '--decimal', ',')
+    const tsv = nestwise('analyze', fixture('cells-bom-crlf.tsv'), ...analyzeCells, '--reference', 'vehicle', '--delimiter', 'tab')
+    expect(semicolon.code).toBe(0)
+    expect(tsv.code).toBe(0)
+    expect(JSON.parse(semicolon.stdout)).toEqual(JSON.parse(csv.stdout))
+    expect(JSON.parse(tsv.stdout)).toEqual(JSON.parse(csv.stdout))
+  })
+
+  it('adds a seeded bootstrap that reproduces', () => {
+    const once = nestwise('analyze', fixture('cells.csv'), ...analyzeCells, '--bootstrap', '200', '--seed', 'fixed')
+    const twice = nestwise('analyze', fixture('cells.csv'), ...analyzeCells, '--bootstrap', '200', '--seed', 'fixed')
+    expect(once.code).toBe(0)
+    const bootstrap = JSON.parse(once.stdout).comparisons.bootstrap
+    expect(bootstrap).toMatchObject({ resamples: 200, seed: 'fixed' })
+    expect(JSON.parse(twice.stdout).comparisons.bootstrap).toEqual(bootstrap)
+  })
+
+  it('documents itself under --help', () => {
+    const help = nestwise('analyze', '--help')
+    expect(help.code).toBe(0)
+    expect(help.stdout).toContain('Usage: nestwise analyze FILE --response COL --levels OUTER,INNER')
+    expect(help.stderr).toBe('')
+  })
+
+  it.each([
+    ['a missing column, listing the available ones', ['analyze', fixture('cells.csv'), '--response', 'length', '--levels', 'lab,mouse'], /^nestwise: Column "length" not found\. Available columns: lab, mouse, treatment, neurite_length_um\.$/],
+    ['a non-numeric value, naming row, line and column', ['analyze', fixture('bad-value.csv'), ...analyzeCells], /^nestwise: Row 7 \(line 8\): the response column "neurite_length_um" holds "n\.d\.", which is not a number\.$/],
+    ['fewer than two outermost units', ['analyze', fixture('one-lab.csv'), ...analyzeCells], /^nestwise: The level "lab" has only 1 unit; at least 2 are needed\.$/],
+    ['an unreadable file', ['analyze', fixture('absent.csv'), ...analyzeCells], /^nestwise: Cannot read ".*absent\.csv": no such file\.$/],
+    ['an unknown reference condition', ['analyze', fixture('cells.csv'), ...analyzeCells, '--reference', 'saline'], /^nestwise: .*"saline".*$/],
+    ['an unknown command', ['summarise'], /^nestwise: Unknown command "summarise"/],
+  ])('exits with code 2 and one line on stderr for %s', (_, args, message) => {
+    const run = nestwise(...args)
+    expect(run.code).toBe(2)
+    expect(run.stdout).toBe('')
+    expect(run.stderr.endsWith('\n')).toBe(true)
+    expect(run.stderr.trimEnd().split('\n')).toHaveLength(1)
+    expect(run.stderr.trimEnd()).toMatch(message)
+  })
+})
