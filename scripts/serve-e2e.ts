@@ -1,3 +1,5 @@
+export {}
+
 // The server Playwright talks to: its own freshly seeded database and port, serving the built client.
 process.env.PGDATABASE = process.env.E2E_DATABASE ?? 'nestwise_e2e'
 process.env.PORT = process.env.E2E_PORT ?? '3100'
