@@ -3,6 +3,8 @@
  * JSON document on stdout, the exit codes and the one-line messages on stderr.
  */
 import { spawnSync } from 'node:child_process'
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { describe, expect, it } from 'vitest'
@@ -73,5 +75,52 @@ describe('nestwise analyze', () => {
     expect(run.stderr.endsWith('\n')).toBe(true)
     expect(run.stderr.trimEnd().split('\n')).toHaveLength(1)
     expect(run.stderr.trimEnd()).toMatch(message)
+  })
+})
+
+describe('nestwise plan', () => {
+  it('finds the units per arm of the clusterPower documentation example', () => {
+    // clusterPower (R) crtpwr.2mean: m = 10, d = 1, ICC 0.1, σ² = 5, α 0.05, power 0.8 → 15.93 → 16 clusters per arm.
+    const run = nestwise('plan', '--difference', '1', '--icc', '0.1', '--variance', '5', '--obs', '10')
+    expect(run.stderr).toBe('')
+    expect(run.code).toBe(0)
+    const plan = JSON.parse(run.stdout)
+    expect(plan.unitsNeeded.unitsPerArm).toBe(16)
+    expect(plan.unitsNeeded.exact).toBeCloseTo(15.93, 2)
+    expect(plan).toMatchObject({ power: null, cheapestDesign: null, grid: null, engine: { version: expect.any(String) } })
+  })
+
+  it('takes the ICC of the condition level and the total SD from a saved analysis', () => {
+    const folder = mkdtempSync(join(tmpdir(), 'nestwise-plan-'))
+    try {
+      const saved = join(folder, 'result.json')
+      const analysis = nestwise('analyze', fixture('cells.csv'), ...analyzeCells)
+      writeFileSync(saved, analysis.stdout)
+      const result = AnalysisResult.parse(JSON.parse(analysis.stdout))
+      const run = nestwise('plan', '--from', saved, '--difference', '5', '--units', '6', '--obs', '20', '--cost-unit', '400', '--cost-obs', '2')
+      expect(run.code).toBe(0)
+      const plan = JSON.parse(run.stdout)
+      const total = result.varianceComponents.reduce((s, c) => s + c.variance, 0)
+      expect(plan.inputs).toMatchObject({ iccSource: { kind: 'analysis', level: 'mouse' }, sdSource: 'analysis' })
+      expect(plan.inputs.icc).toBeCloseTo(result.icc.find((i) => i.level === 'mouse')!.icc, 12)
+      expect(plan.inputs.sdTotal).toBeCloseTo(Math.sqrt(total), 10)
+      expect(plan.power.power).toBeGreaterThan(0)
+      expect(plan.cheapestDesign.feasible).toBe(true)
+      expect(plan.costOptimal.obsPerUnit).toBeGreaterThanOrEqual(1)
+      const bad = nestwise('plan', '--from', fixture('cells.csv'), '--difference', '5', '--obs', '20')
+      expect(bad.code).toBe(2)
+      expect(bad.stderr).toMatch(/^nestwise: ".*cells\.csv" is not JSON/)
+    } finally {
+      rmSync(folder, { recursive: true, force: true })
+    }
+  })
+
+  it('documents itself under --help and rejects a plan with nothing to compute', () => {
+    const help = nestwise('plan', '--help')
+    expect(help.code).toBe(0)
+    expect(help.stdout).toContain('Usage: nestwise plan --difference D')
+    const empty = nestwise('plan', '--difference', '1', '--icc', '0.1', '--sd', '2')
+    expect(empty.code).toBe(2)
+    expect(empty.stderr.trimEnd().split('\n')).toHaveLength(1)
   })
 })

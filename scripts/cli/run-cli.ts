@@ -1,7 +1,9 @@
 import { EngineInputError } from '../../shared/stats/engine-input-error'
 import { ANALYZE_HELP, parseAnalyzeArgs } from './analyze-args'
 import { CliInputError } from './cli-input-error'
+import { PLAN_HELP, parsePlanArgs } from './plan-args'
 import { runAnalyze } from './run-analyze'
+import { runPlan } from './run-plan'
 
 export interface CliOutput {
   stdout: (text: string) => void
@@ -12,6 +14,7 @@ export const MAIN_HELP = `Usage: nestwise <command> [options]
 
 Commands:
   analyze FILE ...   analyse a CSV/TSV table of nested observations (run "nestwise analyze --help")
+  plan ...           power, units needed and the cheapest design for a new experiment (run "nestwise plan --help")
 
 Every command prints one JSON document on stdout. Bad input exits with code 2 and a one-line
 message on stderr.`
@@ -35,6 +38,15 @@ export async function runCli(argv: string[], out: CliOutput): Promise<number> {
         return 0
       }
       out.stdout(JSON.stringify(await runAnalyze(args)) + '\n')
+      return 0
+    }
+    if (command === 'plan') {
+      const args = parsePlanArgs(rest)
+      if (!args) {
+        out.stdout(PLAN_HELP + '\n')
+        return 0
+      }
+      out.stdout(JSON.stringify(runPlan(args)) + '\n')
       return 0
     }
     throw new CliInputError(`Unknown command "${command}". Run "nestwise --help".`)
