@@ -57,16 +57,16 @@ export function prepareNestedDesign(
   checkNames(levels, condition)
   for (const f of condition ? [...levels, condition] : levels) checkFactor(f, nRows)
 
-  const keptRows: number[] = []
+  const kept = new Int32Array(nRows)
+  let nObs = 0
   for (let r = 0; r < nRows; r++) {
     const v = response[r]
-    if (Number.isNaN(v)) continue
-    if (!Number.isFinite(v)) {
+    if (v !== v) continue // NaN: missing response
+    if (v === Infinity || v === -Infinity) {
       throw new EngineInputError(`The response "${columns.responseName}" is infinite in row ${r + 1}.`, columns.responseName)
     }
-    keptRows.push(r)
+    kept[nObs++] = r
   }
-  const nObs = keptRows.length
   const nDropped = nRows - nObs
   if (nObs < 2) {
     throw new EngineInputError(
@@ -74,7 +74,7 @@ export function prepareNestedDesign(
       columns.responseName,
     )
   }
-  const rowOfObs = Int32Array.from(keptRows)
+  const rowOfObs = kept.slice(0, nObs)
   const y = new Float64Array(nObs)
   for (let i = 0; i < nObs; i++) y[i] = response[rowOfObs[i]]
 
@@ -162,24 +162,29 @@ function nestLevel(
   const nObs = codes.length
   const nLabels = labels.length
   const nParents = parent ? parent.nUnits : 1
-  const parentOf = parent ? parent.unitOfObs : null
   const slots = nParents * nLabels
   if (slots > Number.MAX_SAFE_INTEGER) throw new EngineInputError(`The level "${name}" has too many units.`, name)
+  const parentOf = parent ? parent.unitOfObs : new Int32Array(nObs)
 
   const unitOfObs = new Int32Array(nObs)
   let keys: number[]
   if (slots <= MAX_TABLE_SLOTS) {
+    // unitOfObs first holds each row's slot, then is overwritten with the slot's unit number.
     const table = new Int32Array(slots).fill(-1)
-    for (let i = 0; i < nObs; i++) table[(parentOf ? parentOf[i] : 0) * nLabels + codes[i]] = 0
+    for (let i = 0; i < nObs; i++) {
+      const slot = parentOf[i] * nLabels + codes[i]
+      unitOfObs[i] = slot
+      table[slot] = 0
+    }
     keys = []
     for (let k = 0; k < slots; k++) if (table[k] === 0) table[k] = keys.push(k) - 1
-    for (let i = 0; i < nObs; i++) unitOfObs[i] = table[(parentOf ? parentOf[i] : 0) * nLabels + codes[i]]
+    for (let i = 0; i < nObs; i++) unitOfObs[i] = table[unitOfObs[i]]
   } else {
     const index = new Map<number, number>()
-    for (let i = 0; i < nObs; i++) index.set((parentOf ? parentOf[i] : 0) * nLabels + codes[i], 0)
+    for (let i = 0; i < nObs; i++) index.set(parentOf[i] * nLabels + codes[i], 0)
     keys = [...index.keys()].sort((a, b) => a - b)
     keys.forEach((k, u) => index.set(k, u))
-    for (let i = 0; i < nObs; i++) unitOfObs[i] = index.get((parentOf ? parentOf[i] : 0) * nLabels + codes[i])!
+    for (let i = 0; i < nObs; i++) unitOfObs[i] = index.get(parentOf[i] * nLabels + codes[i])!
   }
 
   const nUnits = keys.length

@@ -42,23 +42,38 @@ export function minimiseNewton(
   let iterations = 0
   for (; iterations < maxIterations && !converged; iterations++) {
     const { g, H } = derivatives(f, x, fx, idx)
+    // Decreases below this are rounding noise of f (a sum of terms as large as f itself).
+    const noise = 1e-13 * Math.max(1, Math.abs(fx))
     let lambda = 0
     let moved = false
-    for (let attempt = 0; attempt < 60 && !moved; attempt++) {
+    for (let attempt = 0; attempt < 40 && !moved && !converged; attempt++) {
       const step = solveShifted(H, g, lambda)
       if (!step) {
         lambda = nextLambda(lambda, H)
         continue
       }
-      const small = step.every((s, j) => Math.abs(s) <= 1e-10 * Math.max(Math.abs(x[idx[j]]), 1e-3))
-      if (small && lambda === 0) {
-        converged = true
-        break
-      }
-      let t = 1
-      for (let half = 0; half < 30; half++, t /= 2) {
+      const trialAt = (t: number) => {
         const trial = [...x]
         idx.forEach((i, j) => (trial[i] = x[i] + t * step[j]))
+        return trial
+      }
+      if (lambda === 0) {
+        const predicted = step.reduce((s, v, j) => s - 0.5 * v * g[j], 0)
+        const small = step.every((v, j) => Math.abs(v) <= 1e-10 * Math.max(Math.abs(x[idx[j]]), 1e-3))
+        if (small || predicted < noise) {
+          // Within rounding of the optimum: keep the Newton point unless it is visibly worse.
+          const trial = trialAt(1)
+          const ft = f(trial)
+          if (ft <= fx + noise) {
+            x = trial
+            fx = Math.min(fx, ft)
+          }
+          converged = true
+          break
+        }
+      }
+      for (let half = 0, t = 1; half < 12; half++, t /= 2) {
+        const trial = trialAt(t)
         const ft = f(trial)
         if (ft < fx) {
           x = trial
@@ -67,17 +82,10 @@ export function minimiseNewton(
           break
         }
       }
-      if (!moved) {
-        if (small) {
-          // Steps at rounding level no longer lower f: that is the optimum.
-          converged = lambda === 0 || converged
-          break
-        }
-        lambda = nextLambda(lambda, H)
-      }
+      if (!moved) lambda = nextLambda(lambda, H)
     }
-    if (!moved) {
-      if (!converged) converged = gradientNegligible(g, H)
+    if (!moved && !converged) {
+      converged = gradientNegligible(g, H, noise)
       break
     }
   }
@@ -89,11 +97,10 @@ function nextLambda(lambda: number, H: number[][]): number {
   return lambda === 0 ? 1e-6 * scale : lambda * 8
 }
 
-function gradientNegligible(g: number[], H: number[][]): boolean {
+function gradientNegligible(g: number[], H: number[][], noise: number): boolean {
   const step = solveShifted(H, g, 0)
   if (!step) return false
-  const decrement = step.reduce((s, v, j) => s - v * g[j], 0)
-  return decrement < 1e-9
+  return step.reduce((s, v, j) => s - 0.5 * v * g[j], 0) < 100 * noise
 }
 
 function derivatives(f: (x: number[]) => number, x: number[], fx: number, idx: number[]) {
