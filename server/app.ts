@@ -15,8 +15,10 @@ import { securityHeaders } from './middleware/security-headers'
 import { pingDatabase } from './repositories/health.repo'
 import { adminRoutes } from './routes/admin.routes'
 import { authRoutes } from './routes/auth.routes'
+import { datasetsRoutes } from './routes/datasets.routes'
 import { healthRoutes } from './routes/health.routes'
 import { labsRoutes } from './routes/labs.routes'
+import { projectsRoutes } from './routes/projects.routes'
 
 const defaultClientDir = fileURLToPath(new URL('../dist/client', import.meta.url))
 
@@ -70,6 +72,8 @@ export function createApp(options: AppOptions = {}): Express {
   )
   app.use('/api/v1/labs', labsRoutes())
   app.use('/api/v1/admin', adminRoutes())
+  app.use('/api/v1/datasets', datasetsRoutes())
+  app.use('/api/v1/projects', projectsRoutes())
   app.use('/api', notFound())
 
   const clientDir = options.clientDir === undefined ? defaultClient() : options.clientDir

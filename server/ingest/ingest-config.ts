@@ -27,7 +27,7 @@ export const ingestConfig = {
   maxFieldChars: settings.INGEST_MAX_FIELD_CHARS,
   naValues: ['', ...settings.INGEST_NA_VALUES.split(',').map((v) => v.trim()).filter(Boolean)],
   /** Distinct values counted per column; beyond this a column is reported as "more than" and not offered as a level. */
-  distinctCap: 65_535,
+  distinctCap: 65_000,
   /** Longest column name accepted. */
   maxNameChars: 200,
 } as const

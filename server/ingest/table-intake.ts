@@ -12,6 +12,7 @@ export interface IntakeLimits {
 }
 
 export interface IntakeResult {
+  headerRow: number
   columnNames: string[]
   rowCount: number
   profiles: ColumnProfile[]
@@ -136,6 +137,7 @@ export class TableIntake {
       }
     }
     return {
+      headerRow: this.headerRow,
       columnNames: this.columnNames,
       rowCount: this.dataRows,
       profiles: this.profilers.map((p) => p.profile()),

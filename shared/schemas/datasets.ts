@@ -207,6 +207,8 @@ export const DatasetVersionSummary = z.object({
   decimalMark: z.enum(['.', ',']),
   sheetName: z.string().nullable(),
   sheetNames: z.array(z.string()),
+  /** File row of the header; data row k (1-based) is file row headerRow + k. */
+  headerRow: z.number().int().positive(),
   rowCount: z.number().int().nonnegative(),
   columnCount: z.number().int().nonnegative(),
   excludedRowCount: z.number().int().nonnegative(),

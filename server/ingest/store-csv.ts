@@ -1,0 +1,236 @@
+import { createHash } from 'node:crypto'
+import { createReadStream } from 'node:fs'
+import { finished } from 'node:stream/promises'
+import iconv from 'iconv-lite'
+import type { Knex } from 'knex'
+import { createRowsTable, openCopyIn } from '../repositories/datasets-rows.repo'
+import { encodeCopyTextRow } from './copy-text'
+import { CsvSyntaxError, CsvTokenizer } from './csv-tokenizer'
+import { badFile, describeColumn } from './ingest-errors'
+import type { TextSniff } from './sniff'
+import { TableIntake, type IntakeLimits, type IntakeResult } from './table-intake'
+import type { ProgressSink } from './upload-progress'
+
+/** The original bytes could not go to PostgreSQL as they are; store parsed rows instead. */
+export class FastPathBlocked extends Error {}
+
+/** The file is not valid UTF-8 after all (the sample was); read it again as Windows-1252. */
+export class NotUtf8 extends Error {}
+
+export type CsvMode = 'original-bytes' | 'parsed-rows'
+
+type CopyIn = Awaited<ReturnType<typeof openCopyIn>>
+
+interface TextDecoderLike {
+  write(bytes: Buffer): string
+  end(): string
+}
+
+function decoderFor(encoding: string): TextDecoderLike {
+  if (encoding === 'utf-8') {
+    const decoder = new TextDecoder('utf-8', { fatal: true })
+    const guard = (fn: () => string) => {
+      try {
+        return fn()
+      } catch {
+        throw new NotUtf8()
+      }
+    }
+    return { write: (bytes) => guard(() => decoder.decode(bytes, { stream: true })), end: () => guard(() => decoder.decode()) }
+  }
+  const decoder = iconv.getDecoder(encoding)
+  return { write: (bytes) => decoder.write(bytes), end: () => decoder.end() ?? '' }
+}
+
+const CR = 0x0d
+const LF = 0x0a
+
+/**
+ * Holds back line breaks at the end of each chunk and releases them only when more data follows,
+ * so blank lines at the very end of a file never reach COPY (PostgreSQL would read them as a row).
+ */
+class TrailingBreaks {
+  private held: Buffer[] = []
+
+  take(bytes: Buffer): Buffer[] {
+    let end = bytes.length
+    while (end > 0 && (bytes[end - 1] === CR || bytes[end - 1] === LF)) end--
+    if (end === 0) {
+      if (bytes.length) this.held.push(bytes)
+      return []
+    }
+    const out = [...this.held, end === bytes.length ? bytes : bytes.subarray(0, end)]
+    this.held = end === bytes.length ? [] : [bytes.subarray(end)]
+    return out
+  }
+}
+
+function syntaxToBadFile(error: CsvSyntaxError, intake: TableIntake, limits: IntakeLimits) {
+  const row = error.recordNo
+  const name = intake.columnNames?.[error.fieldIndex]
+  const where = describeColumn(error.fieldIndex, name)
+  switch (error.kind) {
+    case 'unterminated-quote':
+      return badFile('UNTERMINATED_QUOTE', `Row ${row}, ${where}: a quoted value starts here but its closing quote never comes. Check the quotes in that row.`, { row, column: name, columnNumber: error.fieldIndex + 1 })
+    case 'text-after-quote':
+      return badFile('TEXT_AFTER_QUOTE', `Row ${row}, ${where}: there is text after the closing quote of a quoted value. Inside quotes, write a quote as two quotes ("").`, { row, column: name, columnNumber: error.fieldIndex + 1 })
+    case 'field-too-long':
+      return intake.fieldTooLong(row, error.fieldIndex, Math.max(error.length, limits.maxFieldChars + 1))
+    case 'too-many-fields':
+      return row === 1
+        ? badFile('TOO_MANY_COLUMNS', `The header row has more than ${limits.maxColumns.toLocaleString('en-US')} columns, the most Nestwise accepts. Remove the columns you do not need and upload again.`, { row })
+        : badFile('RAGGED_ROW', `Row ${row} has more values than the header has columns. Check for an extra delimiter, or a value with a delimiter that should be in quotes.`, { row })
+  }
+}
+
+async function waitForDrain(stream: NodeJS.EventEmitter): Promise<void> {
+  await new Promise<void>((resolve) => {
+    const done = () => {
+      stream.off('drain', done)
+      stream.off('error', done)
+      stream.off('close', done)
+      resolve()
+    }
+    stream.once('drain', done)
+    stream.once('error', done)
+    stream.once('close', done)
+  })
+}
+
+export interface StoreCsvResult {
+  intake: IntakeResult
+  sha256: string
+}
+
+/**
+ * One pass over a delimited text file: hashes the original bytes, decodes, tokenizes, checks and
+ * profiles every row, and streams the rows into COPY inside `trx`.
+ *
+ * 'original-bytes' hands PostgreSQL the file's own bytes (re-encoded to UTF-8 when needed) and lets
+ * its CSV reader split them while we check the same bytes here; it throws FastPathBlocked when the
+ * file uses something that reader would take differently, and the caller retries with
+ * 'parsed-rows', which sends the rows as we parsed them in COPY text format.
+ */
+export async function storeCsv(
+  trx: Knex.Transaction,
+  versionId: number,
+  path: string,
+  sniff: TextSniff,
+  mode: CsvMode,
+  limits: IntakeLimits,
+  progress: ProgressSink,
+): Promise<StoreCsvResult> {
+  const intake = new TableIntake(limits, sniff.decimalMark)
+  const hash = createHash('sha256')
+  let encoded: string[] = []
+  const tokenizer = new CsvTokenizer({
+    delimiter: sniff.delimiter,
+    maxFieldChars: limits.maxFieldChars,
+    maxFieldsPerRow: limits.maxColumns + 1,
+    onRow: (fields, recordNo) => {
+      const isHeader = intake.columnNames === null
+      intake.addRow(fields, recordNo)
+      if (mode === 'parsed-rows' && !isHeader) {
+        for (const field of fields) {
+          if (field.includes('\u0000')) throw badFile('BINARY_FILE', `Row ${recordNo} contains a NUL character: the file holds binary data, not only text.`, { row: recordNo })
+        }
+        encoded.push(encodeCopyTextRow(fields))
+      }
+    },
+  })
+  const decoder = decoderFor(sniff.encoding)
+  const trailing = new TrailingBreaks()
+  // Held in an object: the closures below assign them, which plain locals would hide from type narrowing.
+  const state: { copy: CopyIn | null; copyError: Error | null } = { copy: null, copyError: null }
+  let pending: Buffer[] = []
+  let bytesRead = 0
+  let skipBom = sniff.bomBytes
+
+  const feed = (text: string) => {
+    try {
+      tokenizer.push(text)
+    } catch (error) {
+      throw error instanceof CsvSyntaxError ? syntaxToBadFile(error, intake, limits) : error
+    }
+  }
+  const flush = async () => {
+    if (!state.copy && intake.columnNames) {
+      await createRowsTable(trx, versionId, intake.columnNames.length)
+      const copy = await openCopyIn(trx, versionId, intake.columnNames.length, mode === 'original-bytes' ? { kind: 'csv', delimiter: sniff.delimiter } : { kind: 'text' })
+      copy.on('error', (error: Error) => {
+        state.copyError ??= error
+      })
+      state.copy = copy
+    }
+    const copy = state.copy
+    if (!copy || state.copyError) {
+      if (state.copyError) pending = []
+      return
+    }
+    for (const buffer of pending) {
+      if (!copy.write(buffer)) await waitForDrain(copy)
+      if (state.copyError) break
+    }
+    pending = []
+  }
+
+  try {
+    for await (const chunk of createReadStream(path, { highWaterMark: 256 * 1024 }) as AsyncIterable<Buffer>) {
+      hash.update(chunk)
+      bytesRead += chunk.length
+      let bytes = chunk
+      if (skipBom) {
+        bytes = chunk.subarray(skipBom)
+        skipBom = 0
+      }
+      const text = decoder.write(bytes)
+      feed(text)
+      if (mode === 'original-bytes') {
+        if (tokenizer.fastPathBlocker) throw new FastPathBlocked(tokenizer.fastPathBlocker)
+        pending.push(...trailing.take(sniff.encoding === 'utf-8' ? bytes : Buffer.from(text, 'utf8')))
+      } else if (encoded.length) {
+        pending.push(Buffer.from(encoded.join(''), 'utf8'))
+        encoded = []
+      }
+      await flush()
+      progress.update({ phase: 'storing', bytesRead, rowsStored: intake.dataRows })
+    }
+    feed(decoder.end())
+    try {
+      tokenizer.end()
+    } catch (error) {
+      throw error instanceof CsvSyntaxError ? syntaxToBadFile(error, intake, limits) : error
+    }
+    if (mode === 'original-bytes' && tokenizer.fastPathBlocker) throw new FastPathBlocked(tokenizer.fastPathBlocker)
+    const result = intake.finish()
+    if (mode === 'parsed-rows' && encoded.length) pending.push(Buffer.from(encoded.join(''), 'utf8'))
+    encoded = []
+    await flush()
+    const stream = state.copy
+    if (!stream) throw new Error('no rows table was created')
+    if (!state.copyError) {
+      stream.end()
+      await finished(stream).catch((error: Error) => {
+        state.copyError ??= error
+      })
+    }
+    if (state.copyError) {
+      if (mode === 'original-bytes') throw new FastPathBlocked(`PostgreSQL refused the file as it is: ${state.copyError.message}`)
+      throw state.copyError
+    }
+    if (stream.rowCount !== result.rowCount) {
+      const message = `COPY stored ${stream.rowCount} rows where the file has ${result.rowCount}`
+      if (mode === 'original-bytes') throw new FastPathBlocked(message)
+      throw new Error(message)
+    }
+    return { intake: result, sha256: hash.digest('hex') }
+  } catch (error) {
+    const open = state.copy
+    if (open && !open.writableFinished) {
+      // Abandon the COPY (pg-copy-streams sends CopyFail); the caller's rollback follows on the same connection.
+      open.destroy()
+      await new Promise((resolve) => setImmediate(resolve))
+    }
+    throw error
+  }
+}

@@ -1,0 +1,154 @@
+import type { ColumnType, Exclusion, ExclusionRule, ExclusionUnit } from '../../shared/schemas/datasets'
+import { numberPatternSql, TRIM_CHARS_SQL, type DecimalMark } from '../ingest/number-text'
+import { cellColumn, rowsTable } from './datasets-rows.repo'
+import { defaultConn, type Conn } from './connection'
+
+/**
+ * SQL over a version's row table. Everything here is built from column positions (integers) and
+ * escaped literals, never from raw user text, because COPY (used for read-back) takes no bind
+ * parameters; the same builders serve the paged preview so both agree on what "excluded" means.
+ */
+
+export interface RowTableShape {
+  versionId: number
+  decimalMark: DecimalMark
+  naValues: readonly string[]
+  /** Column name → position and inferred type. */
+  columns: ReadonlyMap<string, { position: number; type: ColumnType }>
+}
+
+/** A string literal safe whatever standard_conforming_strings says. */
+export function sqlText(value: string): string {
+  return `E'${value.replaceAll('\\', '\\\\').replaceAll("'", "''")}'`
+}
+
+const trimmed = (position: number) => `btrim(${cellColumn(position)}, ${TRIM_CHARS_SQL})`
+
+const naArray = (shape: RowTableShape) => `ARRAY[${shape.naValues.map(sqlText).join(', ')}]::text[]`
+
+/** True when the cell is missing: NULL, empty or one of the version's missing-value words. */
+export function missingSql(shape: RowTableShape, position: number): string {
+  return `(${cellColumn(position)} IS NULL OR ${trimmed(position)} = ANY(${naArray(shape)}))`
+}
+
+/** The cell as a number (numeric, so even 1e400 casts), NULL when it is not written as one. */
+export function numberSql(shape: RowTableShape, position: number): string {
+  const t = trimmed(position)
+  return `(CASE WHEN ${t} ~ '${numberPatternSql(shape.decimalMark)}' THEN replace(${t}, ',', '.')::numeric END)`
+}
+
+const COMPARISON: Record<Exclude<ExclusionRule['operator'], 'missing'>, string> = { eq: '=', ne: '<>', lt: '<', le: '<=', gt: '>', ge: '>=' }
+
+const isNumericType = (type: ColumnType) => type === 'integer' || type === 'numeric'
+
+/**
+ * A rule as SQL. Numeric columns compare as numbers, text columns as trimmed text (equal / not
+ * equal only). Comparisons never match a missing cell: "missing" is its own operator.
+ * The service has checked the column, operator and value beforehand.
+ */
+export function ruleSql(shape: RowTableShape, rule: ExclusionRule): string {
+  const column = shape.columns.get(rule.column)
+  if (!column) throw new Error(`unknown column ${rule.column}`)
+  if (rule.operator === 'missing') return missingSql(shape, column.position)
+  const op = COMPARISON[rule.operator]
+  if (isNumericType(column.type) && typeof rule.value === 'number') {
+    return `(${numberSql(shape, column.position)} ${op} ${numericLiteral(rule.value)})`
+  }
+  return `(NOT ${missingSql(shape, column.position)} AND ${trimmed(column.position)} ${op} ${sqlText(String(rule.value))})`
+}
+
+function numericLiteral(value: number): string {
+  if (!Number.isFinite(value)) throw new Error('rule value must be finite')
+  return `${String(value)}::numeric`
+}
+
+export function unitSql(shape: RowTableShape, unit: ExclusionUnit): string {
+  const parts = unit.path.map((step) => {
+    const column = shape.columns.get(step.column)
+    if (!column) throw new Error(`unknown column ${step.column}`)
+    return `${trimmed(column.position)} = ${sqlText(step.value)}`
+  })
+  return `(${parts.join(' AND ')})`
+}
+
+export function exclusionSql(shape: RowTableShape, exclusion: Pick<Exclusion, 'kind' | 'rule' | 'unit'>): string {
+  return exclusion.kind === 'rule' ? ruleSql(shape, exclusion.rule!) : unitSql(shape, exclusion.unit!)
+}
+
+/** True for rows any of the exclusions leaves out ("false" when there are none). */
+export function excludedSql(shape: RowTableShape, exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[]): string {
+  if (!exclusions.length) return 'false'
+  return `(${exclusions.map((e) => `coalesce(${exclusionSql(shape, e)}, false)`).join(' OR ')})`
+}
+
+export async function countRowsWhere(shape: RowTableShape, predicate: string, conn: Conn = defaultConn): Promise<number> {
+  const result = await conn.raw(`SELECT count(*)::bigint AS n FROM ${rowsTable(shape.versionId)} WHERE ${predicate}`)
+  return Number(result.rows[0].n)
+}
+
+/** First kept row whose cell is present but not a number, for "row 57 holds 'abc'" messages. */
+export async function firstNonNumberRow(shape: RowTableShape, position: number, excluded: string, conn: Conn = defaultConn): Promise<{ rowNo: number; value: string } | null> {
+  const c = cellColumn(position)
+  const result = await conn.raw(
+    `SELECT row_no, ${c} AS value FROM ${rowsTable(shape.versionId)}
+     WHERE NOT ${excluded} AND NOT ${missingSql(shape, position)} AND ${numberSql(shape, position)} IS NULL
+     ORDER BY row_no LIMIT 1`,
+  )
+  const row = result.rows[0] as { row_no: number; value: string } | undefined
+  return row ? { rowNo: Number(row.row_no), value: row.value } : null
+}
+
+export interface PageRequest {
+  offset: number
+  limit: number
+  sortPosition: number | null
+  sortNumeric: boolean
+  sortDesc: boolean
+  show: 'all' | 'included' | 'excluded'
+  exclusions: readonly Pick<Exclusion, 'id' | 'kind' | 'rule' | 'unit'>[]
+  columnCount: number
+}
+
+export interface PageRow {
+  rowNo: number
+  values: (string | null)[]
+  excludedBy: number[]
+}
+
+/**
+ * One page of rows in file order or sorted by a column (numbers numerically, missing last), with
+ * the exclusions that leave each row out. Unsorted pages of all rows use the row_no range directly.
+ */
+export async function pageRows(shape: RowTableShape, page: PageRequest, conn: Conn = defaultConn): Promise<PageRow[]> {
+  const table = rowsTable(shape.versionId)
+  const cells = Array.from({ length: page.columnCount }, (_, k) => cellColumn(k + 1)).join(', ')
+  const excluded = excludedSql(shape, page.exclusions)
+  const excludedBy = page.exclusions.length
+    ? `array_remove(ARRAY[${page.exclusions.map((e) => `CASE WHEN coalesce(${exclusionSql(shape, e)}, false) THEN ${Number(e.id)} END`).join(', ')}]::bigint[], NULL)`
+    : `'{}'::bigint[]`
+  let where = page.show === 'included' ? `NOT ${excluded}` : page.show === 'excluded' ? excluded : 'true'
+  let order = 'row_no'
+  let limit = `LIMIT ${page.limit} OFFSET ${page.offset}`
+  if (page.sortPosition !== null) {
+    const key = page.sortNumeric ? numberSql(shape, page.sortPosition) : trimmed(page.sortPosition)
+    const direction = page.sortDesc ? 'DESC' : 'ASC'
+    order = `${key} ${direction} NULLS LAST, row_no ${direction}`
+  } else if (page.show === 'all') {
+    // row_no is 1…N without gaps (rows are never deleted), so a page is a range.
+    where = page.sortDesc ? `row_no <= (SELECT max(row_no) FROM ${table}) - ${page.offset}` : `row_no > ${page.offset}`
+    order = page.sortDesc ? 'row_no DESC' : 'row_no'
+    limit = `LIMIT ${page.limit}`
+  } else if (page.sortDesc) order = 'row_no DESC'
+  const result = await conn.raw(`SELECT row_no, ${cells}, ${excludedBy} AS excluded_by FROM ${table} WHERE ${where} ORDER BY ${order} ${limit}`)
+  return (result.rows as Record<string, unknown>[]).map((row) => ({
+    rowNo: Number(row.row_no),
+    values: Array.from({ length: page.columnCount }, (_, k) => row[cellColumn(k + 1)] as string | null),
+    excludedBy: (row.excluded_by as (number | string)[]).map(Number),
+  }))
+}
+
+/** The SELECT for read-back: row_no then the asked cells, kept rows only, in file order. */
+export function readBackSelect(shape: RowTableShape, positions: readonly number[], excluded: string): string {
+  const cells = positions.map((p) => cellColumn(p)).join(', ')
+  return `SELECT row_no, ${cells} FROM ${rowsTable(shape.versionId)} WHERE NOT ${excluded} ORDER BY row_no`
+}

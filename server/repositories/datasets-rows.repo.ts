@@ -1,0 +1,81 @@
+import type { Knex } from 'knex'
+import type pg from 'pg'
+import { from as copyFrom, to as copyTo } from 'pg-copy-streams'
+import type { Readable, Writable } from 'node:stream'
+import { defaultConn, type Conn } from './connection'
+
+/**
+ * The per-version row tables: `dataset_rows_<version id>` with `row_no` (file order, 1-based) and one
+ * text column per file column, `c1` … `cN` (names live in dataset_columns). Identifiers are built
+ * from integers only, never from user text.
+ */
+
+export function rowsTable(versionId: number): string {
+  if (!Number.isSafeInteger(versionId) || versionId <= 0) throw new Error(`invalid version id ${versionId}`)
+  return `dataset_rows_${versionId}`
+}
+
+export function cellColumn(position: number): string {
+  if (!Number.isSafeInteger(position) || position <= 0) throw new Error(`invalid column position ${position}`)
+  return `c${position}`
+}
+
+const columnList = (count: number) => Array.from({ length: count }, (_, k) => cellColumn(k + 1)).join(', ')
+
+/** The node-postgres client behind a knex transaction (the connection the transaction runs on). */
+async function transactionClient(trx: Knex.Transaction): Promise<pg.PoolClient> {
+  return (await trx.client.acquireConnection()) as pg.PoolClient
+}
+
+export async function createRowsTable(trx: Knex.Transaction, versionId: number, columnCount: number): Promise<void> {
+  const columns = Array.from({ length: columnCount }, (_, k) => `${cellColumn(k + 1)} text`).join(', ')
+  // Identity cache: fewer sequence updates while COPY numbers a million rows.
+  await trx.raw(`CREATE TABLE ${rowsTable(versionId)} (row_no bigint GENERATED ALWAYS AS IDENTITY (CACHE 1000), ${columns})`)
+}
+
+/** Rows are never updated, so row_no follows the physical order: a BRIN index is tiny and quick to build. */
+export async function indexRowsTable(trx: Knex.Transaction, versionId: number): Promise<void> {
+  const table = rowsTable(versionId)
+  await trx.raw(`CREATE INDEX ${table}_row_no ON ${table} USING brin (row_no)`)
+}
+
+export async function dropRowsTable(conn: Conn, versionId: number): Promise<void> {
+  await conn.raw(`DROP TABLE IF EXISTS ${rowsTable(versionId)}`)
+}
+
+const sqlLiteral = (text: string) => (text === '\t' ? `E'\\t'` : `'${text.replaceAll("'", "''")}'`)
+
+export type CopyInFormat = { kind: 'csv'; delimiter: string } | { kind: 'text' }
+
+/**
+ * A writable COPY … FROM STDIN into the version's table inside the transaction. CSV: the file's own
+ * bytes (UTF-8), header line skipped by PostgreSQL. Text: rows we encoded ourselves.
+ * Destroying the stream before it finishes makes PostgreSQL abandon the COPY.
+ */
+export async function openCopyIn(trx: Knex.Transaction, versionId: number, columnCount: number, format: CopyInFormat): Promise<Writable & { rowCount: number }> {
+  const options =
+    format.kind === 'csv' ? `FORMAT csv, HEADER true, DELIMITER ${sqlLiteral(format.delimiter)}, ENCODING 'UTF8'` : `FORMAT text, ENCODING 'UTF8'`
+  const sql = `COPY ${rowsTable(versionId)} (${columnList(columnCount)}) FROM STDIN (${options})`
+  const client = await transactionClient(trx)
+  return client.query(copyFrom(sql))
+}
+
+/**
+ * Streams `COPY (<select>) TO STDOUT` in text format to `consume`. The select is built by the caller
+ * from integer-derived identifiers and escaped literals only (COPY takes no bind parameters).
+ */
+export async function copyOut(select: string, consume: (stream: Readable) => Promise<void>, conn: Conn = defaultConn): Promise<void> {
+  const isTransaction = 'isTransaction' in conn && (conn as Knex.Transaction).isTransaction
+  const client = isTransaction ? await transactionClient(conn as Knex.Transaction) : ((await conn.client.acquireConnection()) as pg.PoolClient)
+  try {
+    await consume(client.query(copyTo(`COPY (${select}) TO STDOUT`)))
+  } finally {
+    if (!isTransaction) await conn.client.releaseConnection(client)
+  }
+}
+
+/** Row-table names present in the schema, for the startup sweep. */
+export async function listRowsTables(conn: Conn = defaultConn): Promise<number[]> {
+  const result = await conn.raw(`SELECT tablename FROM pg_tables WHERE schemaname = current_schema() AND tablename ~ '^dataset_rows_[0-9]+$'`)
+  return (result.rows as { tablename: string }[]).map((r) => Number(r.tablename.slice('dataset_rows_'.length)))
+}

@@ -1,0 +1,184 @@
+import type { Readable } from 'node:stream'
+import type { Exclusion } from '../../shared/schemas/datasets'
+import type { Factor, NestedColumns } from '../../shared/stats/types'
+import { NotFoundError, UnprocessableError } from '../errors/app-error'
+import { CopyTextReader, decodeCopyTextField } from '../ingest/copy-text'
+import { parseNumberText, trimCell } from '../ingest/number-text'
+import { activeExclusions } from '../repositories/datasets-annotations.repo'
+import { excludedSql, readBackSelect, type RowTableShape } from '../repositories/datasets-row-queries.repo'
+import { copyOut } from '../repositories/datasets-rows.repo'
+import { findVersionById, listColumns, type VersionRecord } from '../repositories/datasets.repo'
+import { defaultConn, type Conn } from '../repositories/connection'
+
+export async function shapeOf(version: VersionRecord, conn: Conn = defaultConn): Promise<RowTableShape> {
+  const columns = await listColumns(version.id, conn)
+  return {
+    versionId: version.id,
+    decimalMark: version.decimalMark,
+    naValues: version.naValues,
+    columns: new Map(columns.map((c) => [c.name, { position: c.position, type: c.type }])),
+  }
+}
+
+export interface ColumnRequest {
+  name: string
+  as: 'factor' | 'number'
+}
+
+export interface FactorColumn {
+  name: string
+  /** Codes into `labels` in order of first appearance; -1 for a missing label. */
+  codes: Int32Array
+  labels: string[]
+}
+
+export interface ReadColumns {
+  /** Kept rows read, in file order. */
+  count: number
+  /** row_no of each kept row (data row number, 1-based). */
+  rowNos: Float64Array
+  factors: Map<string, FactorColumn>
+  /** NaN for a missing cell or one that is not a number (see `notNumbers`). */
+  numbers: Map<string, Float64Array>
+  /** First kept cell per number column that holds text that is not a number, or overflows. */
+  notNumbers: Map<string, { rowNo: number; value: string }>
+}
+
+/**
+ * Reads the asked columns of a version's kept rows with one `COPY (SELECT …) TO STDOUT`, parsed by
+ * hand into typed arrays: factors as codes (labels trimmed, as in the profile), numbers by the
+ * version's decimal mark. Far faster than row objects for a million rows.
+ */
+export async function readColumns(
+  version: VersionRecord,
+  shape: RowTableShape,
+  requests: readonly ColumnRequest[],
+  exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
+  conn: Conn = defaultConn,
+): Promise<ReadColumns> {
+  const positions = requests.map((r) => {
+    const column = shape.columns.get(r.name)
+    if (!column) throw new NotFoundError(`The column "${r.name}" is not in this version.`)
+    return column.position
+  })
+  const capacity = version.rowCount
+  const rowNos = new Float64Array(capacity)
+  const na = new Set(version.naValues)
+  const factorState = requests.map((r) => (r.as === 'factor' ? { codes: new Int32Array(capacity), labels: [] as string[], index: new Map<string, number>() } : null))
+  const numberState = requests.map((r) => (r.as === 'number' ? new Float64Array(capacity) : null))
+  const notNumbers = new Map<string, { rowNo: number; value: string }>()
+  const mark = version.decimalMark
+  let count = 0
+
+  const reader = new CopyTextReader((fields) => {
+    const i = count++
+    const rowNo = Number(fields[0])
+    rowNos[i] = rowNo
+    for (let k = 0; k < requests.length; k++) {
+      const raw = fields[k + 1]
+      const decoded = raw === '\\N' ? null : decodeCopyTextField(raw)
+      const text = decoded === null ? '' : trimCell(decoded)
+      const factor = factorState[k]
+      if (factor) {
+        if (na.has(text)) {
+          factor.codes[i] = -1
+          continue
+        }
+        let code = factor.index.get(text)
+        if (code === undefined) {
+          code = factor.labels.length
+          factor.index.set(text, code)
+          factor.labels.push(text)
+        }
+        factor.codes[i] = code
+      } else {
+        const out = numberState[k]!
+        if (na.has(text)) {
+          out[i] = NaN
+          continue
+        }
+        const value = parseNumberText(text, mark)
+        if (!Number.isFinite(value)) {
+          out[i] = NaN
+          if (!notNumbers.has(requests[k].name)) notNumbers.set(requests[k].name, { rowNo, value: text })
+        } else out[i] = value
+      }
+    }
+  })
+  const select = readBackSelect(shape, positions, excludedSql(shape, exclusions))
+  await copyOut(
+    select,
+    async (stream: Readable) => {
+      for await (const chunk of stream) reader.push(chunk as Buffer)
+      reader.end()
+    },
+    conn,
+  )
+  const factors = new Map<string, FactorColumn>()
+  const numbers = new Map<string, Float64Array>()
+  requests.forEach((r, k) => {
+    const factor = factorState[k]
+    if (factor) factors.set(r.name, { name: r.name, codes: factor.codes.subarray(0, count), labels: factor.labels })
+    else numbers.set(r.name, numberState[k]!.subarray(0, count))
+  })
+  return { count, rowNos: rowNos.subarray(0, count), factors, numbers, notNumbers }
+}
+
+export interface ReadBackTagging {
+  /** The one response column to load (a tagging may name several). */
+  response: string
+  condition: string | null
+  /** Outermost first. */
+  levels: readonly string[]
+}
+
+/** File row of a data row, for messages ("row 57" as the spreadsheet shows it). */
+export const fileRow = (version: Pick<VersionRecord, 'headerRow'>, rowNo: number) => version.headerRow + rowNo
+
+/**
+ * The engine's input for one response of a tagged version: kept rows only (exclusions applied),
+ * in file order, factor codes for the levels and the condition, NaN for a missing response.
+ * Refuses (422, naming the row) a kept row without a label at some level or condition, and a
+ * response cell that holds text which is not a number.
+ *
+ * @param exclusions defaults to the version's active exclusions
+ */
+export async function loadNestedColumns(
+  versionId: number,
+  tagging: ReadBackTagging,
+  exclusions?: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
+  conn: Conn = defaultConn,
+): Promise<NestedColumns> {
+  const version = await findVersionById(versionId, conn)
+  if (!version) throw new NotFoundError('Dataset version not found.')
+  const shape = await shapeOf(version, conn)
+  const applied = exclusions ?? (await activeExclusions(versionId, conn))
+  const requests: ColumnRequest[] = [
+    { name: tagging.response, as: 'number' },
+    ...tagging.levels.map((name) => ({ name, as: 'factor' as const })),
+    ...(tagging.condition ? [{ name: tagging.condition, as: 'factor' as const }] : []),
+  ]
+  const read = await readColumns(version, shape, requests, applied, conn)
+  const notNumber = read.notNumbers.get(tagging.response)
+  if (notNumber) {
+    throw new UnprocessableError(`Row ${fileRow(version, notNumber.rowNo)} of “${tagging.response}” holds “${notNumber.value}”, which is not a number. Exclude that row or correct the file.`, {
+      column: tagging.response,
+      row: fileRow(version, notNumber.rowNo),
+    })
+  }
+  const toFactor = (name: string): Factor => {
+    const column = read.factors.get(name)!
+    const missingAt = column.codes.indexOf(-1)
+    if (missingAt !== -1) {
+      const row = fileRow(version, read.rowNos[missingAt])
+      throw new UnprocessableError(`Row ${row} has no value in “${name}”. Every row needs a label there; exclude such rows with the rule “${name} is missing”.`, { column: name, row })
+    }
+    return { name, codes: column.codes, labels: column.labels }
+  }
+  return {
+    responseName: tagging.response,
+    response: read.numbers.get(tagging.response)!,
+    levels: tagging.levels.map(toFactor),
+    condition: tagging.condition ? toFactor(tagging.condition) : null,
+  }
+}

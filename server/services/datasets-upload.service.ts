@@ -1,0 +1,209 @@
+import { basename, extname, join } from 'node:path'
+import { rm } from 'node:fs/promises'
+import type { Knex } from 'knex'
+import type { CurrentUser } from '../../shared/schemas/auth'
+import type { DatasetDetail, DatasetUploadFields, DatasetVersionDetail, NestingSuggestion } from '../../shared/schemas/datasets'
+import { suggestNesting, type SuggestionColumn } from '../../shared/nesting/suggest-nesting'
+import { db } from '../db'
+import { NotFoundError } from '../errors/app-error'
+import { MISSING_CODE } from '../ingest/column-profiler'
+import { ingestConfig } from '../ingest/ingest-config'
+import { ingestFile, type UploadedFile } from '../ingest/ingest-file'
+import { discardOriginal, holdHash, keepOriginal, staleFiles } from '../ingest/original-store'
+import type { IntakeResult } from '../ingest/table-intake'
+import type { ProgressSink } from '../ingest/upload-progress'
+import { logger } from '../logger'
+import { currentTagging, insertTagging } from '../repositories/datasets-annotations.repo'
+import { dropRowsTable, indexRowsTable, listRowsTables } from '../repositories/datasets-rows.repo'
+import {
+  completeVersion,
+  countVersionsWithSha,
+  deleteVersions,
+  insertColumns,
+  insertDataset,
+  insertVersion,
+  listAllVersionIds,
+  listUnfinishedVersionIds,
+  listVersionHashes,
+  listVersions,
+  lockDatasetForNewVersion,
+} from '../repositories/datasets.repo'
+import { findOrInsertProject, findProject } from '../repositories/projects.repo'
+import { assertCanWriteInLab, datasetFor } from './datasets-access.service'
+import { getDatasetDetail, getVersionDetail } from './datasets.service'
+
+/** The nesting suggestion from the codes the profiler kept during ingest (no second pass over the rows). */
+export function suggestionFromIntake(intake: IntakeResult): NestingSuggestion {
+  const columns: SuggestionColumn[] = intake.profiles.map((profile, k) => {
+    const codes = intake.codes[k]
+    return {
+      name: profile.name,
+      type: profile.type,
+      distinctCount: profile.distinctCount,
+      missingCount: profile.missingCount,
+      coded: codes ? { name: profile.name, codes: codes.codes, labels: codes.labels, missingCode: MISSING_CODE } : null,
+    }
+  })
+  return suggestNesting(intake.rowCount, columns)
+}
+
+interface StoredVersion {
+  versionId: number
+  sha256: string
+  createdOriginal: boolean
+}
+
+/**
+ * Stores one upload as version `versionNo` of `datasetId`, inside `trx`: the version row, the rows
+ * table (COPY), column profiles, the nesting suggestion, and the original file. When the previous
+ * version has a tagging whose columns all exist (responses still numeric), it is carried over.
+ */
+async function storeVersion(
+  trx: Knex.Transaction,
+  datasetId: number,
+  versionNo: number,
+  user: CurrentUser,
+  file: UploadedFile,
+  sheet: string | undefined,
+  progress: ProgressSink,
+  onOriginalKept: (sha256: string, created: boolean) => void,
+): Promise<StoredVersion> {
+  const started = performance.now()
+  const versionId = await insertVersion(
+    { datasetId, versionNo, originalFilename: file.originalName, byteSize: file.size, naValues: [...ingestConfig.naValues], createdBy: user.id },
+    trx,
+  )
+  const outcome = await ingestFile(trx, versionId, file, { sheet, progress })
+  progress.update({ phase: 'profiling', bytesRead: file.size, rowsStored: outcome.intake.rowCount })
+  await indexRowsTable(trx, versionId)
+  await insertColumns(versionId, outcome.intake.profiles, trx)
+  const suggestion = suggestionFromIntake(outcome.intake)
+  await completeVersion(
+    versionId,
+    {
+      sha256: outcome.sha256,
+      fileType: outcome.fileType,
+      encoding: outcome.encoding,
+      delimiter: outcome.delimiter,
+      decimalMark: outcome.decimalMark,
+      sheetName: outcome.sheetName,
+      sheetNames: outcome.sheetNames,
+      headerRow: outcome.intake.headerRow,
+      rowCount: outcome.intake.rowCount,
+      columnCount: outcome.intake.columnNames.length,
+      suggestion,
+      ingestMs: Math.round(performance.now() - started),
+    },
+    trx,
+  )
+  if (versionNo > 1) await carryOverTagging(trx, datasetId, versionNo, versionId, outcome.intake, user)
+  const created = await keepOriginal(file.path, outcome.sha256)
+  onOriginalKept(outcome.sha256, created)
+  if (outcome.fallbackReason) logger.info('dataset stored from parsed rows', { versionId, reason: outcome.fallbackReason })
+  return { versionId, sha256: outcome.sha256, createdOriginal: created }
+}
+
+async function carryOverTagging(trx: Knex.Transaction, datasetId: number, versionNo: number, versionId: number, intake: IntakeResult, user: CurrentUser) {
+  const previous = (await listVersions(datasetId, trx)).find((v) => v.versionNo === versionNo - 1)
+  if (!previous) return
+  const tagging = await currentTagging(previous.id, trx)
+  if (!tagging) return
+  const types = new Map(intake.profiles.map((p) => [p.name, p.type]))
+  const names = [...tagging.responseColumns, ...tagging.levels, ...(tagging.conditionColumn ? [tagging.conditionColumn] : [])]
+  if (!names.every((n) => types.has(n))) return
+  if (!tagging.responseColumns.every((n) => types.get(n) === 'numeric' || types.get(n) === 'integer')) return
+  await insertTagging(
+    { versionId, responseColumns: tagging.responseColumns, conditionColumn: tagging.conditionColumn, levels: tagging.levels, carriedOver: true, createdBy: user.id },
+    trx,
+  )
+}
+
+/**
+ * Runs `work` in one transaction. If it fails after the original was moved into the store, the
+ * stored file goes too unless a committed version refers to the same bytes.
+ */
+async function inUploadTransaction<T>(work: (trx: Knex.Transaction, onOriginalKept: (sha: string, created: boolean) => void) => Promise<T>): Promise<T> {
+  let kept: { sha256: string; created: boolean } | null = null
+  let release: (() => void) | null = null
+  try {
+    return await db.transaction((trx) =>
+      work(trx, (sha256, created) => {
+        kept = { sha256, created }
+        release = holdHash(sha256)
+      }),
+    )
+  } catch (error) {
+    const stored = kept as { sha256: string; created: boolean } | null
+    if (stored?.created) {
+      ;(release as (() => void) | null)?.()
+      release = null
+      if ((await countVersionsWithSha(stored.sha256)) === 0) await discardOriginal(stored.sha256)
+    }
+    throw error
+  } finally {
+    ;(release as (() => void) | null)?.()
+  }
+}
+
+function defaultName(originalName: string): string {
+  const stem = basename(originalName, extname(originalName)).trim()
+  return stem.slice(0, 200) || 'Untitled dataset'
+}
+
+/** A new dataset from an upload (version 1). The whole thing is one transaction: all stored or nothing. */
+export async function createDatasetFromUpload(user: CurrentUser, fields: DatasetUploadFields, file: UploadedFile, progress: ProgressSink): Promise<DatasetDetail> {
+  assertCanWriteInLab(user, fields.labId)
+  if (fields.projectId !== undefined) {
+    const project = await findProject(fields.projectId)
+    if (!project || project.labId !== fields.labId) throw new NotFoundError('Project not found in this lab.')
+  }
+  const datasetId = await inUploadTransaction(async (trx, onOriginalKept) => {
+    const projectId = fields.projectId ?? (await findOrInsertProject({ labId: fields.labId, name: fields.projectName!, createdBy: user.id }, trx))
+    const id = await insertDataset(
+      { labId: fields.labId, projectId, name: fields.name ?? defaultName(file.originalName), description: fields.description, createdBy: user.id },
+      trx,
+    )
+    await storeVersion(trx, id, 1, user, file, fields.sheet, progress, onOriginalKept)
+    return id
+  })
+  return getDatasetDetail(user, datasetId)
+}
+
+/** A new version of an existing dataset; earlier versions stay as they are. */
+export async function addVersionFromUpload(user: CurrentUser, datasetId: number, sheet: string | undefined, file: UploadedFile, progress: ProgressSink): Promise<DatasetVersionDetail> {
+  await datasetFor(user, datasetId, 'write')
+  const versionNo = await inUploadTransaction(async (trx, onOriginalKept) => {
+    const next = await lockDatasetForNewVersion(datasetId, trx)
+    await storeVersion(trx, datasetId, next, user, file, sheet, progress, onOriginalKept)
+    await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
+    return next
+  })
+  return getVersionDetail(user, datasetId, versionNo)
+}
+
+const DAY_MS = 24 * 60 * 60 * 1000
+const HOUR_MS = 60 * 60 * 1000
+
+/**
+ * Startup sweep. Ingest commits a version together with its rows table, so a crash leaves nothing
+ * behind in the database; this still removes, in one transaction, any version not marked ready and
+ * any rows table without a version. Upload temp files older than a day and stored originals no
+ * version refers to (older than an hour, so uploads in flight are safe) are deleted.
+ */
+export async function sweepDatasetLeftovers(): Promise<{ versions: number; tables: number; tempFiles: number; originals: number }> {
+  const { versions, tables } = await db.transaction(async (trx) => {
+    const unfinished = await listUnfinishedVersionIds(trx)
+    for (const id of unfinished) await dropRowsTable(trx, id)
+    await deleteVersions(unfinished, trx)
+    const known = await listAllVersionIds(trx)
+    const orphans = (await listRowsTables(trx)).filter((id) => !known.has(id))
+    for (const id of orphans) await dropRowsTable(trx, id)
+    return { versions: unfinished.length, tables: orphans.length }
+  })
+  const temp = await staleFiles(ingestConfig.uploadsDir, DAY_MS)
+  for (const name of temp) await rm(join(ingestConfig.uploadsDir, name), { force: true })
+  const hashes = await listVersionHashes()
+  const unreferenced = (await staleFiles(ingestConfig.originalsDir, HOUR_MS)).filter((name) => /^[0-9a-f]{64}$/.test(name) && !hashes.has(name))
+  for (const name of unreferenced) await discardOriginal(name)
+  return { versions, tables, tempFiles: temp.length, originals: unreferenced.length }
+}
