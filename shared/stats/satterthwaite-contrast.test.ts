@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { EngineInputError } from './engine-input-error'
 import { fitNestedReml } from './fit-nested-reml'
 import { dyestuff } from './fixtures/dyestuff'
+import { dyestuff2 } from './fixtures/dyestuff2'
 import { machines } from './fixtures/machines'
 import { nestedColumnsFromTable } from './fixtures/nested-columns-from-table'
 import { pastes } from './fixtures/pastes'
@@ -47,6 +48,32 @@ describe('satterthwaiteContrast', () => {
     expect(c2.se).toBeCloseTo(0.6768702, 6)
     expect(c2.df).toBeCloseTo(9, 5)
     expect(c2.t).toBeCloseTo(88.72208, 4)
+  })
+
+  it('drops a variance estimated at 0 (Dyestuff2 boundary)', () => {
+    // Dyestuff2, lmerTest 3.1-3 contest(): intercept SE 0.6783880, df 29 (= n − 1 at the boundary),
+    // p 3.318293e-09.
+    const d = setup(dyestuff2, 'Yield', ['Batch'])
+    const c = satterthwaiteContrast(d.design, d.fit, [1])
+    expect(c.se).toBeCloseTo(0.678388, 6)
+    expect(c.df).toBeCloseTo(29, 6)
+    expect(c.p / 3.318293e-9).toBeCloseTo(1, 5)
+  })
+
+  it('does not depend on row order (common practice, no source)', () => {
+    const n = machines.score.length
+    const order = Array.from({ length: n }, (_, i) => (i * 17) % n)
+    const shuffled = Object.fromEntries(Object.entries(machines).map(([k, v]) => [k, order.map((i) => v[i])]))
+    const s = setup(shuffled, 'score', ['Worker'], 'Machine')
+    // Labels appear in another order after shuffling: fix the reference so the coding matches.
+    const s2 = { design: prepareNestedDesign(nestedColumnsFromTable(shuffled, 'score', ['Worker'], 'Machine'), { reference: 'A' }) }
+    const fit2 = fitNestedReml(s2.design)
+    const iB = s2.design.condition!.labels.indexOf('B')
+    const a = satterthwaiteContrast(m.design, m.fit, [1, 1, 0])
+    const b = satterthwaiteContrast(s2.design, fit2, fit2.beta.map((_, i) => (i === 0 || i === iB ? 1 : 0)))
+    expect(b.estimate).toBeCloseTo(a.estimate, 9)
+    expect(b.df).toBeCloseTo(a.df, 6)
+    expect(s.fit.remlCriterion).toBeCloseTo(m.fit.remlCriterion, 9)
   })
 
   it('guards its contrast vector', () => {
