@@ -17,9 +17,14 @@ const MISSING_TOKENS = new Set(['', 'NA', 'N/A', 'NaN', 'nan', 'na', 'n/a', '.',
 class FactorBuilder {
   readonly codeOf = new Map<string, number>()
   readonly labels: string[] = []
-  codes = new Int32Array(1024)
+  codes: Int32Array
 
-  constructor(readonly name: string) {}
+  constructor(
+    readonly name: string,
+    capacity: number,
+  ) {
+    this.codes = new Int32Array(capacity)
+  }
 
   /** Code of a (trimmed, non-empty) label, adding it on first sight. */
   code(label: string): number {
@@ -33,7 +38,8 @@ class FactorBuilder {
   }
 
   toFactor(length: number): Factor {
-    return { name: this.name, codes: this.codes.slice(0, length), labels: this.labels }
+    // A view, not a copy: the spare capacity is small when the reader reserved well.
+    return { name: this.name, codes: this.codes.subarray(0, length), labels: this.labels }
   }
 }
 
@@ -98,7 +104,7 @@ export class ColumnCollector {
     if (this.rows === 0) throw new CliInputError('The file has a header but no data rows.')
     return {
       responseName: this.selection.response,
-      response: this.response.slice(0, this.rows),
+      response: this.response.subarray(0, this.rows),
       levels: this.levels.map((level) => level.toFactor(this.rows)),
       condition: this.condition ? this.condition.toFactor(this.rows) : null,
     }
@@ -117,10 +123,10 @@ export class ColumnCollector {
     }
     this.responseIndex = find(this.selection.response)
     this.levelIndices = this.selection.levels.map(find)
-    this.levels = this.selection.levels.map((name) => new FactorBuilder(name))
+    this.levels = this.selection.levels.map((name) => new FactorBuilder(name, this.response.length))
     if (this.selection.condition) {
       this.conditionIndex = find(this.selection.condition)
-      this.condition = new FactorBuilder(this.selection.condition)
+      this.condition = new FactorBuilder(this.selection.condition, this.response.length)
     }
     this.headerSeen = true
   }
@@ -143,8 +149,16 @@ export class ColumnCollector {
     return value
   }
 
+  /** Makes room for about `rows` data rows at once, so a large file is not copied while it grows. */
+  reserve(rows: number): void {
+    if (rows > this.response.length) this.resize(Math.ceil(rows))
+  }
+
   private grow(): void {
-    const size = this.response.length * 2
+    this.resize(this.response.length * 2)
+  }
+
+  private resize(size: number): void {
     const response = new Float64Array(size)
     response.set(this.response)
     this.response = response

@@ -106,6 +106,21 @@ describe('readColumnsFromFile', () => {
     expect(columns.condition?.labels).toEqual(['β'])
   })
 
+  it('reserves room from the first chunk and still reads a file longer than estimated', async () => {
+    // Long rows first, short rows later: the estimate from the first chunk is too small and the columns must grow.
+    const lines = ['lab,animal,treatment,length']
+    for (let i = 0; i < 60000; i++) lines.push(i >= 30000 ? `A,${i % 9},v,${i}` : `Lab-with-a-much-longer-name-${i % 4},animal-${i % 9},vehicle,${i}`)
+    const path = join(folder, 'uneven.csv')
+    writeFileSync(path, lines.join('\n'))
+    const columns = await readColumnsFromFile(path, selection)
+    expect(columns.response.length).toBe(60000)
+    expect(columns.levels.map((l) => l.codes.length)).toEqual([60000, 60000])
+    expect(columns.condition!.codes.length).toBe(60000)
+    expect(columns.response[59999]).toBe(59999)
+    expect(columns.levels[0].labels[columns.levels[0].codes[59999]]).toBe('A')
+    expect(columns.levels[0].labels[columns.levels[0].codes[29999]]).toBe('Lab-with-a-much-longer-name-3')
+  })
+
   it('reports an unreadable path and the first bad value of a long file', async () => {
     await expect(readColumnsFromFile(join(folder, 'absent.csv'), selection)).rejects.toThrow(/Cannot read ".*absent.csv": no such file/)
     await expect(readColumnsFromFile(folder, selection)).rejects.toThrow(/is a folder/)

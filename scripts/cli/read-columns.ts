@@ -74,12 +74,19 @@ function openText(path: string): Readable {
 export async function readColumnsFromFile(path: string, options: ReadColumnsOptions): Promise<NestedColumns> {
   const collector = new ColumnCollector(options)
   const input = openText(path)
+  const fileSize = statSync(path).size
   return new Promise((resolve, reject) => {
     let failure: unknown = null
+    let first = true
     Papa.parse<string[]>(input as unknown as File, {
       ...parseConfig(options),
       chunk: (results, parser) => {
         if (failure) return
+        if (first && results.data.length > 0 && results.meta.cursor > 0) {
+          // Rows in the whole file ≈ its size / the first chunk's characters per row (+5 %).
+          first = false
+          collector.reserve((1.05 * fileSize * results.data.length) / results.meta.cursor)
+        }
         try {
           for (const row of results.data) collector.add(row)
         } catch (error) {

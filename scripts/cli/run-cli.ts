@@ -2,8 +2,6 @@ import { EngineInputError } from '../../shared/stats/engine-input-error'
 import { ANALYZE_HELP, parseAnalyzeArgs } from './analyze-args'
 import { CliInputError } from './cli-input-error'
 import { PLAN_HELP, parsePlanArgs } from './plan-args'
-import { runAnalyze } from './run-analyze'
-import { runPlan } from './run-plan'
 
 export interface CliOutput {
   stdout: (text: string) => void
@@ -37,6 +35,8 @@ export async function runCli(argv: string[], out: CliOutput): Promise<number> {
         out.stdout(ANALYZE_HELP + '\n')
         return 0
       }
+      // Loaded on demand so each command starts without the other's dependencies.
+      const { runAnalyze } = await import('./run-analyze')
       out.stdout(JSON.stringify(await runAnalyze(args)) + '\n')
       return 0
     }
@@ -46,6 +46,7 @@ export async function runCli(argv: string[], out: CliOutput): Promise<number> {
         out.stdout(PLAN_HELP + '\n')
         return 0
       }
+      const { runPlan } = await import('./run-plan')
       out.stdout(JSON.stringify(runPlan(args)) + '\n')
       return 0
     }

@@ -17,14 +17,14 @@ export function naiveComparison(design: NestedDesign, pair: { a: string; b: stri
   const condition = design.condition
   if (!condition) return null
   const k = condition.labels.length
-  const groups: number[][] = condition.labels.map(() => [])
-  for (let i = 0; i < design.nObs; i++) groups[condition.codes[i]].push(design.y[i])
   try {
     if (k === 2 && pair) {
-      const [a, b] = [pair.a, pair.b].map((label) => summary(groups[condition.labels.indexOf(label)]))
+      const [a, b] = [pair.a, pair.b].map((label) => summary(design.y, condition.codes, condition.labels.indexOf(label)))
       const test = welchTest(a, b)
       return { method: 'welch', a: pair.a, b: pair.b, estimate: test.diff, se: test.se, t: test.t, df: test.df, p: test.p }
     }
+    const groups: number[][] = condition.labels.map(() => [])
+    for (let i = 0; i < design.nObs; i++) groups[condition.codes[i]].push(design.y[i])
     const anova = oneWayAnova(groups)
     return { method: 'one-way-anova', f: anova.f, df1: anova.dfBetween, df2: anova.dfWithin, p: anova.p }
   } catch (error) {
@@ -33,11 +33,18 @@ export function naiveComparison(design: NestedDesign, pair: { a: string; b: stri
   }
 }
 
-function summary(values: number[]) {
+/** n, mean and sample variance of one condition's observations (two passes, for accuracy). */
+function summary(y: Float64Array, codes: Int32Array, code: number) {
+  let n = 0
   let sum = 0
-  for (const v of values) sum += v
-  const mean = sum / values.length
+  for (let i = 0; i < y.length; i++) {
+    if (codes[i] === code) {
+      n++
+      sum += y[i]
+    }
+  }
+  const mean = sum / n
   let squares = 0
-  for (const v of values) squares += (v - mean) ** 2
-  return { n: values.length, mean, variance: squares / (values.length - 1) }
+  for (let i = 0; i < y.length; i++) if (codes[i] === code) squares += (y[i] - mean) ** 2
+  return { n, mean, variance: squares / (n - 1) }
 }

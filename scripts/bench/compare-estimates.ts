@@ -1,0 +1,60 @@
+import type { AnalysisResult } from '../../shared/schemas/analysis-result'
+
+/** What the R benchmark script prints (see lmer-bench.R). */
+export interface ReferenceEstimates {
+  components: Record<string, number>
+  contrasts: { a: string; b: string; estimate: number; se: number; df?: number }[]
+  means: { condition: string; estimate: number; se: number; df?: number }[]
+}
+
+export interface EstimateRow {
+  quantity: string
+  ours: number
+  reference: number | null
+  /** |ours − reference| / |reference|; null when the reference lacks the quantity. */
+  relativeDifference: number | null
+}
+
+/**
+ * Lines up the analyzer's estimates with a reference fit: variance components (R names nested
+ * levels by their path, "lab:animal"), each condition contrast (estimate, SE, df) and each
+ * condition mean (estimate, SE, df). Quantities the reference does not report get null.
+ */
+export function compareEstimates(result: AnalysisResult, reference: ReferenceEstimates): EstimateRow[] {
+  const rows: EstimateRow[] = []
+  const add = (quantity: string, ours: number, theirs: number | undefined) => {
+    const ref = theirs === undefined ? null : theirs
+    rows.push({ quantity, ours, reference: ref, relativeDifference: ref === null ? null : Math.abs(ours - ref) / Math.abs(ref) })
+  }
+  const givenNames = result.levels.map((l) => l.name)
+  for (const component of result.varianceComponents) {
+    const depth = givenNames.indexOf(component.level)
+    const key = depth >= 0 ? givenNames.slice(0, depth + 1).join(':') : component.level
+    add(`variance ${component.level}`, component.variance, reference.components[key])
+  }
+  for (const contrast of result.comparisons.mixedModel?.contrasts ?? []) {
+    const theirs = reference.contrasts.find((c) => c.a === contrast.a && c.b === contrast.b)
+    add(`contrast ${contrast.a} − ${contrast.b}`, contrast.estimate, theirs?.estimate)
+    add(`  SE`, contrast.se, theirs?.se)
+    add(`  Satterthwaite df`, contrast.df, theirs?.df)
+  }
+  for (const group of result.groups) {
+    const theirs = reference.means.find((m) => m.condition === group.condition)
+    add(`mean ${group.condition}`, group.clustered.estimate, theirs?.estimate)
+    add(`  SE`, group.clustered.se, theirs?.se)
+    add(`  Satterthwaite df`, group.clustered.df, theirs?.df)
+  }
+  return rows
+}
+
+/** Largest relative difference over the rows that have a reference value. */
+export function largestDifference(rows: EstimateRow[]): { quantity: string; value: number } | null {
+  let worst: { quantity: string; value: number } | null = null
+  let lastName = ''
+  for (const row of rows) {
+    const name = row.quantity.startsWith('  ') ? `${lastName.trim()} ${row.quantity.trim()}` : row.quantity
+    if (!row.quantity.startsWith('  ')) lastName = row.quantity
+    if (row.relativeDifference !== null && (!worst || row.relativeDifference > worst.value)) worst = { quantity: name, value: row.relativeDifference }
+  }
+  return worst
+}

@@ -1,0 +1,193 @@
+/**
+ * Engine benchmark (`npm run bench:engine [-- --quick] [-- --no-r] [-- --no-polish] [-- --keep]`).
+ *
+ * Generates a seeded, invented data set (full: 12 labs × 40 mice × 1,000–3,000 neurons ≈ 1M rows;
+ * --quick: 12 × 10 × 100–300), writes it as CSV to a temporary folder, and times:
+ *  1. `nestwise analyze` as a child process (parse + fit + Satterthwaite + summaries, bootstrap off),
+ *     three runs, with its peak memory (maxRSS reported by the child itself);
+ *  2. the same steps in this process, to show where the time goes;
+ *  3. lmerTest::lmer on the same file (Rscript, lme4 defaults), when Rscript is installed, and the
+ *     largest relative difference between the estimates; the R fit is then polished with a tight
+ *     optimiser tolerance (untimed) because lme4's default stopping rule can leave it short of the
+ *     optimum on a million rows;
+ *  4. `nestwise analyze --bootstrap 1000` and the bootstrap alone.
+ * Targets: ≥ 30× faster than lmerTest, estimates within 1e-4, peak memory < 1 GB, bootstrap < 10 s.
+ */
+import { spawnSync } from 'node:child_process'
+import { mkdtempSync, rmSync, statSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { dirname, join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { AnalysisResult } from '../../shared/schemas/analysis-result'
+import { analyzeNested } from '../../shared/stats/analyze-nested'
+import { fitNestedReml } from '../../shared/stats/fit-nested-reml'
+import { hierarchicalBootstrap } from '../../shared/stats/hierarchical-bootstrap'
+import { prepareNestedDesign } from '../../shared/stats/prepare-nested-design'
+import { readColumnsFromFile } from '../cli/read-columns'
+import { compareEstimates, largestDifference, type EstimateRow, type ReferenceEstimates } from './compare-estimates'
+import { BENCH_SPEC, QUICK_SPEC, writeNestedCsv } from './generate-nested-csv'
+import { runTimed } from './run-timed'
+
+const flags = new Set(process.argv.slice(2))
+const quick = flags.has('--quick')
+const spec = quick ? QUICK_SPEC : BENCH_SPEC
+const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
+const folder = mkdtempSync(join(tmpdir(), 'nestwise-bench-'))
+const csv = join(folder, 'neurite-lengths.csv')
+const rssFile = join(folder, 'max-rss.txt')
+const columns = { response: 'neurite_length_um', levels: ['lab', 'animal'], condition: 'treatment', reference: 'vehicle' }
+const analyzeArgs = ['analyze', csv, '--response', columns.response, '--levels', columns.levels.join(','), '--condition', columns.condition, '--reference', columns.reference]
+const nodeArgs = ['--import', 'tsx', '--import', './scripts/bench/report-max-rss.ts', 'scripts/nestwise.ts']
+
+const fmt = (x: number, digits = 2) => x.toFixed(digits)
+const sci = (x: number | null) => (x === null ? '—' : x.toExponential(1))
+const num = (x: number | null) => (x === null ? '—' : Math.abs(x) >= 1e5 ? x.toExponential(6) : x.toPrecision(7))
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
+const mb = (kb: number) => `${fmt(kb / 1024, 0)} MB`
+
+function section(title: string) {
+  console.log(`\n${title}`)
+}
+
+async function analyzerRuns(extra: string[], runs: number) {
+  const times: number[] = []
+  let last = null
+  let peak = 0
+  for (let i = 0; i < runs; i++) {
+    const run = await runTimed(process.execPath, [...nodeArgs, ...analyzeArgs, ...extra], { cwd: root, rssFile })
+    if (run.code !== 0) throw new Error(`nestwise analyze failed (exit ${run.code}): ${run.stderr.trim()}`)
+    times.push(run.seconds)
+    peak = Math.max(peak, run.maxRssKb ?? 0)
+    last = run
+  }
+  const result = AnalysisResult.parse(JSON.parse(last!.stdout))
+  return { times, median: median(times), peakKb: peak, result }
+}
+
+function rscriptAvailable(): boolean {
+  return spawnSync('Rscript', ['--version'], { stdio: 'ignore' }).status === 0
+}
+
+function printComparison(ours: EstimateRow[], polished: EstimateRow[] | null) {
+  const header = ['quantity'.padEnd(34), 'nestwise'.padStart(14), 'lmerTest'.padStart(14), 'rel.diff'.padStart(9)]
+  if (polished) header.push('polished'.padStart(14), 'rel.diff'.padStart(9))
+  console.log('  ' + header.join(' '))
+  ours.forEach((row, i) => {
+    const cells = [row.quantity.padEnd(34), num(row.ours).padStart(14), num(row.reference).padStart(14), sci(row.relativeDifference).padStart(9)]
+    if (polished) cells.push(num(polished[i].reference).padStart(14), sci(polished[i].relativeDifference).padStart(9))
+    console.log('  ' + cells.join(' '))
+  })
+}
+
+async function main() {
+  console.log(`Nestwise engine benchmark (${quick ? 'quick' : 'full'}) — node ${process.version}, ${new Date().toISOString()}`)
+
+  let started = performance.now()
+  const rows = writeNestedCsv(csv, spec)
+  const size = statSync(csv).size
+  console.log(
+    `data: ${rows.toLocaleString('en')} rows = ${spec.labs} labs × ${spec.animalsPerLab} mice × ${spec.minCells}–${spec.maxCells} neurons, ` +
+      `treatment between mice; CSV ${fmt(size / 1e6, 1)} MB written in ${fmt((performance.now() - started) / 1000)} s (seed "${spec.seed}")`,
+  )
+
+  section('nestwise analyze (child process: start-up + parse + REML fit + Satterthwaite + summaries; bootstrap off)')
+  const analyzer = await analyzerRuns([], 3)
+  console.log(`  runs: ${analyzer.times.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.median)} s`)
+  console.log(`  peak memory (maxRSS of the child): ${mb(analyzer.peakKb)}`)
+
+  section('where the time goes (same steps in this process)')
+  started = performance.now()
+  const data = await readColumnsFromFile(csv, columns)
+  const tRead = (performance.now() - started) / 1000
+  started = performance.now()
+  const design = prepareNestedDesign(data, { reference: columns.reference })
+  const tPrepare = (performance.now() - started) / 1000
+  started = performance.now()
+  fitNestedReml(design)
+  const tFit = (performance.now() - started) / 1000
+  started = performance.now()
+  analyzeNested(data, { reference: columns.reference })
+  const tAnalyze = (performance.now() - started) / 1000
+  console.log(
+    `  read CSV ${fmt(tRead)} s; analyzeNested ${fmt(tAnalyze)} s ` +
+      `(of which: path-keyed design ${fmt(tPrepare)} s, REML fit ${fmt(tFit)} s, Satterthwaite/means/tests/warnings the rest)`,
+  )
+
+  let speedup: number | null = null
+  let worstDefault: { quantity: string; value: number } | null = null
+  let worstPolished: { quantity: string; value: number } | null = null
+  if (flags.has('--no-r')) {
+    section('lmerTest::lmer: skipped (--no-r)')
+  } else if (!rscriptAvailable()) {
+    section('lmerTest::lmer: skipped (Rscript not installed)')
+  } else {
+    const polish = !flags.has('--no-polish')
+    section(`lmerTest::lmer (Rscript, lme4 default settings${polish ? '; then an untimed polish with a tight tolerance' : ''})`)
+    const run = await runTimed(
+      'Rscript',
+      ['scripts/bench/lmer-bench.R', csv, columns.response, columns.levels.join(','), columns.condition, columns.reference, ...(polish ? ['polish'] : [])],
+      { cwd: root },
+    )
+    if (run.code !== 0) throw new Error(`Rscript failed (exit ${run.code}): ${run.stderr.trim()}`)
+    const reference = JSON.parse(run.stdout.trim().split('\n').pop()!) as ReferenceEstimates & {
+      readSeconds: number
+      fitSeconds: number
+      converged: boolean
+      remlCriterion: number
+      versions: { lme4: string; lmerTest: string }
+      polished?: ReferenceEstimates & { seconds: number; remlCriterion: number }
+    }
+    console.log(
+      `  lme4 ${reference.versions.lme4}, lmerTest ${reference.versions.lmerTest}: read.csv ${fmt(reference.readSeconds)} s (not counted); ` +
+        `lmer + Satterthwaite + condition means ${fmt(reference.fitSeconds)} s; whole Rscript ${fmt(run.seconds)} s`,
+    )
+    console.log(`  lme4 convergence check: ${reference.converged ? 'passed' : 'warned (stopped short of its gradient tolerance)'}`)
+    if (reference.polished) console.log(`  polish (untimed in the ratio): ${fmt(reference.polished.seconds)} s`)
+    speedup = reference.fitSeconds / analyzer.median
+    console.log(
+      `  speed: lmerTest fit ${fmt(reference.fitSeconds)} s vs nestwise whole command ${fmt(analyzer.median)} s → ${fmt(speedup, 1)}× faster ` +
+        `(counting R's CSV read too: ${fmt((reference.readSeconds + reference.fitSeconds) / analyzer.median, 1)}×)`,
+    )
+
+    section('estimates (relative difference |nestwise − reference| / |reference|)')
+    const rowsDefault = compareEstimates(analyzer.result, reference)
+    const rowsPolished = reference.polished ? compareEstimates(analyzer.result, reference.polished) : null
+    printComparison(rowsDefault, rowsPolished)
+    worstDefault = largestDifference(rowsDefault)
+    worstPolished = rowsPolished ? largestDifference(rowsPolished) : null
+    console.log(`  largest vs lmerTest (default): ${sci(worstDefault?.value ?? null)} (${worstDefault?.quantity})`)
+    if (worstPolished) console.log(`  largest vs polished lme4 (estimates and SEs; df from lmerTest): ${sci(worstPolished.value)} (${worstPolished.quantity})`)
+    console.log(
+      `  REML criterion (lower is better): nestwise ${analyzer.result.remlCriterion.toFixed(6)}, lmerTest ${reference.remlCriterion.toFixed(6)}` +
+        (reference.polished ? `, polished ${reference.polished.remlCriterion.toFixed(6)}` : ''),
+    )
+  }
+
+  section('hierarchical bootstrap, 1,000 resamples (seed "bench")')
+  const withBootstrap = await analyzerRuns(['--bootstrap', '1000', '--seed', 'bench'], 1)
+  started = performance.now()
+  const boot = hierarchicalBootstrap(design, { resamples: 1000, seed: 'bench' })
+  const tBoot = (performance.now() - started) / 1000
+  console.log(
+    `  nestwise analyze --bootstrap 1000: ${fmt(withBootstrap.median)} s in all; the bootstrap alone ${fmt(tBoot)} s in this process ` +
+      `(${boot.approximatedGroups} of ${boot.innermostGroups} innermost groups drawn from their normal approximation, see hierarchical-bootstrap.ts)`,
+  )
+  console.log(`  peak memory with bootstrap: ${mb(withBootstrap.peakKb)}`)
+
+  section('summary')
+  const mark = (ok: boolean) => (ok ? 'met' : 'MISSED')
+  const peakKb = Math.max(analyzer.peakKb, withBootstrap.peakKb)
+  if (speedup !== null) console.log(`  speed vs lmerTest: ${fmt(speedup, 1)}× (target ≥ 30×: ${mark(speedup >= 30)})`)
+  if (worstDefault) console.log(`  estimates vs lmerTest default: ${sci(worstDefault.value)} (target ≤ 1e-4: ${mark(worstDefault.value <= 1e-4)})`)
+  if (worstPolished) console.log(`  estimates vs polished lme4: ${sci(worstPolished.value)} (target ≤ 1e-4: ${mark(worstPolished.value <= 1e-4)})`)
+  console.log(`  peak memory: ${mb(peakKb)} (target < 1 GB: ${mark(peakKb < 1024 * 1024)})`)
+  console.log(`  bootstrap 1,000 resamples, whole command: ${fmt(withBootstrap.median)} s (target < 10 s: ${mark(withBootstrap.median < 10)})`)
+  if (quick) console.log('  (quick mode: small data, the targets are meant for the full run)')
+}
+
+try {
+  await main()
+} finally {
+  if (flags.has('--keep')) console.log(`\nkept ${folder}`)
+  else rmSync(folder, { recursive: true, force: true })
+}

@@ -1,0 +1,90 @@
+# Benchmark reference: fits the nested random-intercept model with lmerTest::lmer (REML,
+# Satterthwaite df) on a CSV, timed with lme4's default settings, then (untimed, optional)
+# polishes the same fit with a much tighter optimiser tolerance, because on a million rows the
+# default fit can stop short of the optimum. Prints one JSON line.
+# Usage: Rscript lmer-bench.R FILE RESPONSE LEVELS(comma-separated, outer first) CONDITION REFERENCE [polish]
+suppressPackageStartupMessages({
+  library(lmerTest)
+  library(jsonlite)
+})
+
+args <- commandArgs(trailingOnly = TRUE)
+if (length(args) < 5) stop("usage: lmer-bench.R FILE RESPONSE LEVELS CONDITION REFERENCE [polish]")
+file <- args[1]
+response <- args[2]
+levels <- strsplit(args[3], ",")[[1]]
+condition <- args[4]
+reference <- args[5]
+polish <- length(args) >= 6 && args[6] == "polish"
+
+elapsed <- function() proc.time()[["elapsed"]]
+
+t0 <- elapsed()
+d <- read.csv(file, stringsAsFactors = FALSE)
+for (l in levels) d[[l]] <- factor(d[[l]])
+d[[condition]] <- relevel(factor(d[[condition]]), ref = reference)
+labels <- levels(d[[condition]])
+t1 <- elapsed()
+
+# Nested terms keyed by full path: (1 | lab) + (1 | lab:animal) + ...
+terms <- vapply(seq_along(levels), function(i) sprintf("(1 | %s)", paste(levels[1:i], collapse = ":")), "")
+form <- as.formula(sprintf("%s ~ %s + %s", response, condition, paste(terms, collapse = " + ")))
+
+mean_vector <- function(k) {
+  L <- numeric(length(labels))
+  L[1] <- 1
+  if (k > 1) L[k] <- 1
+  L
+}
+
+# Timed: what a user of lmerTest waits for (fit with Satterthwaite ingredients, coefficient table, condition means).
+fit <- lmerTest::lmer(form, data = d, REML = TRUE)
+coefs <- summary(fit)$coefficients
+means <- lapply(seq_along(labels), function(k) {
+  r <- lmerTest::contest1D(fit, mean_vector(k))
+  list(condition = labels[k], estimate = r[["Estimate"]], se = r[["Std. Error"]], df = r[["df"]])
+})
+t2 <- elapsed()
+
+components_of <- function(model) {
+  vc <- as.data.frame(lme4::VarCorr(model))
+  setNames(as.list(vc$vcov), ifelse(vc$grp == "Residual", "residual", vc$grp))
+}
+contrasts <- lapply(seq_along(labels)[-1], function(k) {
+  row <- coefs[k, ]
+  list(a = labels[k], b = labels[1], estimate = row[["Estimate"]], se = row[["Std. Error"]], df = row[["df"]], t = row[["t value"]])
+})
+
+out <- list(
+  readSeconds = t1 - t0,
+  fitSeconds = t2 - t1,
+  nObs = nrow(d),
+  converged = is.null(fit@optinfo$conv$lme4$messages),
+  components = components_of(fit),
+  contrasts = contrasts,
+  means = means,
+  remlCriterion = unname(lme4::REMLcrit(fit)),
+  versions = list(lme4 = as.character(packageVersion("lme4")), lmerTest = as.character(packageVersion("lmerTest")))
+)
+
+if (polish) {
+  t3 <- elapsed()
+  tight <- lme4::lmer(form, data = d, REML = TRUE, start = list(theta = lme4::getME(fit, "theta")),
+    control = lme4::lmerControl(optimizer = "bobyqa", optCtrl = list(rhoend = 1e-12, maxfun = 1e5),
+      check.conv.grad = "ignore", check.conv.singular = "ignore"))
+  V <- as.matrix(vcov(tight))
+  beta <- lme4::fixef(tight)
+  out$polished <- list(
+    seconds = elapsed() - t3,
+    components = components_of(tight),
+    contrasts = lapply(seq_along(labels)[-1], function(k) list(a = labels[k], b = labels[1], estimate = beta[[k]], se = sqrt(V[k, k]))),
+    means = lapply(seq_along(labels), function(k) {
+      L <- mean_vector(k)
+      list(condition = labels[k], estimate = sum(L * beta), se = sqrt(drop(t(L) %*% V %*% L)))
+    }),
+    remlCriterion = unname(lme4::REMLcrit(tight))
+  )
+}
+
+cat(toJSON(out, auto_unbox = TRUE, digits = NA))
+cat("\n")

@@ -1,0 +1,34 @@
+import { spawn } from 'node:child_process'
+import { existsSync, readFileSync, rmSync } from 'node:fs'
+
+export interface TimedRun {
+  seconds: number
+  code: number | null
+  stdout: string
+  stderr: string
+  /** Peak resident memory in kB when the child reported it (see report-max-rss.ts), else null. */
+  maxRssKb: number | null
+}
+
+/** Runs a command to completion and measures its wall-clock time from spawn to exit. */
+export function runTimed(command: string, args: string[], options: { cwd: string; rssFile?: string }): Promise<TimedRun> {
+  if (options.rssFile && existsSync(options.rssFile)) rmSync(options.rssFile)
+  return new Promise((resolve, reject) => {
+    const started = performance.now()
+    const child = spawn(command, args, {
+      cwd: options.cwd,
+      env: options.rssFile ? { ...process.env, NESTWISE_MAX_RSS_FILE: options.rssFile } : process.env,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    })
+    const out: Buffer[] = []
+    const err: Buffer[] = []
+    child.stdout.on('data', (chunk: Buffer) => out.push(chunk))
+    child.stderr.on('data', (chunk: Buffer) => err.push(chunk))
+    child.on('error', reject)
+    child.on('close', (code) => {
+      const seconds = (performance.now() - started) / 1000
+      const maxRssKb = options.rssFile && existsSync(options.rssFile) ? Number(readFileSync(options.rssFile, 'utf8')) : null
+      resolve({ seconds, code, stdout: Buffer.concat(out).toString('utf8'), stderr: Buffer.concat(err).toString('utf8'), maxRssKb })
+    })
+  })
+}
