@@ -32,7 +32,7 @@ describe('designEffect', () => {
     const rng = seedrandom('deff-unequal')
     const normal = () => jStat.normal.inv(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12), 0, 1)
     const total = sizes.reduce((a, b) => a + b, 0)
-    const reps = 20000
+    const reps = 10000
     let sum = 0
     let sumSq = 0
     for (let r = 0; r < reps; r++) {
@@ -47,9 +47,9 @@ describe('designEffect', () => {
     }
     const variance = (sumSq - (sum * sum) / reps) / (reps - 1)
     const expected = designEffect({ clusterSizes: sizes, icc }).unequal / total
-    // The SE of a variance from 20000 normal draws is about 1%; allow 4%.
-    expect(variance / expected).toBeGreaterThan(0.96)
-    expect(variance / expected).toBeLessThan(1.04)
+    // The SE of a variance from 10000 normal draws is about 1.4%; allow 5%.
+    expect(variance / expected).toBeGreaterThan(0.95)
+    expect(variance / expected).toBeLessThan(1.05)
   })
 
   it('refuses malformed input', () => {
