@@ -110,7 +110,7 @@ async function readJson(response: Response): Promise<unknown> {
   }
 }
 
-async function toApiError(response: Response): Promise<ApiError> {
+export async function toApiError(response: Response): Promise<ApiError> {
   const body = (await readJson(response)) as
     | { error?: { code?: unknown; message?: unknown; details?: unknown } }
     | undefined

@@ -13,8 +13,11 @@ export const nestwiseLight: ThemeDefinition = {
   colors: {
     background: '#f5f7f7',
     surface: '#ffffff',
-    'surface-variant': '#dde5e6',
-    'on-surface-variant': '#2b3a3d',
+    'surface-bright': '#ffffff',
+    'surface-light': '#eaf0f0',
+    // Vuetify uses surface-variant for tooltips: dark on light pages, light on dark ones.
+    'surface-variant': '#2b3a3d',
+    'on-surface-variant': '#eef3f3',
     primary: '#1d5e66',
     'primary-darken-1': '#144a51',
     secondary: '#4b5f66',
@@ -30,8 +33,10 @@ export const nestwiseDark: ThemeDefinition = {
   colors: {
     background: '#101617',
     surface: '#182022',
-    'surface-variant': '#2b3739',
-    'on-surface-variant': '#d6e1e2',
+    'surface-bright': '#dfe9ea',
+    'surface-light': '#2b3739',
+    'surface-variant': '#d6e1e2',
+    'on-surface-variant': '#101617',
     primary: '#74c3c9',
     'primary-darken-1': '#5aa9af',
     secondary: '#a9bcc2',

@@ -15,6 +15,31 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Overview' },
   },
   {
+    path: '/datasets',
+    name: 'datasets',
+    component: () => import('@/views/DatasetsView.vue'),
+    meta: { title: 'Datasets' },
+  },
+  {
+    // Open to every member: the page itself explains that uploading needs the scientist or PI role.
+    path: '/datasets/upload',
+    name: 'dataset-upload',
+    component: () => import('@/views/DatasetUploadView.vue'),
+    meta: { title: 'Upload a table' },
+  },
+  {
+    path: '/datasets/deleted',
+    name: 'datasets-deleted',
+    component: () => import('@/views/DeletedDatasetsView.vue'),
+    meta: { title: 'Deleted datasets', admin: true },
+  },
+  {
+    path: '/datasets/:datasetId(\\d+)',
+    name: 'dataset',
+    component: () => import('@/views/DatasetDetailView.vue'),
+    meta: { title: 'Dataset' },
+  },
+  {
     path: '/not-available',
     name: 'not-available',
     component: () => import('@/views/NotAvailableView.vue'),

@@ -38,6 +38,14 @@ export const navItems: NavItem[] = [
     section: 'work',
     visibleFor: visibleFor.everyone(),
   },
+  {
+    id: 'datasets',
+    title: 'Datasets',
+    icon: 'mdi-table-multiple',
+    to: { name: 'datasets' },
+    section: 'work',
+    visibleFor: visibleFor.everyone(),
+  },
 ]
 
 export const sectionTitles: Record<NavItem['section'], string | null> = {

@@ -1,0 +1,41 @@
+import { defineConfig, devices } from '@playwright/test'
+
+// Browser tests run against Debian's Chromium (Playwright downloads no browser here) and a server
+// on its own port with a freshly seeded database (scripts/serve-e2e.ts serves the built client).
+export default defineConfig({
+  testDir: 'tests/e2e',
+  outputDir: 'test-results/artifacts',
+  fullyParallel: false,
+  workers: 1,
+  forbidOnly: !!process.env.CI,
+  // Generous: sign-in hashes with scrypt, and this machine may be busy with other test runs.
+  timeout: 60_000,
+  expect: { timeout: 10_000 },
+  reporter: [['list'], ['html', { open: 'never', outputFolder: 'test-results/html-report' }]],
+  use: {
+    baseURL: 'http://127.0.0.1:3100',
+    trace: 'retain-on-failure',
+    screenshot: 'only-on-failure',
+    launchOptions: {
+      executablePath: '/usr/bin/chromium',
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
+    },
+  },
+  projects: [{ name: 'chromium', use: { ...devices['Desktop Chrome'] } }],
+  webServer: {
+    command: 'node --import tsx scripts/serve-e2e.ts',
+    url: 'http://127.0.0.1:3100/api/health',
+    reuseExistingServer: !process.env.CI,
+    timeout: 120_000,
+    stderr: 'pipe',
+  },
+})
