@@ -1,0 +1,334 @@
+import { z } from 'zod'
+import { AnalysisResult, LevelIcc, VarianceComponentShare } from './analysis-result'
+
+/**
+ * Analyses API shapes. An analysis belongs to one dataset; each run of it is an immutable version
+ * holding the settings it ran with, the dataset version (and its file checksum) it read, the
+ * engine version, and once done the engine's result plus the chart data computed on the server.
+ * Changing settings never edits a version: it creates the next one.
+ */
+
+const Id = z.coerce.number().int().positive()
+const ColumnName = z.string().min(1).max(200)
+const count = z.number().int().nonnegative()
+const Person = z.object({ id: z.number().int(), name: z.string() })
+
+// ---------------------------------------------------------------- settings
+
+/** Which error bar the page shows first; all three are always in the chart data. */
+export const ErrorBarType = z.enum(['sem', 'sd', 'ci95'])
+export type ErrorBarType = z.infer<typeof ErrorBarType>
+
+export const BOOTSTRAP_MIN_RESAMPLES = 100
+export const BOOTSTRAP_MAX_RESAMPLES = 10_000
+
+export const BootstrapSettings = z.object({
+  enabled: z.boolean().default(false),
+  resamples: z
+    .number()
+    .int()
+    .min(BOOTSTRAP_MIN_RESAMPLES, { error: `Use at least ${BOOTSTRAP_MIN_RESAMPLES} resamples` })
+    .max(BOOTSTRAP_MAX_RESAMPLES, { error: `Use at most ${BOOTSTRAP_MAX_RESAMPLES} resamples` })
+    .default(2000),
+  /** Any text; the same seed on the same data gives the same interval. */
+  seed: z.string().trim().min(1, { error: 'Give the bootstrap a seed' }).max(64).default('1'),
+})
+export type BootstrapSettings = z.infer<typeof BootstrapSettings>
+
+/**
+ * What one analysis version computes. Column names are the dataset's header names.
+ * The server checks that every column exists in the dataset version (400 naming the column).
+ */
+export const AnalysisSettings = z
+  .object({
+    response: ColumnName,
+    /** Fixed-effect condition column; null for a design without conditions. */
+    condition: ColumnName.nullable().default(null),
+    /** Nesting levels, outermost first (lab, animal, …); observations are the rows. */
+    levels: z.array(ColumnName).min(1, { error: 'Pick at least one nesting level' }).max(8),
+    /** Reference condition of the model coding; null: the first condition in file order. */
+    reference: z.string().max(10_000).nullable().default(null),
+    errorBar: ErrorBarType.default('sem'),
+    bootstrap: BootstrapSettings.default({ enabled: false, resamples: 2000, seed: '1' }),
+  })
+  .superRefine((s, ctx) => {
+    const all = [s.response, ...(s.condition ? [s.condition] : []), ...s.levels]
+    const seen = new Set<string>()
+    for (const name of all) {
+      if (seen.has(name)) ctx.addIssue({ code: 'custom', message: `"${name}" is used twice; each column can have one role`, path: [] })
+      seen.add(name)
+    }
+    if (!s.condition && s.reference !== null) {
+      ctx.addIssue({ code: 'custom', message: 'A reference condition needs a condition column', path: ['reference'] })
+    }
+  })
+export type AnalysisSettings = z.infer<typeof AnalysisSettings>
+
+/** Settings as sent by a client: any field left out is taken from the defaults (or the previous version). */
+export const AnalysisSettingsPatch = z.object({
+  response: ColumnName.optional(),
+  condition: ColumnName.nullable().optional(),
+  levels: z.array(ColumnName).min(1, { error: 'Pick at least one nesting level' }).max(8).optional(),
+  reference: z.string().max(10_000).nullable().optional(),
+  errorBar: ErrorBarType.optional(),
+  bootstrap: z
+    .object({
+      enabled: z.boolean().optional(),
+      resamples: z.number().int().min(BOOTSTRAP_MIN_RESAMPLES).max(BOOTSTRAP_MAX_RESAMPLES).optional(),
+      seed: z.string().trim().min(1).max(64).optional(),
+    })
+    .optional(),
+})
+export type AnalysisSettingsPatch = z.infer<typeof AnalysisSettingsPatch>
+
+// ---------------------------------------------------------------- chart data
+
+/** ± bars of one condition; ci95 = [low, high] with the df named beside it. */
+export const NaiveBars = z.object({
+  /** Plain mean of all observations. */
+  mean: z.number(),
+  sd: z.number().nonnegative(),
+  sem: z.number().nonnegative(),
+  ci95: z.tuple([z.number(), z.number()]),
+  /** n − 1. */
+  df: z.number().positive(),
+})
+export type NaiveBars = z.infer<typeof NaiveBars>
+
+export const NestedBars = z.object({
+  /** The mixed model's estimate of the condition mean. */
+  mean: z.number(),
+  /** SE of that estimate from the model. */
+  sem: z.number().nonnegative(),
+  ci95: z.tuple([z.number(), z.number()]),
+  /** Satterthwaite df. */
+  df: z.number().positive(),
+  /** SD of the unit means at the condition level; null without a condition level or with one unit. */
+  sd: z.number().nonnegative().nullable(),
+  /** Units behind `sd` (units carrying this condition at the condition level); null without a condition level. */
+  nUnits: count.nullable(),
+})
+export type NestedBars = z.infer<typeof NestedBars>
+
+export const ConditionBars = z.object({
+  /** Condition label, or "all" without a condition. */
+  condition: z.string(),
+  nObs: count,
+  naive: NaiveBars,
+  nested: NestedBars,
+})
+export type ConditionBars = z.infer<typeof ConditionBars>
+
+export const UnitSummary = z.object({
+  /** Labels from the outermost level down to this unit. */
+  path: z.array(z.string()),
+  /** The path joined with " / " (what the chart and the CSV show). */
+  label: z.string(),
+  /** The condition of this unit's observations; a unit spanning conditions appears once per condition. Null without a condition. */
+  condition: z.string().nullable(),
+  n: count,
+  mean: z.number(),
+  /** Sample SD (n − 1) of the unit's observations; null for a single observation. */
+  sd: z.number().nonnegative().nullable(),
+})
+export type UnitSummary = z.infer<typeof UnitSummary>
+
+export const UnitLevelSummary = z.object({
+  level: z.string(),
+  /** Why this level is listed: it carries the condition, it is the innermost level, or both. */
+  roles: z.array(z.enum(['condition-level', 'innermost', 'outer'])),
+  units: z.array(UnitSummary),
+})
+export type UnitLevelSummary = z.infer<typeof UnitLevelSummary>
+
+/**
+ * A faithful sample of observations for the scatter: stratified by unit cell (unit × condition)
+ * of `level`, every cell represented, at most about `limit` points, seeded so it never changes.
+ * Columnar to keep the document small: point i has value y[i] and belongs to unit cell[i], an
+ * index into the units of the unit level named `level`.
+ */
+export const ChartPoints = z.object({
+  level: z.string(),
+  limit: count,
+  nTotal: count,
+  nShown: count,
+  seed: z.string(),
+  y: z.array(z.number()),
+  cell: z.array(z.number().int().nonnegative()),
+})
+export type ChartPoints = z.infer<typeof ChartPoints>
+
+export const ChartData = z.object({
+  response: z.string(),
+  condition: z.string().nullable(),
+  /** Level whose units carry a single condition (from the result); null when none does. */
+  conditionLevel: z.string().nullable(),
+  /** In the model's order: reference first. */
+  conditions: z.array(ConditionBars),
+  /** Every given level outer → inner, each unit split by condition. */
+  unitLevels: z.array(UnitLevelSummary),
+  points: ChartPoints,
+  /** Share of variance at each level and ICC per level (copied from the result for the chart). */
+  variance: z.object({ components: z.array(VarianceComponentShare), icc: z.array(LevelIcc) }),
+})
+export type ChartData = z.infer<typeof ChartData>
+
+// ---------------------------------------------------------------- versions
+
+export const AnalysisStatus = z.enum(['queued', 'running', 'done', 'failed'])
+export type AnalysisStatus = z.infer<typeof AnalysisStatus>
+
+export const AnalysisStage = z.enum(['queued', 'reading', 'fitting', 'comparisons', 'bootstrap', 'charts', 'saving', 'done', 'failed'])
+export type AnalysisStage = z.infer<typeof AnalysisStage>
+
+export const AnalysisProgress = z.object({
+  stage: AnalysisStage,
+  /** Overall fraction done, 0 → 1 (an estimate from the stage, not a promise of time). */
+  fraction: z.number().min(0).max(1),
+})
+export type AnalysisProgress = z.infer<typeof AnalysisProgress>
+
+export const AnalysisRunError = z.object({
+  /** UNPROCESSABLE: the engine found the data too thin (message says why); INTERNAL: anything else. */
+  code: z.enum(['UNPROCESSABLE', 'INTERNAL']),
+  message: z.string(),
+  details: z.unknown().optional(),
+})
+export type AnalysisRunError = z.infer<typeof AnalysisRunError>
+
+/** Exclusions that were active on the dataset version when this analysis version was created. */
+export const AppliedExclusion = z.object({
+  id: z.number().int().positive(),
+  kind: z.enum(['rule', 'unit']),
+  reason: z.string(),
+  matchedRows: count,
+})
+export type AppliedExclusion = z.infer<typeof AppliedExclusion>
+
+export const AnalysisVersionStatus = z.object({
+  id: z.number().int().positive(),
+  analysisId: z.number().int().positive(),
+  versionNo: z.number().int().positive(),
+  status: AnalysisStatus,
+  progress: AnalysisProgress,
+  error: AnalysisRunError.nullable(),
+  createdAt: z.string(),
+  startedAt: z.string().nullable(),
+  finishedAt: z.string().nullable(),
+  /** Server time of the run (read-back + engine + charts), once finished. */
+  runMs: count.nullable(),
+})
+export type AnalysisVersionStatus = z.infer<typeof AnalysisVersionStatus>
+
+export const AnalysisVersionSummary = AnalysisVersionStatus.extend({
+  datasetVersion: z.object({ id: z.number().int().positive(), versionNo: z.number().int().positive(), sha256: z.string() }),
+  settings: AnalysisSettings,
+  exclusions: z.array(AppliedExclusion),
+  /** Engine that computed (or will compute) the result. */
+  engineVersion: z.string(),
+  createdBy: Person,
+})
+export type AnalysisVersionSummary = z.infer<typeof AnalysisVersionSummary>
+
+export const AnalysisVersionDetail = AnalysisVersionSummary.extend({
+  /** Null until done. */
+  result: AnalysisResult.nullable(),
+  chart: ChartData.nullable(),
+})
+export type AnalysisVersionDetail = z.infer<typeof AnalysisVersionDetail>
+
+// ---------------------------------------------------------------- analyses
+
+/** Headline numbers of a finished version, for lists and the lab board. */
+export const AnalysisHeadline = z.object({
+  nObs: count,
+  effectiveN: z.number(),
+  designEffect: z.number(),
+  /** Fewest units in any condition at the condition level (null without one). */
+  minUnitsPerCondition: count.nullable(),
+  warningCount: count,
+})
+export type AnalysisHeadline = z.infer<typeof AnalysisHeadline>
+
+export const AnalysisListItem = z.object({
+  id: z.number().int().positive(),
+  labId: z.number().int().positive(),
+  labName: z.string(),
+  project: z.object({ id: z.number().int().positive(), name: z.string() }),
+  dataset: z.object({ id: z.number().int().positive(), name: z.string() }),
+  name: z.string(),
+  createdBy: Person,
+  createdAt: z.string(),
+  updatedAt: z.string(),
+  versionCount: count,
+  latestVersion: z.object({
+    versionNo: z.number().int().positive(),
+    status: AnalysisStatus,
+    progress: AnalysisProgress,
+    finishedAt: z.string().nullable(),
+    headline: AnalysisHeadline.nullable(),
+  }),
+})
+export type AnalysisListItem = z.infer<typeof AnalysisListItem>
+
+export const AnalysisDetail = AnalysisListItem.extend({
+  /** Newest first. */
+  versions: z.array(AnalysisVersionSummary),
+  /** What the caller may do; the client hides commands that would answer 403. */
+  permissions: z.object({ run: z.boolean(), rename: z.boolean() }),
+})
+export type AnalysisDetail = z.infer<typeof AnalysisDetail>
+
+// ---------------------------------------------------------------- requests
+
+export const AnalysisCreate = z.object({
+  datasetId: Id,
+  /** Default: the dataset's newest version. */
+  datasetVersionNo: Id.optional(),
+  /** Default: "<dataset name> – <response>". */
+  name: z.string().trim().min(1, { error: 'Give the analysis a name' }).max(200).optional(),
+  /** Left-out fields come from the dataset version's tagging. */
+  settings: AnalysisSettingsPatch.default({}),
+})
+export type AnalysisCreate = z.infer<typeof AnalysisCreate>
+
+export const AnalysisVersionCreate = z.object({
+  /** Default: the dataset version of the newest analysis version. */
+  datasetVersionNo: Id.optional(),
+  /** Left-out fields are taken from the newest analysis version. */
+  settings: AnalysisSettingsPatch.default({}),
+})
+export type AnalysisVersionCreate = z.infer<typeof AnalysisVersionCreate>
+
+export const AnalysisUpdate = z.object({
+  name: z.string().trim().min(1, { error: 'Give the analysis a name' }).max(200),
+})
+export type AnalysisUpdate = z.infer<typeof AnalysisUpdate>
+
+export const AnalysisListQuery = z.object({
+  labId: Id.optional(),
+  projectId: Id.optional(),
+  datasetId: Id.optional(),
+})
+export type AnalysisListQuery = z.infer<typeof AnalysisListQuery>
+
+export const AnalysisDefaultsQuery = z.object({
+  datasetId: Id,
+  datasetVersionNo: Id.optional(),
+})
+
+/** Settings a new analysis of this dataset version starts from, and the columns it may use. */
+export const AnalysisDefaults = z.object({
+  datasetVersion: z.object({ id: z.number().int().positive(), versionNo: z.number().int().positive() }),
+  /** Null when the version is not tagged yet (the client must ask for response and levels). */
+  settings: AnalysisSettings.nullable(),
+  /** All column names, and the numeric ones (response candidates). */
+  columns: z.array(z.string()),
+  numericColumns: z.array(z.string()),
+  /** Labels of the tagged condition column when known from the profile (for the reference picker). */
+  conditionLabels: z.array(z.string()).nullable(),
+})
+export type AnalysisDefaults = z.infer<typeof AnalysisDefaults>
+
+export const AnalysisParams = z.object({ analysisId: Id })
+export const AnalysisVersionParams = z.object({ analysisId: Id, versionNo: Id })
