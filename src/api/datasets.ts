@@ -73,7 +73,12 @@ export interface RowsRequest {
   show?: 'all' | 'included' | 'excluded'
 }
 
-export function getRows(datasetId: number, versionNo: number, rows: RowsRequest, signal?: AbortSignal): Promise<RowsPage> {
+export function getRows(
+  datasetId: number,
+  versionNo: number,
+  rows: RowsRequest,
+  signal?: AbortSignal,
+): Promise<RowsPage> {
   return request<RowsPage>(`${versionPath(datasetId, versionNo)}/rows${query({ ...rows })}`, { signal })
 }
 
@@ -82,7 +87,11 @@ export interface SavedTagging {
   design: DesignSummary
 }
 
-export function saveTagging(datasetId: number, versionNo: number, input: TaggingInput): Promise<SavedTagging> {
+export function saveTagging(
+  datasetId: number,
+  versionNo: number,
+  input: TaggingInput,
+): Promise<SavedTagging> {
   return request<SavedTagging>(`${versionPath(datasetId, versionNo)}/tagging`, { method: 'PUT', body: input })
 }
 
@@ -95,11 +104,22 @@ export function listExclusions(datasetId: number, versionNo: number): Promise<Ex
   return request<Exclusion[]>(`${versionPath(datasetId, versionNo)}/exclusions`)
 }
 
-export function addExclusion(datasetId: number, versionNo: number, input: ExclusionCreate): Promise<Exclusion> {
-  return request<Exclusion>(`${versionPath(datasetId, versionNo)}/exclusions`, { method: 'POST', body: input })
+export function addExclusion(
+  datasetId: number,
+  versionNo: number,
+  input: ExclusionCreate,
+): Promise<Exclusion> {
+  return request<Exclusion>(`${versionPath(datasetId, versionNo)}/exclusions`, {
+    method: 'POST',
+    body: input,
+  })
 }
 
-export function withdrawExclusion(datasetId: number, versionNo: number, exclusionId: number): Promise<Exclusion> {
+export function withdrawExclusion(
+  datasetId: number,
+  versionNo: number,
+  exclusionId: number,
+): Promise<Exclusion> {
   return request<Exclusion>(`${versionPath(datasetId, versionNo)}/exclusions/${exclusionId}`, {
     method: 'DELETE',
   })
@@ -153,7 +173,11 @@ function uploadOptions(callbacks: UploadCallbacks) {
 }
 
 /** Creates a dataset (version 1) from a file; resolves once the rows are stored and profiled. */
-export function uploadDataset(file: File, fields: NewDatasetFields, callbacks: UploadCallbacks): Promise<DatasetDetail> {
+export function uploadDataset(
+  file: File,
+  fields: NewDatasetFields,
+  callbacks: UploadCallbacks,
+): Promise<DatasetDetail> {
   return postMultipart<DatasetDetail>(base, formWith(file, { ...fields }), uploadOptions(callbacks))
 }
 

@@ -19,7 +19,11 @@ export interface UploadRequestOptions {
  * Answers and errors follow http.ts: `{ data }` resolves, anything else rejects with an ApiError;
  * an abort rejects with a DOMException named AbortError, like fetch.
  */
-export function postMultipart<T>(path: string, form: FormData, options: UploadRequestOptions = {}): Promise<T> {
+export function postMultipart<T>(
+  path: string,
+  form: FormData,
+  options: UploadRequestOptions = {},
+): Promise<T> {
   return new Promise<T>((resolve, reject) => {
     if (options.signal?.aborted) {
       reject(new DOMException('The upload was cancelled.', 'AbortError'))
@@ -74,7 +78,11 @@ async function settle(xhr: XMLHttpRequest): Promise<unknown> {
     try {
       return (JSON.parse(xhr.responseText) as { data?: unknown }).data
     } catch {
-      throw new ApiError({ status: xhr.status, code: 'INTERNAL', message: 'The server answered in an unexpected format.' })
+      throw new ApiError({
+        status: xhr.status,
+        code: 'INTERNAL',
+        message: 'The server answered in an unexpected format.',
+      })
     }
   }
   throw await toApiError(response)

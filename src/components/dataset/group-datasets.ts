@@ -27,7 +27,12 @@ export function groupDatasets(
     const byProject = new Map<number, ProjectGroup>()
     for (const project of projects) {
       if (project.labId !== membership.labId) continue
-      byProject.set(project.id, { id: project.id, name: project.name, description: project.description, datasets: [] })
+      byProject.set(project.id, {
+        id: project.id,
+        name: project.name,
+        description: project.description,
+        datasets: [],
+      })
     }
     for (const dataset of datasets) {
       if (dataset.labId !== membership.labId) continue

@@ -1,4 +1,9 @@
-import type { ColumnType, ConditionPlacement, ExclusionRule, RuleOperator } from '../../../shared/schemas/datasets'
+import type {
+  ColumnType,
+  ConditionPlacement,
+  ExclusionRule,
+  RuleOperator,
+} from '../../../shared/schemas/datasets'
 
 /** Where the condition changes, in a few words for a chip ("between mouse units, within lab"). */
 export function placementWords(
@@ -15,7 +20,9 @@ export function placementWords(
   if (placement === 'between-top') return `between “${conditionLevel}” units`
   const depth = levels.indexOf(conditionLevel)
   const parent = depth > 0 ? levels[depth - 1] : null
-  return parent ? `between “${conditionLevel}” units, within “${parent}”` : `between “${conditionLevel}” units`
+  return parent
+    ? `between “${conditionLevel}” units, within “${parent}”`
+    : `between “${conditionLevel}” units`
 }
 
 export const columnTypeWords: Record<ColumnType, { label: string; hint: string }> = {

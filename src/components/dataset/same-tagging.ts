@@ -4,7 +4,8 @@ interface TaggingShape {
   levels: readonly string[]
 }
 
-const sameList = (a: readonly string[], b: readonly string[]) => a.length === b.length && a.every((x, k) => x === b[k])
+const sameList = (a: readonly string[], b: readonly string[]) =>
+  a.length === b.length && a.every((x, k) => x === b[k])
 
 /** Same roles for the same columns; level order matters, response order does not. */
 export function sameTagging(a: TaggingShape, b: TaggingShape): boolean {
