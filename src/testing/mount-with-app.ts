@@ -28,12 +28,21 @@ export function stubMissingBrowserApis(): void {
  */
 export async function mountWithApp(
   component: Component,
-  options: { path?: string; extraRoutes?: RouteRecordRaw[]; props?: Record<string, unknown> } = {},
+  options: {
+    path?: string
+    extraRoutes?: RouteRecordRaw[]
+    /** Replaces the app's routes (to test a page as if some feature were absent). */
+    routes?: RouteRecordRaw[]
+    props?: Record<string, unknown>
+  } = {},
 ) {
   stubMissingBrowserApis()
   const pinia = createPinia()
   setActivePinia(pinia)
-  const router = createAppRouter(createMemoryHistory(), [...(options.extraRoutes ?? []), ...routes])
+  const router = createAppRouter(createMemoryHistory(), [
+    ...(options.extraRoutes ?? []),
+    ...(options.routes ?? routes),
+  ])
   const vuetify = createNestwiseVuetify()
   await router.push(options.path ?? '/')
   await router.isReady()

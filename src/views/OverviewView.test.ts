@@ -3,7 +3,8 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import { UPLOAD_ROUTE_NAME } from '@/components/overview/next-step'
 import { fakeFetch } from '@/testing/fake-fetch'
 import { mountWithApp } from '@/testing/mount-with-app'
-import { beaBiostatistician, nellNoLab, orlaAdmin } from '@/testing/users'
+import { routes } from '@/router/routes'
+import { beaBiostatistician, nellNoLab, orlaAdmin, samiScientist } from '@/testing/users'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import OverviewView from './OverviewView.vue'
 
@@ -29,24 +30,36 @@ describe('OverviewView', () => {
     expect(labs[1]).toContain('Fernhill Culture Lab')
   })
 
-  it('tells a lab member to upload a table, with no button while uploading has no page', async () => {
+  it('offers a scientist the upload page', async () => {
+    serverKnows(samiScientist)
+    const { wrapper } = await mountWithApp(OverviewView)
+
+    const step = wrapper.find('[data-testid="next-step"]')
+    expect(step.attributes('data-step')).toBe('upload-first-table')
+    expect(step.text()).toContain('Upload a per-cell table to start')
+    const action = step.find('[data-testid="next-step-action"]')
+    expect(action.text()).toBe('Upload a table')
+    expect(action.attributes('href')).toBe('/datasets/upload')
+  })
+
+  it('sends a biostatistician, who does not upload, to the lab datasets instead', async () => {
     serverKnows(beaBiostatistician)
     const { wrapper } = await mountWithApp(OverviewView)
 
     const step = wrapper.find('[data-testid="next-step"]')
-    expect(step.text()).toContain('Upload a per-cell table to start')
-    expect(step.find('[data-testid="next-step-action"]').exists()).toBe(false)
+    expect(step.attributes('data-step')).toBe('read-lab-datasets')
+    const action = step.find('[data-testid="next-step-action"]')
+    expect(action.text()).toBe('See datasets')
+    expect(action.attributes('href')).toBe('/datasets')
   })
 
-  it('shows the upload button once the upload route exists', async () => {
-    serverKnows(beaBiostatistician)
-    const { wrapper } = await mountWithApp(OverviewView, {
-      extraRoutes: [{ path: '/upload', name: UPLOAD_ROUTE_NAME, component: { render: () => null } }],
-    })
+  it('shows no button for a step whose page is not registered', async () => {
+    serverKnows(samiScientist)
+    const withoutUpload = routes.filter((r) => r.name !== UPLOAD_ROUTE_NAME)
+    const { wrapper } = await mountWithApp(OverviewView, { routes: withoutUpload })
 
-    const action = wrapper.find('[data-testid="next-step-action"]')
-    expect(action.text()).toBe('Upload a table')
-    expect(action.attributes('href')).toBe('/upload')
+    expect(wrapper.find('[data-testid="next-step"]').text()).toContain('Upload a per-cell table to start')
+    expect(wrapper.find('[data-testid="next-step-action"]').exists()).toBe(false)
   })
 
   it('tells someone without a lab whom to ask', async () => {

@@ -11,7 +11,7 @@ const NAV_BY_ROLE = {
   biostatistician: ['Reviews'],
   admin: ['People & labs', 'Outbox', 'Audit log'],
 } as const
-const BUILT = new Set<string>(['Overview'])
+const BUILT = new Set<string>(['Overview', 'Datasets'])
 
 type NavGroup = keyof typeof NAV_BY_ROLE
 

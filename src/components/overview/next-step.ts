@@ -1,7 +1,8 @@
 import type { CurrentUser } from '../../../shared/schemas/auth'
+import { writableLabs } from '@/components/dataset/lab-access'
 
 export interface NextStep {
-  id: 'upload-first-table' | 'join-a-lab' | 'instance-admin'
+  id: 'upload-first-table' | 'read-lab-datasets' | 'join-a-lab' | 'instance-admin'
   icon: string
   title: string
   text: string
@@ -9,12 +10,13 @@ export interface NextStep {
   action?: { label: string; routeName: string }
 }
 
-/** The route a later feature registers for uploading; until then the step is text only. */
+/** The upload page's route name (src/router/routes.ts). */
 export const UPLOAD_ROUTE_NAME = 'dataset-upload'
+export const DATASETS_ROUTE_NAME = 'datasets'
 
 /** What a signed-in person should do first, in plain words, when there is nothing to show yet. */
 export function nextStepFor(user: CurrentUser): NextStep {
-  if (user.memberships.length > 0) {
+  if (writableLabs(user).length > 0) {
     return {
       id: 'upload-first-table',
       icon: 'mdi-table-arrow-up',
@@ -24,6 +26,18 @@ export function nextStepFor(user: CurrentUser): NextStep {
         'that say which animal, culture, plate or day each row came from. Nestwise suggests how ' +
         'these units are nested and then analyses at the level of independent units.',
       action: { label: 'Upload a table', routeName: UPLOAD_ROUTE_NAME },
+    }
+  }
+  // Biostatisticians review what scientists and PIs upload; they do not upload themselves.
+  if (user.memberships.length > 0) {
+    return {
+      id: 'read-lab-datasets',
+      icon: 'mdi-table-search',
+      title: 'See what your labs have uploaded',
+      text:
+        'Scientists and PIs of your labs upload per-cell tables and say how their units are nested. ' +
+        'You can read each table, its nesting and what was left out, and why.',
+      action: { label: 'See datasets', routeName: DATASETS_ROUTE_NAME },
     }
   }
   if (user.isAdmin) {
