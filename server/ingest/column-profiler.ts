@@ -17,6 +17,10 @@ export interface ColumnCodes {
   labels: string[]
 }
 
+/** Codes the lookup returns besides a label code. */
+const NA_CODE = -1
+const UNCODED = -2
+
 const SAMPLE_SIZE = 5
 const TOP_VALUES = 20
 
@@ -42,6 +46,8 @@ export class ColumnProfiler {
   private min = Infinity
   private max = -Infinity
   private samples: string[] = []
+  private lastText: string | undefined = undefined
+  private lastCode = UNCODED
   /** First cell written as a number too large for a double (row index, text). */
   overflow: { rowIndex: number; text: string } | null = null
 
@@ -56,25 +62,26 @@ export class ColumnProfiler {
   add(raw: string | null): void {
     const rowIndex = this.rows++
     const text = raw === null ? '' : trimCell(raw)
-    if (this.options.naValues.has(text)) {
+    // Grouping columns repeat the same value for many rows in a row: skip the lookup then.
+    let code: number
+    if (text === this.lastText) code = this.lastCode
+    else {
+      code = this.lookup(text, rowIndex)
+      this.lastText = text
+      this.lastCode = code
+    }
+    if (code === NA_CODE) {
       this.missing++
       if (this.codes) this.setCode(rowIndex, MISSING_CODE)
       return
     }
     this.sawValue = true
     let value: number
-    if (this.distinct) {
-      let code = this.distinct.get(text)
-      if (code === undefined) code = this.addDistinct(text, rowIndex)
-      if (code !== undefined) {
-        this.setCode(rowIndex, code)
-        this.counts![code]++
-        if (!this.maybeNumeric) return
-        value = this.valueOfCode![code]
-      } else {
-        if (!this.maybeNumeric) return
-        value = this.classify(text, rowIndex)
-      }
+    if (code >= 0) {
+      this.setCode(rowIndex, code)
+      this.counts![code]++
+      if (!this.maybeNumeric) return
+      value = this.valueOfCode![code]
     } else {
       if (!this.maybeNumeric) return
       value = this.classify(text, rowIndex)
@@ -89,17 +96,30 @@ export class ColumnProfiler {
     if (value > this.max) this.max = value
   }
 
+  /** NA_CODE for a missing value, the value's code, or UNCODED once the column has too many distinct values. */
+  private lookup(text: string, rowIndex: number): number {
+    const distinct = this.distinct
+    if (!distinct) return this.options.naValues.has(text) ? NA_CODE : UNCODED
+    const known = distinct.get(text)
+    if (known !== undefined) return known
+    if (this.options.naValues.has(text)) {
+      distinct.set(text, NA_CODE)
+      return NA_CODE
+    }
+    return this.addDistinct(text, rowIndex) ?? UNCODED
+  }
+
   /** Registers a new distinct value; returns its code, or undefined when the cap was just passed. */
   private addDistinct(text: string, rowIndex: number): number | undefined {
     const distinct = this.distinct!
-    if (distinct.size >= this.options.distinctCap) {
+    if (this.labels.length >= this.options.distinctCap) {
       this.distinct = null
       this.codes = null
       this.counts = null
       this.valueOfCode = null
       return undefined
     }
-    const code = distinct.size
+    const code = this.labels.length
     distinct.set(text, code)
     this.labels.push(text)
     if (this.samples.length < SAMPLE_SIZE) this.samples.push(text)
@@ -154,7 +174,7 @@ export class ColumnProfiler {
       name: this.name,
       type: this.type,
       missingCount: this.missing,
-      distinctCount: this.distinct ? this.distinct.size : this.options.distinctCap,
+      distinctCount: this.distinct ? this.labels.length : this.options.distinctCap,
       distinctCapped: this.distinct === null,
       min: hasNumbers ? this.min : null,
       max: hasNumbers ? this.max : null,

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { CopyTextReader, decodeCopyTextField, encodeCopyTextRow } from './copy-text'
+import { CopyTextLines, decodeCopyTextField, encodeCopyTextRow, fieldEnd } from './copy-text'
 
 describe('COPY text format', () => {
   it('escapes backslashes, tabs and line breaks and writes NULL for empty cells', () => {
@@ -11,7 +11,16 @@ describe('COPY text format', () => {
     const bytes = Buffer.from(rows.map((r) => encodeCopyTextRow(r)).join(''))
     for (let cut = 1; cut < bytes.length; cut++) {
       const out: (string | null)[][] = []
-      const reader = new CopyTextReader((fields) => out.push(fields.map(decodeCopyTextField)))
+      const reader = new CopyTextLines((text, start, end) => {
+        const fields: (string | null)[] = []
+        for (let from = start; ; ) {
+          const to = fieldEnd(text, from, end)
+          fields.push(decodeCopyTextField(text.slice(from, to)))
+          if (to === end) break
+          from = to + 1
+        }
+        out.push(fields)
+      })
       reader.push(bytes.subarray(0, cut))
       reader.push(bytes.subarray(cut))
       reader.end()

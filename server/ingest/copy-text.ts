@@ -30,14 +30,15 @@ export function decodeCopyTextField(field: string): string | null {
 }
 
 /**
- * Splits COPY text output arriving in chunks into rows. `onRow` gets the raw fields (still escaped):
- * callers decode only the fields they need, which keeps a million-row read-back fast.
+ * Splits COPY text output arriving in chunks into lines without allocating per-row arrays:
+ * `onLine(text, start, end)` gets the decoded chunk text and the bounds of one line (no newline);
+ * callers walk its tab-separated fields with nextTab(). A million-row read-back stays fast.
  */
-export class CopyTextReader {
+export class CopyTextLines {
   private carry = ''
   private readonly decoder = new TextDecoder('utf-8')
 
-  constructor(private readonly onRow: (fields: string[]) => void) {}
+  constructor(private readonly onLine: (text: string, start: number, end: number) => void) {}
 
   push(chunk: Uint8Array): void {
     const text = this.carry + this.decoder.decode(chunk, { stream: true })
@@ -45,7 +46,7 @@ export class CopyTextReader {
     for (;;) {
       const end = text.indexOf('\n', start)
       if (end === -1) break
-      this.onRow(text.slice(start, end).split('\t'))
+      this.onLine(text, start, end)
       start = end + 1
     }
     this.carry = text.slice(start)
@@ -53,7 +54,13 @@ export class CopyTextReader {
 
   end(): void {
     const rest = this.carry + this.decoder.decode()
-    if (rest.length) this.onRow(rest.split('\t'))
+    if (rest.length) this.onLine(rest, 0, rest.length)
     this.carry = ''
   }
+}
+
+/** End of the field starting at `from`: the next tab, or `lineEnd` for the last field of the line. */
+export function fieldEnd(text: string, from: number, lineEnd: number): number {
+  const tab = text.indexOf('\t', from)
+  return tab === -1 || tab > lineEnd ? lineEnd : tab
 }

@@ -10,6 +10,7 @@ import { badFile, describeColumn } from './ingest-errors'
 import type { TextSniff } from './sniff'
 import { TableIntake, type IntakeLimits, type IntakeResult } from './table-intake'
 import type { ProgressSink } from './upload-progress'
+import { Utf8Chunks } from './utf8-chunks'
 
 /** The original bytes could not go to PostgreSQL as they are; store parsed rows instead. */
 export class FastPathBlocked extends Error {}
@@ -28,15 +29,12 @@ interface TextDecoderLike {
 
 function decoderFor(encoding: string): TextDecoderLike {
   if (encoding === 'utf-8') {
-    const decoder = new TextDecoder('utf-8', { fatal: true })
-    const guard = (fn: () => string) => {
-      try {
-        return fn()
-      } catch {
-        throw new NotUtf8()
-      }
+    const decoder = new Utf8Chunks()
+    const valid = (text: string | null) => {
+      if (text === null) throw new NotUtf8()
+      return text
     }
-    return { write: (bytes) => guard(() => decoder.decode(bytes, { stream: true })), end: () => guard(() => decoder.decode()) }
+    return { write: (bytes) => valid(decoder.write(bytes)), end: () => valid(decoder.end()) }
   }
   const decoder = iconv.getDecoder(encoding)
   return { write: (bytes) => decoder.write(bytes), end: () => decoder.end() ?? '' }
@@ -153,6 +151,8 @@ export async function storeCsv(
       throw error instanceof CsvSyntaxError ? syntaxToBadFile(error, intake, limits) : error
     }
   }
+  // Written chunks are not awaited right away: PostgreSQL stores chunk k while we parse chunk k + 1.
+  let draining: Promise<void> | null = null
   const flush = async () => {
     if (!state.copy && intake.columnNames) {
       await createRowsTable(trx, versionId, intake.columnNames.length)
@@ -168,8 +168,12 @@ export async function storeCsv(
       return
     }
     for (const buffer of pending) {
-      if (!copy.write(buffer)) await waitForDrain(copy)
+      if (draining) {
+        await draining
+        draining = null
+      }
       if (state.copyError) break
+      if (!copy.write(buffer)) draining = waitForDrain(copy)
     }
     pending = []
   }
@@ -206,6 +210,7 @@ export async function storeCsv(
     if (mode === 'parsed-rows' && encoded.length) pending.push(Buffer.from(encoded.join(''), 'utf8'))
     encoded = []
     await flush()
+    if (draining) await draining
     const stream = state.copy
     if (!stream) throw new Error('no rows table was created')
     if (!state.copyError) {

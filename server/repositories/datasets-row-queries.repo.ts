@@ -1,6 +1,6 @@
 import type { ColumnType, Exclusion, ExclusionRule, ExclusionUnit } from '../../shared/schemas/datasets'
 import { numberPatternSql, TRIM_CHARS_SQL, type DecimalMark } from '../ingest/number-text'
-import { cellColumn, rowsTable } from './datasets-rows.repo'
+import { cellColumn, queryBuilt, rowsTable } from './datasets-rows.repo'
 import { defaultConn, type Conn } from './connection'
 
 /**
@@ -82,19 +82,19 @@ export function excludedSql(shape: RowTableShape, exclusions: readonly Pick<Excl
 }
 
 export async function countRowsWhere(shape: RowTableShape, predicate: string, conn: Conn = defaultConn): Promise<number> {
-  const result = await conn.raw(`SELECT count(*)::bigint AS n FROM ${rowsTable(shape.versionId)} WHERE ${predicate}`)
-  return Number(result.rows[0].n)
+  const [row] = await queryBuilt<{ n: string }>(`SELECT count(*)::bigint AS n FROM ${rowsTable(shape.versionId)} WHERE ${predicate}`, conn)
+  return Number(row.n)
 }
 
 /** First kept row whose cell is present but not a number, for "row 57 holds 'abc'" messages. */
 export async function firstNonNumberRow(shape: RowTableShape, position: number, excluded: string, conn: Conn = defaultConn): Promise<{ rowNo: number; value: string } | null> {
   const c = cellColumn(position)
-  const result = await conn.raw(
+  const [row] = await queryBuilt<{ row_no: string; value: string }>(
     `SELECT row_no, ${c} AS value FROM ${rowsTable(shape.versionId)}
      WHERE NOT ${excluded} AND NOT ${missingSql(shape, position)} AND ${numberSql(shape, position)} IS NULL
      ORDER BY row_no LIMIT 1`,
+    conn,
   )
-  const row = result.rows[0] as { row_no: number; value: string } | undefined
   return row ? { rowNo: Number(row.row_no), value: row.value } : null
 }
 
@@ -139,16 +139,19 @@ export async function pageRows(shape: RowTableShape, page: PageRequest, conn: Co
     order = page.sortDesc ? 'row_no DESC' : 'row_no'
     limit = `LIMIT ${page.limit}`
   } else if (page.sortDesc) order = 'row_no DESC'
-  const result = await conn.raw(`SELECT row_no, ${cells}, ${excludedBy} AS excluded_by FROM ${table} WHERE ${where} ORDER BY ${order} ${limit}`)
-  return (result.rows as Record<string, unknown>[]).map((row) => ({
+  const rows = await queryBuilt<Record<string, unknown>>(`SELECT row_no, ${cells}, ${excludedBy} AS excluded_by FROM ${table} WHERE ${where} ORDER BY ${order} ${limit}`, conn)
+  return rows.map((row) => ({
     rowNo: Number(row.row_no),
     values: Array.from({ length: page.columnCount }, (_, k) => row[cellColumn(k + 1)] as string | null),
     excludedBy: (row.excluded_by as (number | string)[]).map(Number),
   }))
 }
 
-/** The SELECT for read-back: row_no then the asked cells, kept rows only, in file order. */
-export function readBackSelect(shape: RowTableShape, positions: readonly number[], excluded: string): string {
+/**
+ * The SELECT for read-back: row_no then the asked cells, kept rows only. Unordered, it relies on
+ * the physical order (see readInFileOrder); ordered, it sorts by row_no.
+ */
+export function readBackSelect(shape: RowTableShape, positions: readonly number[], excluded: string, ordered: boolean): string {
   const cells = positions.map((p) => cellColumn(p)).join(', ')
-  return `SELECT row_no, ${cells} FROM ${rowsTable(shape.versionId)} WHERE NOT ${excluded} ORDER BY row_no`
+  return `SELECT row_no, ${cells} FROM ${rowsTable(shape.versionId)} WHERE NOT ${excluded}${ordered ? ' ORDER BY row_no' : ''}`
 }

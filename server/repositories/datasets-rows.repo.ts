@@ -60,18 +60,46 @@ export async function openCopyIn(trx: Knex.Transaction, versionId: number, colum
   return client.query(copyFrom(sql))
 }
 
+/** Runs `work` on the node-postgres client behind `conn` (the transaction's own, or one from the pool). */
+async function withClient<T>(conn: Conn, work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
+  const isTransaction = 'isTransaction' in conn && (conn as Knex.Transaction).isTransaction
+  const client = isTransaction ? await transactionClient(conn as Knex.Transaction) : ((await conn.client.acquireConnection()) as pg.PoolClient)
+  try {
+    return await work(client)
+  } finally {
+    if (!isTransaction) await conn.client.releaseConnection(client)
+  }
+}
+
+/**
+ * Runs SQL built from positions and escaped literals (see datasets-row-queries.repo) as it is.
+ * knex.raw would rewrite every "?" — including those inside regular expressions and literals —
+ * into bind placeholders, so these queries bypass it.
+ */
+export async function queryBuilt<T>(sql: string, conn: Conn = defaultConn): Promise<T[]> {
+  return withClient(conn, async (client) => (await client.query(sql)).rows as T[])
+}
+
 /**
  * Streams `COPY (<select>) TO STDOUT` in text format to `consume`. The select is built by the caller
  * from integer-derived identifiers and escaped literals only (COPY takes no bind parameters).
  */
 export async function copyOut(select: string, consume: (stream: Readable) => Promise<void>, conn: Conn = defaultConn): Promise<void> {
-  const isTransaction = 'isTransaction' in conn && (conn as Knex.Transaction).isTransaction
-  const client = isTransaction ? await transactionClient(conn as Knex.Transaction) : ((await conn.client.acquireConnection()) as pg.PoolClient)
-  try {
-    await consume(client.query(copyTo(`COPY (${select}) TO STDOUT`)))
-  } finally {
-    if (!isTransaction) await conn.client.releaseConnection(client)
-  }
+  await withClient(conn, (client) => consume(client.query(copyTo(`COPY (${select}) TO STDOUT`))))
+}
+
+/**
+ * Runs a read-back in a transaction where a plain sequential scan returns the rows in the order
+ * COPY wrote them: rows are never updated, so the heap is in row_no order; we only stop scans from
+ * joining another scan midway (synchronize_seqscans) or splitting across workers. This spares
+ * sorting a million rows. The caller still checks row_no rises and falls back to ORDER BY if not.
+ */
+export async function inPhysicalOrder<T>(work: (trx: Knex.Transaction) => Promise<T>, conn: Conn = defaultConn): Promise<T> {
+  return conn.transaction(async (trx) => {
+    await trx.raw('SET LOCAL synchronize_seqscans = off')
+    await trx.raw('SET LOCAL max_parallel_workers_per_gather = 0')
+    return work(trx)
+  })
 }
 
 /** Row-table names present in the schema, for the startup sweep. */

@@ -2,13 +2,14 @@ import type { Readable } from 'node:stream'
 import type { Exclusion } from '../../shared/schemas/datasets'
 import type { Factor, NestedColumns } from '../../shared/stats/types'
 import { NotFoundError, UnprocessableError } from '../errors/app-error'
-import { CopyTextReader, decodeCopyTextField } from '../ingest/copy-text'
+import { CopyTextLines, decodeCopyTextField, fieldEnd } from '../ingest/copy-text'
 import { parseNumberText, trimCell } from '../ingest/number-text'
 import { activeExclusions } from '../repositories/datasets-annotations.repo'
 import { excludedSql, readBackSelect, type RowTableShape } from '../repositories/datasets-row-queries.repo'
-import { copyOut } from '../repositories/datasets-rows.repo'
+import { copyOut, inPhysicalOrder } from '../repositories/datasets-rows.repo'
 import { findVersionById, listColumns, type VersionRecord } from '../repositories/datasets.repo'
 import { defaultConn, type Conn } from '../repositories/connection'
+import { logger } from '../logger'
 
 export async function shapeOf(version: VersionRecord, conn: Conn = defaultConn): Promise<RowTableShape> {
   const columns = await listColumns(version.id, conn)
@@ -56,6 +57,21 @@ export async function readColumns(
   exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
   conn: Conn = defaultConn,
 ): Promise<ReadColumns> {
+  return readColumnsWith(version, shape, requests, exclusions, conn, false)
+}
+
+function readColumnsSorted(version: VersionRecord, shape: RowTableShape, requests: readonly ColumnRequest[], exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[], conn: Conn) {
+  return readColumnsWith(version, shape, requests, exclusions, conn, true)
+}
+
+async function readColumnsWith(
+  version: VersionRecord,
+  shape: RowTableShape,
+  requests: readonly ColumnRequest[],
+  exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
+  conn: Conn,
+  sorted: boolean,
+): Promise<ReadColumns> {
   const positions = requests.map((r) => {
     const column = shape.columns.get(r.name)
     if (!column) throw new NotFoundError(`The column "${r.name}" is not in this version.`)
@@ -64,56 +80,87 @@ export async function readColumns(
   const capacity = version.rowCount
   const rowNos = new Float64Array(capacity)
   const na = new Set(version.naValues)
-  const factorState = requests.map((r) => (r.as === 'factor' ? { codes: new Int32Array(capacity), labels: [] as string[], index: new Map<string, number>() } : null))
-  const numberState = requests.map((r) => (r.as === 'number' ? new Float64Array(capacity) : null))
-  const notNumbers = new Map<string, { rowNo: number; value: string }>()
+  // Missing-value words that read as numbers (say "-999"): only these need a lookup on the fast path.
+  const numericNa = new Set(version.naValues.filter((v) => v.trim() !== '' && Number.isFinite(Number(v))))
   const mark = version.decimalMark
+  const factorState = requests.map((r) => (r.as === 'factor' ? { codes: new Int32Array(capacity), labels: [] as string[], index: new Map<string, number>(), lastRaw: '\u0000', lastCode: -1 } : null))
+  const numberState = requests.map((r) => (r.as === 'number' ? new Float64Array(capacity) : null))
+  // Columns profiled as numbers hold only number-shaped cells besides missing ones, so Number() is exact there.
+  const profiledNumeric = requests.map((r) => {
+    const type = shape.columns.get(r.name)?.type
+    return type === 'integer' || type === 'numeric'
+  })
+  const notNumbers = new Map<string, { rowNo: number; value: string }>()
   let count = 0
+  let lastRowNo = 0
+  let inOrder = true
 
-  const reader = new CopyTextReader((fields) => {
+  const strictNumber = (k: number, raw: string, rowNo: number): number => {
+    const decoded = raw === '\\N' ? '' : (decodeCopyTextField(raw) ?? '')
+    const text = trimCell(decoded)
+    if (na.has(text)) return NaN
+    const value = parseNumberText(text, mark)
+    if (Number.isFinite(value)) return value
+    if (!notNumbers.has(requests[k].name)) notNumbers.set(requests[k].name, { rowNo, value: text })
+    return NaN
+  }
+
+  const reader = new CopyTextLines((line, start, end) => {
     const i = count++
-    const rowNo = Number(fields[0])
+    let to = fieldEnd(line, start, end)
+    const rowNo = Number(line.slice(start, to))
+    if (rowNo <= lastRowNo) inOrder = false
+    lastRowNo = rowNo
     rowNos[i] = rowNo
     for (let k = 0; k < requests.length; k++) {
-      const raw = fields[k + 1]
-      const decoded = raw === '\\N' ? null : decodeCopyTextField(raw)
-      const text = decoded === null ? '' : trimCell(decoded)
+      const from = to + 1
+      to = fieldEnd(line, from, end)
+      const raw = line.slice(from, to)
       const factor = factorState[k]
       if (factor) {
-        if (na.has(text)) {
-          factor.codes[i] = -1
+        // Grouping columns repeat a label for many rows in a row: compare with the last one first.
+        if (raw === factor.lastRaw) {
+          factor.codes[i] = factor.lastCode
           continue
         }
+        const text = raw === '\\N' ? '' : trimCell(decodeCopyTextField(raw) ?? '')
         let code = factor.index.get(text)
         if (code === undefined) {
-          code = factor.labels.length
+          if (na.has(text)) code = -1
+          else {
+            code = factor.labels.length
+            factor.labels.push(text)
+          }
           factor.index.set(text, code)
-          factor.labels.push(text)
         }
         factor.codes[i] = code
+        factor.lastRaw = raw
+        factor.lastCode = code
       } else {
         const out = numberState[k]!
-        if (na.has(text)) {
-          out[i] = NaN
-          continue
+        if (profiledNumeric[k] && raw !== '\\N' && raw !== '') {
+          const value = Number(mark === ',' ? raw.replace(',', '.') : raw)
+          if (Number.isFinite(value) && (numericNa.size === 0 || !numericNa.has(trimCell(raw)))) {
+            out[i] = value
+            continue
+          }
         }
-        const value = parseNumberText(text, mark)
-        if (!Number.isFinite(value)) {
-          out[i] = NaN
-          if (!notNumbers.has(requests[k].name)) notNumbers.set(requests[k].name, { rowNo, value: text })
-        } else out[i] = value
+        out[i] = strictNumber(k, raw, rowNo)
       }
     }
   })
-  const select = readBackSelect(shape, positions, excludedSql(shape, exclusions))
-  await copyOut(
-    select,
-    async (stream: Readable) => {
-      for await (const chunk of stream) reader.push(chunk as Buffer)
-      reader.end()
-    },
-    conn,
-  )
+  const excluded = excludedSql(shape, exclusions)
+  const consume = async (stream: Readable) => {
+    for await (const chunk of stream) reader.push(chunk as Buffer)
+    reader.end()
+  }
+  if (sorted) await copyOut(readBackSelect(shape, positions, excluded, true), consume, conn)
+  else await inPhysicalOrder((trx) => copyOut(readBackSelect(shape, positions, excluded, false), consume, trx), conn)
+  if (!inOrder && !sorted) {
+    // Not expected for tables written once by COPY; read again, sorted, rather than return rows out of order.
+    logger.warn('read-back rows came out of file order; reading again sorted', { versionId: version.id })
+    return readColumnsSorted(version, shape, requests, exclusions, conn)
+  }
   const factors = new Map<string, FactorColumn>()
   const numbers = new Map<string, Float64Array>()
   requests.forEach((r, k) => {

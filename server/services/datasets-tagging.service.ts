@@ -22,7 +22,7 @@ async function designOf(version: VersionRecord, shape: RowTableShape, levels: re
   const read = await readColumns(version, shape, [...levels, ...(condition ? [condition] : [])].map((name) => ({ name, as: 'factor' as const })), exclusions)
   const coded = (name: string) => {
     const column = read.factors.get(name)!
-    return { name, codes: column.codes, labels: column.labels, missingCode: -1 }
+    return { name, codes: column.codes, labels: column.labels }
   }
   const facts = describeDesign({ rowCount: read.count, levels: levels.map(coded), condition: condition ? coded(condition) : null })
   return { facts, read }

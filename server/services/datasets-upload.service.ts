@@ -32,6 +32,13 @@ import { findOrInsertProject, findProject } from '../repositories/projects.repo'
 import { assertCanWriteInLab, datasetFor } from './datasets-access.service'
 import { getDatasetDetail, getVersionDetail } from './datasets.service'
 
+/** The profiler's 16-bit codes as the Int32Array the nesting functions take (-1 for missing). */
+function toInt32Codes(codes: Uint16Array): Int32Array {
+  const out = new Int32Array(codes.length)
+  for (let r = 0; r < codes.length; r++) out[r] = codes[r] === MISSING_CODE ? -1 : codes[r]
+  return out
+}
+
 /** The nesting suggestion from the codes the profiler kept during ingest (no second pass over the rows). */
 export function suggestionFromIntake(intake: IntakeResult): NestingSuggestion {
   const columns: SuggestionColumn[] = intake.profiles.map((profile, k) => {
@@ -41,7 +48,7 @@ export function suggestionFromIntake(intake: IntakeResult): NestingSuggestion {
       type: profile.type,
       distinctCount: profile.distinctCount,
       missingCount: profile.missingCount,
-      coded: codes ? { name: profile.name, codes: codes.codes, labels: codes.labels, missingCode: MISSING_CODE } : null,
+      coded: codes ? { name: profile.name, codes: toInt32Codes(codes.codes), labels: codes.labels } : null,
     }
   })
   return suggestNesting(intake.rowCount, columns)

@@ -81,7 +81,7 @@ function countParentsWithBothArms(paths: readonly PathLevel[], depth: number, co
   for (let r = 0; r < level.ids.length; r++) {
     const id = level.ids[r]
     const c = condition.codes[r]
-    if (id >= 0 && c !== condition.missingCode && c >= 0) unitCondition[id] = c
+    if (id >= 0 && c >= 0) unitCondition[id] = c
   }
   const first = new Int32Array(parentCount).fill(-1)
   const mixed = new Uint8Array(parentCount)
@@ -113,8 +113,7 @@ export function describeDesign(input: DesignInput): DesignFacts {
     // ids are -1 once a label on the path is missing; the first such row at the first level that has one.
     const column = level.column
     for (let r = 0; r < rowCount; r++) {
-      const code = column.codes[r]
-      if (code === column.missingCode || code < 0) {
+      if (column.codes[r] < 0) {
         if (!missingLabel || r < missingLabel.rowIndex) missingLabel = { column: column.name, rowIndex: r }
         break
       }
@@ -127,8 +126,7 @@ export function describeDesign(input: DesignInput): DesignFacts {
   const explanation = levelSentences(paths)
   if (condition) {
     for (let r = 0; r < rowCount; r++) {
-      const c = condition.codes[r]
-      if (c === condition.missingCode || c < 0) {
+      if (condition.codes[r] < 0) {
         missingCondition = { rowIndex: r }
         break
       }
@@ -164,7 +162,7 @@ function armsOf(paths: readonly PathLevel[], condition: CodedColumn, depth: numb
   const counted = level ? new Uint8Array(level.count) : null
   for (let r = 0; r < rowCount; r++) {
     const c = condition.codes[r]
-    if (c === condition.missingCode || c < 0) continue
+    if (c < 0) continue
     observations[c]++
     if (level) {
       const id = level.ids[r]

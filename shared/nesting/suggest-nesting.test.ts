@@ -4,15 +4,13 @@ import { describeDesign } from './describe-design'
 import { suggestNesting, type SuggestionColumn } from './suggest-nesting'
 import type { CodedColumn } from './unit-paths'
 
-const MISSING = 0xffff
-
 function coded(name: string, values: (string | null)[]): CodedColumn {
   const labels: string[] = []
   const index = new Map<string, number>()
-  const codes = new Uint16Array(values.length)
+  const codes = new Int32Array(values.length)
   values.forEach((v, r) => {
     if (v === null) {
-      codes[r] = MISSING
+      codes[r] = -1
       return
     }
     let code = index.get(v)
@@ -23,7 +21,7 @@ function coded(name: string, values: (string | null)[]): CodedColumn {
     }
     codes[r] = code
   })
-  return { name, codes, labels, missingCode: MISSING }
+  return { name, codes, labels }
 }
 
 function column(name: string, type: ColumnType, values: (string | null)[]): SuggestionColumn {

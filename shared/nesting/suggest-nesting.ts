@@ -65,7 +65,7 @@ function countsUpByOne(column: CodedColumn, rowCount: number): boolean {
   for (let r = 1; r < rowCount; r++) {
     const a = column.codes[r - 1]
     const b = column.codes[r]
-    if (a !== column.missingCode && b !== column.missingCode && values[b] === values[a] + 1) steps++
+    if (a >= 0 && b >= 0 && values[b] === values[a] + 1) steps++
   }
   return rowCount > 1 && steps >= 0.8 * (rowCount - 1)
 }

@@ -1,0 +1,200 @@
+/**
+ * Ingest benchmark (`npm run bench:ingest [-- --runs 3] [-- --rows 1000000] [-- --port 3197]`).
+ *
+ * 1. Writes a seeded, invented per-cell CSV (≈ 1,000,000 rows: lab, animal, condition, cell,
+ *    neurite_length_um, soma_area_um2) into .bench/ingest/.
+ * 2. Prepares its own database (nestwise_bench, fresh, migrated, demo people seeded), starts the
+ *    server on its own port, signs in as a demo scientist and uploads the file through the real
+ *    HTTP route (multipart, as the browser does) — timed from the first byte sent until the 201
+ *    that says the rows are stored and profiled.
+ * 3. Times `psql \copy` of the same file into a plain table of text columns (the floor).
+ * 4. Reads the server's peak resident memory (VmHWM in /proc/<pid>/status) after the uploads.
+ * 5. Tags the dataset through the API and times loadNestedColumns for the whole file.
+ * Targets: upload-to-ready ≤ 1.5 × psql COPY; server peak RSS < 600 MB.
+ */
+import { spawn, spawnSync } from 'node:child_process'
+import { closeSync, mkdirSync, openSync, openAsBlob, readFileSync, statSync, writeSync } from 'node:fs'
+import { join, resolve } from 'node:path'
+import seedrandom from 'seedrandom'
+
+const args = process.argv.slice(2)
+const option = (name: string, fallback: number) => {
+  const at = args.indexOf(`--${name}`)
+  return at >= 0 ? Number(args[at + 1]) : fallback
+}
+const RUNS = option('runs', 3)
+const ROWS = option('rows', 1_000_000)
+const PORT = option('port', 3197)
+const DATABASE = 'nestwise_bench'
+
+process.env.PGDATABASE = DATABASE
+process.env.NODE_ENV = 'test'
+const { config } = await import('../../server/config')
+const { ensurePostgres } = await import('../lib/postgres')
+const { prepareDatabase } = await import('../lib/database')
+const { demoPassword } = await import('../../seeds/data/demo-accounts')
+
+/** Invented consortium: 12 labs × 40 mice (labels reused across labs), vehicle or NW-117 per mouse. */
+function writeBenchCsv(path: string, rows: number): number {
+  const random = seedrandom('nestwise-ingest-bench')
+  const normal = () => {
+    let u = 0
+    while (u === 0) u = random()
+    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * random())
+  }
+  const fd = openSync(path, 'w')
+  let text = 'lab,animal,condition,cell,neurite_length_um,soma_area_um2\n'
+  let written = 0
+  const perMouse = Math.max(1, Math.round(rows / (12 * 40)))
+  outer: for (let lab = 1; lab <= 12; lab++) {
+    const labShift = normal() * 8
+    for (let mouse = 1; mouse <= 40; mouse++) {
+      const condition = mouse % 2 ? 'vehicle' : 'NW-117'
+      const mouseShift = normal() * 5 + (condition === 'NW-117' ? 6 : 0)
+      const cells = lab === 12 && mouse === 40 ? rows - written : Math.round(perMouse * (0.5 + random()))
+      for (let cell = 1; cell <= cells; cell++) {
+        if (written === rows) break outer
+        const length = 120 + labShift + mouseShift + normal() * 25
+        const soma = 85 + normal() * 9
+        text += `L${lab},m${mouse},${condition},${cell},${length.toFixed(1)},${soma.toFixed(1)}\n`
+        written++
+        if (text.length > 1 << 20) {
+          writeSync(fd, text)
+          text = ''
+        }
+      }
+    }
+  }
+  writeSync(fd, text)
+  closeSync(fd)
+  return written
+}
+
+const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]
+const seconds = (ms: number) => `${(ms / 1000).toFixed(2)} s`
+
+async function waitForHealth(base: string): Promise<void> {
+  for (let k = 0; k < 200; k++) {
+    try {
+      const res = await fetch(`${base}/api/health`)
+      if (res.ok) return
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 100))
+  }
+  throw new Error('the server did not come up')
+}
+
+function peakRssMb(pid: number): number {
+  const status = readFileSync(`/proc/${pid}/status`, 'utf8')
+  const match = /VmHWM:\s+(\d+) kB/.exec(status)
+  return match ? Number(match[1]) / 1024 : NaN
+}
+
+const dir = resolve('.bench/ingest')
+mkdirSync(dir, { recursive: true })
+const csvPath = join(dir, `cells-${ROWS}.csv`)
+let started = performance.now()
+const written = writeBenchCsv(csvPath, ROWS)
+const bytes = statSync(csvPath).size
+console.log(`[bench] wrote ${written.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB in ${seconds(performance.now() - started)} → ${csvPath}`)
+
+ensurePostgres()
+await prepareDatabase(DATABASE, { fresh: true, seed: true })
+
+const base = `http://127.0.0.1:${PORT}`
+const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  env: { ...process.env, PGDATABASE: DATABASE, PORT: String(PORT), HOST: '127.0.0.1', PUBLIC_URL: base, NODE_ENV: 'test', UPLOAD_MAX_MB: '250' },
+  stdio: ['ignore', 'inherit', 'inherit'],
+})
+const stopServer = () => {
+  if (server.exitCode === null) server.kill('SIGTERM')
+}
+process.on('exit', stopServer)
+
+try {
+  await waitForHealth(base)
+  const headers = { Origin: base, 'X-Requested-With': 'nestwise' }
+  const login = await fetch(`${base}/api/v1/auth/login`, {
+    method: 'POST',
+    headers: { ...headers, 'Content-Type': 'application/json' },
+    body: JSON.stringify({ email: 'sami@example.org', password: demoPassword }),
+  })
+  if (!login.ok) throw new Error(`sign-in failed: ${login.status} ${await login.text()}`)
+  const cookie = (login.headers.get('set-cookie') ?? '').split(';')[0]
+  const me = (await login.json()).data as { memberships: { labId: number }[] }
+  const labId = me.memberships[0].labId
+
+  const uploadMs: number[] = []
+  let datasetId = 0
+  for (let run = 1; run <= RUNS; run++) {
+    const form = new FormData()
+    form.set('labId', String(labId))
+    form.set('projectName', 'Ingest benchmark')
+    form.set('name', `Benchmark run ${run}`)
+    form.set('file', await openAsBlob(csvPath, { type: 'text/csv' }), 'cells.csv')
+    started = performance.now()
+    const res = await fetch(`${base}/api/v1/datasets`, { method: 'POST', headers: { ...headers, Cookie: cookie }, body: form })
+    const elapsed = performance.now() - started
+    const body = await res.json()
+    if (res.status !== 201) throw new Error(`upload failed: ${res.status} ${JSON.stringify(body)}`)
+    const version = body.data.latestVersion
+    if (version.rowCount !== written) throw new Error(`stored ${version.rowCount} rows, expected ${written}`)
+    datasetId = body.data.id
+    uploadMs.push(elapsed)
+    console.log(`[bench] upload ${run}: ${seconds(elapsed)} to ready (server ingest ${seconds(version.ingestMs)}, ${version.rowCount.toLocaleString('en-US')} rows)`)
+  }
+  const peakMb = peakRssMb(server.pid!)
+
+  const psqlEnv = { ...process.env, PGPASSWORD: config.PGPASSWORD }
+  const psql = (command: string) => {
+    const result = spawnSync('psql', ['-h', config.PGHOST, '-p', String(config.PGPORT), '-U', config.PGUSER, '-d', DATABASE, '-v', 'ON_ERROR_STOP=1', '-q', '-c', command], { env: psqlEnv, encoding: 'utf8' })
+    if (result.status !== 0) throw new Error(`psql failed: ${result.stderr}`)
+  }
+  const copyMs: number[] = []
+  for (let run = 1; run <= RUNS; run++) {
+    psql('DROP TABLE IF EXISTS bench_plain_copy; CREATE TABLE bench_plain_copy (lab text, animal text, condition text, cell text, neurite_length_um text, soma_area_um2 text)')
+    started = performance.now()
+    psql(`\\copy bench_plain_copy FROM '${csvPath}' (FORMAT csv, HEADER true)`)
+    copyMs.push(performance.now() - started)
+    console.log(`[bench] psql \\copy ${run}: ${seconds(copyMs[copyMs.length - 1])}`)
+  }
+  psql('DROP TABLE IF EXISTS bench_plain_copy')
+
+  const tagStart = performance.now()
+  const tag = await fetch(`${base}/api/v1/datasets/${datasetId}/versions/1/tagging`, {
+    method: 'PUT',
+    headers: { ...headers, Cookie: cookie, 'Content-Type': 'application/json' },
+    body: JSON.stringify({ responseColumns: ['neurite_length_um'], conditionColumn: 'condition', levels: ['lab', 'animal'] }),
+  })
+  if (!tag.ok) throw new Error(`tagging failed: ${tag.status} ${await tag.text()}`)
+  const tagMs = performance.now() - tagStart
+  const versionId = ((await tag.json()).data.tagging as { versionId: number }).versionId
+
+  const { loadNestedColumns } = await import('../../server/services/datasets-readback.service')
+  const { db } = await import('../../server/db')
+  const readMs: number[] = []
+  let observed = 0
+  for (let run = 1; run <= RUNS; run++) {
+    started = performance.now()
+    const columns = await loadNestedColumns(versionId, { response: 'neurite_length_um', condition: 'condition', levels: ['lab', 'animal'] })
+    readMs.push(performance.now() - started)
+    observed = columns.response.length
+  }
+  await db.destroy()
+
+  const upload = median(uploadMs)
+  const copy = median(copyMs)
+  console.log('')
+  console.log(`Ingest benchmark (${written.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB, median of ${RUNS} runs)`)
+  console.log(`  upload to ready (HTTP, stored + profiled): ${seconds(upload)}   [${uploadMs.map(seconds).join(', ')}]`)
+  console.log(`  psql \\copy into a plain table:            ${seconds(copy)}   [${copyMs.map(seconds).join(', ')}]`)
+  console.log(`  ratio upload / psql:                       ${(upload / copy).toFixed(2)}   (target ≤ 1.5)`)
+  console.log(`  server peak RSS (VmHWM):                   ${peakMb.toFixed(0)} MB   (target < 600 MB)`)
+  console.log(`  tagging check over all rows (HTTP):        ${seconds(tagMs)}`)
+  console.log(`  loadNestedColumns, ${observed.toLocaleString('en-US')} rows:        ${seconds(median(readMs))}   [${readMs.map(seconds).join(', ')}]`)
+} finally {
+  stopServer()
+}
+process.exit(0)
