@@ -1,3 +1,6 @@
 export * from './auth'
 export * from './labs'
 export * from './users'
+export * from './invitations'
+export * from './audit'
+export * from './mail'
