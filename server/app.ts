@@ -5,6 +5,7 @@ import type { Store } from 'express-session'
 import { config, publicUrl } from './config'
 import { createPassport } from './auth/passport'
 import { getSharedSessionStore, sessionMiddleware } from './auth/session'
+import { auditContext } from './middleware/audit-context'
 import { clientApp } from './middleware/client-app'
 import { errorHandler, notFound } from './middleware/error-handler'
 import { loginRateLimits } from './middleware/rate-limits'
@@ -17,6 +18,7 @@ import { adminRoutes } from './routes/admin.routes'
 import { authRoutes } from './routes/auth.routes'
 import { datasetsRoutes } from './routes/datasets.routes'
 import { healthRoutes } from './routes/health.routes'
+import { invitationsRoutes } from './routes/invitations.routes'
 import { labsRoutes } from './routes/labs.routes'
 import { projectsRoutes } from './routes/projects.routes'
 
@@ -62,6 +64,8 @@ export function createApp(options: AppOptions = {}): Express {
   app.use('/api/v1', sessionMiddleware(options.sessionStore ?? getSharedSessionStore(), cookie))
   app.use('/api/v1', passport.initialize())
   app.use('/api/v1', passport.session())
+  // After the session store's callbacks, so handlers run inside the request's audit context.
+  app.use('/api/v1', auditContext())
   app.use(
     '/api/v1/auth',
     authRoutes({
@@ -71,6 +75,10 @@ export function createApp(options: AppOptions = {}): Express {
     }),
   )
   app.use('/api/v1/labs', labsRoutes())
+  app.use(
+    '/api/v1/invitations',
+    invitationsRoutes({ limits: loginRateLimits(options.loginRateLimit ?? config.LOGIN_RATE_LIMIT) }),
+  )
   app.use('/api/v1/admin', adminRoutes())
   app.use('/api/v1/datasets', datasetsRoutes())
   app.use('/api/v1/projects', projectsRoutes())

@@ -23,6 +23,8 @@ const ConfigSchema = z.object({
   SMTP_USER: z.string().optional(),
   SMTP_PASSWORD: z.string().optional(),
   MAIL_FROM: z.string().default('Nestwise <no-reply@nestwise.invalid>'),
+  // fake: a local SMTP server inside the app keeps every message (default outside production).
+  MAIL_MODE: z.enum(['fake', 'smtp']).optional(),
 })
 
 export type Config = z.infer<typeof ConfigSchema>

@@ -3,6 +3,7 @@ import { closeSharedSessionStore } from './auth/session'
 import { config, publicUrl } from './config'
 import { db } from './db'
 import { logger } from './logger'
+import { startMailRuntime } from './mail/mail-runtime'
 
 // Give in-flight requests this long to finish on shutdown before connections are cut.
 const SHUTDOWN_GRACE_MS = 10_000
@@ -19,6 +20,12 @@ const server = app.listen(config.PORT, config.HOST, (err?: Error) => {
   })
 })
 
+// Mail (the outbox sender, and the local fake SMTP server outside production) runs in this process.
+const mail = startMailRuntime().catch((err: unknown) => {
+  logger.error('mail could not start; messages stay in the outbox', { err })
+  return undefined
+})
+
 let stopping = false
 async function shutdown(signal: string): Promise<void> {
   if (stopping) return
@@ -30,6 +37,7 @@ async function shutdown(signal: string): Promise<void> {
     server.closeIdleConnections()
   })
   clearTimeout(force)
+  await (await mail)?.stop()
   await Promise.allSettled([closeSharedSessionStore(), db.destroy()])
   logger.info('stopped')
   process.exit(0)

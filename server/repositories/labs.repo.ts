@@ -73,3 +73,17 @@ export async function insertLab(lab: { name: string; slug: string }, conn: Conn 
   const [row]: LabRow[] = await conn('labs').insert(lab).returning(['id', 'name', 'slug', 'created_at'])
   return toLab(row)
 }
+
+export async function findLabByNameOrSlug(
+  name: string,
+  slug: string,
+  conn: Conn = defaultConn,
+): Promise<Lab | undefined> {
+  const row: LabRow | undefined = await conn('labs').whereRaw('lower(name) = lower(?)', [name]).orWhere({ slug }).first()
+  return row ? toLab(row) : undefined
+}
+
+export async function slugsStartingWith(prefix: string, conn: Conn = defaultConn): Promise<string[]> {
+  const rows: { slug: string }[] = await conn('labs').select('slug').where('slug', 'like', `${prefix}%`)
+  return rows.map((r) => r.slug)
+}

@@ -56,3 +56,34 @@ export async function upsertMembership(
     .onConflict(['user_id', 'lab_id'])
     .merge(['role'])
 }
+
+export async function findMembership(
+  userId: number,
+  labId: number,
+  conn: Conn = defaultConn,
+): Promise<{ userId: number; labId: number; role: Role } | undefined> {
+  const row: { user_id: number; lab_id: number; role: Role } | undefined = await conn('memberships')
+    .where({ user_id: userId, lab_id: labId })
+    .first()
+  return row ? { userId: row.user_id, labId: row.lab_id, role: row.role } : undefined
+}
+
+/**
+ * The user ids of the lab's PIs, with their rows locked until the transaction ends, so two
+ * simultaneous demotions cannot both pass the "not the last PI" check.
+ */
+export async function lockPiMemberships(labId: number, trx: Conn): Promise<number[]> {
+  const rows: { user_id: number }[] = await trx('memberships')
+    .select('user_id')
+    .where({ lab_id: labId, role: 'pi' })
+    .forUpdate()
+  return rows.map((r) => r.user_id)
+}
+
+export async function updateMembershipRole(userId: number, labId: number, role: Role, conn: Conn = defaultConn): Promise<void> {
+  await conn('memberships').where({ user_id: userId, lab_id: labId }).update({ role })
+}
+
+export async function deleteMembership(userId: number, labId: number, conn: Conn = defaultConn): Promise<boolean> {
+  return (await conn('memberships').where({ user_id: userId, lab_id: labId }).delete()) === 1
+}
