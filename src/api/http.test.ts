@@ -86,7 +86,10 @@ describe('request', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/things': { status: 401, body: { error: { code: 'UNAUTHENTICATED', message: 'Sign in first.' } } },
+        'GET /api/v1/things': {
+          status: 401,
+          body: { error: { code: 'UNAUTHENTICATED', message: 'Sign in first.' } },
+        },
       }).fetch,
     )
     const handler = vi.fn()

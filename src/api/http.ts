@@ -112,8 +112,7 @@ async function readJson(response: Response): Promise<unknown> {
 
 export async function toApiError(response: Response): Promise<ApiError> {
   const body = (await readJson(response)) as
-    | { error?: { code?: unknown; message?: unknown; details?: unknown } }
-    | undefined
+    { error?: { code?: unknown; message?: unknown; details?: unknown } } | undefined
   const fallback = fallbackByStatus[response.status] ?? {
     code: 'INTERNAL',
     message: `The server ran into a problem (HTTP ${response.status}). Try again shortly.`,
@@ -123,9 +122,7 @@ export async function toApiError(response: Response): Promise<ApiError> {
     status: response.status,
     code: typeof body?.error?.code === 'string' ? body.error.code : fallback.code,
     message:
-      typeof body?.error?.message === 'string' && body.error.message
-        ? body.error.message
-        : fallback.message,
+      typeof body?.error?.message === 'string' && body.error.message ? body.error.message : fallback.message,
     details: body?.error?.details,
     retryAfterSeconds: Number.isFinite(retryAfter) && retryAfter > 0 ? retryAfter : undefined,
   })

@@ -4,14 +4,20 @@ import { fakeFetch } from '@/testing/fake-fetch'
 import { beaBiostatistician, petraPi } from '@/testing/users'
 import { useSessionStore } from './session'
 
-const unauthenticated = { status: 401, body: { error: { code: 'UNAUTHENTICATED', message: 'Sign in first.' } } }
+const unauthenticated = {
+  status: 401,
+  body: { error: { code: 'UNAUTHENTICATED', message: 'Sign in first.' } },
+}
 
 beforeEach(() => setActivePinia(createPinia()))
 afterEach(() => vi.unstubAllGlobals())
 
 describe('useSessionStore', () => {
   it('load() keeps the current user and exposes role helpers', async () => {
-    vi.stubGlobal('fetch', fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: beaBiostatistician } } }).fetch)
+    vi.stubGlobal(
+      'fetch',
+      fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: beaBiostatistician } } }).fetch,
+    )
     const session = useSessionStore()
     await session.load()
     expect(session.user?.name).toBe('Bea Stone')
@@ -34,7 +40,10 @@ describe('useSessionStore', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': { status: 503, body: { error: { code: 'INTERNAL', message: 'Database unavailable.' } } },
+        'GET /api/v1/auth/me': {
+          status: 503,
+          body: { error: { code: 'INTERNAL', message: 'Database unavailable.' } },
+        },
       }).fetch,
     )
     const session = useSessionStore()
@@ -62,7 +71,10 @@ describe('useSessionStore', () => {
     const session = useSessionStore()
 
     expect(await session.signIn({ email: 'petra@example.org', password: 'nope' })).toBe(false)
-    expect(session.signInError).toMatchObject({ code: 'UNAUTHENTICATED', message: 'Wrong email or password.' })
+    expect(session.signInError).toMatchObject({
+      code: 'UNAUTHENTICATED',
+      message: 'Wrong email or password.',
+    })
     expect(session.user).toBeNull()
 
     answers['POST /api/v1/auth/login'] = { status: 200, body: { data: petraPi } }
@@ -73,7 +85,10 @@ describe('useSessionStore', () => {
 
   it('signOut() forgets the user; a failure keeps the user and the error', async () => {
     const answers: Record<string, { status: number; body?: unknown }> = {
-      'POST /api/v1/auth/logout': { status: 500, body: { error: { code: 'INTERNAL', message: 'Try later.' } } },
+      'POST /api/v1/auth/logout': {
+        status: 500,
+        body: { error: { code: 'INTERNAL', message: 'Try later.' } },
+      },
       'POST /api/v1/auth/login': { status: 200, body: { data: petraPi } },
     }
     vi.stubGlobal('fetch', fakeFetch(answers).fetch)

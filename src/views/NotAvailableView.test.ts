@@ -12,7 +12,10 @@ afterEach(() => {
 
 describe('NotAvailableView', () => {
   it('says who the refused page is for and which roles the person holds', async () => {
-    vi.stubGlobal('fetch', fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: samiScientist } } }).fetch)
+    vi.stubGlobal(
+      'fetch',
+      fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: samiScientist } } }).fetch,
+    )
     const { wrapper } = await mountWithApp(NotAvailableView, {
       path: '/not-available?page=/lab-board',
       extraRoutes: [
@@ -26,8 +29,13 @@ describe('NotAvailableView', () => {
   })
 
   it('ignores a page parameter that points off-site', async () => {
-    vi.stubGlobal('fetch', fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: samiScientist } } }).fetch)
-    const { wrapper } = await mountWithApp(NotAvailableView, { path: '/not-available?page=//elsewhere.example' })
+    vi.stubGlobal(
+      'fetch',
+      fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: samiScientist } } }).fetch,
+    )
+    const { wrapper } = await mountWithApp(NotAvailableView, {
+      path: '/not-available?page=//elsewhere.example',
+    })
     expect(wrapper.find('[data-testid="needed-role"]').exists()).toBe(false)
   })
 })

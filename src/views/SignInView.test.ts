@@ -13,7 +13,11 @@ afterEach(() => {
   document.body.innerHTML = ''
 })
 
-async function fillAndSubmit(wrapper: Awaited<ReturnType<typeof mountWithApp>>['wrapper'], email: string, password: string) {
+async function fillAndSubmit(
+  wrapper: Awaited<ReturnType<typeof mountWithApp>>['wrapper'],
+  email: string,
+  password: string,
+) {
   await wrapper.find('input[type="email"]').setValue(email)
   await wrapper.find('input[autocomplete="current-password"]').setValue(password)
   await wrapper.find('form').trigger('submit')
@@ -42,7 +46,9 @@ describe('SignInView', () => {
     const notice = wrapper.find('[data-testid="error-notice"]')
     expect(notice.text()).toContain('Sign-in failed')
     expect(notice.text()).toContain('Wrong email or password.')
-    expect((wrapper.find('input[autocomplete="current-password"]').element as HTMLInputElement).value).toBe('')
+    expect((wrapper.find('input[autocomplete="current-password"]').element as HTMLInputElement).value).toBe(
+      '',
+    )
   })
 
   it('explains rate limiting in the words the server sent', async () => {
@@ -100,7 +106,10 @@ describe('SignInView', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': { status: 503, body: { error: { code: 'INTERNAL', message: 'Database unavailable.' } } },
+        'GET /api/v1/auth/me': {
+          status: 503,
+          body: { error: { code: 'INTERNAL', message: 'Database unavailable.' } },
+        },
       }).fetch,
     )
     const { wrapper } = await mountWithApp(SignInView, { path: '/sign-in' })

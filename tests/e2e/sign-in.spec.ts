@@ -78,7 +78,9 @@ for (const person of demoPeople) {
   })
 }
 
-test('a wrong password shows the error and keeps the visitor on the sign-in page', async ({ page }, testInfo) => {
+test('a wrong password shows the error and keeps the visitor on the sign-in page', async ({
+  page,
+}, testInfo) => {
   await page.goto('/sign-in')
   await signIn(page, 'sami@example.org', 'not-the-password')
 

@@ -52,7 +52,9 @@ describe('AppShell', () => {
     const menu = await openAccountMenu(wrapper)
 
     expect(menu.textContent).toContain('bea@example.org')
-    const memberships = [...menu.querySelectorAll('[data-testid="account-membership"]')].map((el) => el.textContent)
+    const memberships = [...menu.querySelectorAll('[data-testid="account-membership"]')].map(
+      (el) => el.textContent,
+    )
     expect(memberships).toEqual([
       expect.stringMatching(/Nimbus Neurite Lab.*Biostatistician/),
       expect.stringMatching(/Fernhill Culture Lab.*Biostatistician/),

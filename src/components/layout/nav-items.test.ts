@@ -11,9 +11,30 @@ describe('navItemsFor', () => {
 
   it('filters by each item rule', () => {
     const items: NavItem[] = [
-      { id: 'a', title: 'A', icon: '', to: { name: 'a' }, section: 'work', visibleFor: visibleFor.everyone() },
-      { id: 'b', title: 'B', icon: '', to: { name: 'b' }, section: 'work', visibleFor: visibleFor.roles('pi') },
-      { id: 'c', title: 'C', icon: '', to: { name: 'c' }, section: 'instance', visibleFor: visibleFor.admin() },
+      {
+        id: 'a',
+        title: 'A',
+        icon: '',
+        to: { name: 'a' },
+        section: 'work',
+        visibleFor: visibleFor.everyone(),
+      },
+      {
+        id: 'b',
+        title: 'B',
+        icon: '',
+        to: { name: 'b' },
+        section: 'work',
+        visibleFor: visibleFor.roles('pi'),
+      },
+      {
+        id: 'c',
+        title: 'C',
+        icon: '',
+        to: { name: 'c' },
+        section: 'instance',
+        visibleFor: visibleFor.admin(),
+      },
     ]
     expect(navItemsFor(petraPi, items).map((i) => i.id)).toEqual(['a', 'b'])
     expect(navItemsFor(orlaAdmin, items).map((i) => i.id)).toEqual(['a', 'c'])
