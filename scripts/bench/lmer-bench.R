@@ -1,8 +1,10 @@
 # Benchmark reference: fits the nested random-intercept model with lmerTest::lmer (REML,
 # Satterthwaite df) on a CSV, timed with lme4's default settings, then (untimed, optional)
 # polishes the same fit with a much tighter optimiser tolerance, because on a million rows the
-# default fit can stop short of the optimum. Prints one JSON line.
-# Usage: Rscript lmer-bench.R FILE RESPONSE LEVELS(comma-separated, outer first) CONDITION REFERENCE [polish]
+# default fit can stop short of the optimum, and recomputes lmerTest's Satterthwaite df on the
+# polished fit. Given the other engine's variance components (JSON, R path names), it also
+# evaluates lme4's own REML criterion there. Prints one JSON line.
+# Usage: Rscript lmer-bench.R FILE RESPONSE LEVELS CONDITION REFERENCE [polish|no-polish] [COMPONENTS_JSON]
 suppressPackageStartupMessages({
   library(lmerTest)
   library(jsonlite)
@@ -16,6 +18,7 @@ levels <- strsplit(args[3], ",")[[1]]
 condition <- args[4]
 reference <- args[5]
 polish <- length(args) >= 6 && args[6] == "polish"
+other <- if (length(args) >= 7) fromJSON(args[7]) else NULL
 
 elapsed <- function() proc.time()[["elapsed"]]
 
@@ -72,18 +75,32 @@ if (polish) {
   tight <- lme4::lmer(form, data = d, REML = TRUE, start = list(theta = lme4::getME(fit, "theta")),
     control = lme4::lmerControl(optimizer = "bobyqa", optCtrl = list(rhoend = 1e-12, maxfun = 1e5),
       check.conv.grad = "ignore", check.conv.singular = "ignore"))
-  V <- as.matrix(vcov(tight))
-  beta <- lme4::fixef(tight)
+  t4 <- elapsed()
+  tightT <- lmerTest:::as_lmerModLmerTest(tight)
+  tightCoefs <- summary(tightT)$coefficients
   out$polished <- list(
-    seconds = elapsed() - t3,
+    seconds = t4 - t3,
+    satterthwaiteSeconds = elapsed() - t4,
     components = components_of(tight),
-    contrasts = lapply(seq_along(labels)[-1], function(k) list(a = labels[k], b = labels[1], estimate = beta[[k]], se = sqrt(V[k, k]))),
+    contrasts = lapply(seq_along(labels)[-1], function(k) {
+      row <- tightCoefs[k, ]
+      list(a = labels[k], b = labels[1], estimate = row[["Estimate"]], se = row[["Std. Error"]], df = row[["df"]])
+    }),
     means = lapply(seq_along(labels), function(k) {
-      L <- mean_vector(k)
-      list(condition = labels[k], estimate = sum(L * beta), se = sqrt(drop(t(L) %*% V %*% L)))
+      r <- lmerTest::contest1D(tightT, mean_vector(k))
+      list(condition = labels[k], estimate = r[["Estimate"]], se = r[["Std. Error"]], df = r[["df"]])
     }),
     remlCriterion = unname(lme4::REMLcrit(tight))
   )
+}
+
+if (!is.null(other)) {
+  # lme4's theta is σ_term / σ per random term, named "<term>.(Intercept)".
+  theta <- lme4::getME(fit, "theta")
+  terms_of_theta <- sub("\\.\\(Intercept\\)$", "", names(theta))
+  at <- sqrt(unlist(other[terms_of_theta]) / other[["residual"]])
+  devfun <- lme4::lmer(form, data = d, REML = TRUE, devFunOnly = TRUE)
+  out$criterionAtOther <- devfun(unname(at))
 }
 
 cat(toJSON(out, auto_unbox = TRUE, digits = NA))
