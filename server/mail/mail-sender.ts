@@ -73,8 +73,14 @@ export function createMailSender(options: MailSenderOptions): MailSender {
         await markOutboxSent(message.id, (info as { messageId?: string }).messageId ?? null, trx)
       } catch (err) {
         const failedAttempts = message.attempts + 1
-        const retryAt = failedAttempts < maxAttempts ? new Date(Date.now() + retryDelayMs(failedAttempts)) : null
-        logger.warn('mail delivery failed', { outboxId: message.id, attempt: failedAttempts, retryAt, err: describe(err) })
+        const retryAt =
+          failedAttempts < maxAttempts ? new Date(Date.now() + retryDelayMs(failedAttempts)) : null
+        logger.warn('mail delivery failed', {
+          outboxId: message.id,
+          attempt: failedAttempts,
+          retryAt,
+          err: describe(err),
+        })
         await markOutboxAttemptFailed(message.id, describe(err), retryAt, trx)
       }
       return true

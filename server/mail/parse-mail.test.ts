@@ -13,7 +13,11 @@ describe('parseMail', () => {
   it('reads a plain-text message with a long link and non-ASCII text intact', async () => {
     const link = `http://127.0.0.1:3000/join#${'Ab3_-'.repeat(9)}xyz`
     const text = `Grüße aus dem Labor — Zellkultur µm\n\nOpen this link:\n${link}\n`
-    const { raw, messageId } = await compose({ to: 'nell@example.test', subject: 'Einladung: Nimbus Neurite Lab – µm', text })
+    const { raw, messageId } = await compose({
+      to: 'nell@example.test',
+      subject: 'Einladung: Nimbus Neurite Lab – µm',
+      text,
+    })
     const parsed = parseMail(raw)
     expect(parsed.subject).toBe('Einladung: Nimbus Neurite Lab – µm')
     expect(parsed.to).toBe('nell@example.test')
@@ -46,7 +50,9 @@ describe('parseMail', () => {
 
 describe('decodeHeaderValue', () => {
   it('joins adjacent encoded words and leaves plain text alone', () => {
-    expect(decodeHeaderValue('=?UTF-8?Q?Gr=C3=BC?= =?UTF-8?B?w59l?= from Nestwise')).toBe('Grüße from Nestwise')
+    expect(decodeHeaderValue('=?UTF-8?Q?Gr=C3=BC?= =?UTF-8?B?w59l?= from Nestwise')).toBe(
+      'Grüße from Nestwise',
+    )
     expect(decodeHeaderValue('Plain subject')).toBe('Plain subject')
   })
 })

@@ -49,7 +49,9 @@ function bytesToText(latin1: string, charset = 'utf-8'): string {
 }
 
 function decodeQuotedPrintable(body: string): string {
-  return body.replace(/=\r?\n/g, '').replace(/=([0-9A-Fa-f]{2})/g, (_m, hex: string) => String.fromCharCode(parseInt(hex, 16)))
+  return body
+    .replace(/=\r?\n/g, '')
+    .replace(/=([0-9A-Fa-f]{2})/g, (_m, hex: string) => String.fromCharCode(parseInt(hex, 16)))
 }
 
 function decodeTransfer(body: string, encoding: string | undefined): string {
@@ -121,7 +123,8 @@ function leafText(part: Part): string {
 }
 
 export function parseMail(raw: Buffer | string): ParsedMail {
-  const source = typeof raw === 'string' ? Buffer.from(raw, 'utf8').toString('latin1') : raw.toString('latin1')
+  const source =
+    typeof raw === 'string' ? Buffer.from(raw, 'utf8').toString('latin1') : raw.toString('latin1')
   const { head, body } = splitHeadersAndBody(source)
   const headers = parseHeaders(head)
   let text: string | null = null

@@ -5,7 +5,9 @@ import type { MailSettings } from './mail-settings'
  * The nodemailer transport for the configured server. Port 465 speaks TLS from the start; other
  * ports upgrade with STARTTLS when the server offers it (the local fake does not).
  */
-export function createMailTransport(settings: Pick<MailSettings, 'mode' | 'host' | 'port' | 'user' | 'password'>): Transporter {
+export function createMailTransport(
+  settings: Pick<MailSettings, 'mode' | 'host' | 'port' | 'user' | 'password'>,
+): Transporter {
   return nodemailer.createTransport({
     host: settings.host,
     port: settings.port,

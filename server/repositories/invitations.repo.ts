@@ -35,7 +35,10 @@ function toRecord(row: InvitationRow): InvitationRecord {
     labName: row.lab_name,
     email: row.email,
     role: row.role,
-    invitedBy: row.invited_by !== null && row.inviter_name !== null ? { id: row.invited_by, name: row.inviter_name } : null,
+    invitedBy:
+      row.invited_by !== null && row.inviter_name !== null
+        ? { id: row.invited_by, name: row.inviter_name }
+        : null,
     createdAt: row.created_at,
     expiresAt: row.expires_at,
     acceptedAt: row.accepted_at,
@@ -85,7 +88,10 @@ export async function insertInvitation(invitation: NewInvitation, conn: Conn = d
   return row.id
 }
 
-export async function findInvitationById(id: number, conn: Conn = defaultConn): Promise<InvitationRecord | undefined> {
+export async function findInvitationById(
+  id: number,
+  conn: Conn = defaultConn,
+): Promise<InvitationRecord | undefined> {
   const row: InvitationRow | undefined = await selectInvitations(conn).where('i.id', id).first()
   return row ? toRecord(row) : undefined
 }
@@ -139,7 +145,11 @@ export async function revokeOpenInvitations(
   return rows.map((r) => r.id)
 }
 
-export async function markInvitationRevoked(id: number, revokedBy: number, conn: Conn = defaultConn): Promise<boolean> {
+export async function markInvitationRevoked(
+  id: number,
+  revokedBy: number,
+  conn: Conn = defaultConn,
+): Promise<boolean> {
   const count = await conn('invitations')
     .where({ id })
     .whereNull('accepted_at')
@@ -148,7 +158,11 @@ export async function markInvitationRevoked(id: number, revokedBy: number, conn:
   return count === 1
 }
 
-export async function markInvitationAccepted(id: number, userId: number, conn: Conn = defaultConn): Promise<boolean> {
+export async function markInvitationAccepted(
+  id: number,
+  userId: number,
+  conn: Conn = defaultConn,
+): Promise<boolean> {
   const count = await conn('invitations')
     .where({ id })
     .whereNull('accepted_at')

@@ -79,7 +79,10 @@ export async function findLabByNameOrSlug(
   slug: string,
   conn: Conn = defaultConn,
 ): Promise<Lab | undefined> {
-  const row: LabRow | undefined = await conn('labs').whereRaw('lower(name) = lower(?)', [name]).orWhere({ slug }).first()
+  const row: LabRow | undefined = await conn('labs')
+    .whereRaw('lower(name) = lower(?)', [name])
+    .orWhere({ slug })
+    .first()
   return row ? toLab(row) : undefined
 }
 

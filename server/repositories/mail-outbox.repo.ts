@@ -59,7 +59,10 @@ function toRecord(row: OutboxRow): OutboxRecord {
   }
 }
 
-export async function insertOutboxMessage(message: NewOutboxMessage, conn: Conn = defaultConn): Promise<number> {
+export async function insertOutboxMessage(
+  message: NewOutboxMessage,
+  conn: Conn = defaultConn,
+): Promise<number> {
   const [row]: { id: number }[] = await conn('mail_outbox')
     .insert({
       to_address: message.to,
@@ -100,7 +103,12 @@ export async function markOutboxSent(id: number, messageId: string | null, conn:
 }
 
 /** Records a failed attempt: queued again at `retryAt`, or failed for good when retryAt is null. */
-export async function markOutboxAttemptFailed(id: number, error: string, retryAt: Date | null, conn: Conn): Promise<void> {
+export async function markOutboxAttemptFailed(
+  id: number,
+  error: string,
+  retryAt: Date | null,
+  conn: Conn,
+): Promise<void> {
   await conn('mail_outbox')
     .where({ id })
     .update({
@@ -119,7 +127,10 @@ export async function requeueFailedMessage(id: number, conn: Conn = defaultConn)
   return count === 1
 }
 
-export async function findOutboxMessage(id: number, conn: Conn = defaultConn): Promise<OutboxRecord | undefined> {
+export async function findOutboxMessage(
+  id: number,
+  conn: Conn = defaultConn,
+): Promise<OutboxRecord | undefined> {
   const row: OutboxRow | undefined = await conn('mail_outbox').where({ id }).first()
   return row ? toRecord(row) : undefined
 }
@@ -141,7 +152,11 @@ export async function listOutbox(
   }
   const [{ total }] = await base().count<{ total: number }[]>('* as total')
   // The fake SMTP server keeps the Message-ID header; nodemailer reports the same id on sending.
-  const received = conn('received_mails').select('message_id').min('id as received_id').groupBy('message_id').as('r')
+  const received = conn('received_mails')
+    .select('message_id')
+    .min('id as received_id')
+    .groupBy('message_id')
+    .as('r')
   const rows: (OutboxRow & { received_id: number | null })[] = await base()
     .leftJoin(received, 'r.message_id', 'o.message_id')
     .select('o.*', 'r.received_id')

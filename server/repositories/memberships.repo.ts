@@ -80,10 +80,19 @@ export async function lockPiMemberships(labId: number, trx: Conn): Promise<numbe
   return rows.map((r) => r.user_id)
 }
 
-export async function updateMembershipRole(userId: number, labId: number, role: Role, conn: Conn = defaultConn): Promise<void> {
+export async function updateMembershipRole(
+  userId: number,
+  labId: number,
+  role: Role,
+  conn: Conn = defaultConn,
+): Promise<void> {
   await conn('memberships').where({ user_id: userId, lab_id: labId }).update({ role })
 }
 
-export async function deleteMembership(userId: number, labId: number, conn: Conn = defaultConn): Promise<boolean> {
+export async function deleteMembership(
+  userId: number,
+  labId: number,
+  conn: Conn = defaultConn,
+): Promise<boolean> {
   return (await conn('memberships').where({ user_id: userId, lab_id: labId }).delete()) === 1
 }

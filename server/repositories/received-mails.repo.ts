@@ -64,12 +64,18 @@ export async function insertReceivedMail(mail: NewReceivedMail, conn: Conn = def
   return row.id
 }
 
-export async function findReceivedMail(id: number, conn: Conn = defaultConn): Promise<ReceivedMailRecord | undefined> {
+export async function findReceivedMail(
+  id: number,
+  conn: Conn = defaultConn,
+): Promise<ReceivedMailRecord | undefined> {
   const row: ReceivedRow | undefined = await conn('received_mails').where({ id }).first()
   return row ? toRecord(row) : undefined
 }
 
-export async function listReceivedMailsByMessageId(messageId: string, conn: Conn = defaultConn): Promise<ReceivedMailRecord[]> {
+export async function listReceivedMailsByMessageId(
+  messageId: string,
+  conn: Conn = defaultConn,
+): Promise<ReceivedMailRecord[]> {
   const rows: ReceivedRow[] = await conn('received_mails').where({ message_id: messageId }).orderBy('id')
   return rows.map(toRecord)
 }

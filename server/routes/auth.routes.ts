@@ -23,7 +23,11 @@ export function authRoutes({ passport, loginLimits, cookie }: AuthRoutesOptions)
     const user = await authenticateWithPassword(passport, req, res)
     // One message for unknown email and wrong password: it must not reveal which accounts exist.
     if (!user) {
-      await recordAudit(db, { action: 'auth.sign_in_failed', actorUserId: null, details: { email: (req.body as LoginRequest).email } })
+      await recordAudit(db, {
+        action: 'auth.sign_in_failed',
+        actorUserId: null,
+        details: { email: (req.body as LoginRequest).email },
+      })
       throw new UnauthenticatedError('The email or password is not right.')
     }
     await logIn(req, user)

@@ -29,7 +29,11 @@ export function invitationsRoutes({ limits }: InvitationsRoutesOptions): Router 
     const user = (await loadCurrentUser(outcome.userId))!
     if (!req.user) {
       await logIn(req, user)
-      await recordAudit(db, { action: 'auth.signed_in', actorUserId: user.id, details: { via: 'invitation' } })
+      await recordAudit(db, {
+        action: 'auth.signed_in',
+        actorUserId: user.id,
+        details: { via: 'invitation' },
+      })
     }
     res.json({ data: { user, labId: outcome.labId, labName: outcome.labName, role: outcome.role } })
   })

@@ -39,15 +39,22 @@ export function labsRoutes(): Router {
     piOrAdmin,
     async (req, res) => {
       const { labId, userId } = req.params as unknown as MemberParams
-      res.json({ data: await changeMemberRole(req.user!, labId, userId, (req.body as MemberRoleUpdate).role) })
+      res.json({
+        data: await changeMemberRole(req.user!, labId, userId, (req.body as MemberRoleUpdate).role),
+      })
     },
   )
 
-  router.delete('/:labId/members/:userId', validate({ params: MemberParams }), piOrAdmin, async (req, res) => {
-    const { labId, userId } = req.params as unknown as MemberParams
-    await removeMember(req.user!, labId, userId)
-    res.status(204).end()
-  })
+  router.delete(
+    '/:labId/members/:userId',
+    validate({ params: MemberParams }),
+    piOrAdmin,
+    async (req, res) => {
+      const { labId, userId } = req.params as unknown as MemberParams
+      await removeMember(req.user!, labId, userId)
+      res.status(204).end()
+    },
+  )
 
   router.get('/:labId/invitations', validate({ params: LabIdParams }), piOrAdmin, async (req, res) => {
     const { labId } = req.params as unknown as LabIdParams

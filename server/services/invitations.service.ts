@@ -69,18 +69,34 @@ export async function createInvitationIn(
 ): Promise<InvitationSummary> {
   const existing = await findActiveUserWithHashByEmail(input.email, trx)
   if (existing && (await findMembership(existing.id, lab.id, trx))) {
-    throw new ConflictError(`${input.email} is already a member of ${lab.name}.`, { reason: 'already_member' })
+    throw new ConflictError(`${input.email} is already a member of ${lab.name}.`, {
+      reason: 'already_member',
+    })
   }
   const replaced = await revokeOpenInvitations(lab.id, input.email, inviter.id, trx)
   const token = newInvitationToken()
   const expiresAt = new Date(Date.now() + INVITATION_VALID_DAYS * DAY_MS)
   const id = await insertInvitation(
-    { labId: lab.id, email: input.email, role: input.role, tokenHash: hashInvitationToken(token), invitedBy: inviter.id, expiresAt },
+    {
+      labId: lab.id,
+      email: input.email,
+      role: input.role,
+      tokenHash: hashInvitationToken(token),
+      invitedBy: inviter.id,
+      expiresAt,
+    },
     trx,
   )
   await enqueueMail(
     trx,
-    invitationMail({ to: input.email, labName: lab.name, role: input.role, inviterName: inviter.name, link: invitationLink(token), expiresAt }),
+    invitationMail({
+      to: input.email,
+      labName: lab.name,
+      role: input.role,
+      inviterName: inviter.name,
+      link: invitationLink(token),
+      expiresAt,
+    }),
   )
   await recordAudit(trx, {
     action: 'invitation.created',
@@ -88,13 +104,21 @@ export async function createInvitationIn(
     labId: lab.id,
     subjectType: 'invitation',
     subjectId: id,
-    details: { email: input.email, role: input.role, ...(replaced.length ? { replacedInvitationIds: replaced } : {}) },
+    details: {
+      email: input.email,
+      role: input.role,
+      ...(replaced.length ? { replacedInvitationIds: replaced } : {}),
+    },
   })
   return toSummary((await findInvitationById(id, trx))!)
 }
 
 /** The route has checked that the inviter is a PI of the lab or an admin. */
-export async function createInvitation(inviter: CurrentUser, labId: number, input: InvitationCreate): Promise<InvitationSummary> {
+export async function createInvitation(
+  inviter: CurrentUser,
+  labId: number,
+  input: InvitationCreate,
+): Promise<InvitationSummary> {
   return db.transaction(async (trx) => {
     const lab = await findLabById(labId, trx)
     if (!lab) throw new NotFoundError('Lab not found.')
@@ -107,12 +131,17 @@ export async function listInvitations(labId: number): Promise<InvitationSummary[
   return (await listInvitationsOfLab(labId)).map(toSummary)
 }
 
-export async function revokeInvitation(actor: CurrentUser, labId: number, invitationId: number): Promise<InvitationSummary> {
+export async function revokeInvitation(
+  actor: CurrentUser,
+  labId: number,
+  invitationId: number,
+): Promise<InvitationSummary> {
   return db.transaction(async (trx) => {
     const invitation = await findInvitationById(invitationId, trx)
     if (!invitation || invitation.labId !== labId) throw new NotFoundError('Invitation not found.')
     const status = statusOf(invitation)
-    if (status === 'accepted') throw new ConflictError('This invitation has already been accepted.', { status })
+    if (status === 'accepted')
+      throw new ConflictError('This invitation has already been accepted.', { status })
     if (status === 'revoked') throw new ConflictError('This invitation was already revoked.', { status })
     if (!(await markInvitationRevoked(invitation.id, actor.id, trx))) {
       throw new ConflictError('This invitation was answered a moment ago.')
@@ -175,7 +204,10 @@ function fieldError(path: string, message: string): InvalidPayloadError {
  * account proves it with their password, or is already signed in as the invited address.
  * The membership keeps an existing role if the person is in the lab already.
  */
-export async function acceptInvitation(input: InvitationAccept, signedIn: CurrentUser | undefined): Promise<AcceptOutcome> {
+export async function acceptInvitation(
+  input: InvitationAccept,
+  signedIn: CurrentUser | undefined,
+): Promise<AcceptOutcome> {
   return db.transaction(async (trx) => {
     const invitation = await openInvitationFor(input.token, trx, true)
     const account = await findActiveUserWithHashByEmail(invitation.email, trx)
@@ -200,7 +232,10 @@ export async function acceptInvitation(input: InvitationAccept, signedIn: Curren
       if (!name.success) throw fieldError('name', zodIssues(name.error)[0].message)
       const password = NewPassword.safeParse(input.password ?? '')
       if (!password.success) throw fieldError('password', zodIssues(password.error)[0].message)
-      const user = await insertUser({ email: invitation.email, name: name.data, passwordHash: await hashPassword(password.data) }, trx)
+      const user = await insertUser(
+        { email: invitation.email, name: name.data, passwordHash: await hashPassword(password.data) },
+        trx,
+      )
       userId = user.id
       createdAccount = true
     }

@@ -26,12 +26,19 @@ async function memberToChange(trx: Conn, labId: number, userId: number) {
 
 function assertNotLastPi(piIds: number[], userId: number, what: string): void {
   if (piIds.length === 1 && piIds[0] === userId) {
-    throw new ConflictError(`${what}: a lab needs at least one PI. Make someone else PI first.`, { reason: 'last_pi' })
+    throw new ConflictError(`${what}: a lab needs at least one PI. Make someone else PI first.`, {
+      reason: 'last_pi',
+    })
   }
 }
 
 /** The route has checked that the actor is a PI of the lab or an admin. */
-export async function changeMemberRole(actor: CurrentUser, labId: number, userId: number, role: Role): Promise<LabMember> {
+export async function changeMemberRole(
+  actor: CurrentUser,
+  labId: number,
+  userId: number,
+  role: Role,
+): Promise<LabMember> {
   return db.transaction(async (trx) => {
     const { membership, piIds, email } = await memberToChange(trx, labId, userId)
     if (membership.role !== role) {

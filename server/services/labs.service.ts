@@ -57,14 +57,21 @@ export async function createLab(
     if (clash && clash.name.toLowerCase() === input.name.toLowerCase()) {
       throw new ConflictError(`A lab named “${clash.name}” already exists.`, { reason: 'name_taken' })
     }
-    const lab = await insertLab({ name: input.name, slug: firstFreeSlug(base, await slugsStartingWith(base, trx)) }, trx)
+    const lab = await insertLab(
+      { name: input.name, slug: firstFreeSlug(base, await slugsStartingWith(base, trx)) },
+      trx,
+    )
     await recordAudit(trx, {
       action: 'lab.created',
       actorUserId: admin.id,
       labId: lab.id,
       subjectType: 'lab',
       subjectId: lab.id,
-      details: { name: lab.name, slug: lab.slug, ...(input.firstPiEmail ? { firstPiEmail: input.firstPiEmail } : {}) },
+      details: {
+        name: lab.name,
+        slug: lab.slug,
+        ...(input.firstPiEmail ? { firstPiEmail: input.firstPiEmail } : {}),
+      },
     })
     const invitation = input.firstPiEmail
       ? await createInvitationIn(trx, admin, lab, { email: input.firstPiEmail, role: 'pi' })

@@ -1,11 +1,27 @@
 import type { CurrentUser } from '../../shared/schemas/auth'
-import type { MailDelivery, MailListQuery, OutboxMessage, OutboxPage, ReceivedMail, ReceivedMailPage } from '../../shared/schemas/mail'
+import type {
+  MailDelivery,
+  MailListQuery,
+  OutboxMessage,
+  OutboxPage,
+  ReceivedMail,
+  ReceivedMailPage,
+} from '../../shared/schemas/mail'
 import { db } from '../db'
 import { ConflictError, NotFoundError } from '../errors/app-error'
 import { mailSettings } from '../mail/mail-settings'
 import { signalMailQueued } from '../mail/outbox-signal'
-import { findOutboxMessage, listOutbox, requeueFailedMessage, type OutboxListItem } from '../repositories/mail-outbox.repo'
-import { findReceivedMail, listReceivedMails, type ReceivedMailRecord } from '../repositories/received-mails.repo'
+import {
+  findOutboxMessage,
+  listOutbox,
+  requeueFailedMessage,
+  type OutboxListItem,
+} from '../repositories/mail-outbox.repo'
+import {
+  findReceivedMail,
+  listReceivedMails,
+  type ReceivedMailRecord,
+} from '../repositories/received-mails.repo'
 import { recordAudit } from './audit.service'
 
 function toOutboxMessage(item: OutboxListItem): OutboxMessage {
@@ -36,7 +52,10 @@ function summaryOf(mail: ReceivedMailRecord) {
   }
 }
 
-const pageWindow = (q: { page: number; pageSize: number }) => ({ offset: (q.page - 1) * q.pageSize, limit: q.pageSize })
+const pageWindow = (q: { page: number; pageSize: number }) => ({
+  offset: (q.page - 1) * q.pageSize,
+  limit: q.pageSize,
+})
 
 export function mailDelivery(): MailDelivery {
   const { mode, host, port, from } = mailSettings()

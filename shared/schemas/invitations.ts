@@ -34,7 +34,9 @@ export const InvitationSummary = z.object({
 export type InvitationSummary = z.infer<typeof InvitationSummary>
 
 // 32 random bytes in base64url: 43 characters. Anything else cannot be one of ours.
-export const InvitationToken = z.string().regex(/^[A-Za-z0-9_-]{43}$/, { error: 'This invitation link is not complete.' })
+export const InvitationToken = z
+  .string()
+  .regex(/^[A-Za-z0-9_-]{43}$/, { error: 'This invitation link is not complete.' })
 
 /** The token travels in the body (never in a URL the server logs). */
 export const InvitationTokenBody = z.object({ token: InvitationToken })

@@ -14,12 +14,16 @@ async function as(user: TestUser) {
 describe('the audit_events table', () => {
   let id: number
   beforeAll(async () => {
-    const [row] = await db('audit_events').insert({ action: 'lab.created', details: JSON.stringify({ probe: true }) }).returning('id')
+    const [row] = await db('audit_events')
+      .insert({ action: 'lab.created', details: JSON.stringify({ probe: true }) })
+      .returning('id')
     id = row.id
   })
 
   it('refuses UPDATE', async () => {
-    await expect(db('audit_events').where({ id }).update({ action: 'member.removed' })).rejects.toThrow(/append-only \(UPDATE refused\)/)
+    await expect(db('audit_events').where({ id }).update({ action: 'member.removed' })).rejects.toThrow(
+      /append-only \(UPDATE refused\)/,
+    )
   })
 
   it('refuses DELETE', async () => {
@@ -41,7 +45,10 @@ describe('sign-in and sign-out entries', () => {
     const cookie = ok.headers['set-cookie'][0].split(';')[0]
     await asUser(app, cookie).post('/api/v1/auth/logout')
 
-    const failedRow = await db('audit_events').where({ action: 'auth.sign_in_failed' }).whereRaw("details->>'email' = ?", [person.email]).first()
+    const failedRow = await db('audit_events')
+      .where({ action: 'auth.sign_in_failed' })
+      .whereRaw("details->>'email' = ?", [person.email])
+      .first()
     expect(failedRow).toMatchObject({ actor_user_id: null, request_id: failed.headers['x-request-id'] })
     expect(failedRow.ip).toMatch(/127\.0\.0\.1|::1/)
     const rows = await db('audit_events').where({ actor_user_id: person.id }).orderBy('id')
@@ -58,9 +65,15 @@ describe('GET /api/v1/labs/:labId/audit', () => {
     team = await createLabWithTeam()
     other = await createLabWithTeam()
     const pi = await as(team.pi)
-    for (let i = 0; i < 3; i += 1) await pi.post(`/api/v1/labs/${team.lab.id}/invitations`, { email: uniqueEmail('audited'), role: 'scientist' })
+    for (let i = 0; i < 3; i += 1)
+      await pi.post(`/api/v1/labs/${team.lab.id}/invitations`, {
+        email: uniqueEmail('audited'),
+        role: 'scientist',
+      })
     await pi.patch(`/api/v1/labs/${team.lab.id}/members/${team.scientist.id}`, { role: 'biostatistician' })
-    await (await as(other.pi)).post(`/api/v1/labs/${other.lab.id}/invitations`, { email: uniqueEmail('other'), role: 'scientist' })
+    await (
+      await as(other.pi)
+    ).post(`/api/v1/labs/${other.lab.id}/invitations`, { email: uniqueEmail('other'), role: 'scientist' })
   })
 
   it('shows the lab’s PI the lab’s entries only, newest first, with actor and lab', async () => {
@@ -68,7 +81,12 @@ describe('GET /api/v1/labs/:labId/audit', () => {
     expect(res.status).toBe(200)
     const { items, total } = res.body.data
     expect(total).toBe(4)
-    expect(items.map((e: { action: string }) => e.action)).toEqual(['member.role_changed', 'invitation.created', 'invitation.created', 'invitation.created'])
+    expect(items.map((e: { action: string }) => e.action)).toEqual([
+      'member.role_changed',
+      'invitation.created',
+      'invitation.created',
+      'invitation.created',
+    ])
     expect(items[0]).toMatchObject({
       actor: { id: team.pi.id, name: team.pi.name, email: team.pi.email },
       labId: team.lab.id,
@@ -102,9 +120,14 @@ describe('GET /api/v1/labs/:labId/audit', () => {
     const future = new Date(Date.now() + 3_600_000).toISOString()
     const past = new Date(Date.now() - 3_600_000).toISOString()
     expect((await pi.get(`${base}?from=${encodeURIComponent(future)}`)).body.data.total).toBe(0)
-    expect((await pi.get(`${base}?from=${encodeURIComponent(past)}&to=${encodeURIComponent(future)}`)).body.data.total).toBe(4)
+    expect(
+      (await pi.get(`${base}?from=${encodeURIComponent(past)}&to=${encodeURIComponent(future)}`)).body.data
+        .total,
+    ).toBe(4)
     expect((await pi.get(`${base}?to=${encodeURIComponent(past)}`)).body.data.total).toBe(0)
-    expect((await pi.get(`${base}?from=${encodeURIComponent(future)}&to=${encodeURIComponent(past)}`)).status).toBe(400)
+    expect(
+      (await pi.get(`${base}?from=${encodeURIComponent(future)}&to=${encodeURIComponent(past)}`)).status,
+    ).toBe(400)
   })
 
   it('is for the lab’s PIs and admins: 403 for other roles, 404 for other labs, 401 anonymous', async () => {
@@ -124,14 +147,18 @@ describe('GET /api/v1/admin/audit', () => {
   it('shows admins every entry, including failed sign-ins, filterable by lab and action', async () => {
     const admin = await createUser({ isAdmin: true })
     const { lab, pi } = await createLabWithTeam()
-    await (await as(pi)).post(`/api/v1/labs/${lab.id}/invitations`, { email: uniqueEmail('admin-audit'), role: 'pi' })
+    await (
+      await as(pi)
+    ).post(`/api/v1/labs/${lab.id}/invitations`, { email: uniqueEmail('admin-audit'), role: 'pi' })
     const email = uniqueEmail('nobody')
     await postLogin(app, email, 'whatever it is')
 
     const api = await as(admin)
     const failures = await api.get('/api/v1/admin/audit?action=auth.sign_in_failed&pageSize=200')
     expect(failures.status).toBe(200)
-    expect(failures.body.data.items.some((e: { details: { email?: string } }) => e.details.email === email)).toBe(true)
+    expect(
+      failures.body.data.items.some((e: { details: { email?: string } }) => e.details.email === email),
+    ).toBe(true)
     const ofLab = await api.get(`/api/v1/admin/audit?labId=${lab.id}`)
     expect(ofLab.body.data.items.map((e: { action: string }) => e.action)).toEqual(['invitation.created'])
     expect((await (await as(pi)).get('/api/v1/admin/audit')).status).toBe(403)

@@ -39,7 +39,13 @@ describe('creating invitations', () => {
   it('lets a PI invite by e-mail: a pending invitation, a queued e-mail with the link, and only the token hash stored', async () => {
     const email = uniqueEmail('newcomer')
     const { invitation, token, mail } = await invite(team.pi, team.lab.id, email, 'biostatistician')
-    expect(invitation).toMatchObject({ labId: team.lab.id, email, role: 'biostatistician', status: 'pending', invitedBy: { id: team.pi.id } })
+    expect(invitation).toMatchObject({
+      labId: team.lab.id,
+      email,
+      role: 'biostatistician',
+      status: 'pending',
+      invitedBy: { id: team.pi.id },
+    })
     const days = (Date.parse(invitation.expiresAt) - Date.parse(invitation.createdAt)) / 86_400_000
     expect(days).toBeCloseTo(7, 3)
 
@@ -59,7 +65,10 @@ describe('creating invitations', () => {
     await invite(team.pi, team.lab.id, email)
     const res = await (await as(team.pi)).get(`/api/v1/labs/${team.lab.id}/invitations`)
     expect(res.status).toBe(200)
-    expect(res.body.data.find((i: { email: string }) => i.email === email)).toMatchObject({ status: 'pending', role: 'scientist' })
+    expect(res.body.data.find((i: { email: string }) => i.email === email)).toMatchObject({
+      status: 'pending',
+      role: 'scientist',
+    })
   })
 
   it('refuses scientists and biostatisticians (403), other labs (404) and anonymous callers (401); admins may', async () => {
@@ -88,7 +97,10 @@ describe('creating invitations', () => {
     const email = uniqueEmail('twice')
     const first = await invite(team.pi, team.lab.id, email)
     const second = await invite(team.pi, team.lab.id, email, 'biostatistician')
-    expect((await anonymous().post('/api/v1/invitations/lookup', { token: first.token })).body.error.details.reason).toBe('revoked')
+    expect(
+      (await anonymous().post('/api/v1/invitations/lookup', { token: first.token })).body.error.details
+        .reason,
+    ).toBe('revoked')
     const preview = await anonymous().post('/api/v1/invitations/lookup', { token: second.token })
     expect(preview.body.data.role).toBe('biostatistician')
   })
@@ -110,13 +122,22 @@ describe('accepting invitations', () => {
       accountExists: false,
     })
 
-    const res = await anonymous().post('/api/v1/invitations/accept', { token, name: 'Nell Vane', password: 'a long new password' })
+    const res = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      name: 'Nell Vane',
+      password: 'a long new password',
+    })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body.data).toMatchObject({
       labId: team.lab.id,
       labName: team.lab.name,
       role: 'scientist',
-      user: { email, name: 'Nell Vane', isAdmin: false, memberships: [{ labId: team.lab.id, role: 'scientist' }] },
+      user: {
+        email,
+        name: 'Nell Vane',
+        isAdmin: false,
+        memberships: [{ labId: team.lab.id, role: 'scientist' }],
+      },
     })
     const cookie = sessionCookieFrom(res)
     expect(cookie).toBeDefined()
@@ -131,10 +152,17 @@ describe('accepting invitations', () => {
 
   it('asks a new person for a name and a password of at least 10 characters', async () => {
     const { token } = await invite(team.pi, team.lab.id, uniqueEmail('short'))
-    const noName = await anonymous().post('/api/v1/invitations/accept', { token, password: 'a long new password' })
+    const noName = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      password: 'a long new password',
+    })
     expect(noName.status).toBe(400)
     expect(noName.body.error.details.issues[0].path).toBe('name')
-    const short = await anonymous().post('/api/v1/invitations/accept', { token, name: 'Nell', password: 'short' })
+    const short = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      name: 'Nell',
+      password: 'short',
+    })
     expect(short.status).toBe(400)
     expect(short.body.error.details.issues[0].path).toBe('password')
     // Nothing was used up by the failed tries.
@@ -143,17 +171,36 @@ describe('accepting invitations', () => {
 
   it('lets someone with an account join with their password, keeping their other lab and role', async () => {
     const elsewhere = await createLab()
-    const person = await createUser({ email: uniqueEmail('known'), memberships: [{ lab: elsewhere, role: 'pi' }] })
+    const person = await createUser({
+      email: uniqueEmail('known'),
+      memberships: [{ lab: elsewhere, role: 'pi' }],
+    })
     const { token } = await invite(team.pi, team.lab.id, person.email, 'biostatistician')
 
-    expect((await anonymous().post('/api/v1/invitations/lookup', { token })).body.data.accountExists).toBe(true)
+    expect((await anonymous().post('/api/v1/invitations/lookup', { token })).body.data.accountExists).toBe(
+      true,
+    )
     expect((await anonymous().post('/api/v1/invitations/accept', { token })).status).toBe(401)
-    expect((await anonymous().post('/api/v1/invitations/accept', { token, password: 'not the password' })).status).toBe(401)
+    expect(
+      (await anonymous().post('/api/v1/invitations/accept', { token, password: 'not the password' })).status,
+    ).toBe(401)
 
-    const res = await anonymous().post('/api/v1/invitations/accept', { token, password: person.password, name: 'Ignored Name' })
+    const res = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      password: person.password,
+      name: 'Ignored Name',
+    })
     expect(res.status).toBe(200)
-    const memberships = res.body.data.user.memberships.map((m: { labId: number; role: string }) => [m.labId, m.role])
-    expect(memberships).toEqual(expect.arrayContaining([[elsewhere.id, 'pi'], [team.lab.id, 'biostatistician']]))
+    const memberships = res.body.data.user.memberships.map((m: { labId: number; role: string }) => [
+      m.labId,
+      m.role,
+    ])
+    expect(memberships).toEqual(
+      expect.arrayContaining([
+        [elsewhere.id, 'pi'],
+        [team.lab.id, 'biostatistician'],
+      ]),
+    )
     expect(res.body.data.user.name).toBe(person.name)
   })
 
@@ -167,7 +214,9 @@ describe('accepting invitations', () => {
 
     const res = await (await as(person)).post('/api/v1/invitations/accept', { token })
     expect(res.status).toBe(200)
-    expect(res.body.data.user.memberships).toEqual([{ labId: team.lab.id, labName: team.lab.name, role: 'scientist' }])
+    expect(res.body.data.user.memberships).toEqual([
+      { labId: team.lab.id, labName: team.lab.name, role: 'scientist' },
+    ])
   })
 
   it('works only once', async () => {
@@ -178,23 +227,34 @@ describe('accepting invitations', () => {
     const again = await anonymous().post('/api/v1/invitations/accept', body)
     expect(again.status).toBe(404)
     expect(again.body.error.details.reason).toBe('accepted')
-    expect((await anonymous().post('/api/v1/invitations/lookup', { token })).body.error.details.reason).toBe('accepted')
+    expect((await anonymous().post('/api/v1/invitations/lookup', { token })).body.error.details.reason).toBe(
+      'accepted',
+    )
   })
 
   it('accepts two simultaneous uses of one link only once', async () => {
     const { token } = await invite(team.pi, team.lab.id, uniqueEmail('race'))
     const body = { token, name: 'Race Runner', password: 'a long new password' }
-    const results = await Promise.all([anonymous().post('/api/v1/invitations/accept', body), anonymous().post('/api/v1/invitations/accept', body)])
+    const results = await Promise.all([
+      anonymous().post('/api/v1/invitations/accept', body),
+      anonymous().post('/api/v1/invitations/accept', body),
+    ])
     expect(results.map((r) => r.status).sort()).toEqual([200, 404])
   })
 
   it('refuses an expired invitation', async () => {
     const { token, invitation } = await invite(team.pi, team.lab.id, uniqueEmail('late'))
-    await db('invitations').where({ id: invitation.id }).update({ expires_at: db.raw("now() - interval '1 minute'") })
+    await db('invitations')
+      .where({ id: invitation.id })
+      .update({ expires_at: db.raw("now() - interval '1 minute'") })
     const lookup = await anonymous().post('/api/v1/invitations/lookup', { token })
     expect(lookup.status).toBe(404)
     expect(lookup.body.error.details.reason).toBe('expired')
-    const accept = await anonymous().post('/api/v1/invitations/accept', { token, name: 'Too Late', password: 'a long new password' })
+    const accept = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      name: 'Too Late',
+      password: 'a long new password',
+    })
     expect(accept.status).toBe(404)
     const listed = await (await as(team.pi)).get(`/api/v1/labs/${team.lab.id}/invitations`)
     expect(listed.body.data.find((i: { id: number }) => i.id === invitation.id).status).toBe('expired')
@@ -206,22 +266,36 @@ describe('accepting invitations', () => {
     const revoked = await pi.delete(`/api/v1/labs/${team.lab.id}/invitations/${invitation.id}`)
     expect(revoked.status).toBe(200)
     expect(revoked.body.data.status).toBe('revoked')
-    const accept = await anonymous().post('/api/v1/invitations/accept', { token, name: 'Revoked', password: 'a long new password' })
+    const accept = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      name: 'Revoked',
+      password: 'a long new password',
+    })
     expect(accept.status).toBe(404)
     expect(accept.body.error.details.reason).toBe('revoked')
     expect((await pi.delete(`/api/v1/labs/${team.lab.id}/invitations/${invitation.id}`)).status).toBe(409)
 
     const used = await invite(team.pi, team.lab.id, uniqueEmail('used'))
-    await anonymous().post('/api/v1/invitations/accept', { token: used.token, name: 'Used', password: 'a long new password' })
-    expect((await pi.delete(`/api/v1/labs/${team.lab.id}/invitations/${used.invitation.id}`)).status).toBe(409)
-    expect((await auditActions(team.lab.id))).toContain('invitation.revoked')
+    await anonymous().post('/api/v1/invitations/accept', {
+      token: used.token,
+      name: 'Used',
+      password: 'a long new password',
+    })
+    expect((await pi.delete(`/api/v1/labs/${team.lab.id}/invitations/${used.invitation.id}`)).status).toBe(
+      409,
+    )
+    expect(await auditActions(team.lab.id)).toContain('invitation.revoked')
   })
 
   it('does not reveal another lab’s invitations: revoking one through a different lab answers 404', async () => {
     const other = await createLabWithTeam()
     const { invitation } = await invite(other.pi, other.lab.id, uniqueEmail('elsewhere'))
-    expect((await (await as(team.pi)).delete(`/api/v1/labs/${team.lab.id}/invitations/${invitation.id}`)).status).toBe(404)
-    expect((await (await as(team.pi)).delete(`/api/v1/labs/${other.lab.id}/invitations/${invitation.id}`)).status).toBe(404)
+    expect(
+      (await (await as(team.pi)).delete(`/api/v1/labs/${team.lab.id}/invitations/${invitation.id}`)).status,
+    ).toBe(404)
+    expect(
+      (await (await as(team.pi)).delete(`/api/v1/labs/${other.lab.id}/invitations/${invitation.id}`)).status,
+    ).toBe(404)
   })
 
   it('answers 404 to an unknown token and 400 to a malformed one', async () => {
@@ -236,7 +310,9 @@ describe('managing members', () => {
   it('lets a PI change a role and remove a member; the change applies to the next request', async () => {
     const { lab, pi, scientist } = await createLabWithTeam()
     const piApi = await as(pi)
-    const changed = await piApi.patch(`/api/v1/labs/${lab.id}/members/${scientist.id}`, { role: 'biostatistician' })
+    const changed = await piApi.patch(`/api/v1/labs/${lab.id}/members/${scientist.id}`, {
+      role: 'biostatistician',
+    })
     expect(changed.status).toBe(200)
     expect(changed.body.data).toMatchObject({ userId: scientist.id, role: 'biostatistician' })
     const scientistApi = await as(scientist)
@@ -247,7 +323,11 @@ describe('managing members', () => {
     expect((await piApi.delete(`/api/v1/labs/${lab.id}/members/${scientist.id}`)).status).toBe(404)
     expect(await auditActions(lab.id)).toEqual(['member.role_changed', 'member.removed'])
     const [change] = await db('audit_events').where({ lab_id: lab.id, action: 'member.role_changed' })
-    expect(change).toMatchObject({ actor_user_id: pi.id, subject_type: 'user', subject_id: String(scientist.id) })
+    expect(change).toMatchObject({
+      actor_user_id: pi.id,
+      subject_type: 'user',
+      subject_id: String(scientist.id),
+    })
     expect(change.details).toEqual({ email: scientist.email, from: 'scientist', to: 'biostatistician' })
   })
 
@@ -260,8 +340,12 @@ describe('managing members', () => {
     expect((await piApi.delete(`/api/v1/labs/${lab.id}/members/${pi.id}`)).status).toBe(409)
 
     // With a second PI, the first may step down.
-    expect((await piApi.patch(`/api/v1/labs/${lab.id}/members/${biostatistician.id}`, { role: 'pi' })).status).toBe(200)
-    expect((await piApi.patch(`/api/v1/labs/${lab.id}/members/${pi.id}`, { role: 'scientist' })).status).toBe(200)
+    expect(
+      (await piApi.patch(`/api/v1/labs/${lab.id}/members/${biostatistician.id}`, { role: 'pi' })).status,
+    ).toBe(200)
+    expect((await piApi.patch(`/api/v1/labs/${lab.id}/members/${pi.id}`, { role: 'scientist' })).status).toBe(
+      200,
+    )
   })
 
   it('lets two PIs not demote each other at the same moment into a lab without PI', async () => {
@@ -301,7 +385,11 @@ describe('creating labs', () => {
     expect(await auditActions(res.body.data.lab.id)).toEqual(['lab.created', 'invitation.created'])
 
     const token = invitationTokenIn((await latestOutboxRowTo(firstPiEmail)).text_body)
-    const accepted = await anonymous().post('/api/v1/invitations/accept', { token, name: 'First Pi', password: 'a long new password' })
+    const accepted = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      name: 'First Pi',
+      password: 'a long new password',
+    })
     expect(accepted.body.data.role).toBe('pi')
 
     const again = await (await as(admin)).post('/api/v1/admin/labs', { name: name.toUpperCase() })
@@ -318,6 +406,8 @@ describe('creating labs', () => {
   })
 
   it('is for admins only', async () => {
-    expect((await (await as(team.pi)).post('/api/v1/admin/labs', { name: 'Not Allowed Lab' })).status).toBe(403)
+    expect((await (await as(team.pi)).post('/api/v1/admin/labs', { name: 'Not Allowed Lab' })).status).toBe(
+      403,
+    )
   })
 })

@@ -8,7 +8,13 @@ import { enqueueMail } from '../../server/services/mail-outbox.service'
 import { closeConnections, createTestApp, signIn } from '../support/api'
 import { asUser } from '../support/as-user'
 import { createLabWithTeam, createUser, uniqueEmail } from '../support/factories'
-import { invitationTokenIn, latestReceivedMailTo, startTestMail, waitFor, type TestMail } from '../support/mail'
+import {
+  invitationTokenIn,
+  latestReceivedMailTo,
+  startTestMail,
+  waitFor,
+  type TestMail,
+} from '../support/mail'
 
 const app = createTestApp()
 let mail: TestMail
@@ -34,16 +40,25 @@ afterAll(async () => {
 const outboxRow = (id: number) => db('mail_outbox').where({ id }).first()
 
 function message(to: string, subject = `Test message ${to}`) {
-  return { to, subject, text: `Hello ${to}\nhttp://127.0.0.1/join#${'x'.repeat(43)}`, kind: 'invitation' as const }
+  return {
+    to,
+    subject,
+    text: `Hello ${to}\nhttp://127.0.0.1/join#${'x'.repeat(43)}`,
+    kind: 'invitation' as const,
+  }
 }
 
 /** Runs the sender until `id` is no longer queued-and-due (other files' leftovers may come first). */
 async function drainUntilDone(sender: { runOnce(): Promise<number> }, id: number) {
-  return waitFor(async () => {
-    await sender.runOnce()
-    const row = await outboxRow(id)
-    return row.status !== 'queued' || row.next_attempt_at > new Date() ? row : undefined
-  }, 10_000, `outbox message ${id}`)
+  return waitFor(
+    async () => {
+      await sender.runOnce()
+      const row = await outboxRow(id)
+      return row.status !== 'queued' || row.next_attempt_at > new Date() ? row : undefined
+    },
+    10_000,
+    `outbox message ${id}`,
+  )
 }
 
 describe('enqueueing inside the business transaction', () => {
@@ -95,8 +110,15 @@ describe('enqueueing inside the business transaction', () => {
     expect(received.subject).toBe('Sent after commit')
     expect(received.text).toContain(`/join#${'x'.repeat(43)}`)
     expect(received.envelopeFrom).toBe('tests@nestwise.invalid')
-    const row = await waitFor(async () => ((await outboxRow(id)).status === 'sent' ? outboxRow(id) : undefined))
-    expect(row).toMatchObject({ status: 'sent', attempts: 1, last_error: null, message_id: received.messageId })
+    const row = await waitFor(async () =>
+      (await outboxRow(id)).status === 'sent' ? outboxRow(id) : undefined,
+    )
+    expect(row).toMatchObject({
+      status: 'sent',
+      attempts: 1,
+      last_error: null,
+      message_id: received.messageId,
+    })
     expect(row.sent_at).toBeInstanceOf(Date)
   })
 })
@@ -120,7 +142,12 @@ describe('the sender loop', () => {
     const to = uniqueEmail('retry')
     const id = await enqueueMail(db, message(to))
     const flaky = flakyTransport(2)
-    const sender = createMailSender({ transport: flaky.transport, from: 'tests@nestwise.invalid', retryDelayMs: () => 0, batchSize: 1 })
+    const sender = createMailSender({
+      transport: flaky.transport,
+      from: 'tests@nestwise.invalid',
+      retryDelayMs: () => 0,
+      batchSize: 1,
+    })
     let row = await drainUntilDone(sender, id)
     // Each run attempts once (batch of one): the loop above re-runs until the message left the queue.
     expect(row).toMatchObject({ status: 'sent', attempts: 3, last_error: null })
@@ -132,24 +159,44 @@ describe('the sender loop', () => {
   it('waits for the backoff before trying again, and gives up after the last attempt', async () => {
     const to = uniqueEmail('gives-up')
     const id = await enqueueMail(db, message(to))
-    await db('mail_outbox').where('status', 'queued').whereNot({ id }).update({ next_attempt_at: db.raw("now() + interval '1 hour'") })
+    await db('mail_outbox')
+      .where('status', 'queued')
+      .whereNot({ id })
+      .update({ next_attempt_at: db.raw("now() + interval '1 hour'") })
     const failing = flakyTransport(Number.POSITIVE_INFINITY)
-    const backoff = createMailSender({ transport: failing.transport, from: 'tests@nestwise.invalid', maxAttempts: 3, retryDelayMs: () => 60_000 })
+    const backoff = createMailSender({
+      transport: failing.transport,
+      from: 'tests@nestwise.invalid',
+      maxAttempts: 3,
+      retryDelayMs: () => 60_000,
+    })
     await backoff.runOnce()
     let row = await outboxRow(id)
-    expect(row).toMatchObject({ status: 'queued', attempts: 1, last_error: 'ECONNREFUSED: Connection refused' })
+    expect(row).toMatchObject({
+      status: 'queued',
+      attempts: 1,
+      last_error: 'ECONNREFUSED: Connection refused',
+    })
     expect(row.next_attempt_at.getTime() - Date.now()).toBeGreaterThan(50_000)
     await backoff.runOnce()
     expect((await outboxRow(id)).attempts).toBe(1)
 
-    const impatient = createMailSender({ transport: failing.transport, from: 'tests@nestwise.invalid', maxAttempts: 3, retryDelayMs: () => 0 })
+    const impatient = createMailSender({
+      transport: failing.transport,
+      from: 'tests@nestwise.invalid',
+      maxAttempts: 3,
+      retryDelayMs: () => 0,
+    })
     await db('mail_outbox').where({ id }).update({ next_attempt_at: db.fn.now() })
     await impatient.runOnce()
     row = await outboxRow(id)
     expect(row).toMatchObject({ status: 'failed', attempts: 3 })
     await impatient.runOnce()
     expect((await outboxRow(id)).attempts).toBe(3)
-    await db('mail_outbox').where('status', 'queued').whereNot({ id }).update({ next_attempt_at: db.fn.now() })
+    await db('mail_outbox')
+      .where('status', 'queued')
+      .whereNot({ id })
+      .update({ next_attempt_at: db.fn.now() })
   })
 
   it('hands each message to exactly one of several senders running at once (SKIP LOCKED)', async () => {
@@ -157,10 +204,14 @@ describe('the sender loop', () => {
     const to = uniqueEmail('parallel')
     for (let i = 0; i < 8; i += 1) await enqueueMail(db, message(to, `${prefix} #${i}`))
     const transport = createMailTransport({ mode: 'fake', host: '127.0.0.1', port: mail.fake.port })
-    const senders = [1, 2, 3].map(() => createMailSender({ transport, from: 'tests@nestwise.invalid', batchSize: 100 }))
+    const senders = [1, 2, 3].map(() =>
+      createMailSender({ transport, from: 'tests@nestwise.invalid', batchSize: 100 }),
+    )
     await Promise.all(senders.map((s) => s.runOnce()))
     const received: { subject: string }[] = await db('received_mails').where('subject', 'like', `${prefix}%`)
-    expect(received.map((r) => r.subject).sort()).toEqual(Array.from({ length: 8 }, (_, i) => `${prefix} #${i}`).sort())
+    expect(received.map((r) => r.subject).sort()).toEqual(
+      Array.from({ length: 8 }, (_, i) => `${prefix} #${i}`).sort(),
+    )
   })
 })
 
@@ -170,7 +221,9 @@ describe('the admin outbox API', () => {
     const { lab, pi } = await createLabWithTeam()
     const email = uniqueEmail('admin-view')
     const piApi = asUser(app, await signIn(app, pi.email, pi.password))
-    expect((await piApi.post(`/api/v1/labs/${lab.id}/invitations`, { email, role: 'scientist' })).status).toBe(201)
+    expect(
+      (await piApi.post(`/api/v1/labs/${lab.id}/invitations`, { email, role: 'scientist' })).status,
+    ).toBe(201)
     mail.sender.start()
     const received = await waitFor(() => latestReceivedMailTo(email), 10_000, 'the invitation e-mail')
     await mail.sender.stop()
@@ -179,7 +232,12 @@ describe('the admin outbox API', () => {
     const outbox = await adminApi.get('/api/v1/admin/mail/outbox?pageSize=200')
     expect(outbox.status).toBe(200)
     const item = outbox.body.data.items.find((m: { to: string }) => m.to === email)
-    expect(item).toMatchObject({ kind: 'invitation', status: 'sent', attempts: 1, receivedMailId: received.id })
+    expect(item).toMatchObject({
+      kind: 'invitation',
+      status: 'sent',
+      attempts: 1,
+      receivedMailId: received.id,
+    })
 
     const copy = await adminApi.get(`/api/v1/admin/mail/received/${received.id}`)
     expect(copy.status).toBe(200)
@@ -193,7 +251,9 @@ describe('the admin outbox API', () => {
     expect(list.body.data.total).toBeGreaterThanOrEqual(1)
 
     expect((await adminApi.post(`/api/v1/admin/mail/outbox/${item.id}/retry`)).status).toBe(409)
-    await db('mail_outbox').where({ id: item.id }).update({ status: 'failed', attempts: 5, last_error: 'gave up' })
+    await db('mail_outbox')
+      .where({ id: item.id })
+      .update({ status: 'failed', attempts: 5, last_error: 'gave up' })
     const retried = await adminApi.post(`/api/v1/admin/mail/outbox/${item.id}/retry`)
     expect(retried.status).toBe(200)
     expect(retried.body.data).toMatchObject({ status: 'queued', attempts: 0 })

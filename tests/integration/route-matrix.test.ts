@@ -40,21 +40,34 @@ interface CaseContext {
   w: World
 }
 
-type Statuses = [anonymous: number, scientist: number, pi: number, biostatistician: number, admin: number, otherLab: number]
+type Statuses = [
+  anonymous: number,
+  scientist: number,
+  pi: number,
+  biostatistician: number,
+  admin: number,
+  otherLab: number,
+]
 type Case = [route: string, statuses: Statuses, send: (c: CaseContext) => Promise<Response>]
 
 const app = createTestApp({ loginRateLimit: 100_000 })
 const csv = Buffer.from(
-  ['lab,mouse,treatment,cell,neurite_length_um', ...Array.from({ length: 40 }, (_, i) => {
-    const mouse = Math.floor(i / 5)
-    return `${mouse < 4 ? 'Nimbus' : 'Fernhill'},m${(mouse % 4) + 1},${mouse % 2 ? 'vehicle' : 'NW-117'},${(i % 5) + 1},${(110 + ((i * 37) % 50) + 0.25).toFixed(2)}`
-  })].join('\n') + '\n',
+  [
+    'lab,mouse,treatment,cell,neurite_length_um',
+    ...Array.from({ length: 40 }, (_, i) => {
+      const mouse = Math.floor(i / 5)
+      return `${mouse < 4 ? 'Nimbus' : 'Fernhill'},m${(mouse % 4) + 1},${mouse % 2 ? 'vehicle' : 'NW-117'},${(i % 5) + 1},${(110 + ((i * 37) % 50) + 0.25).toFixed(2)}`
+    }),
+  ].join('\n') + '\n',
 )
 
 function upload(cookie: string, labId: number, token?: string) {
   const req = request(app).post('/api/v1/datasets').set(appWriteHeaders).set('Cookie', cookie)
   if (token) req.set('X-Upload-Token', token)
-  return req.field('labId', String(labId)).field('projectName', 'Route matrix').attach('file', csv, 'cells.csv')
+  return req
+    .field('labId', String(labId))
+    .field('projectName', 'Route matrix')
+    .attach('file', csv, 'cells.csv')
 }
 
 function expectStatus(res: Response, status: number, what: string): Response {
@@ -79,10 +92,18 @@ const make = {
     const email = uniqueEmail('matrix')
     const res = await apiOf('pi').post(`/api/v1/labs/${w.labId}/invitations`, { email, role: 'scientist' })
     expectStatus(res, 201, 'invitation')
-    return { id: res.body.data.id, token: invitationTokenIn((await latestOutboxRowTo(email)).text_body), email }
+    return {
+      id: res.body.data.id,
+      token: invitationTokenIn((await latestOutboxRowTo(email)).text_body),
+      email,
+    }
   },
   async exclusion(): Promise<number> {
-    const body = { kind: 'rule', rule: { column: 'neurite_length_um', operator: 'gt', value: 10_000 }, reason: 'matrix check' }
+    const body = {
+      kind: 'rule',
+      rule: { column: 'neurite_length_um', operator: 'gt', value: 10_000 },
+      reason: 'matrix check',
+    }
     const res = await apiOf('scientist').post(`/api/v1/datasets/${w.datasetId}/versions/1/exclusions`, body)
     return expectStatus(res, 201, 'exclusion').body.data.id
   },
@@ -91,7 +112,12 @@ const make = {
     return expectStatus(res, 201, 'analysis').body.data.id
   },
   async failedMail(): Promise<number> {
-    const id = await insertOutboxMessage({ to: uniqueEmail('mail'), subject: 'Matrix', text: 'Matrix', kind: 'invitation' })
+    const id = await insertOutboxMessage({
+      to: uniqueEmail('mail'),
+      subject: 'Matrix',
+      text: 'Matrix',
+      kind: 'invitation',
+    })
     await db('mail_outbox').where({ id }).update({ status: 'failed', attempts: 5 })
     return id
   },
@@ -198,16 +224,31 @@ beforeAll(async () => {
   const other = await createLabWithTeam()
   const admin = await createUser({ isAdmin: true })
   w.labId = team.lab.id
-  w.users = { scientist: team.scientist, pi: team.pi, biostatistician: team.biostatistician, admin, otherLab: other.pi }
+  w.users = {
+    scientist: team.scientist,
+    pi: team.pi,
+    biostatistician: team.biostatistician,
+    admin,
+    otherLab: other.pi,
+  }
   for (const role of ROLES) {
-    if (role !== 'anonymous') cookies.set(role, await signIn(app, w.users[role].email, w.users[role].password))
+    if (role !== 'anonymous')
+      cookies.set(role, await signIn(app, w.users[role].email, w.users[role].password))
   }
 
   w.uploadToken = `matrix-${Date.now()}`
-  const uploaded = expectStatus(await upload(cookies.get('scientist')!, w.labId, w.uploadToken), 201, 'world upload')
+  const uploaded = expectStatus(
+    await upload(cookies.get('scientist')!, w.labId, w.uploadToken),
+    201,
+    'world upload',
+  )
   w.datasetId = uploaded.body.data.id
   w.projectId = uploaded.body.data.project?.id ?? uploaded.body.data.projectId
-  const tagging = { responseColumns: ['neurite_length_um'], conditionColumn: 'treatment', levels: ['lab', 'mouse'] }
+  const tagging = {
+    responseColumns: ['neurite_length_um'],
+    conditionColumn: 'treatment',
+    levels: ['lab', 'mouse'],
+  }
   expectStatus(await apiOf('scientist').put(v1('/tagging'), tagging), 200, 'world tagging')
   w.analysisId = await make.analysis()
   w.receivedMailId = await insertReceivedMail({
@@ -232,15 +273,27 @@ describe('the route table', () => {
       .map((r) => `${r.method} ${r.path}`)
     const listed = cases.map(([route]) => route)
     expect(served).toContain('GET /api/health')
-    expect(listed.filter((route, i) => listed.indexOf(route) !== i), 'listed twice').toEqual([])
-    expect(served.filter((route) => !listed.includes(route)), 'served but missing from the table').toEqual([])
-    expect(listed.filter((route) => !served.includes(route)), 'in the table but not served').toEqual([])
+    expect(
+      listed.filter((route, i) => listed.indexOf(route) !== i),
+      'listed twice',
+    ).toEqual([])
+    expect(
+      served.filter((route) => !listed.includes(route)),
+      'served but missing from the table',
+    ).toEqual([])
+    expect(
+      listed.filter((route) => !served.includes(route)),
+      'in the table but not served',
+    ).toEqual([])
   })
 
   it('reads nested routers, methods and mount paths the way Express 5 stores them', () => {
     const inner = express.Router()
     inner.get('/', () => {})
-    inner.route('/:id').get(() => {}).delete(() => {})
+    inner
+      .route('/:id')
+      .get(() => {})
+      .delete(() => {})
     const deeper = express.Router()
     deeper.post('/go', () => {})
     inner.use('/deeper', deeper)
@@ -265,12 +318,17 @@ describe('who may call what', () => {
         const context: CaseContext = {
           role,
           api: apiOf(role),
-          freshApi: async () => (role === 'anonymous' ? asUser(app) : asUser(app, await signIn(app, w.users[role].email, w.users[role].password))),
+          freshApi: async () =>
+            role === 'anonymous'
+              ? asUser(app)
+              : asUser(app, await signIn(app, w.users[role].email, w.users[role].password)),
           w,
         }
         const res = await send(context)
         if (res.status !== statuses[index]) {
-          mismatches.push(`${role}: expected ${statuses[index]}, got ${res.status} ${JSON.stringify(res.body?.error ?? '')}`)
+          mismatches.push(
+            `${role}: expected ${statuses[index]}, got ${res.status} ${JSON.stringify(res.body?.error ?? '')}`,
+          )
         }
       }
       expect(mismatches).toEqual([])

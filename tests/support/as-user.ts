@@ -7,9 +7,11 @@ export function asUser(app: Express, cookie?: string) {
   const withCookie = (req: request.Test) => (cookie ? req.set('Cookie', cookie) : req)
   return {
     get: (path: string) => withCookie(request(app).get(path)),
-    post: (path: string, body?: object) => withCookie(request(app).post(path).set(appWriteHeaders)).send(body),
+    post: (path: string, body?: object) =>
+      withCookie(request(app).post(path).set(appWriteHeaders)).send(body),
     put: (path: string, body?: object) => withCookie(request(app).put(path).set(appWriteHeaders)).send(body),
-    patch: (path: string, body?: object) => withCookie(request(app).patch(path).set(appWriteHeaders)).send(body),
+    patch: (path: string, body?: object) =>
+      withCookie(request(app).patch(path).set(appWriteHeaders)).send(body),
     delete: (path: string) => withCookie(request(app).delete(path).set(appWriteHeaders)),
   }
 }

@@ -23,10 +23,12 @@ function join(prefix: string, path: string): string {
 function walk(stack: Layer[], prefix: string, out: AppRoute[]): void {
   for (const layer of stack) {
     if (layer.route) {
-      if (typeof layer.route.path !== 'string') throw new Error(`route with a non-string path under ${prefix}`)
+      if (typeof layer.route.path !== 'string')
+        throw new Error(`route with a non-string path under ${prefix}`)
       const methods = Object.keys(layer.route.methods).filter((m) => m !== '_all')
       if (layer.route.methods._all) methods.push('ALL')
-      for (const method of methods) out.push({ method: method.toUpperCase(), path: join(prefix, layer.route.path) })
+      for (const method of methods)
+        out.push({ method: method.toUpperCase(), path: join(prefix, layer.route.path) })
     } else if (layer.handle?.stack) {
       const mount = layer.rawPath ?? '/'
       if (typeof mount !== 'string') throw new Error(`router mounted at a non-string path under ${prefix}`)

@@ -31,7 +31,11 @@ export async function startTestMail(options: Partial<MailSenderOptions> = {}): P
 }
 
 /** Polls `probe` until it returns something truthy, or fails after `timeoutMs`. */
-export async function waitFor<T>(probe: () => Promise<T | undefined | null | false>, timeoutMs = 10_000, what = 'condition'): Promise<T> {
+export async function waitFor<T>(
+  probe: () => Promise<T | undefined | null | false>,
+  timeoutMs = 10_000,
+  what = 'condition',
+): Promise<T> {
   const deadline = Date.now() + timeoutMs
   for (;;) {
     const value = await probe()
