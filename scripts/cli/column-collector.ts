@@ -13,11 +13,26 @@ export interface ColumnSelection {
 /** Spreadsheet spellings of "no value": such a response leaves its row out (counted by the engine). */
 const MISSING_TOKENS = new Set(['', 'NA', 'N/A', 'NaN', 'nan', 'na', 'n/a', '.', '-', 'NULL', 'null'])
 
+/** Trims surrounding white space, without allocating when there is none (the usual case). */
+function clean(field: string | undefined): string {
+  if (field === undefined || field.length === 0) return ''
+  const first = field.charCodeAt(0)
+  const last = field.charCodeAt(field.length - 1)
+  return first <= 32 || last <= 32 || first === 0xa0 || last === 0xa0 ? field.trim() : field
+}
+
+function isBlank(fields: string[]): boolean {
+  return fields.every((field) => field.trim() === '')
+}
+
 /** A factor under construction: codes grow by doubling, labels get codes in order of appearance. */
 class FactorBuilder {
   readonly codeOf = new Map<string, number>()
   readonly labels: string[] = []
   codes: Int32Array
+  // Tables are usually sorted by unit, so most rows repeat the previous row's label.
+  private lastLabel = ''
+  private lastCode = -1
 
   constructor(
     readonly name: string,
@@ -28,12 +43,15 @@ class FactorBuilder {
 
   /** Code of a (trimmed, non-empty) label, adding it on first sight. */
   code(label: string): number {
+    if (label === this.lastLabel && this.lastCode >= 0) return this.lastCode
     let code = this.codeOf.get(label)
     if (code === undefined) {
       code = this.labels.length
       this.labels.push(label)
       this.codeOf.set(label, code)
     }
+    this.lastLabel = label
+    this.lastCode = code
     return code
   }
 
@@ -55,6 +73,9 @@ export class ColumnCollector {
   private conditionIndex = -1
   private levels: FactorBuilder[] = []
   private condition: FactorBuilder | null = null
+  /** Levels then condition, with their column indices: the per-row loop treats them alike. */
+  private factors: FactorBuilder[] = []
+  private factorIndices: number[] = []
   private response = new Float64Array(1024)
   private rows = 0
   private headerSeen = false
@@ -73,30 +94,39 @@ export class ColumnCollector {
 
   /** Feeds one parsed row; the first row fed is the header. */
   add(fields: string[]): void {
-    if (!this.headerSeen) {
-      this.readHeader(fields)
-      return
+    this.addRows([fields])
+  }
+
+  /** Feeds parsed rows in order (a papaparse chunk); the first row ever fed is the header. */
+  addRows(rows: string[][]): void {
+    let first = 0
+    if (!this.headerSeen && rows.length > 0) {
+      this.readHeader(rows[0])
+      first = 1
     }
-    if (this.rows === this.response.length) this.grow()
-    const row = this.rows++
-    let missing = false
-    for (let l = 0; l < this.levels.length; l++) {
-      const label = (fields[this.levelIndices[l]] ?? '').trim()
-      if (label === '') missing = true
-      // A row with a missing label still needs a code; it is left out through its NaN response.
-      this.levels[l].codes[row] = label === '' ? 0 : this.levels[l].code(label)
-    }
-    if (this.condition) {
-      const label = (fields[this.conditionIndex] ?? '').trim()
-      if (label === '') missing = true
-      this.condition.codes[row] = label === '' ? 0 : this.condition.code(label)
-    }
-    if (missing && this.isBlank(fields)) {
+    const factors = this.factors
+    const indices = this.factorIndices
+    const nFactors = factors.length
+    for (let r = first; r < rows.length; r++) {
+      const fields = rows[r]
+      if (this.rows === this.response.length) this.grow()
+      const row = this.rows
+      let missing = false
+      for (let f = 0; f < nFactors; f++) {
+        const label = clean(fields[indices[f]])
+        if (label === '') {
+          // A row with a missing label still needs a code; it is left out through its NaN response.
+          missing = true
+          factors[f].codes[row] = 0
+        } else {
+          factors[f].codes[row] = factors[f].code(label)
+        }
+      }
       // A row of separators only (spreadsheet leftovers) is not data: forget it instead of counting it.
-      this.rows--
-      return
+      if (missing && isBlank(fields)) continue
+      this.rows++
+      this.response[row] = missing ? NaN : this.parseResponse(fields[this.responseIndex], row)
     }
-    this.response[row] = missing ? NaN : this.parseResponse(fields[this.responseIndex], row)
   }
 
   finish(): NestedColumns {
@@ -128,18 +158,17 @@ export class ColumnCollector {
       this.conditionIndex = find(this.selection.condition)
       this.condition = new FactorBuilder(this.selection.condition, this.response.length)
     }
+    this.factors = this.condition ? [...this.levels, this.condition] : [...this.levels]
+    this.factorIndices = this.condition ? [...this.levelIndices, this.conditionIndex] : [...this.levelIndices]
     this.headerSeen = true
   }
 
-  private isBlank(fields: string[]): boolean {
-    return fields.every((field) => field.trim() === '')
-  }
-
   private parseResponse(raw: string | undefined, row: number): number {
-    const text = (raw ?? '').trim()
-    if (MISSING_TOKENS.has(text)) return NaN
+    const text = clean(raw)
+    if (text === '') return NaN
     const value = Number(this.decimalComma ? text.replace(',', '.') : text)
     if (!Number.isFinite(value)) {
+      if (MISSING_TOKENS.has(text)) return NaN
       // Data row r sits on file line r + 2 when no field spans lines (header is line 1).
       const hint = !this.decimalComma && /^-?\d+,\d+$/.test(text) ? ' (for a decimal comma use --decimal ",")' : ''
       throw new CliInputError(
@@ -162,7 +191,7 @@ export class ColumnCollector {
     const response = new Float64Array(size)
     response.set(this.response)
     this.response = response
-    for (const factor of [...this.levels, ...(this.condition ? [this.condition] : [])]) {
+    for (const factor of this.factors) {
       const codes = new Int32Array(size)
       codes.set(factor.codes)
       factor.codes = codes

@@ -25,7 +25,7 @@ function parseConfig(options: ReadColumnsOptions) {
 export function readColumnsFromText(text: string, options: ReadColumnsOptions): NestedColumns {
   const collector = new ColumnCollector(options)
   const result = Papa.parse<string[]>(text, parseConfig(options))
-  for (const row of result.data) collector.add(row)
+  collector.addRows(result.data)
   return collector.finish()
 }
 
@@ -88,7 +88,7 @@ export async function readColumnsFromFile(path: string, options: ReadColumnsOpti
           collector.reserve((1.05 * fileSize * results.data.length) / results.meta.cursor)
         }
         try {
-          for (const row of results.data) collector.add(row)
+          collector.addRows(results.data)
         } catch (error) {
           failure = error
           parser.abort()

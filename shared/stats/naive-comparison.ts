@@ -19,7 +19,8 @@ export function naiveComparison(design: NestedDesign, pair: { a: string; b: stri
   const k = condition.labels.length
   try {
     if (k === 2 && pair) {
-      const [a, b] = [pair.a, pair.b].map((label) => summary(design.y, condition.codes, condition.labels.indexOf(label)))
+      const summaries = conditionSummaries(design.y, condition.codes, k)
+      const [a, b] = [pair.a, pair.b].map((label) => summaries[condition.labels.indexOf(label)])
       const test = welchTest(a, b)
       return { method: 'welch', a: pair.a, b: pair.b, estimate: test.diff, se: test.se, t: test.t, df: test.df, p: test.p }
     }
@@ -33,18 +34,16 @@ export function naiveComparison(design: NestedDesign, pair: { a: string; b: stri
   }
 }
 
-/** n, mean and sample variance of one condition's observations (two passes, for accuracy). */
-function summary(y: Float64Array, codes: Int32Array, code: number) {
-  let n = 0
-  let sum = 0
+/** n, mean and sample variance of each condition's observations (two passes, for accuracy). */
+function conditionSummaries(y: Float64Array, codes: Int32Array, k: number) {
+  const n = new Float64Array(k)
+  const sum = new Float64Array(k)
   for (let i = 0; i < y.length; i++) {
-    if (codes[i] === code) {
-      n++
-      sum += y[i]
-    }
+    n[codes[i]]++
+    sum[codes[i]] += y[i]
   }
-  const mean = sum / n
-  let squares = 0
-  for (let i = 0; i < y.length; i++) if (codes[i] === code) squares += (y[i] - mean) ** 2
-  return { n, mean, variance: squares / (n - 1) }
+  const mean = Array.from(sum, (s, c) => s / n[c])
+  const squares = new Float64Array(k)
+  for (let i = 0; i < y.length; i++) squares[codes[i]] += (y[i] - mean[codes[i]]) ** 2
+  return mean.map((m, c) => ({ n: n[c], mean: m, variance: squares[c] / (n[c] - 1) }))
 }

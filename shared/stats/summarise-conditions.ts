@@ -3,7 +3,7 @@ import type { GroupSummary } from '../schemas/analysis-result'
 import { conditionMeans } from './condition-means'
 import { EngineInputError } from './engine-input-error'
 import { nestedDesignEffect } from './nested-design-effect'
-import { observationsPerUnit } from './observations-per-unit'
+import { observationsPerUnitByCondition } from './observations-per-unit-by-condition'
 import type { NestedDesign, NestedFit } from './types'
 
 /**
@@ -45,7 +45,9 @@ export function summariseConditions(
   for (let i = 0; i < y.length; i++) squares[codes[i]] += (y[i] - mean[codes[i]]) ** 2
 
   const modelMeans = conditionMeans(design, fit, confidence)
-  const carrier = design.randomLevels.find((level) => level.name === design.conditionLevel) ?? null
+  // sizes[l][c]: observations of condition c in each unit of level l that holds any.
+  const sizes = design.randomLevels.map((level) => observationsPerUnitByCondition(level, codes, k))
+  const carrier = design.randomLevels.findIndex((level) => level.name === design.conditionLevel)
   const tail = 1 - (1 - confidence) / 2
 
   return labels.map((label, c) => {
@@ -55,17 +57,14 @@ export function summariseConditions(
         design.condition?.name ?? null,
       )
     }
-    const only = design.condition ? { codes, code: c } : undefined
-    const deff = nestedDesignEffect(
-      design.randomLevels.map((level, l) => ({ unitSizes: observationsPerUnit(level, only), share: shares[l] })),
-    ).deff
+    const deff = nestedDesignEffect(sizes.map((bySize, l) => ({ unitSizes: bySize[c], share: shares[l] }))).deff
     const naiveSe = Math.sqrt(squares[c] / (n[c] - 1) / n[c])
     const naiveHalf = jStat.studentt.inv(tail, n[c] - 1) * naiveSe
     const model = modelMeans[c]
     return {
       condition: label,
       nObs: n[c],
-      nUnits: carrier ? observationsPerUnit(carrier, only).length : null,
+      nUnits: carrier >= 0 ? sizes[carrier][c].length : null,
       effectiveN: n[c] / deff,
       designEffect: deff,
       mean: mean[c],
