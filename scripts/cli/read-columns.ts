@@ -1,6 +1,5 @@
 import { closeSync, createReadStream, openSync, readSync, statSync } from 'node:fs'
 import type { Readable } from 'node:stream'
-import iconv from 'iconv-lite'
 import Papa from 'papaparse'
 import type { NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
@@ -46,7 +45,7 @@ function sniffEncoding(path: string): Encoding {
   }
 }
 
-function openText(path: string): Readable {
+async function openText(path: string): Promise<Readable> {
   let encoding: Encoding
   try {
     const stats = statSync(path)
@@ -63,6 +62,8 @@ function openText(path: string): Readable {
   // Skipping the mark's bytes (papaparse strips it only from whole strings) keeps a quoted first header intact.
   if (encoding === 'utf8-bom') return createReadStream(path, { encoding: 'utf8', start: 3 })
   // Decoding through iconv keeps characters split across chunk borders intact; it drops the mark.
+  // Loaded only for such files, to keep the start-up of the common case short.
+  const { default: iconv } = await import('iconv-lite')
   return createReadStream(path).pipe(iconv.decodeStream(encoding)) as unknown as Readable
 }
 
@@ -73,7 +74,7 @@ function openText(path: string): Readable {
  */
 export async function readColumnsFromFile(path: string, options: ReadColumnsOptions): Promise<NestedColumns> {
   const collector = new ColumnCollector(options)
-  const input = openText(path)
+  const input = await openText(path)
   const fileSize = statSync(path).size
   return new Promise((resolve, reject) => {
     let failure: unknown = null
