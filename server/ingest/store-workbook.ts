@@ -9,6 +9,7 @@ import { encodeCopyTextRow } from './copy-text'
 import { badFile } from './ingest-errors'
 import { TableIntake, type IntakeLimits, type IntakeResult } from './table-intake'
 import type { ProgressSink } from './upload-progress'
+import { logger } from '../logger'
 
 type CopyIn = Awaited<ReturnType<typeof openCopyIn>>
 
@@ -147,6 +148,7 @@ export async function storeWorkbook(
     } catch (error) {
       // Our own refusals and database errors pass through; anything else means exceljs could not read the file.
       if ((error as { status?: number }).status || (error as { severity?: string }).severity || state.copyError) throw error
+      logger.warn('workbook could not be read', { versionId, err: error })
       throw badFile('BROKEN_WORKBOOK', 'The workbook could not be read: it may be damaged or protected with a password. Open it in the spreadsheet program and save it again, or export the sheet as CSV.')
     }
     if (target === -1) throw badFile('BROKEN_WORKBOOK', 'The workbook has no sheets.')

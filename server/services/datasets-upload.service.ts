@@ -11,7 +11,7 @@ import { ingestConfig } from '../ingest/ingest-config'
 import { ingestFile, type UploadedFile } from '../ingest/ingest-file'
 import { discardOriginal, holdHash, keepOriginal, staleFiles } from '../ingest/original-store'
 import type { IntakeResult } from '../ingest/table-intake'
-import type { ProgressSink } from '../ingest/upload-progress'
+import { noProgress, type ProgressSink } from '../ingest/upload-progress'
 import { logger } from '../logger'
 import { currentTagging, insertTagging } from '../repositories/datasets-annotations.repo'
 import { dropRowsTable, indexRowsTable, listRowsTables } from '../repositories/datasets-rows.repo'
@@ -69,7 +69,7 @@ async function storeVersion(
   trx: Knex.Transaction,
   datasetId: number,
   versionNo: number,
-  user: CurrentUser,
+  userId: number,
   file: UploadedFile,
   sheet: string | undefined,
   progress: ProgressSink,
@@ -77,7 +77,7 @@ async function storeVersion(
 ): Promise<StoredVersion> {
   const started = performance.now()
   const versionId = await insertVersion(
-    { datasetId, versionNo, originalFilename: file.originalName, byteSize: file.size, naValues: [...ingestConfig.naValues], createdBy: user.id },
+    { datasetId, versionNo, originalFilename: file.originalName, byteSize: file.size, naValues: [...ingestConfig.naValues], createdBy: userId },
     trx,
   )
   const outcome = await ingestFile(trx, versionId, file, { sheet, progress })
@@ -103,14 +103,14 @@ async function storeVersion(
     },
     trx,
   )
-  if (versionNo > 1) await carryOverTagging(trx, datasetId, versionNo, versionId, outcome.intake, user)
+  if (versionNo > 1) await carryOverTagging(trx, datasetId, versionNo, versionId, outcome.intake, userId)
   const created = await keepOriginal(file.path, outcome.sha256)
   onOriginalKept(outcome.sha256, created)
   if (outcome.fallbackReason) logger.info('dataset stored from parsed rows', { versionId, reason: outcome.fallbackReason })
   return { versionId, sha256: outcome.sha256, createdOriginal: created }
 }
 
-async function carryOverTagging(trx: Knex.Transaction, datasetId: number, versionNo: number, versionId: number, intake: IntakeResult, user: CurrentUser) {
+async function carryOverTagging(trx: Knex.Transaction, datasetId: number, versionNo: number, versionId: number, intake: IntakeResult, userId: number) {
   const previous = (await listVersions(datasetId, trx)).find((v) => v.versionNo === versionNo - 1)
   if (!previous) return
   const tagging = await currentTagging(previous.id, trx)
@@ -120,7 +120,7 @@ async function carryOverTagging(trx: Knex.Transaction, datasetId: number, versio
   if (!names.every((n) => types.has(n))) return
   if (!tagging.responseColumns.every((n) => types.get(n) === 'numeric' || types.get(n) === 'integer')) return
   await insertTagging(
-    { versionId, responseColumns: tagging.responseColumns, conditionColumn: tagging.conditionColumn, levels: tagging.levels, carriedOver: true, createdBy: user.id },
+    { versionId, responseColumns: tagging.responseColumns, conditionColumn: tagging.conditionColumn, levels: tagging.levels, carriedOver: true, createdBy: userId },
     trx,
   )
 }
@@ -170,7 +170,7 @@ export async function createDatasetFromUpload(user: CurrentUser, fields: Dataset
       { labId: fields.labId, projectId, name: fields.name ?? defaultName(file.originalName), description: fields.description, createdBy: user.id },
       trx,
     )
-    await storeVersion(trx, id, 1, user, file, fields.sheet, progress, onOriginalKept)
+    await storeVersion(trx, id, 1, user.id, file, fields.sheet, progress, onOriginalKept)
     return id
   })
   return getDatasetDetail(user, datasetId)
@@ -181,11 +181,35 @@ export async function addVersionFromUpload(user: CurrentUser, datasetId: number,
   await datasetFor(user, datasetId, 'write')
   const versionNo = await inUploadTransaction(async (trx, onOriginalKept) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
-    await storeVersion(trx, datasetId, next, user, file, sheet, progress, onOriginalKept)
+    await storeVersion(trx, datasetId, next, user.id, file, sheet, progress, onOriginalKept)
     await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
     return next
   })
   return getVersionDetail(user, datasetId, versionNo)
+}
+
+export interface SeedDatasetInput {
+  labId: number
+  projectName: string
+  name: string
+  description: string
+  userId: number
+  file: UploadedFile
+  tagging: { responseColumns: string[]; conditionColumn: string | null; levels: string[] } | null
+}
+
+/**
+ * Stores a demo dataset through the same ingest as an upload, on the connection the seed runner
+ * hands in (which may not be the app's pool), tagged as given. Returns the dataset id.
+ */
+export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Promise<number> {
+  return knex.transaction(async (trx) => {
+    const projectId = await findOrInsertProject({ labId: input.labId, name: input.projectName, createdBy: input.userId }, trx)
+    const id = await insertDataset({ labId: input.labId, projectId, name: input.name, description: input.description, createdBy: input.userId }, trx)
+    const stored = await storeVersion(trx, id, 1, input.userId, input.file, undefined, noProgress, () => {})
+    if (input.tagging) await insertTagging({ versionId: stored.versionId, ...input.tagging, carriedOver: false, createdBy: input.userId }, trx)
+    return id
+  })
 }
 
 const DAY_MS = 24 * 60 * 60 * 1000
