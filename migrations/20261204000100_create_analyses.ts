@@ -11,6 +11,8 @@ export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('analyses', (t) => {
     t.bigIncrements('id').primary()
     t.bigInteger('lab_id').notNullable().references('id').inTable('labs')
+    // The project at creation. A dataset can move to another project later; lists and filters follow
+    // the dataset's current project, so this column is a record, not the source of truth.
     t.bigInteger('project_id').notNullable().references('id').inTable('projects')
     t.bigInteger('dataset_id').notNullable().references('id').inTable('datasets')
     t.text('name').notNullable()
@@ -36,7 +38,9 @@ export async function up(knex: Knex): Promise<void> {
     t.jsonb('exclusions').notNullable().defaultTo('[]')
     t.text('engine_version').notNullable()
     t.text('status').notNullable().defaultTo('queued')
-    t.jsonb('progress').notNullable().defaultTo(JSON.stringify({ stage: 'queued', fraction: 0 }))
+    t.jsonb('progress')
+      .notNullable()
+      .defaultTo(JSON.stringify({ stage: 'queued', fraction: 0 }))
     t.jsonb('result').nullable()
     t.jsonb('chart').nullable()
     t.jsonb('error').nullable()
@@ -75,7 +79,9 @@ export async function up(knex: Knex): Promise<void> {
       FOR EACH ROW EXECUTE FUNCTION analysis_versions_freeze_finished()
   `)
   // The queue: only unfinished rows, oldest first.
-  await knex.raw(`CREATE INDEX analysis_versions_queue ON analysis_versions (created_at, id) WHERE status IN ('queued', 'running')`)
+  await knex.raw(
+    `CREATE INDEX analysis_versions_queue ON analysis_versions (created_at, id) WHERE status IN ('queued', 'running')`,
+  )
 }
 
 export async function down(knex: Knex): Promise<void> {

@@ -15,6 +15,7 @@ import { requireSameOriginWrites } from './middleware/same-origin'
 import { securityHeaders } from './middleware/security-headers'
 import { pingDatabase } from './repositories/health.repo'
 import { adminRoutes } from './routes/admin.routes'
+import { analysesRoutes } from './routes/analyses.routes'
 import { authRoutes } from './routes/auth.routes'
 import { datasetsRoutes } from './routes/datasets.routes'
 import { healthRoutes } from './routes/health.routes'
@@ -82,6 +83,7 @@ export function createApp(options: AppOptions = {}): Express {
   app.use('/api/v1/admin', adminRoutes())
   app.use('/api/v1/datasets', datasetsRoutes())
   app.use('/api/v1/projects', projectsRoutes())
+  app.use('/api/v1/analyses', analysesRoutes())
   app.use('/api', notFound())
 
   const clientDir = options.clientDir === undefined ? defaultClient() : options.clientDir

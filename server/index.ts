@@ -2,6 +2,7 @@ import { createApp } from './app'
 import { closeSharedSessionStore } from './auth/session'
 import { config, publicUrl } from './config'
 import { db } from './db'
+import { startAnalysisRunner, stopAnalysisRunner } from './jobs/analysis-runner'
 import { logger } from './logger'
 import { startMailRuntime } from './mail/mail-runtime'
 
@@ -26,6 +27,9 @@ const mail = startMailRuntime().catch((err: unknown) => {
   return undefined
 })
 
+// Queued analyses run in a worker thread of this process; other processes on the same database share the queue.
+startAnalysisRunner()
+
 let stopping = false
 async function shutdown(signal: string): Promise<void> {
   if (stopping) return
@@ -38,6 +42,8 @@ async function shutdown(signal: string): Promise<void> {
   })
   clearTimeout(force)
   await (await mail)?.stop()
+  // A run in flight goes back to the queue for the next start (or another process).
+  await stopAnalysisRunner()
   await Promise.allSettled([closeSharedSessionStore(), db.destroy()])
   logger.info('stopped')
   process.exit(0)

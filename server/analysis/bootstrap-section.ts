@@ -17,7 +17,10 @@ export function bootstrapSection(
   result: Pick<AnalysisResult, 'reference' | 'comparisons'>,
   settings: { resamples: number; seed: string },
 ): BootstrapResult {
-  const design = prepareNestedDesign(columns, result.reference === null ? {} : { reference: result.reference })
+  const design = prepareNestedDesign(
+    columns,
+    result.reference === null ? {} : { reference: result.reference },
+  )
   const labels = design.condition?.labels ?? ['all']
   const contrasts = result.comparisons.mixedModel?.contrasts ?? []
   const boot = hierarchicalBootstrap(design, {
@@ -33,7 +36,21 @@ export function bootstrapSection(
     exactBelow: boot.exactBelow,
     approximatedGroups: boot.approximatedGroups,
     innermostGroups: boot.innermostGroups,
-    groups: boot.conditions.map((c) => ({ condition: c.label, estimate: c.observed, se: c.se, ciLow: c.ci[0], ciHigh: c.ci[1] })),
-    contrasts: boot.differences.map((d) => ({ a: d.a, b: d.b, estimate: d.observed, se: d.se, ciLow: d.ci[0], ciHigh: d.ci[1], p: d.pBootstrap })),
+    groups: boot.conditions.map((c) => ({
+      condition: c.label,
+      estimate: c.observed,
+      se: c.se,
+      ciLow: c.ci[0],
+      ciHigh: c.ci[1],
+    })),
+    contrasts: boot.differences.map((d) => ({
+      a: d.a,
+      b: d.b,
+      estimate: d.observed,
+      se: d.se,
+      ciLow: d.ci[0],
+      ciHigh: d.ci[1],
+      p: d.pBootstrap,
+    })),
   }
 }

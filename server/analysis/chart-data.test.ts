@@ -14,18 +14,40 @@ function table(rows: [lab: string, mouse: string, treatment: string, y: number][
   return {
     responseName: 'neurite_um',
     response: Float64Array.from(rows.map((r) => r[3])),
-    levels: [factor('lab', rows.map((r) => r[0])), factor('mouse', rows.map((r) => r[1]))],
-    condition: factor('treatment', rows.map((r) => r[2])),
+    levels: [
+      factor(
+        'lab',
+        rows.map((r) => r[0]),
+      ),
+      factor(
+        'mouse',
+        rows.map((r) => r[1]),
+      ),
+    ],
+    condition: factor(
+      'treatment',
+      rows.map((r) => r[2]),
+    ),
   }
 }
 
 const ROWS: [string, string, string, number][] = [
-  ['North', 'm1', 'vehicle', 10], ['North', 'm1', 'vehicle', 12], ['North', 'm1', 'vehicle', 14],
-  ['North', 'm2', 'NW-117', 20], ['North', 'm2', 'NW-117', 22],
-  ['North', 'm3', 'vehicle', 11], ['North', 'm3', 'vehicle', NaN], ['North', 'm3', 'vehicle', 13],
-  ['South', 'm1', 'NW-117', 18], ['South', 'm1', 'NW-117', 19], ['South', 'm1', 'NW-117', 23],
-  ['South', 'm2', 'vehicle', 9], ['South', 'm2', 'vehicle', 15],
-  ['South', 'm3', 'NW-117', 21], ['South', 'm3', 'NW-117', 25], ['South', 'm3', 'NW-117', 17],
+  ['North', 'm1', 'vehicle', 10],
+  ['North', 'm1', 'vehicle', 12],
+  ['North', 'm1', 'vehicle', 14],
+  ['North', 'm2', 'NW-117', 20],
+  ['North', 'm2', 'NW-117', 22],
+  ['North', 'm3', 'vehicle', 11],
+  ['North', 'm3', 'vehicle', NaN],
+  ['North', 'm3', 'vehicle', 13],
+  ['South', 'm1', 'NW-117', 18],
+  ['South', 'm1', 'NW-117', 19],
+  ['South', 'm1', 'NW-117', 23],
+  ['South', 'm2', 'vehicle', 9],
+  ['South', 'm2', 'vehicle', 15],
+  ['South', 'm3', 'NW-117', 21],
+  ['South', 'm3', 'NW-117', 25],
+  ['South', 'm3', 'NW-117', 17],
 ]
 
 describe('buildChartData', () => {
@@ -43,8 +65,12 @@ describe('buildChartData', () => {
     expect(mice.roles).toEqual(['condition-level', 'innermost'])
     // Reference first, then by path in natural order.
     expect(mice.units.map((u) => `${u.condition}:${u.label}`)).toEqual([
-      'vehicle:North / m1', 'vehicle:North / m3', 'vehicle:South / m2',
-      'NW-117:North / m2', 'NW-117:South / m1', 'NW-117:South / m3',
+      'vehicle:North / m1',
+      'vehicle:North / m3',
+      'vehicle:South / m2',
+      'NW-117:North / m2',
+      'NW-117:South / m1',
+      'NW-117:South / m3',
     ])
     const northM3 = mice.units[1]
     expect(northM3).toMatchObject({ path: ['North', 'm3'], n: 2, mean: 12 })
@@ -58,7 +84,10 @@ describe('buildChartData', () => {
     const labs = chart.unitLevels[0]
     expect(labs.roles).toEqual(['outer'])
     expect(labs.units.map((u) => [u.label, u.condition, u.n])).toEqual([
-      ['North', 'vehicle', 5], ['South', 'vehicle', 2], ['North', 'NW-117', 2], ['South', 'NW-117', 6],
+      ['North', 'vehicle', 5],
+      ['South', 'vehicle', 2],
+      ['North', 'NW-117', 2],
+      ['South', 'NW-117', 6],
     ])
   })
 
@@ -72,7 +101,12 @@ describe('buildChartData', () => {
     expect(vehicle.naive.sem).toBeCloseTo(sampleStandardDeviation(values) / Math.sqrt(values.length), 10)
     expect(vehicle.naive.df).toBe(values.length - 1)
     const group = result.groups[0]
-    expect(vehicle.nested).toMatchObject({ mean: group.clustered.estimate, sem: group.clustered.se, df: group.clustered.df, nUnits: 3 })
+    expect(vehicle.nested).toMatchObject({
+      mean: group.clustered.estimate,
+      sem: group.clustered.se,
+      df: group.clustered.df,
+      nUnits: 3,
+    })
     expect(vehicle.nested.ci95).toEqual([group.clustered.ciLow, group.clustered.ciHigh])
     // SD of the vehicle mice's means 12, 12, 12 = 0 (by hand).
     expect(vehicle.nested.sd).toBeCloseTo(0, 12)
@@ -101,7 +135,8 @@ describe('buildChartData point sample', () => {
   const rows: [string, string, string, number][] = []
   for (let m = 0; m < 40; m++) {
     const size = 20 + ((m * 97) % 381)
-    for (let c = 0; c < size; c++) rows.push(['Only', `m${m}`, m % 2 ? 'NW-117' : 'vehicle', 100 + m + ((c * 31) % 17)])
+    for (let c = 0; c < size; c++)
+      rows.push(['Only', `m${m}`, m % 2 ? 'NW-117' : 'vehicle', 100 + m + ((c * 31) % 17)])
   }
   const columns = table(rows)
   columns.levels = [columns.levels[1]]

@@ -1,5 +1,11 @@
 import seedrandom from 'seedrandom'
-import type { ChartData, ChartPoints, ConditionBars, UnitLevelSummary, UnitSummary } from '../../shared/schemas/analyses'
+import type {
+  ChartData,
+  ChartPoints,
+  ConditionBars,
+  UnitLevelSummary,
+  UnitSummary,
+} from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import type { NestedColumns } from '../../shared/stats/types'
 
@@ -22,7 +28,11 @@ const PATH_SEPARATOR = ' / '
  * Rows with a missing response are skipped, as the engine skips them; units are keyed by their
  * full path, as the engine keys them.
  */
-export function buildChartData(columns: NestedColumns, result: AnalysisResult, options: { pointLimit?: number } = {}): ChartData {
+export function buildChartData(
+  columns: NestedColumns,
+  result: AnalysisResult,
+  options: { pointLimit?: number } = {},
+): ChartData {
   const limit = options.pointLimit ?? POINT_LIMIT
   const kept = keptRows(columns.response)
   const conditionIndex = conditionOfRows(columns, result, kept)
@@ -49,14 +59,26 @@ export function buildChartData(columns: NestedColumns, result: AnalysisResult, o
   const pointLevelIndex = columns.levels.findIndex((f) => f.name === pointLevel)
   const points = samplePoints(cellsByLevel[pointLevelIndex], columns.response, kept, pointLevel, limit)
 
-  const conditionLevelIndex = result.conditionLevel === null ? -1 : columns.levels.findIndex((f) => f.name === result.conditionLevel)
+  const conditionLevelIndex =
+    result.conditionLevel === null ? -1 : columns.levels.findIndex((f) => f.name === result.conditionLevel)
   const conditions: ConditionBars[] = result.groups.map((g, c) => {
     const naiveSd = g.naive.se * Math.sqrt(g.nObs)
-    const unitMeans = conditionLevelIndex === -1 ? null : unitLevels[conditionLevelIndex].units.filter((u) => u.condition === conditionLabel(result, c)).map((u) => u.mean)
+    const unitMeans =
+      conditionLevelIndex === -1
+        ? null
+        : unitLevels[conditionLevelIndex].units
+            .filter((u) => u.condition === conditionLabel(result, c))
+            .map((u) => u.mean)
     return {
       condition: g.condition,
       nObs: g.nObs,
-      naive: { mean: g.mean, sd: naiveSd, sem: g.naive.se, ci95: [g.naive.ciLow, g.naive.ciHigh], df: g.naive.df },
+      naive: {
+        mean: g.mean,
+        sd: naiveSd,
+        sem: g.naive.se,
+        ci95: [g.naive.ciLow, g.naive.ciHigh],
+        df: g.naive.df,
+      },
       nested: {
         mean: g.clustered.estimate,
         sem: g.clustered.se,
@@ -101,14 +123,21 @@ function conditionOfRows(columns: NestedColumns, result: AnalysisResult, kept: I
   const byCode = condition.labels.map((label) => order.get(label) ?? -1)
   for (let k = 0; k < kept.length; k++) {
     const c = byCode[condition.codes[kept[k]]]
-    if (c < 0) throw new Error(`condition label "${condition.labels[condition.codes[kept[k]]]}" is not in the result`)
+    if (c < 0)
+      throw new Error(`condition label "${condition.labels[condition.codes[kept[k]]]}" is not in the result`)
     out[k] = c
   }
   return out
 }
 
 /** Units of one level keyed by (parent unit, label): unit index per kept row and each unit's path. */
-function unitsOfLevel(codes: Int32Array, labels: string[], kept: Int32Array, parentUnit: Int32Array | null, parentPaths: string[][]) {
+function unitsOfLevel(
+  codes: Int32Array,
+  labels: string[],
+  kept: Int32Array,
+  parentUnit: Int32Array | null,
+  parentPaths: string[][],
+) {
   const index = new Map<number, number>()
   const paths: string[][] = []
   const unitOfRow = new Int32Array(kept.length)
@@ -139,7 +168,14 @@ interface CellTable {
 const collator = new Intl.Collator('en', { numeric: true })
 
 /** Welford accumulation per unit × condition cell; cells listed by condition, then by path. */
-function cellTable(unitOfRow: Int32Array, paths: string[][], conditionOfRow: Int32Array, result: AnalysisResult, response: Float64Array, kept: Int32Array): CellTable {
+function cellTable(
+  unitOfRow: Int32Array,
+  paths: string[][],
+  conditionOfRow: Int32Array,
+  result: AnalysisResult,
+  response: Float64Array,
+  kept: Int32Array,
+): CellTable {
   const nConditions = result.groups.length
   const cellOfRow = new Int32Array(kept.length)
   const slot = new Map<number, number>()
@@ -170,7 +206,9 @@ function cellTable(unitOfRow: Int32Array, paths: string[][], conditionOfRow: Int
   }
 
   const labels = cellUnit.map((u) => paths[u].join(PATH_SEPARATOR))
-  const order = Array.from({ length: nCells }, (_, i) => i).sort((a, b) => cellCondition[a] - cellCondition[b] || collator.compare(labels[a], labels[b]))
+  const order = Array.from({ length: nCells }, (_, i) => i).sort(
+    (a, b) => cellCondition[a] - cellCondition[b] || collator.compare(labels[a], labels[b]),
+  )
   const rank = new Int32Array(nCells)
   order.forEach((cell, position) => (rank[cell] = position))
   for (let k = 0; k < kept.length; k++) cellOfRow[k] = rank[cellOfRow[k]]
@@ -193,7 +231,13 @@ function cellTable(unitOfRow: Int32Array, paths: string[][], conditionOfRow: Int
  * remainders first, never more than it has), drawn without replacement by a seeded partial
  * Fisher–Yates shuffle, then listed in cell order and row order. All points when N ≤ limit.
  */
-function samplePoints(cells: CellTable, response: Float64Array, kept: Int32Array, level: string, limit: number): ChartPoints {
+function samplePoints(
+  cells: CellTable,
+  response: Float64Array,
+  kept: Int32Array,
+  level: string,
+  limit: number,
+): ChartPoints {
   const total = kept.length
   const nCells = cells.count.length
   const quota = allocate(cells.count, total, limit)

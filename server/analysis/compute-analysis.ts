@@ -38,7 +38,11 @@ const STAGE_START: Record<'reading' | 'fitting' | 'bootstrap' | 'charts', number
  * UnprocessableError (from the read-back) for rows the engine cannot take; callers classify.
  * Runs in the analysis worker thread, and in the demo seed directly.
  */
-export async function computeAnalysis(input: AnalysisJobInput, conn: Conn, report: (progress: AnalysisProgress) => void = () => {}): Promise<ComputedAnalysis> {
+export async function computeAnalysis(
+  input: AnalysisJobInput,
+  conn: Conn,
+  report: (progress: AnalysisProgress) => void = () => {},
+): Promise<ComputedAnalysis> {
   const started = performance.now()
   const { settings } = input
   report({ stage: 'reading', fraction: STAGE_START.reading })

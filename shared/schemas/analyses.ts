@@ -55,11 +55,20 @@ export const AnalysisSettings = z
     const all = [s.response, ...(s.condition ? [s.condition] : []), ...s.levels]
     const seen = new Set<string>()
     for (const name of all) {
-      if (seen.has(name)) ctx.addIssue({ code: 'custom', message: `"${name}" is used twice; each column can have one role`, path: [] })
+      if (seen.has(name))
+        ctx.addIssue({
+          code: 'custom',
+          message: `"${name}" is used twice; each column can have one role`,
+          path: [],
+        })
       seen.add(name)
     }
     if (!s.condition && s.reference !== null) {
-      ctx.addIssue({ code: 'custom', message: 'A reference condition needs a condition column', path: ['reference'] })
+      ctx.addIssue({
+        code: 'custom',
+        message: 'A reference condition needs a condition column',
+        path: ['reference'],
+      })
     }
   })
 export type AnalysisSettings = z.infer<typeof AnalysisSettings>
@@ -178,7 +187,17 @@ export type ChartData = z.infer<typeof ChartData>
 export const AnalysisStatus = z.enum(['queued', 'running', 'done', 'failed'])
 export type AnalysisStatus = z.infer<typeof AnalysisStatus>
 
-export const AnalysisStage = z.enum(['queued', 'reading', 'fitting', 'comparisons', 'bootstrap', 'charts', 'saving', 'done', 'failed'])
+export const AnalysisStage = z.enum([
+  'queued',
+  'reading',
+  'fitting',
+  'comparisons',
+  'bootstrap',
+  'charts',
+  'saving',
+  'done',
+  'failed',
+])
 export type AnalysisStage = z.infer<typeof AnalysisStage>
 
 export const AnalysisProgress = z.object({
@@ -221,7 +240,11 @@ export const AnalysisVersionStatus = z.object({
 export type AnalysisVersionStatus = z.infer<typeof AnalysisVersionStatus>
 
 export const AnalysisVersionSummary = AnalysisVersionStatus.extend({
-  datasetVersion: z.object({ id: z.number().int().positive(), versionNo: z.number().int().positive(), sha256: z.string() }),
+  datasetVersion: z.object({
+    id: z.number().int().positive(),
+    versionNo: z.number().int().positive(),
+    sha256: z.string(),
+  }),
   settings: AnalysisSettings,
   exclusions: z.array(AppliedExclusion),
   /** Engine that computed (or will compute) the result. */

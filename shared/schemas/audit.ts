@@ -25,6 +25,9 @@ export const AuditAction = z.enum([
   'dataset.exclusion_withdrawn',
   'project.created',
   'project.updated',
+  'analysis.created',
+  'analysis.version_created',
+  'analysis.renamed',
 ])
 export type AuditAction = z.infer<typeof AuditAction>
 

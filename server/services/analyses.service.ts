@@ -1,0 +1,368 @@
+import { isDeepStrictEqual } from 'node:util'
+import type {
+  AnalysisCreate,
+  AnalysisDefaults,
+  AnalysisDetail,
+  AnalysisListItem,
+  AnalysisListQuery,
+  AnalysisSettings,
+  AnalysisVersionCreate,
+  AnalysisVersionDetail,
+  AnalysisVersionStatus,
+  AnalysisVersionSummary,
+} from '../../shared/schemas/analyses'
+import type { CurrentUser } from '../../shared/schemas/auth'
+import { ENGINE_VERSION } from '../../shared/stats/engine-version'
+import { unitsCsv, csvFilename } from '../analysis/units-csv'
+import { db } from '../db'
+import { ConflictError, ForbiddenError, NotFoundError, UnprocessableError } from '../errors/app-error'
+import { wakeAnalysisRunner } from '../jobs/analysis-runner'
+import {
+  findAnalysis,
+  findAnalysisVersion,
+  findAnalysisVersionChart,
+  findAnalysisVersionResult,
+  findAnalysisVersionStatus,
+  insertAnalysis,
+  insertAnalysisVersion,
+  listAnalyses,
+  listAnalysisVersions,
+  lockAnalysisForNewVersion,
+  renameAnalysis,
+  type AnalysisRecord,
+  type AnalysisVersionRecord,
+  type RecordedExclusion,
+} from '../repositories/analyses.repo'
+import type { Conn } from '../repositories/connection'
+import { activeExclusions, currentTagging } from '../repositories/datasets-annotations.repo'
+import { findVersion, listColumns, listVersions, type VersionRecord } from '../repositories/datasets.repo'
+import { recordAudit } from './audit.service'
+import {
+  checkSettingsAgainstColumns,
+  knownLabels,
+  mergeSettings,
+  settingsFromTagging,
+} from './analysis-settings.service'
+import { datasetFor, membershipIn, readableLabIds, WRITER_ROLES } from './datasets-access.service'
+
+/**
+ * Analyses: who may see and run them, their immutable versions, and what a finished version
+ * serves. Permissions follow the dataset's lab: every member reads; scientists and PIs create,
+ * run and rename; outside the caller's labs everything is 404.
+ */
+
+// ---------------------------------------------------------------- access
+
+function canRun(user: CurrentUser, labId: number): boolean {
+  const membership = membershipIn(user, labId)
+  return !!membership && WRITER_ROLES.includes(membership.role)
+}
+
+function assertCanRun(user: CurrentUser, labId: number): void {
+  const membership = membershipIn(user, labId)
+  if (!membership) throw new NotFoundError('Analysis not found.')
+  if (!WRITER_ROLES.includes(membership.role)) {
+    throw new ForbiddenError(
+      `Creating and running analyses needs the role scientist or PI in ${membership.labName}.`,
+      {
+        requiredRoles: WRITER_ROLES,
+        yourRole: membership.role,
+      },
+    )
+  }
+}
+
+async function analysisFor(
+  user: CurrentUser,
+  analysisId: number,
+  action: 'read' | 'run',
+  conn: Conn = db,
+): Promise<AnalysisRecord> {
+  const analysis = await findAnalysis(analysisId, conn)
+  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
+  if (action === 'run') assertCanRun(user, analysis.labId)
+  return analysis
+}
+
+async function versionOf(analysisId: number, versionNo: number): Promise<AnalysisVersionRecord> {
+  const version = await findAnalysisVersion(analysisId, versionNo)
+  if (!version) throw new NotFoundError(`Version ${versionNo} of this analysis not found.`)
+  return version
+}
+
+/** The public shape: rule and unit of recorded exclusions stay on the server. */
+function publicVersion(version: AnalysisVersionRecord): AnalysisVersionSummary {
+  return {
+    ...version,
+    exclusions: version.exclusions.map(({ id, kind, reason, matchedRows }) => ({
+      id,
+      kind,
+      reason,
+      matchedRows,
+    })),
+  }
+}
+
+// ---------------------------------------------------------------- dataset versions
+
+async function readyDatasetVersion(
+  datasetId: number,
+  versionNo: number | undefined,
+  conn: Conn = db,
+): Promise<VersionRecord> {
+  if (versionNo !== undefined) {
+    const version = await findVersion(datasetId, versionNo, conn)
+    if (!version || version.status !== 'ready')
+      throw new NotFoundError(`Version ${versionNo} of this dataset not found.`)
+    return version
+  }
+  const newest = (await listVersions(datasetId, conn)).find((v) => v.status === 'ready')
+  if (!newest) throw new NotFoundError('This dataset has no finished version yet.')
+  return newest
+}
+
+async function recordExclusions(datasetVersionId: number, conn: Conn): Promise<RecordedExclusion[]> {
+  const active = await activeExclusions(datasetVersionId, conn)
+  return active.map(({ id, kind, reason, matchedRows, rule, unit }) => ({
+    id,
+    kind,
+    reason,
+    matchedRows,
+    rule,
+    unit,
+  }))
+}
+
+// ---------------------------------------------------------------- reading
+
+export async function listAnalysesFor(
+  user: CurrentUser,
+  query: AnalysisListQuery,
+): Promise<AnalysisListItem[]> {
+  let labIds = readableLabIds(user)
+  if (query.labId !== undefined) labIds = labIds.filter((id) => id === query.labId)
+  return listAnalyses({ labIds, projectId: query.projectId, datasetId: query.datasetId })
+}
+
+export async function getAnalysisDetail(user: CurrentUser, analysisId: number): Promise<AnalysisDetail> {
+  const analysis = await analysisFor(user, analysisId, 'read')
+  const versions = await listAnalysisVersions(analysisId)
+  const run = canRun(user, analysis.labId)
+  return { ...analysis, versions: versions.map(publicVersion), permissions: { run, rename: run } }
+}
+
+export async function getAnalysisVersion(
+  user: CurrentUser,
+  analysisId: number,
+  versionNo: number,
+): Promise<AnalysisVersionDetail> {
+  await analysisFor(user, analysisId, 'read')
+  const version = await versionOf(analysisId, versionNo)
+  const { result, chart } =
+    version.status === 'done' ? await findAnalysisVersionResult(version.id) : { result: null, chart: null }
+  return { ...publicVersion(version), result, chart }
+}
+
+export async function getAnalysisVersionStatus(
+  user: CurrentUser,
+  analysisId: number,
+  versionNo: number,
+): Promise<AnalysisVersionStatus> {
+  await analysisFor(user, analysisId, 'read')
+  const status = await findAnalysisVersionStatus(analysisId, versionNo)
+  if (!status) throw new NotFoundError(`Version ${versionNo} of this analysis not found.`)
+  return status
+}
+
+/** Settings a new analysis of a dataset version starts from, with the columns to choose from. */
+export async function getAnalysisDefaults(
+  user: CurrentUser,
+  datasetId: number,
+  datasetVersionNo: number | undefined,
+): Promise<AnalysisDefaults> {
+  await datasetFor(user, datasetId, 'read')
+  const version = await readyDatasetVersion(datasetId, datasetVersionNo)
+  const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
+  const settings = settingsFromTagging(tagging)
+  const conditionColumn = settings?.condition ? columns.find((c) => c.name === settings.condition) : undefined
+  return {
+    datasetVersion: { id: version.id, versionNo: version.versionNo },
+    settings,
+    columns: columns.map((c) => c.name),
+    numericColumns: columns.filter((c) => c.type === 'integer' || c.type === 'numeric').map((c) => c.name),
+    conditionLabels: knownLabels(conditionColumn),
+  }
+}
+
+export interface UnitsCsvFile {
+  filename: string
+  body: string
+}
+
+/** The unit-level table of a finished version; 409 while it runs, 422 (the engine's words) when it failed as too thin. */
+export async function exportUnitsCsv(
+  user: CurrentUser,
+  analysisId: number,
+  versionNo: number,
+): Promise<UnitsCsvFile> {
+  const analysis = await analysisFor(user, analysisId, 'read')
+  const version = await versionOf(analysisId, versionNo)
+  if (version.status === 'failed') {
+    if (version.error?.code === 'UNPROCESSABLE')
+      throw new UnprocessableError(version.error.message, version.error.details)
+    throw new ConflictError(
+      'This version failed, so it has no unit table. Create a new version to try again.',
+    )
+  }
+  if (version.status !== 'done')
+    throw new ConflictError('This version is still running; the unit table is ready when it is done.', {
+      status: version.status,
+    })
+  const chart = await findAnalysisVersionChart(version.id)
+  if (!chart) throw new ConflictError('This version has no unit table.')
+  return { filename: csvFilename(analysis.name, versionNo), body: unitsCsv(chart) }
+}
+
+// ---------------------------------------------------------------- writing
+
+/**
+ * A new analysis of a dataset (version 1 queued at once). Settings not given come from the
+ * dataset version's tagging; every column is checked against the version (400 naming it).
+ */
+export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate): Promise<AnalysisDetail> {
+  const dataset = await datasetFor(user, input.datasetId, 'read')
+  assertCanRun(user, dataset.labId)
+  const version = await readyDatasetVersion(dataset.id, input.datasetVersionNo)
+  const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
+  const settings = mergeSettings(settingsFromTagging(tagging), input.settings)
+  checkSettingsAgainstColumns(settings, columns, version.versionNo)
+  const name = input.name ?? `${dataset.name} – ${settings.response}`
+
+  const analysisId = await db.transaction(async (trx) => {
+    const id = await insertAnalysis(
+      {
+        labId: dataset.labId,
+        projectId: dataset.project.id,
+        datasetId: dataset.id,
+        name,
+        createdBy: user.id,
+      },
+      trx,
+    )
+    await insertAnalysisVersion(
+      {
+        analysisId: id,
+        versionNo: 1,
+        datasetVersionId: version.id,
+        datasetSha256: version.sha256,
+        settings,
+        exclusions: await recordExclusions(version.id, trx),
+        engineVersion: ENGINE_VERSION,
+        createdBy: user.id,
+      },
+      trx,
+    )
+    await recordAudit(trx, {
+      action: 'analysis.created',
+      labId: dataset.labId,
+      subjectType: 'analysis',
+      subjectId: id,
+      details: { name, datasetId: dataset.id, datasetVersionNo: version.versionNo },
+    })
+    return id
+  })
+  wakeAnalysisRunner()
+  return getAnalysisDetail(user, analysisId)
+}
+
+/**
+ * The next version of an analysis: the newest version's settings with the given changes, on the
+ * same dataset version unless another is named. Asking for exactly what the newest version
+ * already is (same settings, data and exclusions, not failed) answers 409. A change of the
+ * display default alone reuses the newest finished result instead of computing it again.
+ */
+export async function createAnalysisVersionFor(
+  user: CurrentUser,
+  analysisId: number,
+  input: AnalysisVersionCreate,
+): Promise<AnalysisVersionSummary> {
+  const analysis = await analysisFor(user, analysisId, 'run')
+  const [newest] = await listAnalysisVersions(analysisId)
+  const datasetVersion = await readyDatasetVersion(
+    analysis.dataset.id,
+    input.datasetVersionNo ?? newest.datasetVersion.versionNo,
+  )
+  const settings = mergeSettings(newest.settings, input.settings)
+  checkSettingsAgainstColumns(settings, await listColumns(datasetVersion.id), datasetVersion.versionNo)
+
+  const versionNo = await db.transaction(async (trx) => {
+    const next = await lockAnalysisForNewVersion(analysisId, trx)
+    const latest = (await listAnalysisVersions(analysisId, trx))[0]
+    const exclusions = await recordExclusions(datasetVersion.id, trx)
+    const sameData =
+      latest.datasetVersion.id === datasetVersion.id &&
+      isDeepStrictEqual(latest.exclusions, exclusions) &&
+      latest.engineVersion === ENGINE_VERSION
+    const sameComputation =
+      sameData && isDeepStrictEqual(withoutDisplay(latest.settings), withoutDisplay(settings))
+    if (sameComputation && latest.status !== 'failed' && latest.settings.errorBar === settings.errorBar) {
+      throw new ConflictError(
+        `Nothing changed: version ${latest.versionNo} already has these settings and data.`,
+        { versionNo: latest.versionNo },
+      )
+    }
+    const reuse =
+      sameComputation && latest.status === 'done' ? await findAnalysisVersionResult(latest.id, trx) : null
+    await insertAnalysisVersion(
+      {
+        analysisId,
+        versionNo: next,
+        datasetVersionId: datasetVersion.id,
+        datasetSha256: datasetVersion.sha256,
+        settings,
+        exclusions,
+        engineVersion: ENGINE_VERSION,
+        createdBy: user.id,
+        ...(reuse?.result && reuse.chart
+          ? { finished: { result: reuse.result, chart: reuse.chart, runMs: null } }
+          : {}),
+      },
+      trx,
+    )
+    await recordAudit(trx, {
+      action: 'analysis.version_created',
+      labId: analysis.labId,
+      subjectType: 'analysis',
+      subjectId: analysisId,
+      details: { versionNo: next, datasetVersionNo: datasetVersion.versionNo, reusedResult: !!reuse?.result },
+    })
+    return next
+  })
+  wakeAnalysisRunner()
+  return publicVersion(await versionOf(analysisId, versionNo))
+}
+
+/** Settings that change what is computed (the error bar only changes what is shown first). */
+function withoutDisplay(settings: AnalysisSettings): Omit<AnalysisSettings, 'errorBar'> {
+  const { errorBar: _shown, ...computed } = settings
+  return computed
+}
+
+export async function renameAnalysisFor(
+  user: CurrentUser,
+  analysisId: number,
+  name: string,
+): Promise<AnalysisDetail> {
+  const analysis = await analysisFor(user, analysisId, 'run')
+  await db.transaction(async (trx) => {
+    await renameAnalysis(analysisId, name, trx)
+    await recordAudit(trx, {
+      action: 'analysis.renamed',
+      labId: analysis.labId,
+      subjectType: 'analysis',
+      subjectId: analysisId,
+      details: { from: analysis.name, to: name },
+    })
+  })
+  return getAnalysisDetail(user, analysisId)
+}
