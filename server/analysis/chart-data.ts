@@ -142,10 +142,17 @@ function unitsOfLevel(
   const paths: string[][] = []
   const unitOfRow = new Int32Array(kept.length)
   const width = labels.length
+  // Rows of one unit usually come together: compare with the previous row before the Map lookup.
+  let lastKey = -1
+  let lastUnit = -1
   for (let k = 0; k < kept.length; k++) {
     const parent = parentUnit ? parentUnit[k] : 0
     const code = codes[kept[k]]
     const key = parent * width + code
+    if (key === lastKey) {
+      unitOfRow[k] = lastUnit
+      continue
+    }
     let unit = index.get(key)
     if (unit === undefined) {
       unit = paths.length
@@ -153,6 +160,8 @@ function unitsOfLevel(
       paths.push([...parentPaths[parent], labels[code]])
     }
     unitOfRow[k] = unit
+    lastKey = key
+    lastUnit = unit
   }
   return { unitOfRow, paths }
 }
@@ -181,8 +190,14 @@ function cellTable(
   const slot = new Map<number, number>()
   const cellUnit: number[] = []
   const cellCondition: number[] = []
+  let lastKey = -1
+  let lastCell = -1
   for (let k = 0; k < kept.length; k++) {
     const key = unitOfRow[k] * nConditions + conditionOfRow[k]
+    if (key === lastKey) {
+      cellOfRow[k] = lastCell
+      continue
+    }
     let cell = slot.get(key)
     if (cell === undefined) {
       cell = cellUnit.length
@@ -191,6 +206,8 @@ function cellTable(
       cellCondition.push(conditionOfRow[k])
     }
     cellOfRow[k] = cell
+    lastKey = key
+    lastCell = cell
   }
   const nCells = cellUnit.length
   const n = new Int32Array(nCells)

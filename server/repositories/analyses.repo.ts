@@ -228,15 +228,38 @@ export interface NewAnalysisVersion {
   exclusions: RecordedExclusion[]
   engineVersion: string
   createdBy: number
-  /** A finished result to store at once (a version that only changes how the result is shown). */
-  finished?: { result: AnalysisResult; chart: ChartData; runMs: number | null }
+  /**
+   * An outcome known already, stored at once instead of queuing the version: a result reused
+   * because only the display changed, or a run made directly (the demo seed).
+   */
+  finished?: { result: AnalysisResult; chart: ChartData; runMs: number | null } | { error: AnalysisRunError }
+}
+
+function finishedColumns(finished: NewAnalysisVersion['finished'], conn: Conn) {
+  if (!finished) return {}
+  const times = { started_at: conn.fn.now(), finished_at: conn.fn.now() }
+  if ('error' in finished) {
+    return {
+      status: 'failed',
+      progress: JSON.stringify({ stage: 'failed', fraction: 1 }),
+      error: JSON.stringify(finished.error),
+      ...times,
+    }
+  }
+  return {
+    status: 'done',
+    progress: JSON.stringify({ stage: 'done', fraction: 1 }),
+    result: JSON.stringify(finished.result),
+    chart: JSON.stringify(finished.chart),
+    run_ms: finished.runMs,
+    ...times,
+  }
 }
 
 export async function insertAnalysisVersion(
   values: NewAnalysisVersion,
   conn: Conn = defaultConn,
 ): Promise<number> {
-  const done = values.finished
   const [row] = await conn('analysis_versions')
     .insert({
       analysis_id: values.analysisId,
@@ -247,17 +270,7 @@ export async function insertAnalysisVersion(
       exclusions: JSON.stringify(values.exclusions),
       engine_version: values.engineVersion,
       created_by: values.createdBy,
-      ...(done
-        ? {
-            status: 'done',
-            progress: JSON.stringify({ stage: 'done', fraction: 1 }),
-            result: JSON.stringify(done.result),
-            chart: JSON.stringify(done.chart),
-            run_ms: done.runMs,
-            started_at: conn.fn.now(),
-            finished_at: conn.fn.now(),
-          }
-        : {}),
+      ...finishedColumns(values.finished, conn),
     })
     .returning('id')
   return row.id
