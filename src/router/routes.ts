@@ -1,4 +1,5 @@
 import type { RouteRecordRaw } from 'vue-router'
+import { teamRoutes } from './team-routes'
 
 // Views load on demand so the first page only downloads what it shows.
 export const routes: RouteRecordRaw[] = [
@@ -39,6 +40,7 @@ export const routes: RouteRecordRaw[] = [
     component: () => import('@/views/DatasetDetailView.vue'),
     meta: { title: 'Dataset' },
   },
+  ...teamRoutes,
   {
     path: '/not-available',
     name: 'not-available',

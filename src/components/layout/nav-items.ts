@@ -46,6 +46,46 @@ export const navItems: NavItem[] = [
     section: 'work',
     visibleFor: visibleFor.everyone(),
   },
+  {
+    id: 'lab-members',
+    title: 'Lab members',
+    icon: 'mdi-account-group-outline',
+    to: { name: 'lab-members' },
+    section: 'work',
+    visibleFor: visibleFor.roles('pi'),
+  },
+  {
+    id: 'lab-audit',
+    title: 'Audit log',
+    icon: 'mdi-history',
+    to: { name: 'lab-audit' },
+    section: 'work',
+    visibleFor: visibleFor.roles('pi'),
+  },
+  {
+    id: 'admin-people',
+    title: 'People & labs',
+    icon: 'mdi-account-cog-outline',
+    to: { name: 'admin-people' },
+    section: 'instance',
+    visibleFor: visibleFor.admin(),
+  },
+  {
+    id: 'admin-outbox',
+    title: 'Outbox',
+    icon: 'mdi-email-fast-outline',
+    to: { name: 'admin-outbox' },
+    section: 'instance',
+    visibleFor: visibleFor.admin(),
+  },
+  {
+    id: 'admin-audit',
+    title: 'Audit log',
+    icon: 'mdi-clipboard-text-clock-outline',
+    to: { name: 'admin-audit' },
+    section: 'instance',
+    visibleFor: visibleFor.admin(),
+  },
 ]
 
 export const sectionTitles: Record<NavItem['section'], string | null> = {
