@@ -15,7 +15,7 @@
  */
 import { spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, statSync } from 'node:fs'
-import { tmpdir } from 'node:os'
+import { availableParallelism, loadavg, tmpdir } from 'node:os'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { AnalysisResult } from '../../shared/schemas/analysis-result'
@@ -81,6 +81,8 @@ function printComparison(ours: EstimateRow[], polished: EstimateRow[] | null) {
 
 async function main() {
   console.log(`Nestwise engine benchmark (${quick ? 'quick' : 'full'}) — node ${process.version}, ${new Date().toISOString()}`)
+  // Other work on the machine slows both sides; the load average says how much to trust the times.
+  console.log(`machine: ${availableParallelism()} cores, load average (1 min) ${fmt(loadavg()[0], 1)} at the start`)
 
   let started = performance.now()
   const rows = writeNestedCsv(csv, spec)
@@ -193,6 +195,7 @@ async function main() {
   console.log(`  peak memory with bootstrap: ${mb(withBootstrap.peakKb)}`)
 
   section('summary')
+  console.log(`  load average (1 min) at the end: ${fmt(loadavg()[0], 1)} on ${availableParallelism()} cores`)
   const mark = (ok: boolean) => (ok ? 'met' : 'MISSED')
   const peakKb = Math.max(analyzer.peakKb, withBootstrap.peakKb)
   if (speedup !== null) console.log(`  speed vs lmerTest: ${fmt(speedup, 1)}× (target ≥ 30×: ${mark(speedup >= 30)})`)
