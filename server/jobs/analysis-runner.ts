@@ -204,6 +204,7 @@ export class AnalysisRunner {
     if (message.type === 'progress') this.writeProgress(flight, message.progress)
     else if (message.type === 'failed') this.finish(flight, { kind: 'failed', error: message.error })
     else {
+      this.writeProgress(flight, { stage: 'saving', fraction: 0.97 })
       const checked = checkOutcome(message.result, message.chart)
       this.finish(
         flight,
