@@ -33,10 +33,24 @@ export async function createRowsTable(trx: Knex.Transaction, versionId: number, 
   await trx.raw(`CREATE TABLE ${rowsTable(versionId)} (row_no bigint GENERATED ALWAYS AS IDENTITY (CACHE 1000), ${columns})`)
 }
 
-/** Rows are never updated, so row_no follows the physical order: a BRIN index is tiny and quick to build. */
-export async function indexRowsTable(trx: Knex.Transaction, versionId: number): Promise<void> {
+/**
+ * Rows are never updated, so row_no follows the physical order: a BRIN index is tiny and quick to
+ * build, and lets preview pages jump to a row range. Built after the upload commits (queries work
+ * without it, only slower), so the uploader does not wait for it.
+ */
+export async function indexRowsTable(versionId: number, conn: Conn = defaultConn): Promise<void> {
   const table = rowsTable(versionId)
-  await trx.raw(`CREATE INDEX ${table}_row_no ON ${table} USING brin (row_no)`)
+  await conn.raw(`CREATE INDEX IF NOT EXISTS ${table}_row_no ON ${table} USING brin (row_no)`)
+}
+
+/** Row tables that have no row_no index yet (an index build cut short by a restart). */
+export async function listUnindexedRowsTables(conn: Conn = defaultConn): Promise<number[]> {
+  const result = await conn.raw(
+    `SELECT t.tablename FROM pg_tables t
+     WHERE t.schemaname = current_schema() AND t.tablename ~ '^dataset_rows_[0-9]+$'
+       AND NOT EXISTS (SELECT 1 FROM pg_indexes i WHERE i.schemaname = t.schemaname AND i.tablename = t.tablename)`,
+  )
+  return (result.rows as { tablename: string }[]).map((r) => Number(r.tablename.slice('dataset_rows_'.length)))
 }
 
 export async function dropRowsTable(conn: Conn, versionId: number): Promise<void> {

@@ -14,7 +14,7 @@ import type { IntakeResult } from '../ingest/table-intake'
 import { noProgress, type ProgressSink } from '../ingest/upload-progress'
 import { logger } from '../logger'
 import { currentTagging, insertTagging } from '../repositories/datasets-annotations.repo'
-import { dropRowsTable, indexRowsTable, listRowsTables } from '../repositories/datasets-rows.repo'
+import { dropRowsTable, indexRowsTable, listRowsTables, listUnindexedRowsTables } from '../repositories/datasets-rows.repo'
 import {
   completeVersion,
   countVersionsWithSha,
@@ -82,7 +82,6 @@ async function storeVersion(
   )
   const outcome = await ingestFile(trx, versionId, file, { sheet, progress })
   progress.update({ phase: 'profiling', bytesRead: file.size, rowsStored: outcome.intake.rowCount })
-  await indexRowsTable(trx, versionId)
   await insertColumns(versionId, outcome.intake.profiles, trx)
   const suggestion = suggestionFromIntake(outcome.intake)
   await completeVersion(
@@ -129,6 +128,11 @@ async function carryOverTagging(trx: Knex.Transaction, datasetId: number, versio
  * Runs `work` in one transaction. If it fails after the original was moved into the store, the
  * stored file goes too unless a committed version refers to the same bytes.
  */
+/** Builds the row_no index of a committed version without holding up the response. */
+function indexLater(versionId: number): void {
+  indexRowsTable(versionId).catch((err) => logger.warn('could not index a rows table (previews stay correct, only slower)', { versionId, err }))
+}
+
 async function inUploadTransaction<T>(work: (trx: Knex.Transaction, onOriginalKept: (sha: string, created: boolean) => void) => Promise<T>): Promise<T> {
   let kept: { sha256: string; created: boolean } | null = null
   let release: (() => void) | null = null
@@ -164,27 +168,29 @@ export async function createDatasetFromUpload(user: CurrentUser, fields: Dataset
     const project = await findProject(fields.projectId)
     if (!project || project.labId !== fields.labId) throw new NotFoundError('Project not found in this lab.')
   }
-  const datasetId = await inUploadTransaction(async (trx, onOriginalKept) => {
+  const { datasetId, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
     const projectId = fields.projectId ?? (await findOrInsertProject({ labId: fields.labId, name: fields.projectName!, createdBy: user.id }, trx))
     const id = await insertDataset(
       { labId: fields.labId, projectId, name: fields.name ?? defaultName(file.originalName), description: fields.description, createdBy: user.id },
       trx,
     )
-    await storeVersion(trx, id, 1, user.id, file, fields.sheet, progress, onOriginalKept)
-    return id
+    const stored = await storeVersion(trx, id, 1, user.id, file, fields.sheet, progress, onOriginalKept)
+    return { datasetId: id, versionId: stored.versionId }
   })
+  indexLater(versionId)
   return getDatasetDetail(user, datasetId)
 }
 
 /** A new version of an existing dataset; earlier versions stay as they are. */
 export async function addVersionFromUpload(user: CurrentUser, datasetId: number, sheet: string | undefined, file: UploadedFile, progress: ProgressSink): Promise<DatasetVersionDetail> {
   await datasetFor(user, datasetId, 'write')
-  const versionNo = await inUploadTransaction(async (trx, onOriginalKept) => {
+  const { versionNo, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
-    await storeVersion(trx, datasetId, next, user.id, file, sheet, progress, onOriginalKept)
+    const stored = await storeVersion(trx, datasetId, next, user.id, file, sheet, progress, onOriginalKept)
     await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
-    return next
+    return { versionNo: next, versionId: stored.versionId }
   })
+  indexLater(versionId)
   return getVersionDetail(user, datasetId, versionNo)
 }
 
@@ -203,13 +209,15 @@ export interface SeedDatasetInput {
  * hands in (which may not be the app's pool), tagged as given. Returns the dataset id.
  */
 export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Promise<number> {
-  return knex.transaction(async (trx) => {
+  const { id, versionId } = await knex.transaction(async (trx) => {
     const projectId = await findOrInsertProject({ labId: input.labId, name: input.projectName, createdBy: input.userId }, trx)
     const id = await insertDataset({ labId: input.labId, projectId, name: input.name, description: input.description, createdBy: input.userId }, trx)
     const stored = await storeVersion(trx, id, 1, input.userId, input.file, undefined, noProgress, () => {})
     if (input.tagging) await insertTagging({ versionId: stored.versionId, ...input.tagging, carriedOver: false, createdBy: input.userId }, trx)
-    return id
+    return { id, versionId: stored.versionId }
   })
+  await indexRowsTable(versionId, knex)
+  return id
 }
 
 const DAY_MS = 24 * 60 * 60 * 1000
@@ -218,11 +226,14 @@ const HOUR_MS = 60 * 60 * 1000
 /**
  * Startup sweep. Ingest commits a version together with its rows table, so a crash leaves nothing
  * behind in the database; this still removes, in one transaction, any version not marked ready and
- * any rows table without a version. Upload temp files older than a day and stored originals no
- * version refers to (older than an hour, so uploads in flight are safe) are deleted.
+ * any rows table without a version, and builds row_no indexes a restart cut short. Upload temp
+ * files older than a day and stored originals no version refers to (older than an hour, so
+ * uploads in flight are safe) are deleted.
  */
 export async function sweepDatasetLeftovers(): Promise<{ versions: number; tables: number; tempFiles: number; originals: number }> {
   const { versions, tables } = await db.transaction(async (trx) => {
+    // Taken first so two processes starting at once do not sweep each other's work twice.
+    await trx.raw('SELECT pg_advisory_xact_lock(hashtext(?))', ['nestwise-dataset-sweep'])
     const unfinished = await listUnfinishedVersionIds(trx)
     for (const id of unfinished) await dropRowsTable(trx, id)
     await deleteVersions(unfinished, trx)
@@ -231,6 +242,9 @@ export async function sweepDatasetLeftovers(): Promise<{ versions: number; table
     for (const id of orphans) await dropRowsTable(trx, id)
     return { versions: unfinished.length, tables: orphans.length }
   })
+  for (const id of await listUnindexedRowsTables()) {
+    await indexRowsTable(id).catch((err) => logger.warn('could not index a rows table', { versionId: id, err }))
+  }
   const temp = await staleFiles(ingestConfig.uploadsDir, DAY_MS)
   for (const name of temp) await rm(join(ingestConfig.uploadsDir, name), { force: true })
   const hashes = await listVersionHashes()

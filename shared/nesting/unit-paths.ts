@@ -38,32 +38,53 @@ export function extendPaths(parent: PathLevel | null, column: CodedColumn, rowCo
   const labelCount = Math.max(column.labels.length, 1)
   const parentCount = parent ? parent.count : 1
   const ids = new Int32Array(rowCount)
-  const parentOf: number[] = []
-  const labelOf: number[] = []
+  // At most one unit per row or per (parent, label) pair; typed arrays avoid a million pushes.
+  const capacity = Math.min(rowCount, parentCount * labelCount)
+  const parentOf = new Int32Array(capacity)
+  const labelOf = new Int32Array(capacity)
   const codes = column.codes
-  const parentIds = parent?.ids
-  const dense = parentCount * labelCount <= DENSE_LIMIT
-  const table = dense ? new Int32Array(parentCount * labelCount).fill(-1) : null
-  const map = dense ? null : new Map<number, number>()
-  for (let r = 0; r < rowCount; r++) {
-    const p = parentIds ? parentIds[r] : 0
-    const code = codes[r]
-    if (p < 0 || code < 0) {
-      ids[r] = -1
-      continue
+  const parentIds = parent ? parent.ids : new Int32Array(rowCount)
+  let count = 0
+  if (parentCount * labelCount <= DENSE_LIMIT) {
+    const table = new Int32Array(parentCount * labelCount).fill(-1)
+    for (let r = 0; r < rowCount; r++) {
+      const p = parentIds[r]
+      const code = codes[r]
+      if (p < 0 || code < 0) {
+        ids[r] = -1
+        continue
+      }
+      const key = p * labelCount + code
+      let id = table[key]
+      if (id === -1) {
+        id = count++
+        parentOf[id] = p
+        labelOf[id] = code
+        table[key] = id
+      }
+      ids[r] = id
     }
-    const key = p * labelCount + code
-    let id = table ? table[key] : (map!.get(key) ?? -1)
-    if (id === -1) {
-      id = parentOf.length
-      parentOf.push(p)
-      labelOf.push(code)
-      if (table) table[key] = id
-      else map!.set(key, id)
+  } else {
+    const map = new Map<number, number>()
+    for (let r = 0; r < rowCount; r++) {
+      const p = parentIds[r]
+      const code = codes[r]
+      if (p < 0 || code < 0) {
+        ids[r] = -1
+        continue
+      }
+      const key = p * labelCount + code
+      let id = map.get(key)
+      if (id === undefined) {
+        id = count++
+        parentOf[id] = p
+        labelOf[id] = code
+        map.set(key, id)
+      }
+      ids[r] = id
     }
-    ids[r] = id
   }
-  return { column, ids, count: parentOf.length, parent: Int32Array.from(parentOf), label: Int32Array.from(labelOf) }
+  return { column, ids, count, parent: parentOf.slice(0, count), label: labelOf.slice(0, count) }
 }
 
 /** Paths for each level, outermost first. */
