@@ -101,32 +101,26 @@ function toAnalysis(row: AnalysisJoinRow): AnalysisRecord {
  * The headline numbers are read out of the stored result in SQL, so a list never loads results.
  */
 function analysisQuery(conn: Conn) {
-  const latest = conn('analysis_versions as lv')
-    .select(
-      'lv.analysis_id',
-      'lv.version_no as latest_version_no',
-      'lv.status as latest_status',
-      'lv.progress as latest_progress',
-      'lv.finished_at as latest_finished_at',
-      conn.raw(`(lv.result->>'nObs')::bigint as headline_n_obs`),
-      conn.raw(`(lv.result->>'effectiveN')::float8 as headline_effective_n`),
-      conn.raw(`(lv.result->>'designEffect')::float8 as headline_design_effect`),
-      conn.raw(
-        `(select min((g->>'nUnits')::int) from jsonb_array_elements(lv.result->'groups') g) as headline_min_units`,
-      ),
-      conn.raw(`jsonb_array_length(lv.result->'warnings') as headline_warning_count`),
-      conn.raw('count(*) over (partition by lv.analysis_id)::int as version_count'),
-      conn.raw('row_number() over (partition by lv.analysis_id order by lv.version_no desc) as rn'),
-    )
-    .as('lv')
+  // The newest version only (one index probe per analysis), so results of older versions are never read.
+  const latest = conn.raw(`lateral (
+      select lv.version_no as latest_version_no, lv.status as latest_status, lv.progress as latest_progress,
+             lv.finished_at as latest_finished_at,
+             (lv.result->>'nObs')::bigint as headline_n_obs,
+             (lv.result->>'effectiveN')::float8 as headline_effective_n,
+             (lv.result->>'designEffect')::float8 as headline_design_effect,
+             (select min((g->>'nUnits')::int) from jsonb_array_elements(lv.result->'groups') g) as headline_min_units,
+             jsonb_array_length(lv.result->'warnings') as headline_warning_count,
+             (select count(*) from analysis_versions c where c.analysis_id = a.id)::int as version_count
+        from analysis_versions lv
+       where lv.analysis_id = a.id
+       order by lv.version_no desc
+       limit 1) as lv`)
   return conn('analyses as a')
     .join('datasets as d', 'd.id', 'a.dataset_id')
     .join('labs as l', 'l.id', 'a.lab_id')
     .join('projects as p', 'p.id', 'd.project_id')
     .join('users as u', 'u.id', 'a.created_by')
-    .join(latest, function () {
-      this.on('lv.analysis_id', '=', 'a.id').andOn('lv.rn', '=', conn.raw('1'))
-    })
+    .joinRaw('join ? on true', [latest])
     .whereNull('d.deleted_at')
     .select(
       'a.id',

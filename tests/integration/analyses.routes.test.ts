@@ -13,7 +13,7 @@ import { db } from '../../server/db'
 import { startAnalysisRunner, stopAnalysisRunner } from '../../server/jobs/analysis-runner'
 import { appWriteHeaders, closeConnections, createTestApp } from '../support/api'
 import { pollUntilFinished, neuriteCsv, taggedDataset } from './analyses-support'
-import { getAs, patchAs, postAs, signedInTeam } from './datasets-support'
+import { deleteAs, getAs, patchAs, postAs, signedInTeam, uploadVersion } from './datasets-support'
 
 const app = createTestApp()
 
@@ -392,6 +392,65 @@ describe('permissions', () => {
   it('answers 404 for versions and analyses that do not exist', async () => {
     expect((await getAs(app, team.cookies.pi, `/api/v1/analyses/${analysisId}/versions/99`)).status).toBe(404)
     expect((await getAs(app, team.cookies.pi, '/api/v1/analyses/999999999')).status).toBe(404)
+  })
+})
+
+describe('dataset versions and deleted datasets', () => {
+  it('runs a new analysis version on a newer dataset version, recording its checksum', async () => {
+    const data = await taggedDataset(
+      app,
+      team.cookies.scientist,
+      team.lab.id,
+      neuriteCsv({ seed: 'v1' }),
+      ['mouse'],
+      'two-versions',
+    )
+    const created = await createAnalysis(team.cookies.scientist, { datasetId: data.id })
+    const id = created.body.data.id
+    await pollUntilFinished(app, team.cookies.scientist, id, 1)
+    const upload = await uploadVersion(
+      app,
+      team.cookies.scientist,
+      data.id,
+      Buffer.from(neuriteCsv({ seed: 'v2', mice: 12 })),
+      'two-versions.csv',
+    )
+    expect(upload.status, JSON.stringify(upload.body)).toBe(201)
+    const v2sha = upload.body.data.sha256 as string
+    expect(upload.body.data.tagging).toMatchObject({ carriedOver: true })
+    const res = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${id}/versions`, {
+      datasetVersionNo: 2,
+    })
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    expect(res.body.data.datasetVersion).toMatchObject({ versionNo: 2, sha256: v2sha })
+    await pollUntilFinished(app, team.cookies.scientist, id, 2)
+    const [first, second] = await Promise.all(
+      [1, 2].map(
+        async (v) =>
+          (await getAs(app, team.cookies.scientist, `/api/v1/analyses/${id}/versions/${v}`)).body
+            .data as AnalysisVersionDetail,
+      ),
+    )
+    expect(first.result!.levels[0].nUnits).toBe(10)
+    expect(second.result!.levels[0].nUnits).toBe(12)
+    expect(first.datasetVersion.sha256).not.toBe(v2sha)
+  })
+
+  it('hides the analyses of a deleted dataset', async () => {
+    const data = await taggedDataset(
+      app,
+      team.cookies.scientist,
+      team.lab.id,
+      neuriteCsv({ seed: 'deleted' }),
+      ['mouse'],
+      'to-delete',
+    )
+    const id = (await createAnalysis(team.cookies.scientist, { datasetId: data.id })).body.data.id
+    await pollUntilFinished(app, team.cookies.scientist, id, 1)
+    expect((await deleteAs(app, team.cookies.scientist, `/api/v1/datasets/${data.id}`)).status).toBe(204)
+    expect((await getAs(app, team.cookies.scientist, `/api/v1/analyses/${id}`)).status).toBe(404)
+    const list = (await getAs(app, team.cookies.scientist, '/api/v1/analyses')).body.data
+    expect(list.map((a: { id: number }) => a.id)).not.toContain(id)
   })
 })
 
