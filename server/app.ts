@@ -22,6 +22,11 @@ import { healthRoutes } from './routes/health.routes'
 import { invitationsRoutes } from './routes/invitations.routes'
 import { labsRoutes } from './routes/labs.routes'
 import { projectsRoutes } from './routes/projects.routes'
+import { boardRoutes } from './routes/board.routes'
+import { analysisReviewRoutes, reviewRequestsRoutes } from './routes/reviews.routes'
+import { sharedRoutes } from './routes/shared.routes'
+import { plansRoutes } from './routes/plans.routes'
+import { agreementRoutes } from './routes/agreement.routes'
 
 const defaultClientDir = fileURLToPath(new URL('../dist/client', import.meta.url))
 
@@ -84,6 +89,12 @@ export function createApp(options: AppOptions = {}): Express {
   app.use('/api/v1/datasets', datasetsRoutes())
   app.use('/api/v1/projects', projectsRoutes())
   app.use('/api/v1/analyses', analysesRoutes())
+  app.use('/api/v1/analyses', analysisReviewRoutes())
+  app.use('/api/v1/review-requests', reviewRequestsRoutes())
+  app.use('/api/v1/labs', boardRoutes())
+  app.use('/api/v1/shared', sharedRoutes())
+  app.use('/api/v1/analyses', agreementRoutes())
+  app.use('/api/v1/plans', plansRoutes())
   app.use('/api', notFound())
 
   const clientDir = options.clientDir === undefined ? defaultClient() : options.clientDir

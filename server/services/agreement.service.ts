@@ -1,0 +1,37 @@
+import type { AgreementResult } from '../../shared/schemas/agreement'
+import type { CurrentUser } from '../../shared/schemas/auth'
+import { EngineInputError } from '../../shared/stats/engine-input-error'
+import { labAgreement } from '../analysis/lab-agreement'
+import { NotFoundError, UnprocessableError } from '../errors/app-error'
+import { findAnalysis, findAnalysisVersion } from '../repositories/analyses.repo'
+import { membershipIn } from './datasets-access.service'
+import { loadNestedColumns } from './datasets-readback.service'
+
+/**
+ * Agreement between the outermost units (labs) of a finished analysis version, recomputed from
+ * the version's rows with its recorded exclusions. Lab members read; elsewhere 404; a design
+ * with fewer than 3 outer units or no inner level is 422.
+ */
+export async function agreementFor(
+  user: CurrentUser,
+  analysisId: number,
+  versionNo: number,
+): Promise<AgreementResult> {
+  const analysis = await findAnalysis(analysisId)
+  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
+  const version = await findAnalysisVersion(analysisId, versionNo)
+  if (!version) throw new NotFoundError(`Version ${versionNo} of this analysis not found.`)
+  if (version.status !== 'done') throw new UnprocessableError('This analysis version has not finished yet.')
+  const { settings } = version
+  const columns = await loadNestedColumns(
+    version.datasetVersion.id,
+    { response: settings.response, condition: settings.condition, levels: settings.levels },
+    version.exclusions,
+  )
+  try {
+    return { analysisId, versionNo, ...labAgreement(columns, { reference: settings.reference }) }
+  } catch (error) {
+    if (error instanceof EngineInputError) throw new UnprocessableError(error.message)
+    throw error
+  }
+}

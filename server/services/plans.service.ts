@@ -1,0 +1,171 @@
+import { computePlan } from '../../shared/planning/compute-plan'
+import type { CurrentUser } from '../../shared/schemas/auth'
+import type {
+  Plan,
+  PlanCreate,
+  PlanDefaults,
+  PlanInputs,
+  PlanListQuery,
+  PlanResult,
+  PlanUpdate,
+} from '../../shared/schemas/plans'
+import { EngineInputError } from '../../shared/stats/engine-input-error'
+import { db } from '../db'
+import { NotFoundError, UnprocessableError } from '../errors/app-error'
+import { findAnalysis, findAnalysisVersion, findAnalysisVersionResult } from '../repositories/analyses.repo'
+import { findProject } from '../repositories/projects.repo'
+import {
+  deletePlan,
+  findPlan,
+  insertPlan,
+  listPlans,
+  updatePlan,
+  type PlanRecord,
+} from '../repositories/plans.repo'
+import { assertCanWriteInLab, canWrite, membershipIn, readableLabIds } from './datasets-access.service'
+
+/**
+ * Experiment plans. Lab members read a lab's plans; scientists and PIs create, rename, attach and
+ * delete them; ids outside the caller's labs are 404. The result is always computed here from the
+ * inputs with the engine's planning functions.
+ */
+
+function toPublic(user: CurrentUser, plan: PlanRecord): Plan {
+  return { ...plan, permissions: { write: canWrite(user, plan.labId) } }
+}
+
+async function planFor(user: CurrentUser, planId: number, action: 'read' | 'write'): Promise<PlanRecord> {
+  const plan = await findPlan(planId)
+  if (!plan || !membershipIn(user, plan.labId)) throw new NotFoundError('Plan not found.')
+  if (action === 'write') assertCanWriteInLab(user, plan.labId, 'Plan')
+  return plan
+}
+
+/** The engine's answer, or 422 with its message for inputs no design can satisfy. */
+export function previewPlan(inputs: PlanInputs): PlanResult {
+  try {
+    return computePlan(inputs)
+  } catch (error) {
+    if (error instanceof EngineInputError) throw new UnprocessableError(error.message)
+    throw error
+  }
+}
+
+async function projectInLab(projectId: number | null, labId: number): Promise<number | null> {
+  if (projectId === null) return null
+  const project = await findProject(projectId)
+  if (!project || project.labId !== labId) throw new NotFoundError('Project not found in this lab.')
+  return project.id
+}
+
+/** A finished analysis version the user may read, with its stored result. */
+async function finishedVersion(user: CurrentUser, analysisId: number, versionNo: number) {
+  const analysis = await findAnalysis(analysisId)
+  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
+  const version = await findAnalysisVersion(analysisId, versionNo)
+  if (!version) throw new NotFoundError(`Version ${versionNo} of this analysis not found.`)
+  const { result } =
+    version.status === 'done' ? await findAnalysisVersionResult(version.id) : { result: null }
+  if (!result)
+    throw new UnprocessableError('This analysis version has not finished; plan from a finished one.')
+  return { analysis, version, result }
+}
+
+/**
+ * Planning inputs suggested by a finished analysis: the ICC of the level whose units carry the
+ * condition (else the innermost level), the total SD from all variance components split into
+ * between and within units, and the observed difference of the first mixed-model contrast.
+ */
+export async function planDefaultsFor(
+  user: CurrentUser,
+  analysisId: number,
+  versionNo: number,
+): Promise<PlanDefaults> {
+  const { analysis, result } = await finishedVersion(user, analysisId, versionNo)
+  const unitLevel = result.conditionLevel ?? result.levels[result.levels.length - 1].name
+  const icc = result.icc.find((entry) => entry.level === unitLevel)?.icc ?? 0
+  const variance = result.varianceComponents.reduce((sum, c) => sum + c.variance, 0)
+  if (!(variance > 0)) throw new UnprocessableError('This analysis found no variation to plan with.')
+  const contrast = result.comparisons.mixedModel?.contrasts[0] ?? null
+  const observed = contrast ? Math.abs(contrast.estimate) : null
+  const level = result.levels.find((l) => l.name === unitLevel)
+  const conditions = Math.max(1, result.groups.length)
+  return {
+    source: { analysisId, versionNo, analysisName: analysis.name },
+    labId: analysis.labId,
+    projectId: analysis.project.id,
+    unitLevel,
+    responseName: result.response,
+    inputs: {
+      icc,
+      spread: {
+        kind: 'components',
+        sdBetween: Math.sqrt(icc * variance),
+        sdWithin: Math.sqrt((1 - icc) * variance),
+      },
+      // Without an observed difference, half an SD is a common default, no source.
+      difference: observed && observed > 0 ? observed : 0.5 * Math.sqrt(variance),
+      alpha: 0.05,
+      targetPower: 0.8,
+      arms: Math.min(8, Math.max(2, result.groups.length)),
+      costPerUnit: 100,
+      costPerObs: 1,
+      maxUnitsPerArm: null,
+      maxObsPerUnit: null,
+    },
+    observedDifference: contrast ? contrast.estimate : null,
+    unitsInData: Math.round((level?.nUnits ?? 0) / conditions),
+    meanObsPerUnit: level?.meanUnitSize ?? 0,
+  }
+}
+
+export async function listPlansFor(user: CurrentUser, query: PlanListQuery): Promise<Plan[]> {
+  let labIds = readableLabIds(user)
+  if (query.labId !== undefined) labIds = labIds.filter((id) => id === query.labId)
+  const plans = await listPlans({ labIds, projectId: query.projectId })
+  return plans.map((plan) => toPublic(user, plan))
+}
+
+export async function getPlanFor(user: CurrentUser, planId: number): Promise<Plan> {
+  return toPublic(user, await planFor(user, planId, 'read'))
+}
+
+export async function createPlanFor(user: CurrentUser, input: PlanCreate): Promise<Plan> {
+  assertCanWriteInLab(user, input.labId)
+  const projectId = await projectInLab(input.projectId, input.labId)
+  let analysisVersionId: number | null = null
+  if (input.source) {
+    const { analysis, version } = await finishedVersion(user, input.source.analysisId, input.source.versionNo)
+    if (analysis.labId !== input.labId) throw new NotFoundError('Analysis not found in this lab.')
+    analysisVersionId = version.id
+  }
+  const result = previewPlan(input.inputs)
+  const id = await db.transaction((trx) =>
+    insertPlan(
+      {
+        labId: input.labId,
+        projectId,
+        analysisVersionId,
+        name: input.name,
+        inputs: input.inputs,
+        result,
+        createdBy: user.id,
+      },
+      trx,
+    ),
+  )
+  return getPlanFor(user, id)
+}
+
+export async function updatePlanFor(user: CurrentUser, planId: number, changes: PlanUpdate): Promise<Plan> {
+  const plan = await planFor(user, planId, 'write')
+  const projectId =
+    changes.projectId === undefined ? undefined : await projectInLab(changes.projectId, plan.labId)
+  await updatePlan(planId, { name: changes.name, projectId })
+  return getPlanFor(user, planId)
+}
+
+export async function deletePlanFor(user: CurrentUser, planId: number): Promise<void> {
+  await planFor(user, planId, 'write')
+  await deletePlan(planId)
+}
