@@ -28,6 +28,14 @@ export const AuditAction = z.enum([
   'analysis.created',
   'analysis.version_created',
   'analysis.renamed',
+  'review.requested',
+  'review.commented',
+  'review.signed_off',
+  'review.changes_requested',
+  'review.withdrawn',
+  'share_link.created',
+  'share_link.opened',
+  'share_link.revoked',
 ])
 export type AuditAction = z.infer<typeof AuditAction>
 

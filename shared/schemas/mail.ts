@@ -1,6 +1,6 @@
 import { z } from 'zod'
 
-export const MailKind = z.enum(['invitation'])
+export const MailKind = z.enum(['invitation', 'review_request', 'review_decision', 'share_link'])
 export type MailKind = z.infer<typeof MailKind>
 
 export const OutboxStatus = z.enum(['queued', 'sent', 'failed'])

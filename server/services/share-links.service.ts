@@ -1,0 +1,224 @@
+import type { CurrentUser } from '../../shared/schemas/auth'
+import type {
+  CreatedShareLink,
+  ShareLink,
+  ShareLinkCreate,
+  SharedAnalysis,
+} from '../../shared/schemas/share-links'
+import { csvFilename, unitsCsv } from '../analysis/units-csv'
+import { publicUrl } from '../config'
+import { db } from '../db'
+import { ConflictError, ForbiddenError, NotFoundError } from '../errors/app-error'
+import { shareLinkMail } from '../mail/templates/review-mails'
+import { findAnalysis, findAnalysisVersionResult } from '../repositories/analyses.repo'
+import { findReviewableVersion, findReviewableVersionById } from '../repositories/reviews.repo'
+import {
+  countShareLinkOpened,
+  findShareLink,
+  findSharedVersionFacts,
+  findUsableShareLinkByHash,
+  insertShareLink,
+  listShareLinksOfAnalysis,
+  markShareLinkRevoked,
+  type ShareLinkRecord,
+} from '../repositories/share-links.repo'
+import { recordAudit } from './audit.service'
+import { membershipIn } from './datasets-access.service'
+import { hashInvitationToken, newInvitationToken } from './invitation-tokens'
+import { enqueueMail } from './mail-outbox.service'
+import { signOffStateOf } from './reviews.service'
+
+/**
+ * Read-only links to one analysis version for people without an account. A PI of the lab or the
+ * analysis' author creates and revokes them; every member sees them with how often they were
+ * opened. The token is 32 random bytes; only its SHA-256 is stored, so the database alone never
+ * yields a working link. A link that is unknown, expired or revoked answers one plain 404.
+ */
+
+const DAY_MS = 24 * 60 * 60 * 1000
+const GONE = 'This link does not work (it may have expired or been withdrawn).'
+
+export function shareLinkUrl(token: string): string {
+  return `${publicUrl.replace(/\/+$/, '')}/s/${token}`
+}
+
+function statusOf(link: ShareLinkRecord, now = new Date()): ShareLink['status'] {
+  if (link.revokedAt) return 'revoked'
+  return link.expiresAt <= now ? 'expired' : 'active'
+}
+
+function toShareLink(link: ShareLinkRecord): ShareLink {
+  return {
+    id: link.id,
+    analysisId: link.analysisId,
+    versionNo: link.versionNo,
+    allowUnitTable: link.allowUnitTable,
+    note: link.note,
+    createdBy: link.createdBy,
+    createdAt: link.createdAt.toISOString(),
+    expiresAt: link.expiresAt.toISOString(),
+    revokedAt: link.revokedAt ? link.revokedAt.toISOString() : null,
+    status: statusOf(link),
+    openCount: link.openCount,
+    lastOpenedAt: link.lastOpenedAt ? link.lastOpenedAt.toISOString() : null,
+  }
+}
+
+async function analysisFor(user: CurrentUser, analysisId: number) {
+  const analysis = await findAnalysis(analysisId)
+  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
+  return analysis
+}
+
+function assertMayShare(user: CurrentUser, labId: number, authorIds: number[]): void {
+  const membership = membershipIn(user, labId)!
+  if (membership.role !== 'pi' && !authorIds.includes(user.id)) {
+    throw new ForbiddenError('Only a PI of the lab or the analysis’ author can share or withdraw links.', {
+      yourRole: membership.role,
+    })
+  }
+}
+
+export async function listShareLinks(user: CurrentUser, analysisId: number): Promise<ShareLink[]> {
+  await analysisFor(user, analysisId)
+  return (await listShareLinksOfAnalysis(analysisId)).map(toShareLink)
+}
+
+export async function createShareLink(
+  user: CurrentUser,
+  analysisId: number,
+  input: ShareLinkCreate,
+): Promise<CreatedShareLink> {
+  const analysis = await analysisFor(user, analysisId)
+  const version = await findReviewableVersion(analysisId, input.versionNo)
+  if (!version) throw new NotFoundError(`Version ${input.versionNo} of this analysis not found.`)
+  assertMayShare(user, analysis.labId, [version.analysisCreatedBy, version.versionCreatedBy])
+  if (version.status !== 'done') throw new ConflictError('Only a finished version can be shared.')
+
+  const token = newInvitationToken()
+  const expiresAt = new Date(Date.now() + input.expiresInDays * DAY_MS)
+  const id = await db.transaction(async (trx) => {
+    const linkId = await insertShareLink(
+      {
+        analysisVersionId: version.id,
+        tokenHash: hashInvitationToken(token),
+        allowUnitTable: input.allowUnitTable,
+        note: input.note,
+        createdBy: user.id,
+        expiresAt,
+      },
+      trx,
+    )
+    if (input.mailTo) {
+      await enqueueMail(
+        trx,
+        shareLinkMail({
+          to: input.mailTo,
+          senderName: user.name,
+          analysisName: analysis.name,
+          link: shareLinkUrl(token),
+          expiresAt,
+        }),
+      )
+    }
+    await recordAudit(trx, {
+      action: 'share_link.created',
+      actorUserId: user.id,
+      labId: analysis.labId,
+      subjectType: 'share_link',
+      subjectId: linkId,
+      details: {
+        analysisId,
+        versionNo: input.versionNo,
+        expiresAt: expiresAt.toISOString(),
+        allowUnitTable: input.allowUnitTable,
+        ...(input.mailTo ? { mailedTo: input.mailTo } : {}),
+      },
+    })
+    return linkId
+  })
+  return { ...toShareLink((await findShareLink(id))!), url: shareLinkUrl(token), token }
+}
+
+export async function revokeShareLink(
+  user: CurrentUser,
+  analysisId: number,
+  linkId: number,
+): Promise<ShareLink> {
+  const analysis = await analysisFor(user, analysisId)
+  return db.transaction(async (trx) => {
+    const link = await findShareLink(linkId, trx)
+    if (!link || link.analysisId !== analysis.id) throw new NotFoundError('Share link not found.')
+    const version = (await findReviewableVersionById(link.analysisVersionId, trx))!
+    assertMayShare(user, analysis.labId, [
+      version.analysisCreatedBy,
+      version.versionCreatedBy,
+      link.createdBy.id,
+    ])
+    if (!(await markShareLinkRevoked(link.id, user.id, trx))) {
+      throw new ConflictError('This link was already withdrawn.')
+    }
+    await recordAudit(trx, {
+      action: 'share_link.revoked',
+      actorUserId: user.id,
+      labId: analysis.labId,
+      subjectType: 'share_link',
+      subjectId: link.id,
+      details: { analysisId, versionNo: link.versionNo },
+    })
+    return toShareLink((await findShareLink(link.id, trx))!)
+  })
+}
+
+// ---------------------------------------------------------------- the link holder's side
+
+async function usableLink(token: string): Promise<ShareLinkRecord> {
+  const link = await findUsableShareLinkByHash(hashInvitationToken(token))
+  if (!link) throw new NotFoundError(GONE)
+  return link
+}
+
+/** What someone holding the link sees; counts the opening and records it in the audit log. */
+export async function openSharedAnalysis(token: string): Promise<SharedAnalysis> {
+  const link = await usableLink(token)
+  const version = await findReviewableVersionById(link.analysisVersionId)
+  const { result, chart } = await findAnalysisVersionResult(link.analysisVersionId)
+  if (!version || version.status !== 'done' || !result || !chart) throw new NotFoundError(GONE)
+  const stored = await findSharedVersionFacts(version.id)
+  const signOff = await signOffStateOf(version.analysisId, version.versionNo)
+  await db.transaction(async (trx) => {
+    await countShareLinkOpened(link.id, trx)
+    await recordAudit(trx, {
+      action: 'share_link.opened',
+      actorUserId: null,
+      labId: version.labId,
+      subjectType: 'share_link',
+      subjectId: link.id,
+      details: { analysisId: version.analysisId, versionNo: version.versionNo },
+    })
+  })
+  return {
+    analysisName: version.analysisName,
+    labName: version.labName,
+    versionNo: version.versionNo,
+    finishedAt: stored.finishedAt ? stored.finishedAt.toISOString() : null,
+    engineVersion: stored.engineVersion,
+    datasetSha256: stored.datasetSha256,
+    settings: stored.settings,
+    result,
+    chart,
+    allowUnitTable: link.allowUnitTable,
+    expiresAt: link.expiresAt.toISOString(),
+    signedOff: signOff.signedOff,
+  }
+}
+
+/** The unit-level table, only when the link's creator allowed it (404 otherwise, like any unknown path). */
+export async function sharedUnitsCsv(token: string): Promise<{ filename: string; body: string }> {
+  const link = await usableLink(token)
+  if (!link.allowUnitTable) throw new NotFoundError('The unit table is not shared through this link.')
+  const version = await findReviewableVersionById(link.analysisVersionId)
+  const { chart } = await findAnalysisVersionResult(link.analysisVersionId)
+  if (!version || !chart) throw new NotFoundError(GONE)
+  return { filename: csvFilename(version.analysisName, version.versionNo), body: unitsCsv(chart) }
+}
