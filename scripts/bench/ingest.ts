@@ -76,20 +76,39 @@ function writeBenchCsv(path: string, rows: number): number {
  * POSTs a multipart form the way a browser does, streaming the file from disk (fetch with a
  * FormData blob spends more time in the client than the server takes to receive).
  */
-function postMultipart(url: string, headers: Record<string, string>, fields: Record<string, string>, file: { path: string; name: string }): Promise<{ status: number; body: string }> {
+function postMultipart(
+  url: string,
+  headers: Record<string, string>,
+  fields: Record<string, string>,
+  file: { path: string; name: string },
+): Promise<{ status: number; body: string }> {
   const boundary = `----nestwise${randomBytes(12).toString('hex')}`
   const head =
     Object.entries(fields)
       .map(([k, v]) => `--${boundary}\r\nContent-Disposition: form-data; name="${k}"\r\n\r\n${v}\r\n`)
-      .join('') + `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${file.name}"\r\nContent-Type: text/csv\r\n\r\n`
+      .join('') +
+    `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${file.name}"\r\nContent-Type: text/csv\r\n\r\n`
   const tail = `\r\n--${boundary}--\r\n`
   const length = Buffer.byteLength(head) + statSync(file.path).size + Buffer.byteLength(tail)
   return new Promise((resolve, reject) => {
-    const req = request(url, { method: 'POST', headers: { ...headers, 'Content-Type': `multipart/form-data; boundary=${boundary}`, 'Content-Length': String(length) } }, (res) => {
-      const chunks: Buffer[] = []
-      res.on('data', (c: Buffer) => chunks.push(c))
-      res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8') }))
-    })
+    const req = request(
+      url,
+      {
+        method: 'POST',
+        headers: {
+          ...headers,
+          'Content-Type': `multipart/form-data; boundary=${boundary}`,
+          'Content-Length': String(length),
+        },
+      },
+      (res) => {
+        const chunks: Buffer[] = []
+        res.on('data', (c: Buffer) => chunks.push(c))
+        res.on('end', () =>
+          resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8') }),
+        )
+      },
+    )
     req.on('error', reject)
     req.write(head)
     const stream = createReadStream(file.path)
@@ -127,7 +146,9 @@ const csvPath = join(dir, `cells-${ROWS}.csv`)
 let started = performance.now()
 const written = writeBenchCsv(csvPath, ROWS)
 const bytes = statSync(csvPath).size
-console.log(`[bench] wrote ${written.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB in ${seconds(performance.now() - started)} → ${csvPath}`)
+console.log(
+  `[bench] wrote ${written.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB in ${seconds(performance.now() - started)} → ${csvPath}`,
+)
 
 ensurePostgres()
 await prepareDatabase(DATABASE, { fresh: true, seed: true })
@@ -135,7 +156,16 @@ await prepareDatabase(DATABASE, { fresh: true, seed: true })
 const base = `http://127.0.0.1:${PORT}`
 const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
   // Own SMTP port too, so a development server running alongside does not clash with this one.
-  env: { ...process.env, PGDATABASE: DATABASE, PORT: String(PORT), SMTP_PORT: String(PORT + 1), HOST: '127.0.0.1', PUBLIC_URL: base, NODE_ENV: 'test', UPLOAD_MAX_MB: '250' },
+  env: {
+    ...process.env,
+    PGDATABASE: DATABASE,
+    PORT: String(PORT),
+    SMTP_PORT: String(PORT + 1),
+    HOST: '127.0.0.1',
+    PUBLIC_URL: base,
+    NODE_ENV: 'test',
+    UPLOAD_MAX_MB: '250',
+  },
   stdio: ['ignore', 'inherit', 'inherit'],
 })
 const stopServer = () => {
@@ -161,7 +191,10 @@ try {
   for (let run = 1; run <= RUNS; run++) {
     const fields = { labId: String(labId), projectName: 'Ingest benchmark', name: `Benchmark run ${run}` }
     started = performance.now()
-    const res = await postMultipart(`${base}/api/v1/datasets`, { ...headers, Cookie: cookie }, fields, { path: csvPath, name: 'cells.csv' })
+    const res = await postMultipart(`${base}/api/v1/datasets`, { ...headers, Cookie: cookie }, fields, {
+      path: csvPath,
+      name: 'cells.csv',
+    })
     const elapsed = performance.now() - started
     const body = JSON.parse(res.body)
     if (res.status !== 201) throw new Error(`upload failed: ${res.status} ${res.body}`)
@@ -169,18 +202,40 @@ try {
     if (version.rowCount !== written) throw new Error(`stored ${version.rowCount} rows, expected ${written}`)
     datasetId = body.data.id
     uploadMs.push(elapsed)
-    console.log(`[bench] upload ${run}: ${seconds(elapsed)} to ready (server ingest ${seconds(version.ingestMs)}, ${version.rowCount.toLocaleString('en-US')} rows)`)
+    console.log(
+      `[bench] upload ${run}: ${seconds(elapsed)} to ready (server ingest ${seconds(version.ingestMs)}, ${version.rowCount.toLocaleString('en-US')} rows)`,
+    )
   }
   const peakMb = peakRssMb(server.pid!)
 
   const psqlEnv = { ...process.env, PGPASSWORD: config.PGPASSWORD }
   const psql = (command: string) => {
-    const result = spawnSync('psql', ['-h', config.PGHOST, '-p', String(config.PGPORT), '-U', config.PGUSER, '-d', DATABASE, '-v', 'ON_ERROR_STOP=1', '-q', '-c', command], { env: psqlEnv, encoding: 'utf8' })
+    const result = spawnSync(
+      'psql',
+      [
+        '-h',
+        config.PGHOST,
+        '-p',
+        String(config.PGPORT),
+        '-U',
+        config.PGUSER,
+        '-d',
+        DATABASE,
+        '-v',
+        'ON_ERROR_STOP=1',
+        '-q',
+        '-c',
+        command,
+      ],
+      { env: psqlEnv, encoding: 'utf8' },
+    )
     if (result.status !== 0) throw new Error(`psql failed: ${result.stderr}`)
   }
   const copyMs: number[] = []
   for (let run = 1; run <= RUNS; run++) {
-    psql('DROP TABLE IF EXISTS bench_plain_copy; CREATE TABLE bench_plain_copy (lab text, animal text, condition text, cell text, neurite_length_um text, soma_area_um2 text)')
+    psql(
+      'DROP TABLE IF EXISTS bench_plain_copy; CREATE TABLE bench_plain_copy (lab text, animal text, condition text, cell text, neurite_length_um text, soma_area_um2 text)',
+    )
     started = performance.now()
     psql(`\\copy bench_plain_copy FROM '${csvPath}' (FORMAT csv, HEADER true)`)
     copyMs.push(performance.now() - started)
@@ -192,11 +247,16 @@ try {
   const tag = await fetch(`${base}/api/v1/datasets/${datasetId}/versions/1/tagging`, {
     method: 'PUT',
     headers: { ...headers, Cookie: cookie, 'Content-Type': 'application/json' },
-    body: JSON.stringify({ responseColumns: ['neurite_length_um'], conditionColumn: 'condition', levels: ['lab', 'animal'] }),
+    body: JSON.stringify({
+      responseColumns: ['neurite_length_um'],
+      conditionColumn: 'condition',
+      levels: ['lab', 'animal'],
+    }),
   })
   if (!tag.ok) throw new Error(`tagging failed: ${tag.status} ${await tag.text()}`)
   const tagMs = performance.now() - tagStart
-  const versionId = ((await tag.json()) as { data: { tagging: { versionId: number } } }).data.tagging.versionId
+  const versionId = ((await tag.json()) as { data: { tagging: { versionId: number } } }).data.tagging
+    .versionId
 
   const { loadNestedColumns } = await import('../../server/services/datasets-readback.service')
   const { db } = await import('../../server/db')
@@ -204,7 +264,11 @@ try {
   let observed = 0
   for (let run = 1; run <= RUNS; run++) {
     started = performance.now()
-    const columns = await loadNestedColumns(versionId, { response: 'neurite_length_um', condition: 'condition', levels: ['lab', 'animal'] })
+    const columns = await loadNestedColumns(versionId, {
+      response: 'neurite_length_um',
+      condition: 'condition',
+      levels: ['lab', 'animal'],
+    })
     readMs.push(performance.now() - started)
     observed = columns.response.length
   }
@@ -213,13 +277,21 @@ try {
   const upload = median(uploadMs)
   const copy = median(copyMs)
   console.log('')
-  console.log(`Ingest benchmark (${written.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB, median of ${RUNS} runs)`)
-  console.log(`  upload to ready (HTTP, stored + profiled): ${seconds(upload)}   [${uploadMs.map(seconds).join(', ')}]`)
-  console.log(`  psql \\copy into a plain table:            ${seconds(copy)}   [${copyMs.map(seconds).join(', ')}]`)
+  console.log(
+    `Ingest benchmark (${written.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB, median of ${RUNS} runs)`,
+  )
+  console.log(
+    `  upload to ready (HTTP, stored + profiled): ${seconds(upload)}   [${uploadMs.map(seconds).join(', ')}]`,
+  )
+  console.log(
+    `  psql \\copy into a plain table:            ${seconds(copy)}   [${copyMs.map(seconds).join(', ')}]`,
+  )
   console.log(`  ratio upload / psql:                       ${(upload / copy).toFixed(2)}   (target ≤ 1.5)`)
   console.log(`  server peak RSS (VmHWM):                   ${peakMb.toFixed(0)} MB   (target < 600 MB)`)
   console.log(`  tagging check over all rows (HTTP):        ${seconds(tagMs)}`)
-  console.log(`  loadNestedColumns, ${observed.toLocaleString('en-US')} rows:        ${seconds(median(readMs))}   [${readMs.map(seconds).join(', ')}]`)
+  console.log(
+    `  loadNestedColumns, ${observed.toLocaleString('en-US')} rows:        ${seconds(median(readMs))}   [${readMs.map(seconds).join(', ')}]`,
+  )
 } finally {
   stopServer()
 }

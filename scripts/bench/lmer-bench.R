@@ -21,13 +21,17 @@ polish <- length(args) >= 6 && args[6] == "polish"
 other <- if (length(args) >= 7) fromJSON(args[7]) else NULL
 
 elapsed <- function() proc.time()[["elapsed"]]
+# CPU time of this process (all threads): less sensitive than wall time to other work on the machine.
+cpu <- function() { p <- proc.time(); p[["user.self"]] + p[["sys.self"]] }
 
 t0 <- elapsed()
+c0 <- cpu()
 d <- read.csv(file, stringsAsFactors = FALSE)
 for (l in levels) d[[l]] <- factor(d[[l]])
 d[[condition]] <- relevel(factor(d[[condition]]), ref = reference)
 labels <- levels(d[[condition]])
 t1 <- elapsed()
+c1 <- cpu()
 
 # Nested terms keyed by full path: (1 | lab) + (1 | lab:animal) + ...
 terms <- vapply(seq_along(levels), function(i) sprintf("(1 | %s)", paste(levels[1:i], collapse = ":")), "")
@@ -48,6 +52,7 @@ means <- lapply(seq_along(labels), function(k) {
   list(condition = labels[k], estimate = r[["Estimate"]], se = r[["Std. Error"]], df = r[["df"]])
 })
 t2 <- elapsed()
+c2 <- cpu()
 
 components_of <- function(model) {
   vc <- as.data.frame(lme4::VarCorr(model))
@@ -61,6 +66,8 @@ contrasts <- lapply(seq_along(labels)[-1], function(k) {
 out <- list(
   readSeconds = t1 - t0,
   fitSeconds = t2 - t1,
+  readCpuSeconds = c1 - c0,
+  fitCpuSeconds = c2 - c1,
   nObs = nrow(d),
   converged = is.null(fit@optinfo$conv$lme4$messages),
   components = components_of(fit),

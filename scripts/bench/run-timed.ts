@@ -6,18 +6,20 @@ export interface TimedRun {
   code: number | null
   stdout: string
   stderr: string
-  /** Peak resident memory in kB when the child reported it (see report-max-rss.ts), else null. */
+  /** Peak resident memory in kB when the child reported it (see report-usage.ts), else null. */
   maxRssKb: number | null
+  /** CPU time of the child (user + system, all threads) when it reported it, else null. */
+  cpuSeconds: number | null
 }
 
 /** Runs a command to completion and measures its wall-clock time from spawn to exit. */
-export function runTimed(command: string, args: string[], options: { cwd: string; rssFile?: string }): Promise<TimedRun> {
-  if (options.rssFile && existsSync(options.rssFile)) rmSync(options.rssFile)
+export function runTimed(command: string, args: string[], options: { cwd: string; usageFile?: string }): Promise<TimedRun> {
+  if (options.usageFile && existsSync(options.usageFile)) rmSync(options.usageFile)
   return new Promise((resolve, reject) => {
     const started = performance.now()
     const child = spawn(command, args, {
       cwd: options.cwd,
-      env: options.rssFile ? { ...process.env, NESTWISE_MAX_RSS_FILE: options.rssFile } : process.env,
+      env: options.usageFile ? { ...process.env, NESTWISE_USAGE_FILE: options.usageFile } : process.env,
       stdio: ['ignore', 'pipe', 'pipe'],
     })
     const out: Buffer[] = []
@@ -27,8 +29,15 @@ export function runTimed(command: string, args: string[], options: { cwd: string
     child.on('error', reject)
     child.on('close', (code) => {
       const seconds = (performance.now() - started) / 1000
-      const maxRssKb = options.rssFile && existsSync(options.rssFile) ? Number(readFileSync(options.rssFile, 'utf8')) : null
-      resolve({ seconds, code, stdout: Buffer.concat(out).toString('utf8'), stderr: Buffer.concat(err).toString('utf8'), maxRssKb })
+      const usage = options.usageFile && existsSync(options.usageFile) ? JSON.parse(readFileSync(options.usageFile, 'utf8')) : null
+      resolve({
+        seconds,
+        code,
+        stdout: Buffer.concat(out).toString('utf8'),
+        stderr: Buffer.concat(err).toString('utf8'),
+        maxRssKb: usage?.maxRssKb ?? null,
+        cpuSeconds: usage?.cpuSeconds ?? null,
+      })
     })
   })
 }
