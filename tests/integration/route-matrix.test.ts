@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto'
 import express, { type Express } from 'express'
 import request, { type Response } from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -7,6 +8,7 @@ import { insertReceivedMail } from '../../server/repositories/received-mails.rep
 import { appWriteHeaders, closeConnections, createTestApp, signIn } from '../support/api'
 import { asUser } from '../support/as-user'
 import { createLabWithTeam, createUser, uniqueEmail, uniqueSuffix, type TestUser } from '../support/factories'
+import { finishQueuedVersion } from '../support/finished-version'
 import { listRoutes } from '../support/list-routes'
 import { invitationTokenIn, latestOutboxRowTo } from '../support/mail'
 
@@ -15,9 +17,11 @@ import { invitationTokenIn, latestOutboxRowTo } from '../support/mail'
  * first test fails for a route without an entry, and for an entry without a route). Statuses are
  * what the route must answer to that person for a request that is otherwise valid: 401 anonymous,
  * 403 a member whose role may not, 404 for ids in labs the caller is not in (never 403 there).
- * Share-link holders join as a column once share links exist.
+ * The share-link holder is someone without an account holding a valid link to one analysis
+ * version (c.shareToken); on routes that take no token they are anonymous, so their column may be
+ * left out and then equals the anonymous one. Everyone else gets an unknown token.
  */
-const ROLES = ['anonymous', 'scientist', 'pi', 'biostatistician', 'admin', 'otherLab'] as const
+const ROLES = ['anonymous', 'scientist', 'pi', 'biostatistician', 'admin', 'otherLab', 'shareHolder'] as const
 type Role = (typeof ROLES)[number]
 type Api = ReturnType<typeof asUser>
 
@@ -28,7 +32,11 @@ interface World {
   analysisId: number
   uploadToken: string
   receivedMailId: number
-  users: Record<Exclude<Role, 'anonymous'>, TestUser>
+  /** A finished analysis (written by the scientist) for review and share routes. */
+  doneAnalysisId: number
+  /** A valid link to version 1 of doneAnalysisId, with the unit table allowed. */
+  shareToken: string
+  users: Record<Exclude<Role, 'anonymous' | 'shareHolder'>, TestUser>
 }
 
 interface CaseContext {
@@ -38,6 +46,8 @@ interface CaseContext {
   /** A session of its own, for requests that end or replace the session. */
   freshApi(): Promise<Api>
   w: World
+  /** The valid share token for the share-link holder; an unknown one for everybody else. */
+  shareToken: string
 }
 
 type Statuses = [
@@ -47,6 +57,7 @@ type Statuses = [
   biostatistician: number,
   admin: number,
   otherLab: number,
+  shareHolder?: number,
 ]
 type Case = [route: string, statuses: Statuses, send: (c: CaseContext) => Promise<Response>]
 
@@ -111,6 +122,22 @@ const make = {
     const res = await apiOf('scientist').post('/api/v1/analyses', { datasetId: w.datasetId })
     return expectStatus(res, 201, 'analysis').body.data.id
   },
+  async doneAnalysis(): Promise<number> {
+    const id = await make.analysis()
+    await finishQueuedVersion(id)
+    return id
+  },
+  async reviewRequest(): Promise<number> {
+    const analysisId = await make.doneAnalysis()
+    const res = await apiOf('scientist').post(`/api/v1/analyses/${analysisId}/versions/1/review-requests`, {
+      reviewerId: w.users.biostatistician.id,
+    })
+    return expectStatus(res, 201, 'review request').body.data.id
+  },
+  async shareLink(): Promise<number> {
+    const res = await apiOf('pi').post(`/api/v1/analyses/${w.doneAnalysisId}/share-links`, { versionNo: 1 })
+    return expectStatus(res, 201, 'share link').body.data.id
+  },
   async failedMail(): Promise<number> {
     const id = await insertOutboxMessage({
       to: uniqueEmail('mail'),
@@ -127,6 +154,7 @@ const ds = (path = '') => `/api/v1/datasets/${w.datasetId}${path}`
 const v1 = (path = '') => ds(`/versions/1${path}`)
 const an = (path = '') => `/api/v1/analyses/${w.analysisId}${path}`
 const lab = (path = '') => `/api/v1/labs/${w.labId}${path}`
+const done = (path = '') => `/api/v1/analyses/${w.doneAnalysisId}${path}`
 
 // prettier-ignore
 const cases: Case[] = [
@@ -217,6 +245,30 @@ const cases: Case[] = [
   // No runner in this test, so the version is still queued: members pass the permission check and
   // get 409 "not done yet"; outsiders never learn that much.
   ['GET /api/v1/analyses/:analysisId/versions/:versionNo/units.csv', [401, 409, 409, 409, 404, 404], (c) => c.api.get(an('/versions/1/units.csv'))],
+
+  // review and sign-off: members read and comment; scientists and PIs ask a biostatistician;
+  // only the addressed biostatistician decides; the requester or a PI withdraws
+  ['GET /api/v1/analyses/:analysisId/versions/:versionNo/review', [401, 200, 200, 200, 404, 404], (c) => c.api.get(done('/versions/1/review'))],
+  ['GET /api/v1/analyses/:analysisId/versions/:versionNo/sign-off', [401, 200, 200, 200, 404, 404], (c) => c.api.get(done('/versions/1/sign-off'))],
+  ['POST /api/v1/analyses/:analysisId/versions/:versionNo/review-requests', [401, 201, 201, 403, 404, 404], async (c) =>
+    c.api.post(`/api/v1/analyses/${await make.doneAnalysis()}/versions/1/review-requests`, { reviewerId: w.users.biostatistician.id })],
+  ['POST /api/v1/analyses/:analysisId/versions/:versionNo/comments', [401, 201, 201, 201, 404, 404], (c) => c.api.post(done('/versions/1/comments'), { body: `matrix ${c.role}` })],
+  ['GET /api/v1/review-requests',                              [401, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/review-requests')],
+  ['POST /api/v1/review-requests/:requestId/decision',         [401, 403, 403, 200, 404, 404], async (c) =>
+    c.api.post(`/api/v1/review-requests/${await make.reviewRequest()}/decision`, { decision: 'signed_off' })],
+  ['POST /api/v1/review-requests/:requestId/withdraw',         [401, 200, 200, 403, 404, 404], async (c) =>
+    c.api.post(`/api/v1/review-requests/${await make.reviewRequest()}/withdraw`)],
+
+  // share links: members see them; a PI or the analysis' author (the scientist) shares and withdraws
+  ['GET /api/v1/analyses/:analysisId/share-links',             [401, 200, 200, 200, 404, 404], (c) => c.api.get(done('/share-links'))],
+  ['POST /api/v1/analyses/:analysisId/share-links',            [401, 201, 201, 403, 404, 404], (c) => c.api.post(done('/share-links'), { versionNo: 1 })],
+  ['DELETE /api/v1/analyses/:analysisId/share-links/:linkId',  [401, 200, 200, 403, 404, 404], async (c) => c.api.delete(done(`/share-links/${await make.shareLink()}`))],
+  // the link holder's read-only namespace: only a valid token opens anything
+  ['GET /api/v1/shared/:token',                                [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}`)],
+  ['GET /api/v1/shared/:token/units.csv',                      [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}/units.csv`)],
+
+  // the lab board: every member of the lab
+  ['GET /api/v1/labs/:labId/board',                            [401, 200, 200, 200, 404, 404], (c) => c.api.get(lab('/board'))],
 ]
 
 beforeAll(async () => {
@@ -232,7 +284,7 @@ beforeAll(async () => {
     otherLab: other.pi,
   }
   for (const role of ROLES) {
-    if (role !== 'anonymous')
+    if (role !== 'anonymous' && role !== 'shareHolder')
       cookies.set(role, await signIn(app, w.users[role].email, w.users[role].password))
   }
 
@@ -251,6 +303,9 @@ beforeAll(async () => {
   }
   expectStatus(await apiOf('scientist').put(v1('/tagging'), tagging), 200, 'world tagging')
   w.analysisId = await make.analysis()
+  w.doneAnalysisId = await make.doneAnalysis()
+  const link = await apiOf('scientist').post(done('/share-links'), { versionNo: 1, allowUnitTable: true })
+  w.shareToken = expectStatus(link, 201, 'world share link').body.data.token
   w.receivedMailId = await insertReceivedMail({
     envelopeFrom: 'no-reply@nestwise.invalid',
     envelopeTo: ['matrix@example.test'],
@@ -319,15 +374,17 @@ describe('who may call what', () => {
           role,
           api: apiOf(role),
           freshApi: async () =>
-            role === 'anonymous'
+            role === 'anonymous' || role === 'shareHolder'
               ? asUser(app)
               : asUser(app, await signIn(app, w.users[role].email, w.users[role].password)),
           w,
+          shareToken: role === 'shareHolder' ? w.shareToken : randomBytes(32).toString('base64url'),
         }
+        const expected = statuses[index] ?? statuses[0]
         const res = await send(context)
-        if (res.status !== statuses[index]) {
+        if (res.status !== expected) {
           mismatches.push(
-            `${role}: expected ${statuses[index]}, got ${res.status} ${JSON.stringify(res.body?.error ?? '')}`,
+            `${role}: expected ${expected}, got ${res.status} ${JSON.stringify(res.body?.error ?? '')}`,
           )
         }
       }
