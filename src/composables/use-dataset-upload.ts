@@ -34,19 +34,32 @@ export function useDatasetUpload() {
     pollTimer = null
   }
 
+  /** All bytes are with the server: from now on the second bar tells the story. */
+  function markSent(): void {
+    if (stage.value !== 'sending') return
+    sent.value = total.value
+    stage.value = 'processing'
+  }
+
   function startPolling(token: string, signal: AbortSignal): void {
-    if (polling) return
     polling = true
     const tick = async () => {
       try {
         const progress = await getUploadProgress(token, signal)
-        if (polling) server.value = progress
+        if (!polling) return
+        server.value = progress
+        // Some browsers report no upload events (or none for small bodies); the server's phase
+        // also says when the transfer is over.
+        if (progress.phase !== 'receiving') {
+          total.value = Math.max(total.value, progress.bytesTotal)
+          markSent()
+        }
       } catch {
         // Progress is a courtesy: the upload's own answer decides success or failure.
       }
       if (polling) pollTimer = setTimeout(tick, PROGRESS_POLL_MS)
     }
-    void tick()
+    pollTimer = setTimeout(tick, PROGRESS_POLL_MS)
   }
 
   async function run<T>(work: (callbacks: UploadCallbacks) => Promise<T>): Promise<T | null> {
@@ -59,6 +72,7 @@ export function useDatasetUpload() {
     total.value = 0
     server.value = null
     error.value = null
+    startPolling(token, signal)
     try {
       const result = await work({
         token,
@@ -67,12 +81,7 @@ export function useDatasetUpload() {
           sent.value = progress.loaded
           total.value = progress.total
         },
-        onSent: () => {
-          if (stage.value !== 'sending') return
-          sent.value = total.value
-          stage.value = 'processing'
-          startPolling(token, signal)
-        },
+        onSent: markSent,
       })
       stage.value = 'done'
       return result
