@@ -34,6 +34,7 @@ interface World {
   receivedMailId: number
   /** A finished analysis (written by the scientist) for review and share routes. */
   doneAnalysisId: number
+  planId: number
   /** A valid link to version 1 of doneAnalysisId, with the unit table allowed. */
   shareToken: string
   users: Record<Exclude<Role, 'anonymous' | 'shareHolder'>, TestUser>
@@ -138,6 +139,10 @@ const make = {
     const res = await apiOf('pi').post(`/api/v1/analyses/${w.doneAnalysisId}/share-links`, { versionNo: 1 })
     return expectStatus(res, 201, 'share link').body.data.id
   },
+  async plan(): Promise<number> {
+    const res = await apiOf('scientist').post('/api/v1/plans', { labId: w.labId, name: `Plan ${uniqueSuffix()}`, inputs: planInputs })
+    return expectStatus(res, 201, 'plan').body.data.id
+  },
   async failedMail(): Promise<number> {
     const id = await insertOutboxMessage({
       to: uniqueEmail('mail'),
@@ -149,6 +154,9 @@ const make = {
     return id
   },
 }
+
+const planInputs = { icc: 0.1, spread: { kind: 'total', sdTotal: 2 }, difference: 1, costPerUnit: 100, costPerObs: 1 }
+const pl = (path = '') => `/api/v1/plans/${w.planId}${path}`
 
 const ds = (path = '') => `/api/v1/datasets/${w.datasetId}${path}`
 const v1 = (path = '') => ds(`/versions/1${path}`)
@@ -267,6 +275,17 @@ const cases: Case[] = [
   ['GET /api/v1/shared/:token',                                [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}`)],
   ['GET /api/v1/shared/:token/units.csv',                      [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}/units.csv`)],
 
+  // experiment plans: members read; scientists and PIs save, rename, attach and delete; anyone signed in may preview numbers
+  ['GET /api/v1/plans',                                        [401, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/plans')],
+  ['GET /api/v1/plans/defaults',                               [401, 200, 200, 200, 404, 404], (c) => c.api.get(`/api/v1/plans/defaults?analysisId=${w.doneAnalysisId}&versionNo=1`)],
+  ['POST /api/v1/plans/preview',                               [401, 200, 200, 200, 200, 200], (c) => c.api.post('/api/v1/plans/preview', { inputs: planInputs })],
+  ['POST /api/v1/plans',                                       [401, 201, 201, 403, 404, 404], (c) => c.api.post('/api/v1/plans', { labId: w.labId, name: `Plan by ${c.role}`, inputs: planInputs })],
+  ['GET /api/v1/plans/:planId',                                [401, 200, 200, 200, 404, 404], (c) => c.api.get(pl())],
+  ['PATCH /api/v1/plans/:planId',                              [401, 200, 200, 403, 404, 404], (c) => c.api.patch(pl(), { name: `Renamed by ${c.role}` })],
+  ['DELETE /api/v1/plans/:planId',                             [401, 204, 204, 403, 404, 404], async (c) => c.api.delete(`/api/v1/plans/${await make.plan()}`)],
+  // agreement between labs: members read; the world's table has two labs, so members get 422 (too few labs)
+  ['GET /api/v1/analyses/:analysisId/versions/:versionNo/agreement', [401, 422, 422, 422, 404, 404], (c) => c.api.get(done('/versions/1/agreement'))],
+
   // the lab board: every member of the lab
   ['GET /api/v1/labs/:labId/board',                            [401, 200, 200, 200, 404, 404], (c) => c.api.get(lab('/board'))],
 ]
@@ -304,6 +323,7 @@ beforeAll(async () => {
   expectStatus(await apiOf('scientist').put(v1('/tagging'), tagging), 200, 'world tagging')
   w.analysisId = await make.analysis()
   w.doneAnalysisId = await make.doneAnalysis()
+  w.planId = await make.plan()
   const link = await apiOf('scientist').post(done('/share-links'), { versionNo: 1, allowUnitTable: true })
   w.shareToken = expectStatus(link, 201, 'world share link').body.data.token
   w.receivedMailId = await insertReceivedMail({
