@@ -103,23 +103,22 @@ async function main() {
   console.log(`  CPU (user + system, all threads): ${analyzer.cpuTimes.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.cpuMedian)} s`)
   console.log(`  peak memory (maxRSS of the child): ${mb(analyzer.peakKb)}`)
 
-  section('where the time goes (same steps in this process)')
-  started = performance.now()
-  const data = await readColumnsFromFile(csv, columns)
-  const tRead = (performance.now() - started) / 1000
-  started = performance.now()
-  const design = prepareNestedDesign(data, { reference: columns.reference })
-  const tPrepare = (performance.now() - started) / 1000
-  started = performance.now()
-  fitNestedReml(design)
-  const tFit = (performance.now() - started) / 1000
-  started = performance.now()
-  analyzeNested(data, { reference: columns.reference })
-  const tAnalyze = (performance.now() - started) / 1000
-  console.log(
-    `  read CSV ${fmt(tRead)} s; analyzeNested ${fmt(tAnalyze)} s ` +
-      `(of which: path-keyed design ${fmt(tPrepare)} s, REML fit ${fmt(tFit)} s, Satterthwaite/means/tests/warnings the rest)`,
-  )
+  section('where the time goes (same steps in this process; CPU seconds, wall in brackets)')
+  const stage = async <T>(run: () => T | Promise<T>) => {
+    const wall = performance.now()
+    const cpu = process.cpuUsage()
+    const value = await run()
+    const used = process.cpuUsage(cpu)
+    return { value, cpu: (used.user + used.system) / 1e6, wall: (performance.now() - wall) / 1000 }
+  }
+  const read = await stage(() => readColumnsFromFile(csv, columns))
+  const prepared = await stage(() => prepareNestedDesign(read.value, { reference: columns.reference }))
+  const fitted = await stage(() => fitNestedReml(prepared.value))
+  const whole = await stage(() => analyzeNested(read.value, { reference: columns.reference }))
+  const design = prepared.value
+  const show = (t: { cpu: number; wall: number }) => `${fmt(t.cpu)} s (${fmt(t.wall)} s)`
+  console.log(`  read CSV ${show(read)}; analyzeNested ${show(whole)}, of which path-keyed design ${show(prepared)}, REML fit ${show(fitted)},`)
+  console.log(`  Satterthwaite, means, tests and warnings the rest; start-up of node + tsx + modules ≈ the child's CPU minus these`)
 
   let speedup: number | null = null
   let cpuSpeedup: number | null = null
