@@ -1,4 +1,5 @@
 import type { RouteRecordRaw } from 'vue-router'
+import { analysisRoutes } from './analysis-routes'
 import { teamRoutes } from './team-routes'
 
 // Views load on demand so the first page only downloads what it shows.
@@ -40,6 +41,7 @@ export const routes: RouteRecordRaw[] = [
     component: () => import('@/views/DatasetDetailView.vue'),
     meta: { title: 'Dataset' },
   },
+  ...analysisRoutes,
   ...teamRoutes,
   {
     path: '/not-available',

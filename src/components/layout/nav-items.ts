@@ -47,6 +47,14 @@ export const navItems: NavItem[] = [
     visibleFor: visibleFor.everyone(),
   },
   {
+    id: 'analyses',
+    title: 'Analyses',
+    icon: 'mdi-chart-box-outline',
+    to: { name: 'analyses' },
+    section: 'work',
+    visibleFor: visibleFor.everyone(),
+  },
+  {
     id: 'lab-members',
     title: 'Lab members',
     icon: 'mdi-account-group-outline',
