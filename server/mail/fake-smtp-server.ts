@@ -71,13 +71,18 @@ export async function startFakeSmtpServer(options: FakeSmtpServerOptions): Promi
       })
     },
   })
-  server.on('error', (err) => logger.error('fake SMTP server error', { err }))
+  let listening = false
+  // Errors while starting to listen (port taken) are the caller's to handle, not to log.
+  server.on('error', (err) => {
+    if (listening) logger.error('fake SMTP server error', { err })
+  })
 
   await new Promise<void>((resolve, reject) => {
     const onError = (err: Error) => reject(err)
     server.server.once('error', onError)
     server.listen(options.port, '127.0.0.1', () => {
       server.server.off('error', onError)
+      listening = true
       resolve()
     })
   })

@@ -7,11 +7,11 @@ import { attachScreenshot, openAccountMenu, signIn } from './support/demo'
  */
 const NAV_BY_ROLE = {
   everyone: ['Overview', 'Datasets'],
-  pi: ['Lab board'],
+  pi: ['Lab board', 'Lab members', 'Audit log'],
   biostatistician: ['Reviews'],
   admin: ['People & labs', 'Outbox', 'Audit log'],
 } as const
-const BUILT = new Set<string>(['Overview', 'Datasets'])
+const BUILT = new Set<string>(['Overview', 'Datasets', 'Lab members', 'People & labs', 'Outbox', 'Audit log'])
 
 type NavGroup = keyof typeof NAV_BY_ROLE
 
