@@ -93,7 +93,9 @@ export async function up(knex: Knex): Promise<void> {
     t.primary(['version_id', 'position'])
     t.unique(['version_id', 'name'])
   })
-  await knex.raw(`ALTER TABLE dataset_columns ADD CONSTRAINT dataset_columns_type_known CHECK (type IN ('integer', 'numeric', 'text', 'empty'))`)
+  await knex.raw(
+    `ALTER TABLE dataset_columns ADD CONSTRAINT dataset_columns_type_known CHECK (type IN ('integer', 'numeric', 'text', 'empty'))`,
+  )
 
   // Append-only: the current tagging of a version is its newest row; older rows are the history.
   await knex.schema.createTable('dataset_taggings', (t) => {

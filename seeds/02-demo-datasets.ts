@@ -15,9 +15,17 @@ export async function seed(knex: Knex): Promise<void> {
   await mkdir(ingestConfig.uploadsDir, { recursive: true })
   for (const dataset of demoDatasets()) {
     const lab: { id: number } | undefined = await knex('labs').where({ slug: dataset.labSlug }).first('id')
-    const user: { id: number } | undefined = await knex('users').where({ email: dataset.uploaderEmail }).first('id')
-    if (!lab || !user) throw new Error(`demo datasets need the demo people first (lab ${dataset.labSlug}, user ${dataset.uploaderEmail})`)
-    const existing = await knex('datasets').where({ lab_id: lab.id, name: dataset.name }).whereNull('deleted_at').first('id')
+    const user: { id: number } | undefined = await knex('users')
+      .where({ email: dataset.uploaderEmail })
+      .first('id')
+    if (!lab || !user)
+      throw new Error(
+        `demo datasets need the demo people first (lab ${dataset.labSlug}, user ${dataset.uploaderEmail})`,
+      )
+    const existing = await knex('datasets')
+      .where({ lab_id: lab.id, name: dataset.name })
+      .whereNull('deleted_at')
+      .first('id')
     if (existing) continue
     const path = join(ingestConfig.uploadsDir, `seed-${randomBytes(6).toString('hex')}.csv`)
     const bytes = Buffer.from(dataset.csv, 'utf8')

@@ -70,7 +70,9 @@ export function consortiumOutgrowth(): string {
       const mouseShift = normal() * lab.mouseSd + (treatment === 'NW-117' ? 10 : 0)
       const neurons = between(random, 25, 45)
       for (let n = 1; n <= neurons; n++) {
-        lines.push(`${lab.name},m${m},${treatment},${n},${(120 + lab.shift + mouseShift + normal() * lab.cellSd).toFixed(1)}`)
+        lines.push(
+          `${lab.name},m${m},${treatment},${n},${(120 + lab.shift + mouseShift + normal() * lab.cellSd).toFixed(1)}`,
+        )
       }
     }
   }
@@ -92,7 +94,9 @@ export function withinMouseCoverslips(): string {
       const coverslipShift = normal() * 4 + (treatment === 'NW-117' ? 8 : 0)
       const neurons = between(random, 15, 30)
       for (let n = 1; n <= neurons; n++) {
-        lines.push(`F-M${pad(m)},cs${c},${treatment},${n},${(115 + mouseShift + coverslipShift + normal() * 20).toFixed(1)}`)
+        lines.push(
+          `F-M${pad(m)},cs${c},${treatment},${n},${(115 + mouseShift + coverslipShift + normal() * 20).toFixed(1)}`,
+        )
       }
     }
   }
@@ -117,7 +121,9 @@ export function plateReaderDoses(): string {
       for (let w = 0; w < 24; w++) {
         const dose = doses[Math.floor(w / 8)]
         const well = `${rows[Math.floor(w / 6)]}${(w % 6) + 1}`
-        lines.push(`2026-03-0${d + 2},P${p},${well},${dose.label},${(100 + dayShift + plateShift + dose.effect + normal() * 5).toFixed(2)}`)
+        lines.push(
+          `2026-03-0${d + 2},P${p},${well},${dose.label},${(100 + dayShift + plateShift + dose.effect + normal() * 5).toFixed(2)}`,
+        )
       }
     }
   }
@@ -131,20 +137,30 @@ export function demoDatasets(): DemoDataset[] {
       uploaderEmail: 'sami@example.org',
       project: 'NW-117 outgrowth',
       name: 'Outgrowth, single lab (NW-117 vs vehicle)',
-      description: 'Neurite length per neuron in primary cortical cultures, one culture per mouse, 5 mice per arm. Invented demo data.',
+      description:
+        'Neurite length per neuron in primary cortical cultures, one culture per mouse, 5 mice per arm. Invented demo data.',
       filename: 'nimbus-outgrowth-2026-03.csv',
       csv: singleLabOutgrowth(),
-      tagging: { responseColumns: ['neurite_length_um', 'soma_area_um2'], conditionColumn: 'treatment', levels: ['mouse'] },
+      tagging: {
+        responseColumns: ['neurite_length_um', 'soma_area_um2'],
+        conditionColumn: 'treatment',
+        levels: ['mouse'],
+      },
     },
     {
       labSlug: 'nimbus-neurite-lab',
       uploaderEmail: 'petra@example.org',
       project: 'Consortium NW-117',
       name: 'Consortium outgrowth, three labs',
-      description: 'The same protocol run in three labs of the consortium; mouse labels restart in every lab. Invented demo data.',
+      description:
+        'The same protocol run in three labs of the consortium; mouse labels restart in every lab. Invented demo data.',
       filename: 'consortium-outgrowth.csv',
       csv: consortiumOutgrowth(),
-      tagging: { responseColumns: ['neurite_length_um'], conditionColumn: 'treatment', levels: ['lab', 'mouse'] },
+      tagging: {
+        responseColumns: ['neurite_length_um'],
+        conditionColumn: 'treatment',
+        levels: ['lab', 'mouse'],
+      },
     },
     {
       labSlug: 'fernhill-culture-lab',
@@ -154,14 +170,19 @@ export function demoDatasets(): DemoDataset[] {
       description: 'Treated and untreated coverslips from each mouse. Invented demo data.',
       filename: 'fernhill-coverslips.csv',
       csv: withinMouseCoverslips(),
-      tagging: { responseColumns: ['neurite_length_um'], conditionColumn: 'treatment', levels: ['mouse', 'coverslip'] },
+      tagging: {
+        responseColumns: ['neurite_length_um'],
+        conditionColumn: 'treatment',
+        levels: ['mouse', 'coverslip'],
+      },
     },
     {
       labSlug: 'fernhill-culture-lab',
       uploaderEmail: 'hugo@example.org',
       project: 'Dose response',
       name: 'Plate reader, three doses',
-      description: 'Viability per well; wells in plates in experiment days, three doses of NW-117. Invented demo data.',
+      description:
+        'Viability per well; wells in plates in experiment days, three doses of NW-117. Invented demo data.',
       filename: 'fernhill-plates.csv',
       csv: plateReaderDoses(),
       tagging: { responseColumns: ['viability_au'], conditionColumn: 'dose', levels: ['day', 'plate'] },

@@ -166,8 +166,12 @@ export class ColumnProfiler {
     const hasNumbers = numeric && this.numericCount > 0
     let topValues: ColumnProfile['topValues'] = null
     if (this.counts) {
-      const order = this.labels.map((_, code) => code).sort((a, b) => this.counts![b] - this.counts![a] || a - b)
-      topValues = order.slice(0, TOP_VALUES).map((code) => ({ value: this.labels[code], count: this.counts![code] }))
+      const order = this.labels
+        .map((_, code) => code)
+        .sort((a, b) => this.counts![b] - this.counts![a] || a - b)
+      topValues = order
+        .slice(0, TOP_VALUES)
+        .map((code) => ({ value: this.labels[code], count: this.counts![code] }))
     }
     return {
       position: this.position,

@@ -5,7 +5,11 @@ import { CsvSyntaxError, CsvTokenizer } from './csv-tokenizer'
 
 function tokenize(chunks: string[], delimiter = ',', limits = { maxFieldChars: 1000, maxFieldsPerRow: 100 }) {
   const rows: { fields: string[]; recordNo: number }[] = []
-  const tokenizer = new CsvTokenizer({ delimiter, ...limits, onRow: (fields, recordNo) => rows.push({ fields: [...fields], recordNo }) })
+  const tokenizer = new CsvTokenizer({
+    delimiter,
+    ...limits,
+    onRow: (fields, recordNo) => rows.push({ fields: [...fields], recordNo }),
+  })
   for (const chunk of chunks) tokenizer.push(chunk)
   tokenizer.end()
   return { rows, tokenizer }
@@ -25,7 +29,11 @@ describe('CsvTokenizer', () => {
     for (const eol of ['\n', '\r\n', '\r']) {
       const text = `a,b${eol}1,2${eol}3,4${eol}`
       for (const chunks of splits(text)) {
-        expect(fieldsOf(chunks)).toEqual([['a', 'b'], ['1', '2'], ['3', '4']])
+        expect(fieldsOf(chunks)).toEqual([
+          ['a', 'b'],
+          ['1', '2'],
+          ['3', '4'],
+        ])
       }
     }
   })
@@ -42,12 +50,21 @@ describe('CsvTokenizer', () => {
   })
 
   it('keeps a last row without a newline and an empty last field after a trailing delimiter', () => {
-    expect(fieldsOf(['a,b\n1,'])).toEqual([['a', 'b'], ['1', '']])
-    expect(fieldsOf(['a,b\n1,2'])).toEqual([['a', 'b'], ['1', '2']])
+    expect(fieldsOf(['a,b\n1,'])).toEqual([
+      ['a', 'b'],
+      ['1', ''],
+    ])
+    expect(fieldsOf(['a,b\n1,2'])).toEqual([
+      ['a', 'b'],
+      ['1', '2'],
+    ])
   })
 
   it('ignores blank lines at the end but reports blank lines between rows with their row number', () => {
-    expect(fieldsOf(['a,b\n1,2\n\n\r\n'])).toEqual([['a', 'b'], ['1', '2']])
+    expect(fieldsOf(['a,b\n1,2\n\n\r\n'])).toEqual([
+      ['a', 'b'],
+      ['1', '2'],
+    ])
     const { rows } = tokenize(['a,b\n1,2\n\n3,4\n'])
     expect(rows.map((r) => [r.recordNo, r.fields])).toEqual([
       [1, ['a', 'b']],
@@ -58,8 +75,14 @@ describe('CsvTokenizer', () => {
   })
 
   it('uses the tab or semicolon as delimiter when told', () => {
-    expect(fieldsOf(['a\tb\n1,5\t2,5\n'], '\t')).toEqual([['a', 'b'], ['1,5', '2,5']])
-    expect(fieldsOf(['a;b\n"x;y";2\n'], ';')).toEqual([['a', 'b'], ['x;y', '2']])
+    expect(fieldsOf(['a\tb\n1,5\t2,5\n'], '\t')).toEqual([
+      ['a', 'b'],
+      ['1,5', '2,5'],
+    ])
+    expect(fieldsOf(['a;b\n"x;y";2\n'], ';')).toEqual([
+      ['a', 'b'],
+      ['x;y', '2'],
+    ])
   })
 
   it('flags what PostgreSQL reads differently, so ingest stores parsed rows instead of raw bytes', () => {
@@ -78,14 +101,29 @@ describe('CsvTokenizer', () => {
       }
       throw new Error('expected a CsvSyntaxError')
     }
-    expect(error(['a,b\n1,"open\n2,3\n'])).toMatchObject({ kind: 'unterminated-quote', recordNo: 2, fieldIndex: 1 })
+    expect(error(['a,b\n1,"open\n2,3\n'])).toMatchObject({
+      kind: 'unterminated-quote',
+      recordNo: 2,
+      fieldIndex: 1,
+    })
     expect(error(['a,b\n1,"x"y\n'])).toMatchObject({ kind: 'text-after-quote', recordNo: 2, fieldIndex: 1 })
     const long = 'x'.repeat(11)
-    expect(error([`a,b\n1,${long}\n`], { maxFieldChars: 10, maxFieldsPerRow: 5 })).toMatchObject({ kind: 'field-too-long', recordNo: 2, fieldIndex: 1, length: 11 })
+    expect(error([`a,b\n1,${long}\n`], { maxFieldChars: 10, maxFieldsPerRow: 5 })).toMatchObject({
+      kind: 'field-too-long',
+      recordNo: 2,
+      fieldIndex: 1,
+      length: 11,
+    })
     // A never-closed quote stops at the field limit instead of reading the whole file into memory.
     const chunks = ['a,b\n1,"', ...Array.from({ length: 50 }, () => 'yyyyyyyyyy')]
-    expect(error(chunks, { maxFieldChars: 100, maxFieldsPerRow: 5 })).toMatchObject({ kind: 'field-too-long', recordNo: 2 })
-    expect(error(['a,b,c,d,e,f\n'], { maxFieldChars: 10, maxFieldsPerRow: 5 })).toMatchObject({ kind: 'too-many-fields', recordNo: 1 })
+    expect(error(chunks, { maxFieldChars: 100, maxFieldsPerRow: 5 })).toMatchObject({
+      kind: 'field-too-long',
+      recordNo: 2,
+    })
+    expect(error(['a,b,c,d,e,f\n'], { maxFieldChars: 10, maxFieldsPerRow: 5 })).toMatchObject({
+      kind: 'too-many-fields',
+      recordNo: 1,
+    })
   })
 
   it('agrees with papaparse on random well-formed files cut into random chunks', () => {
@@ -113,7 +151,7 @@ describe('CsvTokenizer', () => {
       const text = rows.map((row) => row.map(encode).join(',')).join(eol) + eol
       const expected = Papa.parse<string[]>(text, { delimiter: ',', newline: eol, skipEmptyLines: true }).data
       const chunks: string[] = []
-      for (let at = 0; at < text.length; ) {
+      for (let at = 0; at < text.length;) {
         const size = 1 + Math.floor(random() * 7)
         chunks.push(text.slice(at, at + size))
         at += size

@@ -125,7 +125,12 @@ export class CsvTokenizer {
         if (closedAt === -1) {
           if (last) throw new CsvSyntaxError('unterminated-quote', this.recordsDone + 1, this.fields.length)
           if (n - fieldStart - 1 > maxFieldChars + 1) {
-            throw new CsvSyntaxError('field-too-long', this.recordsDone + 1, this.fields.length, n - fieldStart - 1)
+            throw new CsvSyntaxError(
+              'field-too-long',
+              this.recordsDone + 1,
+              this.fields.length,
+              n - fieldStart - 1,
+            )
           }
           this.carry = text.slice(fieldStart)
           return
@@ -156,7 +161,12 @@ export class CsvTokenizer {
         if (j === n) {
           if (!last) {
             if (n - fieldStart > maxFieldChars) {
-              throw new CsvSyntaxError('field-too-long', this.recordsDone + 1, this.fields.length, n - fieldStart)
+              throw new CsvSyntaxError(
+                'field-too-long',
+                this.recordsDone + 1,
+                this.fields.length,
+                n - fieldStart,
+              )
             }
             this.carry = text.slice(fieldStart)
             return

@@ -25,7 +25,12 @@ export const ingestConfig = {
   uploadMaxMb: config.UPLOAD_MAX_MB,
   maxColumns: settings.INGEST_MAX_COLUMNS,
   maxFieldChars: settings.INGEST_MAX_FIELD_CHARS,
-  naValues: ['', ...settings.INGEST_NA_VALUES.split(',').map((v) => v.trim()).filter(Boolean)],
+  naValues: [
+    '',
+    ...settings.INGEST_NA_VALUES.split(',')
+      .map((v) => v.trim())
+      .filter(Boolean),
+  ],
   /** Distinct values counted per column; beyond this a column is reported as "more than" and not offered as a level. */
   distinctCap: 65_000,
   /** Longest column name accepted. */

@@ -34,7 +34,11 @@ export interface BadFileDetails {
 }
 
 /** A file that cannot be stored as a table: 400 with the row and column in the message and details. */
-export function badFile(reason: BadFileReason, message: string, where: Omit<BadFileDetails, 'reason'> = {}): InvalidPayloadError {
+export function badFile(
+  reason: BadFileReason,
+  message: string,
+  where: Omit<BadFileDetails, 'reason'> = {},
+): InvalidPayloadError {
   return new InvalidPayloadError(message, { reason, ...where })
 }
 

@@ -63,16 +63,38 @@ export async function ingestFile(
   options.progress.update({ phase: 'checking', bytesTotal: file.size })
   const sniff = sniffFile(await readHead(file.path), file.originalName, file.size)
   if (sniff.fileType === 'xlsx') {
-    const stored = await trx.transaction((sp) => storeWorkbook(sp, versionId, file.path, options.sheet, limits, options.progress))
-    return { ...stored, fileType: 'xlsx', encoding: 'xlsx', delimiter: null, decimalMark: '.', mode: 'workbook', fallbackReason: null }
+    const stored = await trx.transaction((sp) =>
+      storeWorkbook(sp, versionId, file.path, options.sheet, limits, options.progress),
+    )
+    return {
+      ...stored,
+      fileType: 'xlsx',
+      encoding: 'xlsx',
+      delimiter: null,
+      decimalMark: '.',
+      mode: 'workbook',
+      fallbackReason: null,
+    }
   }
   let text: TextSniff = sniff
   let mode: CsvMode = 'original-bytes'
   let fallbackReason: string | null = null
   for (let attempt = 0; attempt < 3; attempt++) {
     try {
-      const stored = await trx.transaction((sp) => storeCsv(sp, versionId, file.path, text, mode, limits, options.progress))
-      return { ...stored, fileType: 'csv', encoding: text.encoding, delimiter: text.delimiter, decimalMark: text.decimalMark, sheetName: null, sheetNames: [], mode, fallbackReason }
+      const stored = await trx.transaction((sp) =>
+        storeCsv(sp, versionId, file.path, text, mode, limits, options.progress),
+      )
+      return {
+        ...stored,
+        fileType: 'csv',
+        encoding: text.encoding,
+        delimiter: text.delimiter,
+        decimalMark: text.decimalMark,
+        sheetName: null,
+        sheetNames: [],
+        mode,
+        fallbackReason,
+      }
     } catch (error) {
       if (error instanceof FastPathBlocked && mode === 'original-bytes') {
         mode = 'parsed-rows'

@@ -23,7 +23,9 @@ export function parseNumberText(text: string, decimalMark: DecimalMark): number 
 
 /** The same shape test as a PostgreSQL regular expression, for SQL that must agree with the code above. */
 export function numberPatternSql(decimalMark: DecimalMark): string {
-  return decimalMark === ',' ? '^[+-]?([0-9]+,?[0-9]*|,[0-9]+)([eE][+-]?[0-9]+)?$' : '^[+-]?([0-9]+\\.?[0-9]*|\\.[0-9]+)([eE][+-]?[0-9]+)?$'
+  return decimalMark === ','
+    ? '^[+-]?([0-9]+,?[0-9]*|,[0-9]+)([eE][+-]?[0-9]+)?$'
+    : '^[+-]?([0-9]+\\.?[0-9]*|\\.[0-9]+)([eE][+-]?[0-9]+)?$'
 }
 
 const isSpaceCode = (c: number) => c === 32 || c === 9 || c === 10 || c === 13 || c === 160

@@ -23,7 +23,11 @@ export function holdHash(sha256: string): () => void {
   }
 }
 
-const exists = (path: string) => stat(path).then(() => true, () => false)
+const exists = (path: string) =>
+  stat(path).then(
+    () => true,
+    () => false,
+  )
 
 /** Moves the uploaded temp file into the store; returns true when this call created the stored file. */
 export async function keepOriginal(tempPath: string, sha256: string): Promise<boolean> {

@@ -27,7 +27,19 @@ export type Sniff = TextSniff | WorkbookSniff
 const TEXT_EXTENSIONS = new Set(['.csv', '.tsv', '.tab', '.txt'])
 const DELIMITERS = [',', ';', '\t', '|']
 /** Encodings jschardet may name that are not Western European; trusted only when it is sure. */
-const TRUSTED_DETECTIONS = new Set(['shift_jis', 'euc-jp', 'euc-kr', 'gb2312', 'big5', 'windows-1251', 'koi8-r', 'iso-8859-7', 'windows-1253', 'iso-8859-8', 'windows-1255'])
+const TRUSTED_DETECTIONS = new Set([
+  'shift_jis',
+  'euc-jp',
+  'euc-kr',
+  'gb2312',
+  'big5',
+  'windows-1251',
+  'koi8-r',
+  'iso-8859-7',
+  'windows-1253',
+  'iso-8859-8',
+  'windows-1255',
+])
 
 const startsWith = (head: Buffer, bytes: number[]) => bytes.every((b, k) => head[k] === b)
 
@@ -42,24 +54,40 @@ export function sniffFile(head: Buffer, filename: string, totalBytes: number): S
   const isZip = startsWith(head, [0x50, 0x4b, 0x03, 0x04])
   const isOle = startsWith(head, [0xd0, 0xcf, 0x11, 0xe0])
   if (ext === '.xls' || isOle) {
-    throw badFile('OLD_EXCEL_FORMAT', `"${filename}" is in the old Excel format (.xls). Open it in Excel or LibreOffice and save it as .xlsx or CSV, then upload that.`)
+    throw badFile(
+      'OLD_EXCEL_FORMAT',
+      `"${filename}" is in the old Excel format (.xls). Open it in Excel or LibreOffice and save it as .xlsx or CSV, then upload that.`,
+    )
   }
   if (ext === '.xlsx') {
-    if (!isZip) throw badFile('BROKEN_WORKBOOK', `"${filename}" is named .xlsx but is not an Excel workbook. Save it again from the spreadsheet program, or as CSV.`)
+    if (!isZip)
+      throw badFile(
+        'BROKEN_WORKBOOK',
+        `"${filename}" is named .xlsx but is not an Excel workbook. Save it again from the spreadsheet program, or as CSV.`,
+      )
     return { fileType: 'xlsx' }
   }
   if (!TEXT_EXTENSIONS.has(ext)) {
-    throw badFile('UNSUPPORTED_FILE_TYPE', `Nestwise reads tables saved as .csv, .tsv, .txt or .xlsx; "${filename}" is not one of these.`)
+    throw badFile(
+      'UNSUPPORTED_FILE_TYPE',
+      `Nestwise reads tables saved as .csv, .tsv, .txt or .xlsx; "${filename}" is not one of these.`,
+    )
   }
   if (isZip) {
-    throw badFile('WORKBOOK_AS_TEXT', `"${filename}" is an Excel workbook (or another zipped file) with a ${ext} name. Upload the workbook with its .xlsx name, or export the sheet as CSV.`)
+    throw badFile(
+      'WORKBOOK_AS_TEXT',
+      `"${filename}" is an Excel workbook (or another zipped file) with a ${ext} name. Upload the workbook with its .xlsx name, or export the sheet as CSV.`,
+    )
   }
   const { encoding, bomBytes } = detectEncoding(head)
   const body = head.subarray(bomBytes)
   const complete = head.length >= totalBytes
   const text = decodeSample(body, encoding, complete)
   if (looksBinary(text)) {
-    throw badFile('BINARY_FILE', `"${filename}" does not contain text: it looks like a binary file (an image, PDF or program data). Export the table as CSV or .xlsx.`)
+    throw badFile(
+      'BINARY_FILE',
+      `"${filename}" does not contain text: it looks like a binary file (an image, PDF or program data). Export the table as CSV or .xlsx.`,
+    )
   }
   const delimiter = guessDelimiter(text, ext)
   return { fileType: 'csv', encoding, bomBytes, delimiter, decimalMark: guessDecimalMark(text, delimiter) }
@@ -73,14 +101,21 @@ export function detectEncoding(head: Buffer): { encoding: string; bomBytes: numb
   const probe = head.subarray(0, 4096)
   let zeroEven = 0
   let zeroOdd = 0
-  for (let k = 0; k < probe.length; k++) if (probe[k] === 0) k % 2 === 0 ? zeroEven++ : zeroOdd++
+  for (let k = 0; k < probe.length; k++) {
+    if (probe[k] !== 0) continue
+    if (k % 2 === 0) zeroEven++
+    else zeroOdd++
+  }
   const half = probe.length / 2
-  if (half >= 2 && zeroOdd > 0.3 * half && zeroEven < 0.05 * half) return { encoding: 'utf-16le', bomBytes: 0 }
-  if (half >= 2 && zeroEven > 0.3 * half && zeroOdd < 0.05 * half) return { encoding: 'utf-16be', bomBytes: 0 }
+  if (half >= 2 && zeroOdd > 0.3 * half && zeroEven < 0.05 * half)
+    return { encoding: 'utf-16le', bomBytes: 0 }
+  if (half >= 2 && zeroEven > 0.3 * half && zeroOdd < 0.05 * half)
+    return { encoding: 'utf-16be', bomBytes: 0 }
   if (isValidUtf8Prefix(head)) return { encoding: 'utf-8', bomBytes: 0 }
   const guess = jschardet.detect(head.subarray(0, 16 * 1024))
   const name = guess.encoding?.toLowerCase()
-  if (name && guess.confidence >= 0.8 && TRUSTED_DETECTIONS.has(name) && iconv.encodingExists(name)) return { encoding: name, bomBytes: 0 }
+  if (name && guess.confidence >= 0.8 && TRUSTED_DETECTIONS.has(name) && iconv.encodingExists(name))
+    return { encoding: name, bomBytes: 0 }
   // Excel on Windows in Western Europe and the Americas writes Windows-1252 (a superset of Latin-1's printable range).
   return { encoding: 'windows-1252', bomBytes: 0 }
 }
@@ -96,7 +131,10 @@ export function isValidUtf8Prefix(bytes: Buffer): boolean {
 }
 
 function decodeSample(body: Buffer, encoding: string, complete: boolean): string {
-  const text = encoding === 'utf-8' ? new TextDecoder('utf-8').decode(body, { stream: !complete }) : iconv.decode(body, encoding)
+  const text =
+    encoding === 'utf-8'
+      ? new TextDecoder('utf-8').decode(body, { stream: !complete })
+      : iconv.decode(body, encoding)
   if (complete) return text
   // Drop the last, probably cut, line.
   const lastBreak = Math.max(text.lastIndexOf('\n'), text.lastIndexOf('\r'))
@@ -147,9 +185,16 @@ function scoreDelimiter(text: string, delimiter: string): DelimiterScore | null 
 /** The delimiter that gives the header more than one column and the most rows of the same width. */
 export function guessDelimiter(text: string, ext: string): string {
   const preferred = ext === '.tsv' || ext === '.tab' ? '\t' : ','
-  const scores = DELIMITERS.map((d) => scoreDelimiter(text, d)).filter((s): s is DelimiterScore => s !== null && s.headerFields > 1)
+  const scores = DELIMITERS.map((d) => scoreDelimiter(text, d)).filter(
+    (s): s is DelimiterScore => s !== null && s.headerFields > 1,
+  )
   if (scores.length === 0) return preferred
-  scores.sort((a, b) => b.consistent - a.consistent || b.headerFields - a.headerFields || Number(b.delimiter === preferred) - Number(a.delimiter === preferred))
+  scores.sort(
+    (a, b) =>
+      b.consistent - a.consistent ||
+      b.headerFields - a.headerFields ||
+      Number(b.delimiter === preferred) - Number(a.delimiter === preferred),
+  )
   return scores[0].delimiter
 }
 

@@ -69,15 +69,31 @@ function syntaxToBadFile(error: CsvSyntaxError, intake: TableIntake, limits: Int
   const where = describeColumn(error.fieldIndex, name)
   switch (error.kind) {
     case 'unterminated-quote':
-      return badFile('UNTERMINATED_QUOTE', `Row ${row}, ${where}: a quoted value starts here but its closing quote never comes. Check the quotes in that row.`, { row, column: name, columnNumber: error.fieldIndex + 1 })
+      return badFile(
+        'UNTERMINATED_QUOTE',
+        `Row ${row}, ${where}: a quoted value starts here but its closing quote never comes. Check the quotes in that row.`,
+        { row, column: name, columnNumber: error.fieldIndex + 1 },
+      )
     case 'text-after-quote':
-      return badFile('TEXT_AFTER_QUOTE', `Row ${row}, ${where}: there is text after the closing quote of a quoted value. Inside quotes, write a quote as two quotes ("").`, { row, column: name, columnNumber: error.fieldIndex + 1 })
+      return badFile(
+        'TEXT_AFTER_QUOTE',
+        `Row ${row}, ${where}: there is text after the closing quote of a quoted value. Inside quotes, write a quote as two quotes ("").`,
+        { row, column: name, columnNumber: error.fieldIndex + 1 },
+      )
     case 'field-too-long':
       return intake.fieldTooLong(row, error.fieldIndex, Math.max(error.length, limits.maxFieldChars + 1))
     case 'too-many-fields':
       return row === 1
-        ? badFile('TOO_MANY_COLUMNS', `The header row has more than ${limits.maxColumns.toLocaleString('en-US')} columns, the most Nestwise accepts. Remove the columns you do not need and upload again.`, { row })
-        : badFile('RAGGED_ROW', `Row ${row} has more values than the header has columns. Check for an extra delimiter, or a value with a delimiter that should be in quotes.`, { row })
+        ? badFile(
+            'TOO_MANY_COLUMNS',
+            `The header row has more than ${limits.maxColumns.toLocaleString('en-US')} columns, the most Nestwise accepts. Remove the columns you do not need and upload again.`,
+            { row },
+          )
+        : badFile(
+            'RAGGED_ROW',
+            `Row ${row} has more values than the header has columns. Check for an extra delimiter, or a value with a delimiter that should be in quotes.`,
+            { row },
+          )
   }
 }
 
@@ -130,7 +146,12 @@ export async function storeCsv(
       intake.addRow(fields, recordNo)
       if (mode === 'parsed-rows' && !isHeader) {
         for (const field of fields) {
-          if (field.includes('\u0000')) throw badFile('BINARY_FILE', `Row ${recordNo} contains a NUL character: the file holds binary data, not only text.`, { row: recordNo })
+          if (field.includes('\u0000'))
+            throw badFile(
+              'BINARY_FILE',
+              `Row ${recordNo} contains a NUL character: the file holds binary data, not only text.`,
+              { row: recordNo },
+            )
         }
         encoded.push(encodeCopyTextRow(fields))
       }
@@ -156,7 +177,12 @@ export async function storeCsv(
   const flush = async () => {
     if (!state.copy && intake.columnNames) {
       await createRowsTable(trx, versionId, intake.columnNames.length)
-      const copy = await openCopyIn(trx, versionId, intake.columnNames.length, mode === 'original-bytes' ? { kind: 'csv', delimiter: sniff.delimiter } : { kind: 'text' })
+      const copy = await openCopyIn(
+        trx,
+        versionId,
+        intake.columnNames.length,
+        mode === 'original-bytes' ? { kind: 'csv', delimiter: sniff.delimiter } : { kind: 'text' },
+      )
       copy.on('error', (error: Error) => {
         state.copyError ??= error
       })
@@ -179,7 +205,9 @@ export async function storeCsv(
   }
 
   try {
-    for await (const chunk of createReadStream(path, { highWaterMark: 256 * 1024 }) as AsyncIterable<Buffer>) {
+    for await (const chunk of createReadStream(path, {
+      highWaterMark: 256 * 1024,
+    }) as AsyncIterable<Buffer>) {
       hash.update(chunk)
       bytesRead += chunk.length
       let bytes = chunk
@@ -205,7 +233,8 @@ export async function storeCsv(
     } catch (error) {
       throw error instanceof CsvSyntaxError ? syntaxToBadFile(error, intake, limits) : error
     }
-    if (mode === 'original-bytes' && tokenizer.fastPathBlocker) throw new FastPathBlocked(tokenizer.fastPathBlocker)
+    if (mode === 'original-bytes' && tokenizer.fastPathBlocker)
+      throw new FastPathBlocked(tokenizer.fastPathBlocker)
     const result = intake.finish()
     if (mode === 'parsed-rows' && encoded.length) pending.push(Buffer.from(encoded.join(''), 'utf8'))
     encoded = []
@@ -220,7 +249,8 @@ export async function storeCsv(
       })
     }
     if (state.copyError) {
-      if (mode === 'original-bytes') throw new FastPathBlocked(`PostgreSQL refused the file as it is: ${state.copyError.message}`)
+      if (mode === 'original-bytes')
+        throw new FastPathBlocked(`PostgreSQL refused the file as it is: ${state.copyError.message}`)
       throw state.copyError
     }
     if (stream.rowCount !== result.rowCount) {

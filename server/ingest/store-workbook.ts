@@ -31,11 +31,13 @@ export function cellText(value: ExcelJS.CellValue): string | null {
     return iso.endsWith('T00:00:00.000Z') ? iso.slice(0, 10) : iso.replace('.000Z', 'Z')
   }
   if (typeof value === 'object') {
-    if ('richText' in value && Array.isArray(value.richText)) return value.richText.map((part) => part.text).join('')
+    if ('richText' in value && Array.isArray(value.richText))
+      return value.richText.map((part) => part.text).join('')
     if ('error' in value) return null
     if ('result' in value) return cellText((value as { result?: ExcelJS.CellValue }).result ?? null)
     if ('formula' in value || 'sharedFormula' in value) return null
-    if ('text' in value) return typeof value.text === 'string' ? value.text : cellText(value.text as ExcelJS.CellValue)
+    if ('text' in value)
+      return typeof value.text === 'string' ? value.text : cellText(value.text as ExcelJS.CellValue)
   }
   return String(value)
 }
@@ -46,7 +48,10 @@ function pickSheet(names: string[], wanted: string | undefined): number {
   if (byName !== -1) return byName
   const number = Number(wanted)
   if (Number.isInteger(number) && number >= 1 && number <= names.length) return number - 1
-  throw badFile('SHEET_NOT_FOUND', `The workbook has no sheet "${wanted}". Its sheets are: ${names.map((n) => `"${n}"`).join(', ')}.`)
+  throw badFile(
+    'SHEET_NOT_FOUND',
+    `The workbook has no sheet "${wanted}". Its sheets are: ${names.map((n) => `"${n}"`).join(', ')}.`,
+  )
 }
 
 /**
@@ -74,7 +79,13 @@ export async function storeWorkbook(
     },
   })
   const source = createReadStream(path).pipe(counted)
-  const reader = new ExcelJS.stream.xlsx.WorkbookReader(source, { sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'ignore' })
+  const reader = new ExcelJS.stream.xlsx.WorkbookReader(source, {
+    sharedStrings: 'cache',
+    styles: 'cache',
+    hyperlinks: 'ignore',
+    worksheets: 'emit',
+    entries: 'ignore',
+  })
 
   const state: { copy: CopyIn | null; copyError: Error | null } = { copy: null, copyError: null }
   let sheetNames: string[] = []
@@ -147,9 +158,17 @@ export async function storeWorkbook(
       }
     } catch (error) {
       // Our own refusals and database errors pass through; anything else means exceljs could not read the file.
-      if ((error as { status?: number }).status || (error as { severity?: string }).severity || state.copyError) throw error
+      if (
+        (error as { status?: number }).status ||
+        (error as { severity?: string }).severity ||
+        state.copyError
+      )
+        throw error
       logger.warn('workbook could not be read', { versionId, err: error })
-      throw badFile('BROKEN_WORKBOOK', 'The workbook could not be read: it may be damaged or protected with a password. Open it in the spreadsheet program and save it again, or export the sheet as CSV.')
+      throw badFile(
+        'BROKEN_WORKBOOK',
+        'The workbook could not be read: it may be damaged or protected with a password. Open it in the spreadsheet program and save it again, or export the sheet as CSV.',
+      )
     }
     if (target === -1) throw badFile('BROKEN_WORKBOOK', 'The workbook has no sheets.')
     const result = intake.finish()
@@ -158,7 +177,8 @@ export async function storeWorkbook(
     if (!stream) throw new Error('no rows table was created')
     stream.end()
     await finished(stream)
-    if (stream.rowCount !== result.rowCount) throw new Error(`COPY stored ${stream.rowCount} rows where the sheet has ${result.rowCount}`)
+    if (stream.rowCount !== result.rowCount)
+      throw new Error(`COPY stored ${stream.rowCount} rows where the sheet has ${result.rowCount}`)
     return { intake: result, sha256: hash.digest('hex'), sheetName: sheetName!, sheetNames }
   } catch (error) {
     const open = state.copy

@@ -2,7 +2,13 @@ import { describe, expect, it } from 'vitest'
 import { AppError } from '../errors/app-error'
 import { TableIntake } from './table-intake'
 
-const limits = { maxColumns: 5, maxFieldChars: 20, maxNameChars: 30, naValues: ['', 'NA', 'NaN'], distinctCap: 4 }
+const limits = {
+  maxColumns: 5,
+  maxFieldChars: 20,
+  maxNameChars: 30,
+  naValues: ['', 'NA', 'NaN'],
+  distinctCap: 4,
+}
 
 function intakeOf(rows: (string | null)[][], decimalMark: '.' | ',' = '.') {
   const intake = new TableIntake(limits, decimalMark)
@@ -31,9 +37,26 @@ describe('TableIntake', () => {
     ])
     expect(result.rowCount).toBe(4)
     const [animal, length, count, note] = result.profiles
-    expect(animal).toMatchObject({ type: 'text', distinctCount: 2, missingCount: 0, min: null, topValues: [{ value: 'm1', count: 2 }, { value: 'm2', count: 2 }] })
+    expect(animal).toMatchObject({
+      type: 'text',
+      distinctCount: 2,
+      missingCount: 0,
+      min: null,
+      topValues: [
+        { value: 'm1', count: 2 },
+        { value: 'm2', count: 2 },
+      ],
+    })
     // mean of 1.5, 2.5, 3.5 = 2.5; sample SD = 1 (by hand)
-    expect(length).toMatchObject({ type: 'numeric', missingCount: 1, distinctCount: 3, min: 1.5, max: 3.5, mean: 2.5, sd: 1 })
+    expect(length).toMatchObject({
+      type: 'numeric',
+      missingCount: 1,
+      distinctCount: 3,
+      min: 1.5,
+      max: 3.5,
+      mean: 2.5,
+      sd: 1,
+    })
     expect(count).toMatchObject({ type: 'integer', missingCount: 1, min: 3, max: 5, mean: 4 })
     expect(note).toMatchObject({ type: 'text', missingCount: 2, distinctCount: 2 })
     expect(result.codes[0]!.labels).toEqual(['m1', 'm2'])
@@ -45,34 +68,71 @@ describe('TableIntake', () => {
       [['v'], ['1,5'], ['2,5'], ['3,5'], ['4,5'], ['5,5'], ['6,5']].map((r) => r),
       ',',
     )
-    expect(result.profiles[0]).toMatchObject({ type: 'numeric', min: 1.5, max: 6.5, distinctCount: 4, distinctCapped: true, topValues: null })
+    expect(result.profiles[0]).toMatchObject({
+      type: 'numeric',
+      min: 1.5,
+      max: 6.5,
+      distinctCount: 4,
+      distinctCapped: true,
+      topValues: null,
+    })
     expect(result.codes[0]).toBeNull()
   })
 
   it('refuses blank, duplicate, over-long names and too many columns, naming the column', () => {
     expect(refusal([['a', ' ', 'c']]).message).toContain('Column 2 has no name')
     expect(refusal([['a', 'b', 'a']]).message).toContain('Columns 1 and 3 are both named "a"')
-    expect(refusal([['a', 'x'.repeat(31)]]).details).toMatchObject({ reason: 'NAME_TOO_LONG', columnNumber: 2 })
+    expect(refusal([['a', 'x'.repeat(31)]]).details).toMatchObject({
+      reason: 'NAME_TOO_LONG',
+      columnNumber: 2,
+    })
     expect(refusal([['a', 'b', 'c', 'd', 'e', 'f']]).details).toMatchObject({ reason: 'TOO_MANY_COLUMNS' })
   })
 
   it('names row and column for ragged rows, blank rows and over-long values', () => {
-    const short = refusal([['a', 'b', 'c'], ['1', '2', '3'], ['4', '5']])
+    const short = refusal([
+      ['a', 'b', 'c'],
+      ['1', '2', '3'],
+      ['4', '5'],
+    ])
     expect(short.message).toContain('Row 3 has 2 values, but the header names 3 columns')
     expect(short.message).toContain('column 3 ("c")')
-    expect(refusal([['a', 'b'], ['1', '2', '3']]).details).toMatchObject({ reason: 'RAGGED_ROW', row: 2 })
+    expect(
+      refusal([
+        ['a', 'b'],
+        ['1', '2', '3'],
+      ]).details,
+    ).toMatchObject({ reason: 'RAGGED_ROW', row: 2 })
     expect(refusal([['a', 'b'], ['1', '2'], ['']]).details).toMatchObject({ reason: 'BLANK_ROW', row: 3 })
-    expect(refusal([['a', 'b'], ['1', 'y'.repeat(21)]]).message).toContain('Row 2, column 2 ("b"): the value is 21 characters long')
+    expect(
+      refusal([
+        ['a', 'b'],
+        ['1', 'y'.repeat(21)],
+      ]).message,
+    ).toContain('Row 2, column 2 ("b"): the value is 21 characters long')
   })
 
   it('refuses empty files, header-only files, a single row, and numbers that overflow', () => {
     expect(refusal([]).details).toMatchObject({ reason: 'EMPTY_FILE' })
     expect(refusal([['a', 'b']]).details).toMatchObject({ reason: 'HEADER_ONLY' })
-    const one = refusal([['a', 'b'], ['1', '2']])
+    const one = refusal([
+      ['a', 'b'],
+      ['1', '2'],
+    ])
     expect(one.status).toBe(422)
-    const overflow = refusal([['a', 'b'], ['1', '2'], ['2', '1e400']])
+    const overflow = refusal([
+      ['a', 'b'],
+      ['1', '2'],
+      ['2', '1e400'],
+    ])
     expect(overflow.message).toContain('Row 3, column 2 ("b"): 1e400 is too large')
     // In a text column the same characters are just text.
-    expect(intakeOf([['a', 'b'], ['x', 'y'], ['1e400', 'z']]).profiles[0].type).toBe('text')
+    expect(
+      intakeOf([
+        ['a', 'b'],
+        ['x', 'y'],
+        ['1e400', 'z'],
+      ]).profiles[0].type,
+    ).toBe('text')
   })
 })

@@ -38,7 +38,11 @@ export class TableIntake {
     private readonly limits: IntakeLimits,
     decimalMark: DecimalMark,
   ) {
-    this.profilerOptions = { decimalMark, naValues: new Set(limits.naValues), distinctCap: limits.distinctCap }
+    this.profilerOptions = {
+      decimalMark,
+      naValues: new Set(limits.naValues),
+      distinctCap: limits.distinctCap,
+    }
   }
 
   /** `row` is the 1-based row number of these values in the file. Cells may be null (an empty spreadsheet cell). */
@@ -62,7 +66,11 @@ export class TableIntake {
   private acceptHeader(values: readonly (string | null)[]): void {
     const { maxColumns, maxNameChars } = this.limits
     if (values.length > maxColumns) {
-      throw badFile('TOO_MANY_COLUMNS', `The header row has ${formatCount(values.length)} columns; Nestwise accepts at most ${formatCount(maxColumns)}. Remove the columns you do not need and upload again.`, { row: 1 })
+      throw badFile(
+        'TOO_MANY_COLUMNS',
+        `The header row has ${formatCount(values.length)} columns; Nestwise accepts at most ${formatCount(maxColumns)}. Remove the columns you do not need and upload again.`,
+        { row: 1 },
+      )
     }
     const names: string[] = []
     const firstIndex = new Map<string, number>()
@@ -79,11 +87,19 @@ export class TableIntake {
         )
       }
       if (name.length > maxNameChars) {
-        throw badFile('NAME_TOO_LONG', `The name of column ${k + 1} is ${formatCount(name.length)} characters long; names can have at most ${maxNameChars}. Is row 1 really the header?`, { row: 1, columnNumber: k + 1 })
+        throw badFile(
+          'NAME_TOO_LONG',
+          `The name of column ${k + 1} is ${formatCount(name.length)} characters long; names can have at most ${maxNameChars}. Is row 1 really the header?`,
+          { row: 1, columnNumber: k + 1 },
+        )
       }
       const earlier = firstIndex.get(name)
       if (earlier !== undefined) {
-        throw badFile('DUPLICATE_HEADER', `Columns ${earlier + 1} and ${k + 1} are both named "${name}". Give each column its own name and upload again.`, { row: 1, column: name, columnNumber: k + 1 })
+        throw badFile(
+          'DUPLICATE_HEADER',
+          `Columns ${earlier + 1} and ${k + 1} are both named "${name}". Give each column its own name and upload again.`,
+          { row: 1, column: name, columnNumber: k + 1 },
+        )
       }
       firstIndex.set(name, k)
       names.push(name)
@@ -95,7 +111,9 @@ export class TableIntake {
   private raggedRow(values: readonly (string | null)[], row: number): never {
     const expected = this.columnNames!.length
     if (values.length === 1 && (values[0] ?? '') === '') {
-      throw badFile('BLANK_ROW', `Row ${row} is empty. Remove empty lines between rows and upload again.`, { row })
+      throw badFile('BLANK_ROW', `Row ${row} is empty. Remove empty lines between rows and upload again.`, {
+        row,
+      })
     }
     const valuesWord = values.length === 1 ? 'value' : 'values'
     throw badFile(
@@ -120,10 +138,17 @@ export class TableIntake {
   finish(): IntakeResult {
     if (this.columnNames === null) throw badFile('EMPTY_FILE', 'The file is empty.')
     if (this.dataRows === 0) {
-      throw badFile('HEADER_ONLY', `The file has a header row (${this.columnNames.length} columns) but no data rows.`, { row: 1 })
+      throw badFile(
+        'HEADER_ONLY',
+        `The file has a header row (${this.columnNames.length} columns) but no data rows.`,
+        { row: 1 },
+      )
     }
     if (this.dataRows === 1) {
-      throw thinFile('ONE_ROW', 'The file has only one data row. Nestwise needs many observations per unit to say anything about variation; upload the full table.')
+      throw thinFile(
+        'ONE_ROW',
+        'The file has only one data row. Nestwise needs many observations per unit to say anything about variation; upload the full table.',
+      )
     }
     for (const profiler of this.profilers) {
       const overflow = profiler.overflow

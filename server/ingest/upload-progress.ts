@@ -4,7 +4,9 @@ type Phase = UploadProgress['phase']
 
 /** Where ingest reports how far it got; the HTTP layer shows it to the uploader while the request runs. */
 export interface ProgressSink {
-  update(change: Partial<Pick<UploadProgress, 'phase' | 'bytesRead' | 'bytesTotal' | 'rowsStored' | 'message'>>): void
+  update(
+    change: Partial<Pick<UploadProgress, 'phase' | 'bytesRead' | 'bytesTotal' | 'rowsStored' | 'message'>>,
+  ): void
 }
 
 export const noProgress: ProgressSink = { update: () => {} }
@@ -51,10 +53,20 @@ export class UploadProgressRegistry {
     return this.entries.get(keyOf(token, userId))?.progress ?? null
   }
 
-  finish(token: string, userId: number, phase: Extract<Phase, 'done' | 'failed'>, message: string | null = null): void {
+  finish(
+    token: string,
+    userId: number,
+    phase: Extract<Phase, 'done' | 'failed'>,
+    message: string | null = null,
+  ): void {
     const entry = this.entries.get(keyOf(token, userId))
     if (!entry) return
-    entry.progress = { ...entry.progress, phase, message, bytesRead: phase === 'done' ? entry.progress.bytesTotal : entry.progress.bytesRead }
+    entry.progress = {
+      ...entry.progress,
+      phase,
+      message,
+      bytesRead: phase === 'done' ? entry.progress.bytesTotal : entry.progress.bytesRead,
+    }
     entry.touchedAt = Date.now()
   }
 
@@ -62,7 +74,8 @@ export class UploadProgressRegistry {
     const now = Date.now()
     for (const [token, entry] of this.entries) {
       const finished = entry.progress.phase === 'done' || entry.progress.phase === 'failed'
-      if (now - entry.touchedAt > (finished ? KEEP_FINISHED_MS : KEEP_UNFINISHED_MS)) this.entries.delete(token)
+      if (now - entry.touchedAt > (finished ? KEEP_FINISHED_MS : KEEP_UNFINISHED_MS))
+        this.entries.delete(token)
     }
   }
 }

@@ -6,7 +6,10 @@ describe('Utf8Chunks', () => {
     const bytes = Buffer.from('µm;é;😀;a')
     for (let cut = 0; cut <= bytes.length; cut++) {
       const decoder = new Utf8Chunks()
-      const text = (decoder.write(bytes.subarray(0, cut)) ?? 'X') + (decoder.write(bytes.subarray(cut)) ?? 'X') + (decoder.end() ?? 'X')
+      const text =
+        (decoder.write(bytes.subarray(0, cut)) ?? 'X') +
+        (decoder.write(bytes.subarray(cut)) ?? 'X') +
+        (decoder.end() ?? 'X')
       expect(text).toBe('µm;é;😀;a')
     }
   })

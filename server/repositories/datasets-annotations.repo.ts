@@ -30,10 +30,20 @@ function toTagging(row: TaggingRow): Tagging {
   }
 }
 
-const taggingQuery = (conn: Conn) => conn('dataset_taggings as t').join('users as u', 'u.id', 't.created_by').select('t.*', 'u.name as creator_name')
+const taggingQuery = (conn: Conn) =>
+  conn('dataset_taggings as t')
+    .join('users as u', 'u.id', 't.created_by')
+    .select('t.*', 'u.name as creator_name')
 
 export async function insertTagging(
-  values: { versionId: number; responseColumns: string[]; conditionColumn: string | null; levels: string[]; carriedOver: boolean; createdBy: number },
+  values: {
+    versionId: number
+    responseColumns: string[]
+    conditionColumn: string | null
+    levels: string[]
+    carriedOver: boolean
+    createdBy: number
+  },
   conn: Conn = defaultConn,
 ): Promise<number> {
   const [row] = await conn('dataset_taggings')
@@ -50,7 +60,10 @@ export async function insertTagging(
 }
 
 export async function currentTagging(versionId: number, conn: Conn = defaultConn): Promise<Tagging | null> {
-  const row: TaggingRow | undefined = await taggingQuery(conn).where('t.version_id', versionId).orderBy('t.id', 'desc').first()
+  const row: TaggingRow | undefined = await taggingQuery(conn)
+    .where('t.version_id', versionId)
+    .orderBy('t.id', 'desc')
+    .first()
   return row ? toTagging(row) : null
 }
 
@@ -100,7 +113,15 @@ const exclusionQuery = (conn: Conn) =>
     .select('e.*', 'u.name as creator_name', 'r.name as remover_name')
 
 export async function insertExclusion(
-  values: { versionId: number; kind: 'rule' | 'unit'; rule: ExclusionRule | null; unit: ExclusionUnit | null; reason: string; matchedRows: number; createdBy: number },
+  values: {
+    versionId: number
+    kind: 'rule' | 'unit'
+    rule: ExclusionRule | null
+    unit: ExclusionUnit | null
+    reason: string
+    matchedRows: number
+    createdBy: number
+  },
   conn: Conn = defaultConn,
 ): Promise<number> {
   const [row] = await conn('dataset_exclusions')
@@ -124,15 +145,31 @@ export async function listExclusions(versionId: number, conn: Conn = defaultConn
 }
 
 export async function activeExclusions(versionId: number, conn: Conn = defaultConn): Promise<Exclusion[]> {
-  const rows: ExclusionRow[] = await exclusionQuery(conn).where('e.version_id', versionId).whereNull('e.removed_at').orderBy('e.id')
+  const rows: ExclusionRow[] = await exclusionQuery(conn)
+    .where('e.version_id', versionId)
+    .whereNull('e.removed_at')
+    .orderBy('e.id')
   return rows.map(toExclusion)
 }
 
-export async function findExclusion(versionId: number, id: number, conn: Conn = defaultConn): Promise<Exclusion | undefined> {
-  const row: ExclusionRow | undefined = await exclusionQuery(conn).where({ 'e.version_id': versionId, 'e.id': id }).first()
+export async function findExclusion(
+  versionId: number,
+  id: number,
+  conn: Conn = defaultConn,
+): Promise<Exclusion | undefined> {
+  const row: ExclusionRow | undefined = await exclusionQuery(conn)
+    .where({ 'e.version_id': versionId, 'e.id': id })
+    .first()
   return row ? toExclusion(row) : undefined
 }
 
-export async function markExclusionRemoved(id: number, removedBy: number, conn: Conn = defaultConn): Promise<void> {
-  await conn('dataset_exclusions').where({ id }).whereNull('removed_at').update({ removed_at: conn.fn.now(), removed_by: removedBy })
+export async function markExclusionRemoved(
+  id: number,
+  removedBy: number,
+  conn: Conn = defaultConn,
+): Promise<void> {
+  await conn('dataset_exclusions')
+    .where({ id })
+    .whereNull('removed_at')
+    .update({ removed_at: conn.fn.now(), removed_by: removedBy })
 }

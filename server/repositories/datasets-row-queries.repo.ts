@@ -37,7 +37,14 @@ export function numberSql(shape: RowTableShape, position: number): string {
   return `(CASE WHEN ${t} ~ '${numberPatternSql(shape.decimalMark)}' THEN replace(${t}, ',', '.')::numeric END)`
 }
 
-const COMPARISON: Record<Exclude<ExclusionRule['operator'], 'missing'>, string> = { eq: '=', ne: '<>', lt: '<', le: '<=', gt: '>', ge: '>=' }
+const COMPARISON: Record<Exclude<ExclusionRule['operator'], 'missing'>, string> = {
+  eq: '=',
+  ne: '<>',
+  lt: '<',
+  le: '<=',
+  gt: '>',
+  ge: '>=',
+}
 
 const isNumericType = (type: ColumnType) => type === 'integer' || type === 'numeric'
 
@@ -71,23 +78,41 @@ export function unitSql(shape: RowTableShape, unit: ExclusionUnit): string {
   return `(${parts.join(' AND ')})`
 }
 
-export function exclusionSql(shape: RowTableShape, exclusion: Pick<Exclusion, 'kind' | 'rule' | 'unit'>): string {
+export function exclusionSql(
+  shape: RowTableShape,
+  exclusion: Pick<Exclusion, 'kind' | 'rule' | 'unit'>,
+): string {
   return exclusion.kind === 'rule' ? ruleSql(shape, exclusion.rule!) : unitSql(shape, exclusion.unit!)
 }
 
 /** True for rows any of the exclusions leaves out ("false" when there are none). */
-export function excludedSql(shape: RowTableShape, exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[]): string {
+export function excludedSql(
+  shape: RowTableShape,
+  exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
+): string {
   if (!exclusions.length) return 'false'
   return `(${exclusions.map((e) => `coalesce(${exclusionSql(shape, e)}, false)`).join(' OR ')})`
 }
 
-export async function countRowsWhere(shape: RowTableShape, predicate: string, conn: Conn = defaultConn): Promise<number> {
-  const [row] = await queryBuilt<{ n: string }>(`SELECT count(*)::bigint AS n FROM ${rowsTable(shape.versionId)} WHERE ${predicate}`, conn)
+export async function countRowsWhere(
+  shape: RowTableShape,
+  predicate: string,
+  conn: Conn = defaultConn,
+): Promise<number> {
+  const [row] = await queryBuilt<{ n: string }>(
+    `SELECT count(*)::bigint AS n FROM ${rowsTable(shape.versionId)} WHERE ${predicate}`,
+    conn,
+  )
   return Number(row.n)
 }
 
 /** First kept row whose cell is present but not a number, for "row 57 holds 'abc'" messages. */
-export async function firstNonNumberRow(shape: RowTableShape, position: number, excluded: string, conn: Conn = defaultConn): Promise<{ rowNo: number; value: string } | null> {
+export async function firstNonNumberRow(
+  shape: RowTableShape,
+  position: number,
+  excluded: string,
+  conn: Conn = defaultConn,
+): Promise<{ rowNo: number; value: string } | null> {
   const c = cellColumn(position)
   const [row] = await queryBuilt<{ row_no: string; value: string }>(
     `SELECT row_no, ${c} AS value FROM ${rowsTable(shape.versionId)}
@@ -119,7 +144,11 @@ export interface PageRow {
  * One page of rows in file order or sorted by a column (numbers numerically, missing last), with
  * the exclusions that leave each row out. Unsorted pages of all rows use the row_no range directly.
  */
-export async function pageRows(shape: RowTableShape, page: PageRequest, conn: Conn = defaultConn): Promise<PageRow[]> {
+export async function pageRows(
+  shape: RowTableShape,
+  page: PageRequest,
+  conn: Conn = defaultConn,
+): Promise<PageRow[]> {
   const table = rowsTable(shape.versionId)
   const cells = Array.from({ length: page.columnCount }, (_, k) => cellColumn(k + 1)).join(', ')
   const excluded = excludedSql(shape, page.exclusions)
@@ -135,11 +164,16 @@ export async function pageRows(shape: RowTableShape, page: PageRequest, conn: Co
     order = `${key} ${direction} NULLS LAST, row_no ${direction}`
   } else if (page.show === 'all') {
     // row_no is 1…N without gaps (rows are never deleted), so a page is a range.
-    where = page.sortDesc ? `row_no <= (SELECT max(row_no) FROM ${table}) - ${page.offset}` : `row_no > ${page.offset}`
+    where = page.sortDesc
+      ? `row_no <= (SELECT max(row_no) FROM ${table}) - ${page.offset}`
+      : `row_no > ${page.offset}`
     order = page.sortDesc ? 'row_no DESC' : 'row_no'
     limit = `LIMIT ${page.limit}`
   } else if (page.sortDesc) order = 'row_no DESC'
-  const rows = await queryBuilt<Record<string, unknown>>(`SELECT row_no, ${cells}, ${excludedBy} AS excluded_by FROM ${table} WHERE ${where} ORDER BY ${order} ${limit}`, conn)
+  const rows = await queryBuilt<Record<string, unknown>>(
+    `SELECT row_no, ${cells}, ${excludedBy} AS excluded_by FROM ${table} WHERE ${where} ORDER BY ${order} ${limit}`,
+    conn,
+  )
   return rows.map((row) => ({
     rowNo: Number(row.row_no),
     values: Array.from({ length: page.columnCount }, (_, k) => row[cellColumn(k + 1)] as string | null),
@@ -151,7 +185,12 @@ export async function pageRows(shape: RowTableShape, page: PageRequest, conn: Co
  * The SELECT for read-back: row_no then the asked cells, kept rows only. Unordered, it relies on
  * the physical order (see readInFileOrder); ordered, it sorts by row_no.
  */
-export function readBackSelect(shape: RowTableShape, positions: readonly number[], excluded: string, ordered: boolean): string {
+export function readBackSelect(
+  shape: RowTableShape,
+  positions: readonly number[],
+  excluded: string,
+  ordered: boolean,
+): string {
   const cells = positions.map((p) => cellColumn(p)).join(', ')
   return `SELECT row_no, ${cells} FROM ${rowsTable(shape.versionId)} WHERE NOT ${excluded}${ordered ? ' ORDER BY row_no' : ''}`
 }

@@ -27,10 +27,16 @@ async function transactionClient(trx: Knex.Transaction): Promise<pg.PoolClient> 
   return (await trx.client.acquireConnection()) as pg.PoolClient
 }
 
-export async function createRowsTable(trx: Knex.Transaction, versionId: number, columnCount: number): Promise<void> {
+export async function createRowsTable(
+  trx: Knex.Transaction,
+  versionId: number,
+  columnCount: number,
+): Promise<void> {
   const columns = Array.from({ length: columnCount }, (_, k) => `${cellColumn(k + 1)} text`).join(', ')
   // Identity cache: fewer sequence updates while COPY numbers a million rows.
-  await trx.raw(`CREATE TABLE ${rowsTable(versionId)} (row_no bigint GENERATED ALWAYS AS IDENTITY (CACHE 1000), ${columns})`)
+  await trx.raw(
+    `CREATE TABLE ${rowsTable(versionId)} (row_no bigint GENERATED ALWAYS AS IDENTITY (CACHE 1000), ${columns})`,
+  )
 }
 
 /**
@@ -50,7 +56,9 @@ export async function listUnindexedRowsTables(conn: Conn = defaultConn): Promise
      WHERE t.schemaname = current_schema() AND t.tablename ~ '^dataset_rows_[0-9]+$'
        AND NOT EXISTS (SELECT 1 FROM pg_indexes i WHERE i.schemaname = t.schemaname AND i.tablename = t.tablename)`,
   )
-  return (result.rows as { tablename: string }[]).map((r) => Number(r.tablename.slice('dataset_rows_'.length)))
+  return (result.rows as { tablename: string }[]).map((r) =>
+    Number(r.tablename.slice('dataset_rows_'.length)),
+  )
 }
 
 export async function dropRowsTable(conn: Conn, versionId: number): Promise<void> {
@@ -66,9 +74,16 @@ export type CopyInFormat = { kind: 'csv'; delimiter: string } | { kind: 'text' }
  * bytes (UTF-8), header line skipped by PostgreSQL. Text: rows we encoded ourselves.
  * Destroying the stream before it finishes makes PostgreSQL abandon the COPY.
  */
-export async function openCopyIn(trx: Knex.Transaction, versionId: number, columnCount: number, format: CopyInFormat): Promise<Writable & { rowCount: number }> {
+export async function openCopyIn(
+  trx: Knex.Transaction,
+  versionId: number,
+  columnCount: number,
+  format: CopyInFormat,
+): Promise<Writable & { rowCount: number }> {
   const options =
-    format.kind === 'csv' ? `FORMAT csv, HEADER true, DELIMITER ${sqlLiteral(format.delimiter)}, ENCODING 'UTF8'` : `FORMAT text, ENCODING 'UTF8'`
+    format.kind === 'csv'
+      ? `FORMAT csv, HEADER true, DELIMITER ${sqlLiteral(format.delimiter)}, ENCODING 'UTF8'`
+      : `FORMAT text, ENCODING 'UTF8'`
   const sql = `COPY ${rowsTable(versionId)} (${columnList(columnCount)}) FROM STDIN (${options})`
   const client = await transactionClient(trx)
   return client.query(copyFrom(sql))
@@ -77,7 +92,9 @@ export async function openCopyIn(trx: Knex.Transaction, versionId: number, colum
 /** Runs `work` on the node-postgres client behind `conn` (the transaction's own, or one from the pool). */
 async function withClient<T>(conn: Conn, work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
   const isTransaction = 'isTransaction' in conn && (conn as Knex.Transaction).isTransaction
-  const client = isTransaction ? await transactionClient(conn as Knex.Transaction) : ((await conn.client.acquireConnection()) as pg.PoolClient)
+  const client = isTransaction
+    ? await transactionClient(conn as Knex.Transaction)
+    : ((await conn.client.acquireConnection()) as pg.PoolClient)
   try {
     return await work(client)
   } finally {
@@ -98,7 +115,11 @@ export async function queryBuilt<T>(sql: string, conn: Conn = defaultConn): Prom
  * Streams `COPY (<select>) TO STDOUT` in text format to `consume`. The select is built by the caller
  * from integer-derived identifiers and escaped literals only (COPY takes no bind parameters).
  */
-export async function copyOut(select: string, consume: (stream: Readable) => Promise<void>, conn: Conn = defaultConn): Promise<void> {
+export async function copyOut(
+  select: string,
+  consume: (stream: Readable) => Promise<void>,
+  conn: Conn = defaultConn,
+): Promise<void> {
   await withClient(conn, (client) => consume(client.query(copyTo(`COPY (${select}) TO STDOUT`))))
 }
 
@@ -108,7 +129,10 @@ export async function copyOut(select: string, consume: (stream: Readable) => Pro
  * joining another scan midway (synchronize_seqscans) or splitting across workers. This spares
  * sorting a million rows. The caller still checks row_no rises and falls back to ORDER BY if not.
  */
-export async function inPhysicalOrder<T>(work: (trx: Knex.Transaction) => Promise<T>, conn: Conn = defaultConn): Promise<T> {
+export async function inPhysicalOrder<T>(
+  work: (trx: Knex.Transaction) => Promise<T>,
+  conn: Conn = defaultConn,
+): Promise<T> {
   return conn.transaction(async (trx) => {
     await trx.raw('SET LOCAL synchronize_seqscans = off')
     await trx.raw('SET LOCAL max_parallel_workers_per_gather = 0')
@@ -118,6 +142,10 @@ export async function inPhysicalOrder<T>(work: (trx: Knex.Transaction) => Promis
 
 /** Row-table names present in the schema, for the startup sweep. */
 export async function listRowsTables(conn: Conn = defaultConn): Promise<number[]> {
-  const result = await conn.raw(`SELECT tablename FROM pg_tables WHERE schemaname = current_schema() AND tablename ~ '^dataset_rows_[0-9]+$'`)
-  return (result.rows as { tablename: string }[]).map((r) => Number(r.tablename.slice('dataset_rows_'.length)))
+  const result = await conn.raw(
+    `SELECT tablename FROM pg_tables WHERE schemaname = current_schema() AND tablename ~ '^dataset_rows_[0-9]+$'`,
+  )
+  return (result.rows as { tablename: string }[]).map((r) =>
+    Number(r.tablename.slice('dataset_rows_'.length)),
+  )
 }

@@ -1,4 +1,9 @@
-import type { ColumnProfile, DatasetSummary, DatasetVersionSummary, NestingSuggestion } from '../../shared/schemas/datasets'
+import type {
+  ColumnProfile,
+  DatasetSummary,
+  DatasetVersionSummary,
+  NestingSuggestion,
+} from '../../shared/schemas/datasets'
 import { defaultConn, type Conn } from './connection'
 
 /** A dataset row with the names the API shows next to it. */
@@ -41,7 +46,11 @@ function toDataset(row: DatasetJoinRow): DatasetRecord {
 }
 
 function datasetQuery(conn: Conn) {
-  const versionCounts = conn('dataset_versions').select('dataset_id').count('* as version_count').groupBy('dataset_id').as('vc')
+  const versionCounts = conn('dataset_versions')
+    .select('dataset_id')
+    .count('* as version_count')
+    .groupBy('dataset_id')
+    .as('vc')
   return conn('datasets as d')
     .join('labs as l', 'l.id', 'd.lab_id')
     .join('projects as p', 'p.id', 'd.project_id')
@@ -75,8 +84,14 @@ export interface DatasetFilter {
   deleted: boolean
 }
 
-export async function listDatasets(filter: DatasetFilter, conn: Conn = defaultConn): Promise<DatasetRecord[]> {
-  const query = datasetQuery(conn).orderBy([{ column: 'd.updated_at', order: 'desc' }, { column: 'd.id', order: 'desc' }])
+export async function listDatasets(
+  filter: DatasetFilter,
+  conn: Conn = defaultConn,
+): Promise<DatasetRecord[]> {
+  const query = datasetQuery(conn).orderBy([
+    { column: 'd.updated_at', order: 'desc' },
+    { column: 'd.id', order: 'desc' },
+  ])
   if (filter.labIds !== 'all') query.whereIn('d.lab_id', filter.labIds)
   if (filter.projectId !== undefined) query.where('d.project_id', filter.projectId)
   if (filter.deleted) query.whereNotNull('d.deleted_at')
@@ -90,12 +105,22 @@ export async function insertDataset(
   conn: Conn = defaultConn,
 ): Promise<number> {
   const [row] = await conn('datasets')
-    .insert({ lab_id: values.labId, project_id: values.projectId, name: values.name, description: values.description, created_by: values.createdBy })
+    .insert({
+      lab_id: values.labId,
+      project_id: values.projectId,
+      name: values.name,
+      description: values.description,
+      created_by: values.createdBy,
+    })
     .returning('id')
   return row.id
 }
 
-export async function updateDataset(id: number, changes: { name?: string; description?: string; projectId?: number }, conn: Conn = defaultConn): Promise<void> {
+export async function updateDataset(
+  id: number,
+  changes: { name?: string; description?: string; projectId?: number },
+  conn: Conn = defaultConn,
+): Promise<void> {
   const row: Record<string, unknown> = { updated_at: conn.fn.now() }
   if (changes.name !== undefined) row.name = changes.name
   if (changes.description !== undefined) row.description = changes.description
@@ -103,16 +128,27 @@ export async function updateDataset(id: number, changes: { name?: string; descri
   await conn('datasets').where({ id }).update(row)
 }
 
-export async function setDatasetDeleted(id: number, deletedBy: number | null, conn: Conn = defaultConn): Promise<void> {
+export async function setDatasetDeleted(
+  id: number,
+  deletedBy: number | null,
+  conn: Conn = defaultConn,
+): Promise<void> {
   await conn('datasets')
     .where({ id })
-    .update(deletedBy === null ? { deleted_at: null, deleted_by: null } : { deleted_at: conn.fn.now(), deleted_by: deletedBy })
+    .update(
+      deletedBy === null
+        ? { deleted_at: null, deleted_by: null }
+        : { deleted_at: conn.fn.now(), deleted_by: deletedBy },
+    )
 }
 
 /** Locks the dataset row so two uploads of a new version cannot take the same number. */
 export async function lockDatasetForNewVersion(id: number, conn: Conn): Promise<number> {
   await conn('datasets').where({ id }).forUpdate().first('id')
-  const row = await conn('dataset_versions').where({ dataset_id: id }).max<{ max: number | null }>('version_no as max').first()
+  const row = await conn('dataset_versions')
+    .where({ dataset_id: id })
+    .max<{ max: number | null }>('version_no as max')
+    .first()
   return (row?.max ?? 0) + 1
 }
 
@@ -171,10 +207,20 @@ function toVersion(row: VersionRow): VersionRecord {
   }
 }
 
-const versionQuery = (conn: Conn) => conn('dataset_versions as v').join('users as u', 'u.id', 'v.created_by').select('v.*', 'u.name as creator_name')
+const versionQuery = (conn: Conn) =>
+  conn('dataset_versions as v')
+    .join('users as u', 'u.id', 'v.created_by')
+    .select('v.*', 'u.name as creator_name')
 
 export async function insertVersion(
-  values: { datasetId: number; versionNo: number; originalFilename: string; byteSize: number; naValues: string[]; createdBy: number },
+  values: {
+    datasetId: number
+    versionNo: number
+    originalFilename: string
+    byteSize: number
+    naValues: string[]
+    createdBy: number
+  },
   conn: Conn = defaultConn,
 ): Promise<number> {
   // Placeholder hash and type until ingest has read the file; the same transaction fills them in.
@@ -211,7 +257,11 @@ export interface IngestedVersion {
   ingestMs: number
 }
 
-export async function completeVersion(id: number, values: IngestedVersion, conn: Conn = defaultConn): Promise<void> {
+export async function completeVersion(
+  id: number,
+  values: IngestedVersion,
+  conn: Conn = defaultConn,
+): Promise<void> {
   await conn('dataset_versions')
     .where({ id })
     .update({
@@ -231,41 +281,69 @@ export async function completeVersion(id: number, values: IngestedVersion, conn:
     })
 }
 
-export async function findVersion(datasetId: number, versionNo: number, conn: Conn = defaultConn): Promise<VersionRecord | undefined> {
-  const row: VersionRow | undefined = await versionQuery(conn).where({ 'v.dataset_id': datasetId, 'v.version_no': versionNo }).first()
+export async function findVersion(
+  datasetId: number,
+  versionNo: number,
+  conn: Conn = defaultConn,
+): Promise<VersionRecord | undefined> {
+  const row: VersionRow | undefined = await versionQuery(conn)
+    .where({ 'v.dataset_id': datasetId, 'v.version_no': versionNo })
+    .first()
   return row ? toVersion(row) : undefined
 }
 
-export async function findVersionById(id: number, conn: Conn = defaultConn): Promise<VersionRecord | undefined> {
+export async function findVersionById(
+  id: number,
+  conn: Conn = defaultConn,
+): Promise<VersionRecord | undefined> {
   const row: VersionRow | undefined = await versionQuery(conn).where('v.id', id).first()
   return row ? toVersion(row) : undefined
 }
 
 export async function listVersions(datasetId: number, conn: Conn = defaultConn): Promise<VersionRecord[]> {
-  const rows: VersionRow[] = await versionQuery(conn).where('v.dataset_id', datasetId).orderBy('v.version_no', 'desc')
+  const rows: VersionRow[] = await versionQuery(conn)
+    .where('v.dataset_id', datasetId)
+    .orderBy('v.version_no', 'desc')
   return rows.map(toVersion)
 }
 
 /** Newest version of each dataset, for list pages (one query). */
-export async function latestVersions(datasetIds: number[], conn: Conn = defaultConn): Promise<Map<number, VersionRecord>> {
+export async function latestVersions(
+  datasetIds: number[],
+  conn: Conn = defaultConn,
+): Promise<Map<number, VersionRecord>> {
   if (!datasetIds.length) return new Map()
   const rows: VersionRow[] = await versionQuery(conn)
     .whereIn('v.dataset_id', datasetIds)
-    .whereRaw('v.version_no = (select max(version_no) from dataset_versions x where x.dataset_id = v.dataset_id)')
+    .whereRaw(
+      'v.version_no = (select max(version_no) from dataset_versions x where x.dataset_id = v.dataset_id)',
+    )
   return new Map(rows.map((r) => [r.dataset_id, toVersion(r)]))
 }
 
-export async function getSuggestion(versionId: number, conn: Conn = defaultConn): Promise<NestingSuggestion | null> {
-  const row: { suggestion: NestingSuggestion | null } | undefined = await conn('dataset_versions').where({ id: versionId }).first('suggestion')
+export async function getSuggestion(
+  versionId: number,
+  conn: Conn = defaultConn,
+): Promise<NestingSuggestion | null> {
+  const row: { suggestion: NestingSuggestion | null } | undefined = await conn('dataset_versions')
+    .where({ id: versionId })
+    .first('suggestion')
   return row?.suggestion ?? null
 }
 
-export async function setExcludedRowCount(versionId: number, count: number, conn: Conn = defaultConn): Promise<void> {
+export async function setExcludedRowCount(
+  versionId: number,
+  count: number,
+  conn: Conn = defaultConn,
+): Promise<void> {
   await conn('dataset_versions').where({ id: versionId }).update({ excluded_row_count: count })
 }
 
 export async function countVersionsWithSha(sha256: string, conn: Conn = defaultConn): Promise<number> {
-  const row = await conn('dataset_versions').where({ sha256 }).count<{ count: number }[]>('* as count').first()
+  const row = await conn('dataset_versions')
+    .where({ sha256 })
+    .count<{ count: number }[]>('* as count')
+    .first()
   return Number(row?.count ?? 0)
 }
 
@@ -307,7 +385,11 @@ interface ColumnRow {
   top_values: ColumnProfile['topValues']
 }
 
-export async function insertColumns(versionId: number, profiles: ColumnProfile[], conn: Conn = defaultConn): Promise<void> {
+export async function insertColumns(
+  versionId: number,
+  profiles: ColumnProfile[],
+  conn: Conn = defaultConn,
+): Promise<void> {
   const rows = profiles.map((p) => ({
     version_id: versionId,
     position: p.position,

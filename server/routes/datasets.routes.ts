@@ -28,11 +28,26 @@ import { logger } from '../logger'
 import { requireUser } from '../middleware/auth'
 import { validate } from '../middleware/validate'
 import { versionFor } from '../services/datasets-access.service'
-import { addExclusion, listVersionExclusions, withdrawExclusion } from '../services/datasets-exclusions.service'
+import {
+  addExclusion,
+  listVersionExclusions,
+  withdrawExclusion,
+} from '../services/datasets-exclusions.service'
 import { columnSummary, previewRows } from '../services/datasets-preview.service'
 import { getDesign, getTagging, getTaggingHistory, saveTagging } from '../services/datasets-tagging.service'
-import { addVersionFromUpload, createDatasetFromUpload, sweepDatasetLeftovers } from '../services/datasets-upload.service'
-import { deleteDatasetFor, getDatasetDetail, getVersionDetail, listDatasetsFor, restoreDataset, updateDatasetFor } from '../services/datasets.service'
+import {
+  addVersionFromUpload,
+  createDatasetFromUpload,
+  sweepDatasetLeftovers,
+} from '../services/datasets-upload.service'
+import {
+  deleteDatasetFor,
+  getDatasetDetail,
+  getVersionDetail,
+  listDatasetsFor,
+  restoreDataset,
+  updateDatasetFor,
+} from '../services/datasets.service'
 
 let sweptOnce = false
 
@@ -43,7 +58,8 @@ function sweepOnce(): void {
   setImmediate(() => {
     sweepDatasetLeftovers()
       .then((swept) => {
-        if (swept.versions || swept.tables || swept.tempFiles || swept.originals) logger.info('swept dataset leftovers', swept)
+        if (swept.versions || swept.tables || swept.tempFiles || swept.originals)
+          logger.info('swept dataset leftovers', swept)
       })
       .catch((err) => logger.error('dataset leftover sweep failed', { err }))
   })
@@ -55,7 +71,11 @@ function uploadMiddleware(): RequestHandler {
     storage: multer.diskStorage({
       destination: ingestConfig.uploadsDir,
       // Random names: the original name is kept in the database, never used as a path.
-      filename: (_req, file, done) => done(null, `${Date.now()}-${randomBytes(8).toString('hex')}${extname(file.originalname).toLowerCase().slice(0, 8)}`),
+      filename: (_req, file, done) =>
+        done(
+          null,
+          `${Date.now()}-${randomBytes(8).toString('hex')}${extname(file.originalname).toLowerCase().slice(0, 8)}`,
+        ),
     }),
     limits: { fileSize: ingestConfig.uploadMaxBytes, files: 1, fields: 20, fieldSize: 16 * 1024, parts: 25 },
   }).single('file')
@@ -64,9 +84,15 @@ function uploadMiddleware(): RequestHandler {
       if (!err) return next()
       const code = (err as { code?: string }).code
       if (code === 'LIMIT_FILE_SIZE') {
-        return next(new PayloadTooLargeError(`The file is larger than the upload limit of ${ingestConfig.uploadMaxMb} MB. Split it, or ask the administrator to raise UPLOAD_MAX_MB.`, { limitMb: ingestConfig.uploadMaxMb }))
+        return next(
+          new PayloadTooLargeError(
+            `The file is larger than the upload limit of ${ingestConfig.uploadMaxMb} MB. Split it, or ask the administrator to raise UPLOAD_MAX_MB.`,
+            { limitMb: ingestConfig.uploadMaxMb },
+          ),
+        )
       }
-      if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT') return next(new InvalidPayloadError('Send one file, in the form field “file”.'))
+      if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT')
+        return next(new InvalidPayloadError('Send one file, in the form field “file”.'))
       next(err)
     })
   }
@@ -76,7 +102,8 @@ function uploadMiddleware(): RequestHandler {
 const startProgress: RequestHandler = (req, res, next) => {
   const token = req.get(UPLOAD_TOKEN_HEADER)
   if (token !== undefined) {
-    if (!UploadTokenParams.shape.token.safeParse(token).success) throw new InvalidPayloadError('The upload token must be 8–64 letters, digits, - or _.')
+    if (!UploadTokenParams.shape.token.safeParse(token).success)
+      throw new InvalidPayloadError('The upload token must be 8–64 letters, digits, - or _.')
     res.locals.uploadToken = token
     res.locals.progress = uploadProgress.start(token, req.user!.id, Number(req.get('content-length')) || 0)
   }
@@ -86,7 +113,12 @@ const startProgress: RequestHandler = (req, res, next) => {
 function finishProgress(req: Request, res: Response, error: unknown | null): void {
   const token = res.locals.uploadToken as string | undefined
   if (!token) return
-  uploadProgress.finish(token, req.user!.id, error ? 'failed' : 'done', error ? translateError(error).message : null)
+  uploadProgress.finish(
+    token,
+    req.user!.id,
+    error ? 'failed' : 'done',
+    error ? translateError(error).message : null,
+  )
 }
 
 /** Reports failures of the multipart parsing to the progress entry too, then passes them on. */
@@ -101,7 +133,11 @@ function uploadedFile(req: Request): UploadedFile {
 }
 
 /** Runs an upload handler with progress reporting and removes the temp file whatever happens. */
-async function withUpload<T>(req: Request, res: Response, work: (file: UploadedFile, progress: ProgressSink) => Promise<T>): Promise<T> {
+async function withUpload<T>(
+  req: Request,
+  res: Response,
+  work: (file: UploadedFile, progress: ProgressSink) => Promise<T>,
+): Promise<T> {
   const progress = (res.locals.progress as ProgressSink | undefined) ?? noProgress
   try {
     const result = await work(uploadedFile(req), progress)
@@ -162,70 +198,126 @@ export function datasetsRoutes(): Router {
     res.json({ data: await restoreDataset(req.user!, Number(req.params.datasetId)) })
   })
 
-  router.post('/:datasetId/versions', validate({ params: DatasetParams }), startProgress, upload, failProgress, async (req: Request, res: Response) => {
-    const detail = await withUpload(req, res, async (file, progress) => {
-      const fields = VersionUploadFields.parse(req.body ?? {})
-      return addVersionFromUpload(req.user!, Number(req.params.datasetId), fields.sheet, file, progress)
-    })
-    res.status(201).json({ data: detail })
-  })
+  router.post(
+    '/:datasetId/versions',
+    validate({ params: DatasetParams }),
+    startProgress,
+    upload,
+    failProgress,
+    async (req: Request, res: Response) => {
+      const detail = await withUpload(req, res, async (file, progress) => {
+        const fields = VersionUploadFields.parse(req.body ?? {})
+        return addVersionFromUpload(req.user!, Number(req.params.datasetId), fields.sheet, file, progress)
+      })
+      res.status(201).json({ data: detail })
+    },
+  )
 
-  const version = (req: Request) => [req.user!, Number(req.params.datasetId), Number(req.params.versionNo)] as const
+  const version = (req: Request) =>
+    [req.user!, Number(req.params.datasetId), Number(req.params.versionNo)] as const
 
   router.get('/:datasetId/versions/:versionNo', validate({ params: VersionParams }), async (req, res) => {
     res.json({ data: await getVersionDetail(...version(req)) })
   })
 
-  router.get('/:datasetId/versions/:versionNo/columns', validate({ params: VersionParams }), async (req, res) => {
-    res.json({ data: await columnSummary(...version(req)) })
-  })
+  router.get(
+    '/:datasetId/versions/:versionNo/columns',
+    validate({ params: VersionParams }),
+    async (req, res) => {
+      res.json({ data: await columnSummary(...version(req)) })
+    },
+  )
 
-  router.get('/:datasetId/versions/:versionNo/rows', validate({ params: VersionParams, query: RowsQuery }), async (req, res) => {
-    res.json({ data: await previewRows(...version(req), req.query as unknown as RowsQuery) })
-  })
+  router.get(
+    '/:datasetId/versions/:versionNo/rows',
+    validate({ params: VersionParams, query: RowsQuery }),
+    async (req, res) => {
+      res.json({ data: await previewRows(...version(req), req.query as unknown as RowsQuery) })
+    },
+  )
 
-  router.get('/:datasetId/versions/:versionNo/suggestion', validate({ params: VersionParams }), async (req, res) => {
-    res.json({ data: (await getVersionDetail(...version(req))).suggestion })
-  })
+  router.get(
+    '/:datasetId/versions/:versionNo/suggestion',
+    validate({ params: VersionParams }),
+    async (req, res) => {
+      res.json({ data: (await getVersionDetail(...version(req))).suggestion })
+    },
+  )
 
-  router.get('/:datasetId/versions/:versionNo/tagging', validate({ params: VersionParams }), async (req, res) => {
-    res.json({ data: await getTagging(...version(req)) })
-  })
+  router.get(
+    '/:datasetId/versions/:versionNo/tagging',
+    validate({ params: VersionParams }),
+    async (req, res) => {
+      res.json({ data: await getTagging(...version(req)) })
+    },
+  )
 
-  router.put('/:datasetId/versions/:versionNo/tagging', validate({ params: VersionParams, body: TaggingInput }), async (req, res) => {
-    res.json({ data: await saveTagging(...version(req), req.body) })
-  })
+  router.put(
+    '/:datasetId/versions/:versionNo/tagging',
+    validate({ params: VersionParams, body: TaggingInput }),
+    async (req, res) => {
+      res.json({ data: await saveTagging(...version(req), req.body) })
+    },
+  )
 
-  router.get('/:datasetId/versions/:versionNo/tagging/history', validate({ params: VersionParams }), async (req, res) => {
-    res.json({ data: await getTaggingHistory(...version(req)) })
-  })
+  router.get(
+    '/:datasetId/versions/:versionNo/tagging/history',
+    validate({ params: VersionParams }),
+    async (req, res) => {
+      res.json({ data: await getTaggingHistory(...version(req)) })
+    },
+  )
 
-  router.get('/:datasetId/versions/:versionNo/design', validate({ params: VersionParams }), async (req, res) => {
-    res.json({ data: await getDesign(...version(req)) })
-  })
+  router.get(
+    '/:datasetId/versions/:versionNo/design',
+    validate({ params: VersionParams }),
+    async (req, res) => {
+      res.json({ data: await getDesign(...version(req)) })
+    },
+  )
 
-  router.get('/:datasetId/versions/:versionNo/exclusions', validate({ params: VersionParams }), async (req, res) => {
-    res.json({ data: await listVersionExclusions(...version(req)) })
-  })
+  router.get(
+    '/:datasetId/versions/:versionNo/exclusions',
+    validate({ params: VersionParams }),
+    async (req, res) => {
+      res.json({ data: await listVersionExclusions(...version(req)) })
+    },
+  )
 
-  router.post('/:datasetId/versions/:versionNo/exclusions', validate({ params: VersionParams, body: ExclusionCreate }), async (req, res) => {
-    res.status(201).json({ data: await addExclusion(...version(req), req.body) })
-  })
+  router.post(
+    '/:datasetId/versions/:versionNo/exclusions',
+    validate({ params: VersionParams, body: ExclusionCreate }),
+    async (req, res) => {
+      res.status(201).json({ data: await addExclusion(...version(req), req.body) })
+    },
+  )
 
-  router.delete('/:datasetId/versions/:versionNo/exclusions/:exclusionId', validate({ params: ExclusionParams }), async (req, res) => {
-    res.json({ data: await withdrawExclusion(...version(req), Number(req.params.exclusionId)) })
-  })
+  router.delete(
+    '/:datasetId/versions/:versionNo/exclusions/:exclusionId',
+    validate({ params: ExclusionParams }),
+    async (req, res) => {
+      res.json({ data: await withdrawExclusion(...version(req), Number(req.params.exclusionId)) })
+    },
+  )
 
-  router.get('/:datasetId/versions/:versionNo/original', validate({ params: VersionParams }), async (req, res) => {
-    const { version: found } = await versionFor(...version(req), 'read')
-    await new Promise<void>((resolve, reject) => {
-      res.download(originalPath(found.sha256), found.originalFilename, { dotfiles: 'allow' }, (err) => {
-        if (!err) return resolve()
-        if (res.headersSent) return resolve()
-        reject((err as NodeJS.ErrnoException).code === 'ENOENT' ? new NotFoundError('The original file of this version is missing from the store.') : err)
+  router.get(
+    '/:datasetId/versions/:versionNo/original',
+    validate({ params: VersionParams }),
+    async (req, res) => {
+      const { version: found } = await versionFor(...version(req), 'read')
+      await new Promise<void>((resolve, reject) => {
+        res.download(originalPath(found.sha256), found.originalFilename, { dotfiles: 'allow' }, (err) => {
+          if (!err) return resolve()
+          if (res.headersSent) return resolve()
+          reject(
+            (err as NodeJS.ErrnoException).code === 'ENOENT'
+              ? new NotFoundError('The original file of this version is missing from the store.')
+              : err,
+          )
+        })
       })
-    })
-  })
+    },
+  )
 
   return router
 }

@@ -1,6 +1,11 @@
 import type { CurrentUser, Membership, Role } from '../../shared/schemas/auth'
 import { ForbiddenError, NotFoundError } from '../errors/app-error'
-import { findDataset, findVersion, type DatasetRecord, type VersionRecord } from '../repositories/datasets.repo'
+import {
+  findDataset,
+  findVersion,
+  type DatasetRecord,
+  type VersionRecord,
+} from '../repositories/datasets.repo'
 import type { Conn } from '../repositories/connection'
 import { defaultConn } from '../repositories/connection'
 
@@ -34,10 +39,13 @@ export function assertCanWriteInLab(user: CurrentUser, labId: number, what = 'La
   const membership = membershipIn(user, labId)
   if (!membership) throw new NotFoundError(`${what} not found.`)
   if (!WRITER_ROLES.includes(membership.role)) {
-    throw new ForbiddenError(`Uploading, tagging and excluding need the role scientist or PI in ${membership.labName}.`, {
-      requiredRoles: WRITER_ROLES,
-      yourRole: membership.role,
-    })
+    throw new ForbiddenError(
+      `Uploading, tagging and excluding need the role scientist or PI in ${membership.labName}.`,
+      {
+        requiredRoles: WRITER_ROLES,
+        yourRole: membership.role,
+      },
+    )
   }
   return membership
 }
@@ -45,9 +53,15 @@ export function assertCanWriteInLab(user: CurrentUser, labId: number, what = 'La
 export type DatasetAction = 'read' | 'write' | 'delete'
 
 /** The dataset if the user may perform `action` on it; deleted datasets are invisible here. */
-export async function datasetFor(user: CurrentUser, datasetId: number, action: DatasetAction, conn: Conn = defaultConn): Promise<DatasetRecord> {
+export async function datasetFor(
+  user: CurrentUser,
+  datasetId: number,
+  action: DatasetAction,
+  conn: Conn = defaultConn,
+): Promise<DatasetRecord> {
   const dataset = await findDataset(datasetId, conn)
-  if (!dataset || dataset.deletedAt || !membershipIn(user, dataset.labId)) throw new NotFoundError('Dataset not found.')
+  if (!dataset || dataset.deletedAt || !membershipIn(user, dataset.labId))
+    throw new NotFoundError('Dataset not found.')
   if (action === 'write') assertCanWriteInLab(user, dataset.labId, 'Dataset')
   if (action === 'delete' && !canDelete(user, dataset)) {
     throw new ForbiddenError('Only the person who uploaded this dataset or a PI of the lab can delete it.')
@@ -64,6 +78,7 @@ export async function versionFor(
 ): Promise<{ dataset: DatasetRecord; version: VersionRecord }> {
   const dataset = await datasetFor(user, datasetId, action, conn)
   const version = await findVersion(datasetId, versionNo, conn)
-  if (!version || version.status !== 'ready') throw new NotFoundError(`Version ${versionNo} of this dataset not found.`)
+  if (!version || version.status !== 'ready')
+    throw new NotFoundError(`Version ${versionNo} of this dataset not found.`)
   return { dataset, version }
 }

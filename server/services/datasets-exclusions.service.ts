@@ -3,8 +3,19 @@ import type { Exclusion, ExclusionCreate, ExclusionRule } from '../../shared/sch
 import { db } from '../db'
 import { ConflictError, InvalidPayloadError, NotFoundError, UnprocessableError } from '../errors/app-error'
 import { parseNumberText } from '../ingest/number-text'
-import { activeExclusions, findExclusion, insertExclusion, listExclusions, markExclusionRemoved } from '../repositories/datasets-annotations.repo'
-import { countRowsWhere, exclusionSql, excludedSql, type RowTableShape } from '../repositories/datasets-row-queries.repo'
+import {
+  activeExclusions,
+  findExclusion,
+  insertExclusion,
+  listExclusions,
+  markExclusionRemoved,
+} from '../repositories/datasets-annotations.repo'
+import {
+  countRowsWhere,
+  exclusionSql,
+  excludedSql,
+  type RowTableShape,
+} from '../repositories/datasets-row-queries.repo'
 import { setExcludedRowCount, type VersionRecord } from '../repositories/datasets.repo'
 import type { Conn } from '../repositories/connection'
 import { versionFor } from './datasets-access.service'
@@ -13,18 +24,29 @@ import { shapeOf } from './datasets-readback.service'
 /** Checks a rule against the version's columns; numeric columns get their value as a number. */
 function normaliseRule(shape: RowTableShape, version: VersionRecord, rule: ExclusionRule): ExclusionRule {
   const column = shape.columns.get(rule.column)
-  if (!column) throw new InvalidPayloadError(`There is no column “${rule.column}” in this version.`, { issues: [{ path: 'rule.column', message: 'Unknown column' }] })
+  if (!column)
+    throw new InvalidPayloadError(`There is no column “${rule.column}” in this version.`, {
+      issues: [{ path: 'rule.column', message: 'Unknown column' }],
+    })
   if (rule.operator === 'missing') return { column: rule.column, operator: 'missing', value: null }
   const numeric = column.type === 'integer' || column.type === 'numeric'
   if (numeric) {
-    const value = typeof rule.value === 'number' ? rule.value : parseNumberText(String(rule.value).trim(), version.decimalMark)
+    const value =
+      typeof rule.value === 'number'
+        ? rule.value
+        : parseNumberText(String(rule.value).trim(), version.decimalMark)
     if (!Number.isFinite(value)) {
-      throw new InvalidPayloadError(`“${rule.column}” holds numbers; “${rule.value}” is not one.`, { issues: [{ path: 'rule.value', message: 'Enter a number' }] })
+      throw new InvalidPayloadError(`“${rule.column}” holds numbers; “${rule.value}” is not one.`, {
+        issues: [{ path: 'rule.value', message: 'Enter a number' }],
+      })
     }
     return { column: rule.column, operator: rule.operator, value }
   }
   if (rule.operator !== 'eq' && rule.operator !== 'ne') {
-    throw new InvalidPayloadError(`“${rule.column}” holds text, which can only be compared with “equals” or “is not”.`, { issues: [{ path: 'rule.operator', message: 'Use equals or is not' }] })
+    throw new InvalidPayloadError(
+      `“${rule.column}” holds text, which can only be compared with “equals” or “is not”.`,
+      { issues: [{ path: 'rule.operator', message: 'Use equals or is not' }] },
+    )
   }
   return { column: rule.column, operator: rule.operator, value: String(rule.value).trim() }
 }
@@ -32,10 +54,18 @@ function normaliseRule(shape: RowTableShape, version: VersionRecord, rule: Exclu
 /** Recounts the rows left out by all active exclusions; rows never change, so this is exact. */
 async function refreshExcludedCount(shape: RowTableShape, versionId: number, conn: Conn): Promise<void> {
   const active = await activeExclusions(versionId, conn)
-  await setExcludedRowCount(versionId, active.length ? await countRowsWhere(shape, excludedSql(shape, active), conn) : 0, conn)
+  await setExcludedRowCount(
+    versionId,
+    active.length ? await countRowsWhere(shape, excludedSql(shape, active), conn) : 0,
+    conn,
+  )
 }
 
-export async function listVersionExclusions(user: CurrentUser, datasetId: number, versionNo: number): Promise<Exclusion[]> {
+export async function listVersionExclusions(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+): Promise<Exclusion[]> {
   const { version } = await versionFor(user, datasetId, versionNo, 'read')
   return listExclusions(version.id)
 }
@@ -44,30 +74,63 @@ export async function listVersionExclusions(user: CurrentUser, datasetId: number
  * Leaves rows out of analyses by a rule or by a unit, with a written reason. Rows stay stored.
  * A unit that matches no row is refused (a typo would otherwise exclude nothing silently).
  */
-export async function addExclusion(user: CurrentUser, datasetId: number, versionNo: number, input: ExclusionCreate): Promise<Exclusion> {
+export async function addExclusion(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+  input: ExclusionCreate,
+): Promise<Exclusion> {
   const { version } = await versionFor(user, datasetId, versionNo, 'write')
   const shape = await shapeOf(version)
   const rule = input.kind === 'rule' ? normaliseRule(shape, version, input.rule) : null
-  const unit = input.kind === 'unit' ? { path: input.unit.path.map((s) => ({ column: s.column, value: s.value.trim() })) } : null
+  const unit =
+    input.kind === 'unit'
+      ? { path: input.unit.path.map((s) => ({ column: s.column, value: s.value.trim() })) }
+      : null
   if (unit) {
     for (const step of unit.path) {
-      if (!shape.columns.has(step.column)) throw new InvalidPayloadError(`There is no column “${step.column}” in this version.`, { issues: [{ path: 'unit.path', message: 'Unknown column' }] })
+      if (!shape.columns.has(step.column))
+        throw new InvalidPayloadError(`There is no column “${step.column}” in this version.`, {
+          issues: [{ path: 'unit.path', message: 'Unknown column' }],
+        })
     }
   }
   return db.transaction(async (trx) => {
     await trx('dataset_versions').where({ id: version.id }).forUpdate().first('id')
-    const matchedRows = await countRowsWhere(shape, `coalesce(${exclusionSql(shape, { kind: input.kind, rule, unit })}, false)`, trx)
+    const matchedRows = await countRowsWhere(
+      shape,
+      `coalesce(${exclusionSql(shape, { kind: input.kind, rule, unit })}, false)`,
+      trx,
+    )
     if (unit && matchedRows === 0) {
-      throw new UnprocessableError(`No rows belong to the unit ${unit.path.map((s) => `${s.column} “${s.value}”`).join(' › ')}. Check the spelling.`)
+      throw new UnprocessableError(
+        `No rows belong to the unit ${unit.path.map((s) => `${s.column} “${s.value}”`).join(' › ')}. Check the spelling.`,
+      )
     }
-    const id = await insertExclusion({ versionId: version.id, kind: input.kind, rule, unit, reason: input.reason, matchedRows, createdBy: user.id }, trx)
+    const id = await insertExclusion(
+      {
+        versionId: version.id,
+        kind: input.kind,
+        rule,
+        unit,
+        reason: input.reason,
+        matchedRows,
+        createdBy: user.id,
+      },
+      trx,
+    )
     await refreshExcludedCount(shape, version.id, trx)
     return (await findExclusion(version.id, id, trx))!
   })
 }
 
 /** Withdraws an exclusion: its rows count again; the exclusion stays on record as withdrawn. */
-export async function withdrawExclusion(user: CurrentUser, datasetId: number, versionNo: number, exclusionId: number): Promise<Exclusion> {
+export async function withdrawExclusion(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+  exclusionId: number,
+): Promise<Exclusion> {
   const { version } = await versionFor(user, datasetId, versionNo, 'write')
   const shape = await shapeOf(version)
   return db.transaction(async (trx) => {
@@ -80,4 +143,3 @@ export async function withdrawExclusion(user: CurrentUser, datasetId: number, ve
     return (await findExclusion(version.id, exclusionId, trx))!
   })
 }
-

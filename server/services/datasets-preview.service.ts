@@ -8,14 +8,22 @@ import { versionFor } from './datasets-access.service'
 import { fileRow, shapeOf } from './datasets-readback.service'
 
 /** One page of stored rows, sorted on the server, with the exclusions that leave each row out. */
-export async function previewRows(user: CurrentUser, datasetId: number, versionNo: number, query: RowsQuery): Promise<RowsPage> {
+export async function previewRows(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+  query: RowsQuery,
+): Promise<RowsPage> {
   const { version } = await versionFor(user, datasetId, versionNo, 'read')
   const shape = await shapeOf(version)
   let sortPosition: number | null = null
   let sortNumeric = false
   if (query.sortBy !== undefined) {
     const column = shape.columns.get(query.sortBy)
-    if (!column) throw new InvalidPayloadError(`There is no column “${query.sortBy}” to sort by.`, { issues: [{ path: 'query.sortBy', message: 'Unknown column' }] })
+    if (!column)
+      throw new InvalidPayloadError(`There is no column “${query.sortBy}” to sort by.`, {
+        issues: [{ path: 'query.sortBy', message: 'Unknown column' }],
+      })
     sortPosition = column.position
     sortNumeric = column.type === 'integer' || column.type === 'numeric'
   }
@@ -30,18 +38,33 @@ export async function previewRows(user: CurrentUser, datasetId: number, versionN
     exclusions,
     columnCount: version.columnCount,
   })
-  const total = query.show === 'all' ? version.rowCount : query.show === 'excluded' ? version.excludedRowCount : version.rowCount - version.excludedRowCount
-  const columns = [...shape.columns.entries()].sort((a, b) => a[1].position - b[1].position).map(([name]) => name)
+  const total =
+    query.show === 'all'
+      ? version.rowCount
+      : query.show === 'excluded'
+        ? version.excludedRowCount
+        : version.rowCount - version.excludedRowCount
+  const columns = [...shape.columns.entries()]
+    .sort((a, b) => a[1].position - b[1].position)
+    .map(([name]) => name)
   return {
     columns,
-    rows: rows.map((r) => ({ rowNumber: fileRow(version, r.rowNo), values: r.values, excludedBy: r.excludedBy })),
+    rows: rows.map((r) => ({
+      rowNumber: fileRow(version, r.rowNo),
+      values: r.values,
+      excludedBy: r.excludedBy,
+    })),
     total,
     page: query.page,
     pageSize: query.pageSize,
   }
 }
 
-export async function columnSummary(user: CurrentUser, datasetId: number, versionNo: number): Promise<ColumnProfile[]> {
+export async function columnSummary(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+): Promise<ColumnProfile[]> {
   const { version } = await versionFor(user, datasetId, versionNo, 'read')
   return listColumns(version.id)
 }

@@ -60,7 +60,13 @@ export async function readColumns(
   return readColumnsWith(version, shape, requests, exclusions, conn, false)
 }
 
-function readColumnsSorted(version: VersionRecord, shape: RowTableShape, requests: readonly ColumnRequest[], exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[], conn: Conn) {
+function readColumnsSorted(
+  version: VersionRecord,
+  shape: RowTableShape,
+  requests: readonly ColumnRequest[],
+  exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
+  conn: Conn,
+) {
   return readColumnsWith(version, shape, requests, exclusions, conn, true)
 }
 
@@ -83,7 +89,17 @@ async function readColumnsWith(
   // Missing-value words that read as numbers (say "-999"): only these need a lookup on the fast path.
   const numericNa = new Set(version.naValues.filter((v) => v.trim() !== '' && Number.isFinite(Number(v))))
   const mark = version.decimalMark
-  const factorState = requests.map((r) => (r.as === 'factor' ? { codes: new Int32Array(capacity), labels: [] as string[], index: new Map<string, number>(), lastRaw: '\u0000', lastCode: -1 } : null))
+  const factorState = requests.map((r) =>
+    r.as === 'factor'
+      ? {
+          codes: new Int32Array(capacity),
+          labels: [] as string[],
+          index: new Map<string, number>(),
+          lastRaw: '\u0000',
+          lastCode: -1,
+        }
+      : null,
+  )
   const numberState = requests.map((r) => (r.as === 'number' ? new Float64Array(capacity) : null))
   // Columns profiled as numbers hold only number-shaped cells besides missing ones, so Number() is exact there.
   const profiledNumeric = requests.map((r) => {
@@ -155,7 +171,11 @@ async function readColumnsWith(
     reader.end()
   }
   if (sorted) await copyOut(readBackSelect(shape, positions, excluded, true), consume, conn)
-  else await inPhysicalOrder((trx) => copyOut(readBackSelect(shape, positions, excluded, false), consume, trx), conn)
+  else
+    await inPhysicalOrder(
+      (trx) => copyOut(readBackSelect(shape, positions, excluded, false), consume, trx),
+      conn,
+    )
   if (!inOrder && !sorted) {
     // Not expected for tables written once by COPY; read again, sorted, rather than return rows out of order.
     logger.warn('read-back rows came out of file order; reading again sorted', { versionId: version.id })
@@ -165,7 +185,8 @@ async function readColumnsWith(
   const numbers = new Map<string, Float64Array>()
   requests.forEach((r, k) => {
     const factor = factorState[k]
-    if (factor) factors.set(r.name, { name: r.name, codes: factor.codes.subarray(0, count), labels: factor.labels })
+    if (factor)
+      factors.set(r.name, { name: r.name, codes: factor.codes.subarray(0, count), labels: factor.labels })
     else numbers.set(r.name, numberState[k]!.subarray(0, count))
   })
   return { count, rowNos: rowNos.subarray(0, count), factors, numbers, notNumbers }
@@ -208,17 +229,23 @@ export async function loadNestedColumns(
   const read = await readColumns(version, shape, requests, applied, conn)
   const notNumber = read.notNumbers.get(tagging.response)
   if (notNumber) {
-    throw new UnprocessableError(`Row ${fileRow(version, notNumber.rowNo)} of “${tagging.response}” holds “${notNumber.value}”, which is not a number. Exclude that row or correct the file.`, {
-      column: tagging.response,
-      row: fileRow(version, notNumber.rowNo),
-    })
+    throw new UnprocessableError(
+      `Row ${fileRow(version, notNumber.rowNo)} of “${tagging.response}” holds “${notNumber.value}”, which is not a number. Exclude that row or correct the file.`,
+      {
+        column: tagging.response,
+        row: fileRow(version, notNumber.rowNo),
+      },
+    )
   }
   const toFactor = (name: string): Factor => {
     const column = read.factors.get(name)!
     const missingAt = column.codes.indexOf(-1)
     if (missingAt !== -1) {
       const row = fileRow(version, read.rowNos[missingAt])
-      throw new UnprocessableError(`Row ${row} has no value in “${name}”. Every row needs a label there; exclude such rows with the rule “${name} is missing”.`, { column: name, row })
+      throw new UnprocessableError(
+        `Row ${row} has no value in “${name}”. Every row needs a label there; exclude such rows with the rule “${name} is missing”.`,
+        { column: name, row },
+      )
     }
     return { name, codes: column.codes, labels: column.labels }
   }

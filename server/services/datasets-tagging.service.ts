@@ -3,7 +3,12 @@ import type { DesignSummary, Tagging, TaggingInput } from '../../shared/schemas/
 import { describeDesign, type DesignFacts } from '../../shared/nesting/describe-design'
 import { db } from '../db'
 import { InvalidPayloadError, NotFoundError, UnprocessableError } from '../errors/app-error'
-import { activeExclusions, currentTagging, insertTagging, taggingHistory } from '../repositories/datasets-annotations.repo'
+import {
+  activeExclusions,
+  currentTagging,
+  insertTagging,
+  taggingHistory,
+} from '../repositories/datasets-annotations.repo'
 import { excludedSql, firstNonNumberRow, type RowTableShape } from '../repositories/datasets-row-queries.repo'
 import type { VersionRecord } from '../repositories/datasets.repo'
 import { versionFor } from './datasets-access.service'
@@ -17,14 +22,28 @@ export interface TaggingResult {
 }
 
 /** The design facts of a nesting over the version's kept rows (one read-back of the level and condition columns). */
-async function designOf(version: VersionRecord, shape: RowTableShape, levels: readonly string[], condition: string | null) {
+async function designOf(
+  version: VersionRecord,
+  shape: RowTableShape,
+  levels: readonly string[],
+  condition: string | null,
+) {
   const exclusions = await activeExclusions(version.id)
-  const read = await readColumns(version, shape, [...levels, ...(condition ? [condition] : [])].map((name) => ({ name, as: 'factor' as const })), exclusions)
+  const read = await readColumns(
+    version,
+    shape,
+    [...levels, ...(condition ? [condition] : [])].map((name) => ({ name, as: 'factor' as const })),
+    exclusions,
+  )
   const coded = (name: string) => {
     const column = read.factors.get(name)!
     return { name, codes: column.codes, labels: column.labels }
   }
-  const facts = describeDesign({ rowCount: read.count, levels: levels.map(coded), condition: condition ? coded(condition) : null })
+  const facts = describeDesign({
+    rowCount: read.count,
+    levels: levels.map(coded),
+    condition: condition ? coded(condition) : null,
+  })
   return { facts, read }
 }
 
@@ -39,22 +58,36 @@ function publicDesign(facts: DesignFacts): DesignSummary {
  * without a label, levels that do not split their parent or that are the observations themselves,
  * a condition with one value, and a condition arm with a single independent unit.
  */
-async function validate(version: VersionRecord, shape: RowTableShape, input: TaggingInput): Promise<DesignFacts> {
-  const all = [...input.responseColumns, ...input.levels, ...(input.conditionColumn ? [input.conditionColumn] : [])]
+async function validate(
+  version: VersionRecord,
+  shape: RowTableShape,
+  input: TaggingInput,
+): Promise<DesignFacts> {
+  const all = [
+    ...input.responseColumns,
+    ...input.levels,
+    ...(input.conditionColumn ? [input.conditionColumn] : []),
+  ]
   const unknown = all.filter((name) => !shape.columns.has(name))
   if (unknown.length) {
-    throw new InvalidPayloadError(`This version has no column ${unknown.map(q).join(', ')}.`, { issues: unknown.map((name) => ({ path: 'columns', message: `Unknown column ${name}` })) })
+    throw new InvalidPayloadError(`This version has no column ${unknown.map(q).join(', ')}.`, {
+      issues: unknown.map((name) => ({ path: 'columns', message: `Unknown column ${name}` })),
+    })
   }
   const exclusions = await activeExclusions(version.id)
   const excluded = excludedSql(shape, exclusions)
   for (const name of input.responseColumns) {
     const column = shape.columns.get(name)!
-    if (column.type === 'empty') throw new InvalidPayloadError(`${q(name)} cannot be a response: it has no values.`, { column: name })
+    if (column.type === 'empty')
+      throw new InvalidPayloadError(`${q(name)} cannot be a response: it has no values.`, { column: name })
     if (column.type === 'text') {
       const offending = await firstNonNumberRow(shape, column.position, excluded)
       if (offending) {
         const row = fileRow(version, offending.rowNo)
-        throw new InvalidPayloadError(`${q(name)} cannot be a response: row ${row} holds “${offending.value}”, which is not a number. Correct the file, or exclude such rows first.`, { column: name, row })
+        throw new InvalidPayloadError(
+          `${q(name)} cannot be a response: row ${row} holds “${offending.value}”, which is not a number. Correct the file, or exclude such rows first.`,
+          { column: name, row },
+        )
       }
     }
   }
@@ -63,25 +96,40 @@ async function validate(version: VersionRecord, shape: RowTableShape, input: Tag
   if (facts.missingLabel) {
     const row = fileRow(version, read.rowNos[facts.missingLabel.rowIndex])
     const { column } = facts.missingLabel
-    throw new UnprocessableError(`Row ${row} has no value in ${q(column)}. Every row needs a label at each level; exclude such rows with the rule “${column} is missing”.`, { column, row })
+    throw new UnprocessableError(
+      `Row ${row} has no value in ${q(column)}. Every row needs a label at each level; exclude such rows with the rule “${column} is missing”.`,
+      { column, row },
+    )
   }
   facts.levels.forEach((level, d) => {
     const parent = d === 0 ? null : facts.levels[d - 1]
     if (parent && level.unitCount === parent.unitCount) {
-      throw new UnprocessableError(`${q(level.column)} does not split ${q(parent.column)}: each ${q(parent.column)} unit has exactly one ${q(level.column)} unit, so the two levels cannot be told apart. Leave one of them out.`, { column: level.column })
+      throw new UnprocessableError(
+        `${q(level.column)} does not split ${q(parent.column)}: each ${q(parent.column)} unit has exactly one ${q(level.column)} unit, so the two levels cannot be told apart. Leave one of them out.`,
+        { column: level.column },
+      )
     }
     if (level.unitCount === facts.observationCount) {
-      throw new UnprocessableError(`Every ${q(level.column)} unit has a single row: that level is the observations themselves. Leave it out of the levels.`, { column: level.column })
+      throw new UnprocessableError(
+        `Every ${q(level.column)} unit has a single row: that level is the observations themselves. Leave it out of the levels.`,
+        { column: level.column },
+      )
     }
   })
   if (input.conditionColumn) {
     const name = input.conditionColumn
     if (facts.missingCondition) {
       const row = fileRow(version, read.rowNos[facts.missingCondition.rowIndex])
-      throw new UnprocessableError(`Row ${row} has no value in the condition ${q(name)}. Exclude such rows with the rule “${name} is missing”, or correct the file.`, { column: name, row })
+      throw new UnprocessableError(
+        `Row ${row} has no value in the condition ${q(name)}. Exclude such rows with the rule “${name} is missing”, or correct the file.`,
+        { column: name, row },
+      )
     }
     if (facts.arms.length < 2) {
-      throw new UnprocessableError(`The condition ${q(name)} has a single value (“${facts.arms[0]?.value ?? ''}”) in the rows kept: there is nothing to compare.`, { column: name })
+      throw new UnprocessableError(
+        `The condition ${q(name)} has a single value (“${facts.arms[0]?.value ?? ''}”) in the rows kept: there is nothing to compare.`,
+        { column: name },
+      )
     }
     if (facts.conditionLevel) {
       const thin = facts.arms.find((arm) => arm.unitCount < 2)
@@ -96,23 +144,46 @@ async function validate(version: VersionRecord, shape: RowTableShape, input: Tag
   return facts
 }
 
-export async function getTagging(user: CurrentUser, datasetId: number, versionNo: number): Promise<Tagging | null> {
+export async function getTagging(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+): Promise<Tagging | null> {
   const { version } = await versionFor(user, datasetId, versionNo, 'read')
   return currentTagging(version.id)
 }
 
-export async function getTaggingHistory(user: CurrentUser, datasetId: number, versionNo: number): Promise<Tagging[]> {
+export async function getTaggingHistory(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+): Promise<Tagging[]> {
   const { version } = await versionFor(user, datasetId, versionNo, 'read')
   return taggingHistory(version.id)
 }
 
 /** Saves a checked nesting as the version's current tagging; earlier taggings remain as history. */
-export async function saveTagging(user: CurrentUser, datasetId: number, versionNo: number, input: TaggingInput): Promise<TaggingResult> {
+export async function saveTagging(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+  input: TaggingInput,
+): Promise<TaggingResult> {
   const { version } = await versionFor(user, datasetId, versionNo, 'write')
   const shape = await shapeOf(version)
   const facts = await validate(version, shape, input)
   const tagging = await db.transaction(async (trx) => {
-    await insertTagging({ versionId: version.id, responseColumns: input.responseColumns, conditionColumn: input.conditionColumn, levels: input.levels, carriedOver: false, createdBy: user.id }, trx)
+    await insertTagging(
+      {
+        versionId: version.id,
+        responseColumns: input.responseColumns,
+        conditionColumn: input.conditionColumn,
+        levels: input.levels,
+        carriedOver: false,
+        createdBy: user.id,
+      },
+      trx,
+    )
     await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
     return (await currentTagging(version.id, trx))!
   })
@@ -120,7 +191,11 @@ export async function saveTagging(user: CurrentUser, datasetId: number, versionN
 }
 
 /** The current tagging's design over the rows kept now (exclusions may have changed since tagging). */
-export async function getDesign(user: CurrentUser, datasetId: number, versionNo: number): Promise<DesignSummary> {
+export async function getDesign(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+): Promise<DesignSummary> {
   const { version } = await versionFor(user, datasetId, versionNo, 'read')
   const tagging = await currentTagging(version.id)
   if (!tagging) throw new NotFoundError('This version has no tagging yet.')

@@ -2,7 +2,12 @@ import { basename, extname, join } from 'node:path'
 import { rm } from 'node:fs/promises'
 import type { Knex } from 'knex'
 import type { CurrentUser } from '../../shared/schemas/auth'
-import type { DatasetDetail, DatasetUploadFields, DatasetVersionDetail, NestingSuggestion } from '../../shared/schemas/datasets'
+import type {
+  DatasetDetail,
+  DatasetUploadFields,
+  DatasetVersionDetail,
+  NestingSuggestion,
+} from '../../shared/schemas/datasets'
 import { suggestNesting, type SuggestionColumn } from '../../shared/nesting/suggest-nesting'
 import { db } from '../db'
 import { NotFoundError } from '../errors/app-error'
@@ -14,7 +19,12 @@ import type { IntakeResult } from '../ingest/table-intake'
 import { noProgress, type ProgressSink } from '../ingest/upload-progress'
 import { logger } from '../logger'
 import { currentTagging, insertTagging } from '../repositories/datasets-annotations.repo'
-import { dropRowsTable, indexRowsTable, listRowsTables, listUnindexedRowsTables } from '../repositories/datasets-rows.repo'
+import {
+  dropRowsTable,
+  indexRowsTable,
+  listRowsTables,
+  listUnindexedRowsTables,
+} from '../repositories/datasets-rows.repo'
 import {
   completeVersion,
   countVersionsWithSha,
@@ -77,7 +87,14 @@ async function storeVersion(
 ): Promise<StoredVersion> {
   const started = performance.now()
   const versionId = await insertVersion(
-    { datasetId, versionNo, originalFilename: file.originalName, byteSize: file.size, naValues: [...ingestConfig.naValues], createdBy: userId },
+    {
+      datasetId,
+      versionNo,
+      originalFilename: file.originalName,
+      byteSize: file.size,
+      naValues: [...ingestConfig.naValues],
+      createdBy: userId,
+    },
     trx,
   )
   const outcome = await ingestFile(trx, versionId, file, { sheet, progress })
@@ -105,21 +122,40 @@ async function storeVersion(
   if (versionNo > 1) await carryOverTagging(trx, datasetId, versionNo, versionId, outcome.intake, userId)
   const created = await keepOriginal(file.path, outcome.sha256)
   onOriginalKept(outcome.sha256, created)
-  if (outcome.fallbackReason) logger.info('dataset stored from parsed rows', { versionId, reason: outcome.fallbackReason })
+  if (outcome.fallbackReason)
+    logger.info('dataset stored from parsed rows', { versionId, reason: outcome.fallbackReason })
   return { versionId, sha256: outcome.sha256, createdOriginal: created }
 }
 
-async function carryOverTagging(trx: Knex.Transaction, datasetId: number, versionNo: number, versionId: number, intake: IntakeResult, userId: number) {
+async function carryOverTagging(
+  trx: Knex.Transaction,
+  datasetId: number,
+  versionNo: number,
+  versionId: number,
+  intake: IntakeResult,
+  userId: number,
+) {
   const previous = (await listVersions(datasetId, trx)).find((v) => v.versionNo === versionNo - 1)
   if (!previous) return
   const tagging = await currentTagging(previous.id, trx)
   if (!tagging) return
   const types = new Map(intake.profiles.map((p) => [p.name, p.type]))
-  const names = [...tagging.responseColumns, ...tagging.levels, ...(tagging.conditionColumn ? [tagging.conditionColumn] : [])]
+  const names = [
+    ...tagging.responseColumns,
+    ...tagging.levels,
+    ...(tagging.conditionColumn ? [tagging.conditionColumn] : []),
+  ]
   if (!names.every((n) => types.has(n))) return
   if (!tagging.responseColumns.every((n) => types.get(n) === 'numeric' || types.get(n) === 'integer')) return
   await insertTagging(
-    { versionId, responseColumns: tagging.responseColumns, conditionColumn: tagging.conditionColumn, levels: tagging.levels, carriedOver: true, createdBy: userId },
+    {
+      versionId,
+      responseColumns: tagging.responseColumns,
+      conditionColumn: tagging.conditionColumn,
+      levels: tagging.levels,
+      carriedOver: true,
+      createdBy: userId,
+    },
     trx,
   )
 }
@@ -130,10 +166,14 @@ async function carryOverTagging(trx: Knex.Transaction, datasetId: number, versio
  */
 /** Builds the row_no index of a committed version without holding up the response. */
 function indexLater(versionId: number): void {
-  indexRowsTable(versionId).catch((err) => logger.warn('could not index a rows table (previews stay correct, only slower)', { versionId, err }))
+  indexRowsTable(versionId).catch((err) =>
+    logger.warn('could not index a rows table (previews stay correct, only slower)', { versionId, err }),
+  )
 }
 
-async function inUploadTransaction<T>(work: (trx: Knex.Transaction, onOriginalKept: (sha: string, created: boolean) => void) => Promise<T>): Promise<T> {
+async function inUploadTransaction<T>(
+  work: (trx: Knex.Transaction, onOriginalKept: (sha: string, created: boolean) => void) => Promise<T>,
+): Promise<T> {
   let kept: { sha256: string; created: boolean } | null = null
   let release: (() => void) | null = null
   try {
@@ -162,16 +202,29 @@ function defaultName(originalName: string): string {
 }
 
 /** A new dataset from an upload (version 1). The whole thing is one transaction: all stored or nothing. */
-export async function createDatasetFromUpload(user: CurrentUser, fields: DatasetUploadFields, file: UploadedFile, progress: ProgressSink): Promise<DatasetDetail> {
+export async function createDatasetFromUpload(
+  user: CurrentUser,
+  fields: DatasetUploadFields,
+  file: UploadedFile,
+  progress: ProgressSink,
+): Promise<DatasetDetail> {
   assertCanWriteInLab(user, fields.labId)
   if (fields.projectId !== undefined) {
     const project = await findProject(fields.projectId)
     if (!project || project.labId !== fields.labId) throw new NotFoundError('Project not found in this lab.')
   }
   const { datasetId, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
-    const projectId = fields.projectId ?? (await findOrInsertProject({ labId: fields.labId, name: fields.projectName!, createdBy: user.id }, trx))
+    const projectId =
+      fields.projectId ??
+      (await findOrInsertProject({ labId: fields.labId, name: fields.projectName!, createdBy: user.id }, trx))
     const id = await insertDataset(
-      { labId: fields.labId, projectId, name: fields.name ?? defaultName(file.originalName), description: fields.description, createdBy: user.id },
+      {
+        labId: fields.labId,
+        projectId,
+        name: fields.name ?? defaultName(file.originalName),
+        description: fields.description,
+        createdBy: user.id,
+      },
       trx,
     )
     const stored = await storeVersion(trx, id, 1, user.id, file, fields.sheet, progress, onOriginalKept)
@@ -182,7 +235,13 @@ export async function createDatasetFromUpload(user: CurrentUser, fields: Dataset
 }
 
 /** A new version of an existing dataset; earlier versions stay as they are. */
-export async function addVersionFromUpload(user: CurrentUser, datasetId: number, sheet: string | undefined, file: UploadedFile, progress: ProgressSink): Promise<DatasetVersionDetail> {
+export async function addVersionFromUpload(
+  user: CurrentUser,
+  datasetId: number,
+  sheet: string | undefined,
+  file: UploadedFile,
+  progress: ProgressSink,
+): Promise<DatasetVersionDetail> {
   await datasetFor(user, datasetId, 'write')
   const { versionNo, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
@@ -210,10 +269,26 @@ export interface SeedDatasetInput {
  */
 export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Promise<number> {
   const { id, versionId } = await knex.transaction(async (trx) => {
-    const projectId = await findOrInsertProject({ labId: input.labId, name: input.projectName, createdBy: input.userId }, trx)
-    const id = await insertDataset({ labId: input.labId, projectId, name: input.name, description: input.description, createdBy: input.userId }, trx)
+    const projectId = await findOrInsertProject(
+      { labId: input.labId, name: input.projectName, createdBy: input.userId },
+      trx,
+    )
+    const id = await insertDataset(
+      {
+        labId: input.labId,
+        projectId,
+        name: input.name,
+        description: input.description,
+        createdBy: input.userId,
+      },
+      trx,
+    )
     const stored = await storeVersion(trx, id, 1, input.userId, input.file, undefined, noProgress, () => {})
-    if (input.tagging) await insertTagging({ versionId: stored.versionId, ...input.tagging, carriedOver: false, createdBy: input.userId }, trx)
+    if (input.tagging)
+      await insertTagging(
+        { versionId: stored.versionId, ...input.tagging, carriedOver: false, createdBy: input.userId },
+        trx,
+      )
     return { id, versionId: stored.versionId }
   })
   await indexRowsTable(versionId, knex)
@@ -230,7 +305,12 @@ const HOUR_MS = 60 * 60 * 1000
  * files older than a day and stored originals no version refers to (older than an hour, so
  * uploads in flight are safe) are deleted.
  */
-export async function sweepDatasetLeftovers(): Promise<{ versions: number; tables: number; tempFiles: number; originals: number }> {
+export async function sweepDatasetLeftovers(): Promise<{
+  versions: number
+  tables: number
+  tempFiles: number
+  originals: number
+}> {
   const { versions, tables } = await db.transaction(async (trx) => {
     // Taken first so two processes starting at once do not sweep each other's work twice.
     await trx.raw('SELECT pg_advisory_xact_lock(hashtext(?))', ['nestwise-dataset-sweep'])
@@ -243,12 +323,16 @@ export async function sweepDatasetLeftovers(): Promise<{ versions: number; table
     return { versions: unfinished.length, tables: orphans.length }
   })
   for (const id of await listUnindexedRowsTables()) {
-    await indexRowsTable(id).catch((err) => logger.warn('could not index a rows table', { versionId: id, err }))
+    await indexRowsTable(id).catch((err) =>
+      logger.warn('could not index a rows table', { versionId: id, err }),
+    )
   }
   const temp = await staleFiles(ingestConfig.uploadsDir, DAY_MS)
   for (const name of temp) await rm(join(ingestConfig.uploadsDir, name), { force: true })
   const hashes = await listVersionHashes()
-  const unreferenced = (await staleFiles(ingestConfig.originalsDir, HOUR_MS)).filter((name) => /^[0-9a-f]{64}$/.test(name) && !hashes.has(name))
+  const unreferenced = (await staleFiles(ingestConfig.originalsDir, HOUR_MS)).filter(
+    (name) => /^[0-9a-f]{64}$/.test(name) && !hashes.has(name),
+  )
   for (const name of unreferenced) await discardOriginal(name)
   return { versions, tables, tempFiles: temp.length, originals: unreferenced.length }
 }

@@ -1,9 +1,23 @@
 import type { CurrentUser } from '../../shared/schemas/auth'
-import type { DatasetDetail, DatasetSummary, DatasetUpdate, DatasetVersionDetail } from '../../shared/schemas/datasets'
+import type {
+  DatasetDetail,
+  DatasetSummary,
+  DatasetUpdate,
+  DatasetVersionDetail,
+} from '../../shared/schemas/datasets'
 import { db } from '../db'
 import { ForbiddenError, NotFoundError } from '../errors/app-error'
 import { currentTagging, listExclusions } from '../repositories/datasets-annotations.repo'
-import { findDataset, getSuggestion, latestVersions, listColumns, listDatasets, listVersions, setDatasetDeleted, updateDataset } from '../repositories/datasets.repo'
+import {
+  findDataset,
+  getSuggestion,
+  latestVersions,
+  listColumns,
+  listDatasets,
+  listVersions,
+  setDatasetDeleted,
+  updateDataset,
+} from '../repositories/datasets.repo'
 import { findProject } from '../repositories/projects.repo'
 import { canDelete, canWrite, datasetFor, readableLabIds, versionFor } from './datasets-access.service'
 
@@ -17,7 +31,10 @@ export interface DatasetListFilter {
  * Datasets of the caller's labs (optionally one lab or project), newest activity first.
  * `deleted` lists soft-deleted datasets of every lab, for instance administrators restoring one.
  */
-export async function listDatasetsFor(user: CurrentUser, filter: DatasetListFilter): Promise<DatasetSummary[]> {
+export async function listDatasetsFor(
+  user: CurrentUser,
+  filter: DatasetListFilter,
+): Promise<DatasetSummary[]> {
   let labIds: number[] | 'all'
   if (filter.deleted) {
     if (!user.isAdmin) throw new ForbiddenError('Only instance administrators can list deleted datasets.')
@@ -38,11 +55,19 @@ export async function getDatasetDetail(user: CurrentUser, datasetId: number): Pr
     ...dataset,
     latestVersion: versions[0] ?? null,
     versions,
-    permissions: { upload: canWrite(user, dataset.labId), edit: canWrite(user, dataset.labId), delete: canDelete(user, dataset) },
+    permissions: {
+      upload: canWrite(user, dataset.labId),
+      edit: canWrite(user, dataset.labId),
+      delete: canDelete(user, dataset),
+    },
   }
 }
 
-export async function getVersionDetail(user: CurrentUser, datasetId: number, versionNo: number): Promise<DatasetVersionDetail> {
+export async function getVersionDetail(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+): Promise<DatasetVersionDetail> {
   const { version } = await versionFor(user, datasetId, versionNo, 'read')
   const [columns, suggestion, tagging, exclusions] = await Promise.all([
     listColumns(version.id),
@@ -54,7 +79,11 @@ export async function getVersionDetail(user: CurrentUser, datasetId: number, ver
   return { ...version, columns, suggestion, tagging, exclusions }
 }
 
-export async function updateDatasetFor(user: CurrentUser, datasetId: number, changes: DatasetUpdate): Promise<DatasetDetail> {
+export async function updateDatasetFor(
+  user: CurrentUser,
+  datasetId: number,
+  changes: DatasetUpdate,
+): Promise<DatasetDetail> {
   const dataset = await datasetFor(user, datasetId, 'write')
   if (changes.projectId !== undefined) {
     const project = await findProject(changes.projectId)

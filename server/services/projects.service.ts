@@ -2,7 +2,13 @@ import type { CurrentUser } from '../../shared/schemas/auth'
 import type { Project, ProjectCreate, ProjectUpdate } from '../../shared/schemas/datasets'
 import { db } from '../db'
 import { ConflictError, NotFoundError } from '../errors/app-error'
-import { findProject, findProjectByName, insertProject, listProjects, updateProject } from '../repositories/projects.repo'
+import {
+  findProject,
+  findProjectByName,
+  insertProject,
+  listProjects,
+  updateProject,
+} from '../repositories/projects.repo'
 import { assertCanWriteInLab, membershipIn, readableLabIds } from './datasets-access.service'
 
 /** Projects group a lab's datasets. Members read them; scientists and PIs create and rename them. */
@@ -14,13 +20,21 @@ export async function listProjectsFor(user: CurrentUser, labId?: number): Promis
 export async function createProjectFor(user: CurrentUser, input: ProjectCreate): Promise<Project> {
   assertCanWriteInLab(user, input.labId)
   return db.transaction(async (trx) => {
-    if (await findProjectByName(input.labId, input.name, trx)) throw new ConflictError(`The lab already has a project named “${input.name}”.`)
-    const id = await insertProject({ labId: input.labId, name: input.name, description: input.description, createdBy: user.id }, trx)
+    if (await findProjectByName(input.labId, input.name, trx))
+      throw new ConflictError(`The lab already has a project named “${input.name}”.`)
+    const id = await insertProject(
+      { labId: input.labId, name: input.name, description: input.description, createdBy: user.id },
+      trx,
+    )
     return (await findProject(id, trx))!
   })
 }
 
-export async function updateProjectFor(user: CurrentUser, projectId: number, changes: ProjectUpdate): Promise<Project> {
+export async function updateProjectFor(
+  user: CurrentUser,
+  projectId: number,
+  changes: ProjectUpdate,
+): Promise<Project> {
   const project = await findProject(projectId)
   if (!project || !membershipIn(user, project.labId)) throw new NotFoundError('Project not found.')
   assertCanWriteInLab(user, project.labId, 'Project')

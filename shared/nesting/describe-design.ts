@@ -1,5 +1,14 @@
 import type { ConditionPlacement, DesignSummary } from '../schemas/datasets'
-import { buildPaths, childrenPerParent, conditionDepth, reusedLabels, rowsPerUnit, type CodedColumn, type PathLevel, type Spread } from './unit-paths'
+import {
+  buildPaths,
+  childrenPerParent,
+  conditionDepth,
+  reusedLabels,
+  rowsPerUnit,
+  type CodedColumn,
+  type PathLevel,
+  type Spread,
+} from './unit-paths'
 
 export interface DesignInput {
   rowCount: number
@@ -30,7 +39,9 @@ export function levelSentences(paths: readonly PathLevel[]): string[] {
     if (d === 0) out.push(`${q(name)} has ${fmt(level.count)} ${level.count === 1 ? 'unit' : 'units'}.`)
     else {
       const per = childrenPerParent(level, paths[d - 1].count)
-      out.push(`${q(name)} has ${fmt(level.count)} units, ${per ? spreadWords(per) : '0'} in each ${q(paths[d - 1].column.name)}.`)
+      out.push(
+        `${q(name)} has ${fmt(level.count)} units, ${per ? spreadWords(per) : '0'} in each ${q(paths[d - 1].column.name)}.`,
+      )
     }
     if (d > 0) {
       const reused = reusedLabels(level, 1)
@@ -51,14 +62,21 @@ export function levelSentences(paths: readonly PathLevel[]): string[] {
   return out
 }
 
-export function placementOf(paths: readonly PathLevel[], condition: CodedColumn): { depth: number; placement: ConditionPlacement } {
+export function placementOf(
+  paths: readonly PathLevel[],
+  condition: CodedColumn,
+): { depth: number; placement: ConditionPlacement } {
   const depth = conditionDepth(paths, condition)
   if (depth === -1) return { depth, placement: 'within-innermost' }
   return { depth, placement: depth === 0 ? 'between-top' : 'between-units' }
 }
 
 /** One plain sentence on where the condition varies and what the independent units are for it. */
-export function placementSentence(paths: readonly PathLevel[], condition: CodedColumn, depth: number): string {
+export function placementSentence(
+  paths: readonly PathLevel[],
+  condition: CodedColumn,
+  depth: number,
+): string {
   const c = q(condition.name)
   if (depth === -1) {
     const inner = q(paths[paths.length - 1].column.name)
@@ -70,11 +88,18 @@ export function placementSentence(paths: readonly PathLevel[], condition: CodedC
   }
   const parent = q(paths[depth - 1].column.name)
   const crossedParents = countParentsWithBothArms(paths, depth, condition)
-  const within = crossedParents === paths[depth - 1].count ? `every ${parent} unit` : `${fmt(crossedParents)} of ${fmt(paths[depth - 1].count)} ${parent} units`
+  const within =
+    crossedParents === paths[depth - 1].count
+      ? `every ${parent} unit`
+      : `${fmt(crossedParents)} of ${fmt(paths[depth - 1].count)} ${parent} units`
   return `Each ${level} unit has a single ${c} value, and ${within} holds more than one: the comparison is between ${level} units within ${parent}, so the ${level} units are the independent units for it.`
 }
 
-function countParentsWithBothArms(paths: readonly PathLevel[], depth: number, condition: CodedColumn): number {
+function countParentsWithBothArms(
+  paths: readonly PathLevel[],
+  depth: number,
+  condition: CodedColumn,
+): number {
   const level = paths[depth]
   const parentCount = paths[depth - 1].count
   const unitCondition = new Int32Array(level.count).fill(-1)
@@ -154,7 +179,12 @@ export function describeDesign(input: DesignInput): DesignFacts {
   }
 }
 
-function armsOf(paths: readonly PathLevel[], condition: CodedColumn, depth: number, rowCount: number): DesignSummary['arms'] {
+function armsOf(
+  paths: readonly PathLevel[],
+  condition: CodedColumn,
+  depth: number,
+  rowCount: number,
+): DesignSummary['arms'] {
   const labelCount = condition.labels.length
   const observations = new Int32Array(labelCount)
   const units = new Int32Array(labelCount)
@@ -175,7 +205,11 @@ function armsOf(paths: readonly PathLevel[], condition: CodedColumn, depth: numb
   const out: DesignSummary['arms'] = []
   for (let c = 0; c < labelCount; c++) {
     if (observations[c] === 0) continue
-    out.push({ value: condition.labels[c], unitCount: level ? units[c] : observations[c], observationCount: observations[c] })
+    out.push({
+      value: condition.labels[c],
+      unitCount: level ? units[c] : observations[c],
+      observationCount: observations[c],
+    })
   }
   return out
 }

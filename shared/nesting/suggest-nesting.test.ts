@@ -26,17 +26,37 @@ function coded(name: string, values: (string | null)[]): CodedColumn {
 
 function column(name: string, type: ColumnType, values: (string | null)[]): SuggestionColumn {
   const c = coded(name, values)
-  return { name, type, distinctCount: c.labels.length, missingCount: values.filter((v) => v === null).length, coded: c }
+  return {
+    name,
+    type,
+    distinctCount: c.labels.length,
+    missingCount: values.filter((v) => v === null).length,
+    coded: c,
+  }
 }
 
 /** Invented layout: `labs` labs, animals m1…mK reused in every lab, treatment per animal, n cells numbered 1…n. */
 function betweenAnimals(labs = 3, animals = 4, cells = 10) {
-  const rows: { lab: string; city: string; animal: string; treatment: string; cell: string; length: string }[] = []
+  const rows: {
+    lab: string
+    city: string
+    animal: string
+    treatment: string
+    cell: string
+    length: string
+  }[] = []
   let k = 0
   for (let l = 1; l <= labs; l++)
     for (let a = 1; a <= animals; a++)
       for (let c = 1; c <= cells; c++) {
-        rows.push({ lab: `Lab ${l}`, city: `City ${l}`, animal: `m${a}`, treatment: a % 2 ? 'vehicle' : 'NW-117', cell: String(c), length: (100 + ((k++ * 7919) % 97) / 3).toFixed(2) })
+        rows.push({
+          lab: `Lab ${l}`,
+          city: `City ${l}`,
+          animal: `m${a}`,
+          treatment: a % 2 ? 'vehicle' : 'NW-117',
+          cell: String(c),
+          length: (100 + ((k++ * 7919) % 97) / 3).toFixed(2),
+        })
       }
   return rows
 }
@@ -45,17 +65,41 @@ describe('suggestNesting', () => {
   it('finds lab › animal, the treatment between animals, the response, and reused animal labels', () => {
     const rows = betweenAnimals()
     const s = suggestNesting(rows.length, [
-      column('lab', 'text', rows.map((r) => r.lab)),
-      column('lab_city', 'text', rows.map((r) => r.city)),
-      column('animal', 'text', rows.map((r) => r.animal)),
-      column('treatment', 'text', rows.map((r) => r.treatment)),
-      column('cell', 'integer', rows.map((r) => r.cell)),
+      column(
+        'lab',
+        'text',
+        rows.map((r) => r.lab),
+      ),
+      column(
+        'lab_city',
+        'text',
+        rows.map((r) => r.city),
+      ),
+      column(
+        'animal',
+        'text',
+        rows.map((r) => r.animal),
+      ),
+      column(
+        'treatment',
+        'text',
+        rows.map((r) => r.treatment),
+      ),
+      column(
+        'cell',
+        'integer',
+        rows.map((r) => r.cell),
+      ),
       { name: 'neurite_length', type: 'numeric', distinctCount: 97, missingCount: 0, coded: null },
     ])
     expect(s.levels.map((l) => l.column)).toEqual(['lab', 'animal'])
     expect(s.levels[0].unitCount).toBe(3)
     // 3 labs × 4 animals: the path keys m1 of Lab 1 apart from m1 of Lab 2.
-    expect(s.levels[1]).toMatchObject({ unitCount: 12, perParent: { min: 4, median: 4, max: 4 }, reusedLabels: ['m1', 'm2', 'm3', 'm4'] })
+    expect(s.levels[1]).toMatchObject({
+      unitCount: 12,
+      perParent: { min: 4, median: 4, max: 4 },
+      reusedLabels: ['m1', 'm2', 'm3', 'm4'],
+    })
     expect(s.aliases).toEqual([{ column: 'lab_city', sameAs: 'lab' }])
     expect(s.conditionColumn).toBe('treatment')
     expect(s.conditionLevel).toBe('animal')
@@ -76,7 +120,11 @@ describe('suggestNesting', () => {
           coverslip.push(`cs${c}`)
           treatment.push(c <= 2 ? 'untreated' : 'treated')
         }
-    const s = suggestNesting(animal.length, [column('animal', 'text', animal), column('coverslip', 'text', coverslip), column('treatment', 'text', treatment)])
+    const s = suggestNesting(animal.length, [
+      column('animal', 'text', animal),
+      column('coverslip', 'text', coverslip),
+      column('treatment', 'text', treatment),
+    ])
     expect(s.levels.map((l) => l.column)).toEqual(['animal', 'coverslip'])
     expect(s.conditionLevel).toBe('coverslip')
     expect(s.conditionPlacement).toBe('between-units')
@@ -91,7 +139,14 @@ describe('suggestNesting', () => {
     const dose = ['low', 'low', 'low', 'high', 'high', 'high', 'low', 'low', 'low', 'high', 'high', 'high']
     const s = suggestNesting(lab.length, [column('site', 'text', lab), column('dose', 'text', dose)])
     expect(s.conditionPlacement).toBe('between-top')
-    const mixed = suggestNesting(lab.length, [column('site', 'text', lab), column('dose', 'text', lab.map((_, r) => (r % 2 ? 'low' : 'high')))])
+    const mixed = suggestNesting(lab.length, [
+      column('site', 'text', lab),
+      column(
+        'dose',
+        'text',
+        lab.map((_, r) => (r % 2 ? 'low' : 'high')),
+      ),
+    ])
     expect(mixed.conditionPlacement).toBe('within-innermost')
     expect(mixed.conditionLevel).toBeNull()
   })
@@ -99,14 +154,24 @@ describe('suggestNesting', () => {
   it('keeps integer measurements out of the levels but takes integer unit numbers', () => {
     const animal: string[] = []
     const branches: string[] = []
-    for (let a = 1; a <= 6; a++) for (let n = 0; n < 10; n++) (animal.push(String(a)), branches.push(String((a * 7 + n * 3) % 11)))
-    const s = suggestNesting(animal.length, [column('animal', 'integer', animal), column('branch_count', 'integer', branches)])
+    for (let a = 1; a <= 6; a++) {
+      for (let n = 0; n < 10; n++) {
+        animal.push(String(a))
+        branches.push(String((a * 7 + n * 3) % 11))
+      }
+    }
+    const s = suggestNesting(animal.length, [
+      column('animal', 'integer', animal),
+      column('branch_count', 'integer', branches),
+    ])
     expect(s.levels.map((l) => l.column)).toEqual(['animal'])
     expect(s.responseColumns).toEqual(['branch_count'])
   })
 
   it('explains when nothing groups the rows', () => {
-    const s = suggestNesting(4, [{ name: 'y', type: 'numeric', distinctCount: 4, missingCount: 0, coded: null }])
+    const s = suggestNesting(4, [
+      { name: 'y', type: 'numeric', distinctCount: 4, missingCount: 0, coded: null },
+    ])
     expect(s.levels).toEqual([])
     expect(s.explanation[0]).toContain('No column groups the rows')
   })
@@ -119,8 +184,17 @@ describe('describeDesign', () => {
     animal[5] = null
     const d = describeDesign({
       rowCount: rows.length,
-      levels: [coded('lab', rows.map((r) => r.lab)), coded('animal', animal)],
-      condition: coded('treatment', rows.map((r) => r.treatment)),
+      levels: [
+        coded(
+          'lab',
+          rows.map((r) => r.lab),
+        ),
+        coded('animal', animal),
+      ],
+      condition: coded(
+        'treatment',
+        rows.map((r) => r.treatment),
+      ),
     })
     expect(d.levels.map((l) => l.unitCount)).toEqual([2, 8])
     expect(d.conditionLevel).toBe('animal')

@@ -11,20 +11,92 @@ export interface SuggestionColumn {
   coded: CodedColumn | null
 }
 
-const CONDITION_WORDS = new Set(['treatment', 'treatments', 'treat', 'condition', 'conditions', 'cond', 'group', 'groups', 'genotype', 'dose', 'doses', 'drug', 'compound', 'arm', 'stimulus', 'stim', 'intervention', 'therapy', 'exposure'])
-const CONDITION_VALUES = new Set(['vehicle', 'veh', 'control', 'ctrl', 'placebo', 'sham', 'dmso', 'saline', 'untreated', 'treated', 'wt', 'wildtype', 'wild-type', 'ko', 'knockout', 'mock'])
+const CONDITION_WORDS = new Set([
+  'treatment',
+  'treatments',
+  'treat',
+  'condition',
+  'conditions',
+  'cond',
+  'group',
+  'groups',
+  'genotype',
+  'dose',
+  'doses',
+  'drug',
+  'compound',
+  'arm',
+  'stimulus',
+  'stim',
+  'intervention',
+  'therapy',
+  'exposure',
+])
+const CONDITION_VALUES = new Set([
+  'vehicle',
+  'veh',
+  'control',
+  'ctrl',
+  'placebo',
+  'sham',
+  'dmso',
+  'saline',
+  'untreated',
+  'treated',
+  'wt',
+  'wildtype',
+  'wild-type',
+  'ko',
+  'knockout',
+  'mock',
+])
 /**
  * Usual outer-to-inner order of unit words in lab data (common practice, no source). Used only when
  * the data cannot tell which of two columns is outer (labels reused, so they look crossed).
  */
 const UNIT_RANK: Record<string, number> = {
-  consortium: 0, lab: 0, labs: 0, site: 0, centre: 0, center: 0,
-  experiment: 1, day: 1, date: 1, batch: 1, session: 1, week: 1,
-  cage: 2, litter: 2,
-  animal: 3, mouse: 3, mice: 3, rat: 3, subject: 3, patient: 3, donor: 3, participant: 3, fish: 3, embryo: 3,
-  culture: 4, prep: 4, preparation: 4, slice: 4, section: 4, organoid: 4, explant: 4, replicate: 4,
-  plate: 5, slide: 5, coverslip: 5, dish: 5, chamber: 5,
-  well: 6, field: 6, image: 6, fov: 6, tile: 6,
+  consortium: 0,
+  lab: 0,
+  labs: 0,
+  site: 0,
+  centre: 0,
+  center: 0,
+  experiment: 1,
+  day: 1,
+  date: 1,
+  batch: 1,
+  session: 1,
+  week: 1,
+  cage: 2,
+  litter: 2,
+  animal: 3,
+  mouse: 3,
+  mice: 3,
+  rat: 3,
+  subject: 3,
+  patient: 3,
+  donor: 3,
+  participant: 3,
+  fish: 3,
+  embryo: 3,
+  culture: 4,
+  prep: 4,
+  preparation: 4,
+  slice: 4,
+  section: 4,
+  organoid: 4,
+  explant: 4,
+  replicate: 4,
+  plate: 5,
+  slide: 5,
+  coverslip: 5,
+  dish: 5,
+  chamber: 5,
+  well: 6,
+  field: 6,
+  image: 6,
+  fov: 6,
+  tile: 6,
 }
 const UNIT_WORDS = new Set([...Object.keys(UNIT_RANK), 'id'])
 
@@ -33,7 +105,20 @@ function unitRank(name: string): number | null {
   return null
 }
 /** Integer columns named like this number objects; they are never suggested as a response. */
-const ID_WORDS = new Set(['id', 'index', 'idx', 'cell', 'neuron', 'nucleus', 'roi', 'object', 'track', 'no', 'nr', 'number'])
+const ID_WORDS = new Set([
+  'id',
+  'index',
+  'idx',
+  'cell',
+  'neuron',
+  'nucleus',
+  'roi',
+  'object',
+  'track',
+  'no',
+  'nr',
+  'number',
+])
 const MAX_CONDITION_VALUES = 12
 /** A grouping column changes value rarely from one row to the next (exports list a unit's rows together). */
 const MAX_RUN_SHARE = 0.2
@@ -107,7 +192,11 @@ function resolveCrossed(best: Trial, trials: readonly Trial[], rowCount: number)
     return splitsBest && splitByBest
   })
   if (!contenders.length) return best
-  const key = (t: Trial) => ({ rank: unitRank(t.column.name), runs: runCount(t.column.coded!, rowCount), count: t.level.count })
+  const key = (t: Trial) => ({
+    rank: unitRank(t.column.name),
+    runs: runCount(t.column.coded!, rowCount),
+    count: t.level.count,
+  })
   return [best, ...contenders].sort((a, b) => {
     const ka = key(a)
     const kb = key(b)
@@ -160,7 +249,11 @@ export function suggestNesting(rowCount: number, columns: readonly SuggestionCol
       }
     }
     if (!best) break
-    best = resolveCrossed(best, trials.filter((t) => next.includes(t.column)), rowCount)
+    best = resolveCrossed(
+      best,
+      trials.filter((t) => next.includes(t.column)),
+      rowCount,
+    )
     paths.push(best.level)
     const chosen = best.column
     remaining = next.filter((c) => c !== chosen)
@@ -169,17 +262,26 @@ export function suggestNesting(rowCount: number, columns: readonly SuggestionCol
   // Integer columns that are unique within the innermost unit number the observations (cell 1, 2, 3 … in each animal).
   const innermost = paths[paths.length - 1]
   for (const column of columns) {
-    if (column.type !== 'integer' || candidates.includes(column) || observationIds.includes(column.name)) continue
+    if (column.type !== 'integer' || candidates.includes(column) || observationIds.includes(column.name))
+      continue
     const namedLikeId = nameWords(column.name).some((w) => ID_WORDS.has(w))
     const counting = column.coded ? countsUpByOne(column.coded, rowCount) : false
-    const uniqueWithinUnits = counting && innermost ? extendPaths(innermost, column.coded!, rowCount).count >= 0.95 * rowCount : false
+    const uniqueWithinUnits =
+      counting && innermost ? extendPaths(innermost, column.coded!, rowCount).count >= 0.95 * rowCount : false
     if (namedLikeId || uniqueWithinUnits) observationIds.push(column.name)
   }
 
-  const used = new Set([...paths.map((p) => p.column.name), ...aliases.map((a) => a.column), ...observationIds])
+  const used = new Set([
+    ...paths.map((p) => p.column.name),
+    ...aliases.map((a) => a.column),
+    ...observationIds,
+  ])
   if (conditionPick) used.add(conditionPick.name)
   const responseColumns = columns
-    .filter((c) => !used.has(c.name) && (c.type === 'numeric' || c.type === 'integer') && c.missingCount < rowCount / 2)
+    .filter(
+      (c) =>
+        !used.has(c.name) && (c.type === 'numeric' || c.type === 'integer') && c.missingCount < rowCount / 2,
+    )
     .filter((c) => !candidates.includes(c))
     .map((c) => c.name)
 
@@ -190,12 +292,23 @@ export function suggestNesting(rowCount: number, columns: readonly SuggestionCol
     explanation.push(`Suggested nesting, outermost first: ${paths.map((p) => q(p.column.name)).join(' › ')}.`)
     explanation.push(...levelSentences(paths))
   } else {
-    explanation.push('No column groups the rows into units. Pick the columns that identify your independent units (for example animal or culture) yourself.')
+    explanation.push(
+      'No column groups the rows into units. Pick the columns that identify your independent units (for example animal or culture) yourself.',
+    )
   }
-  for (const alias of aliases) explanation.push(`${q(alias.column)} adds nothing beyond ${q(alias.sameAs)} (one value per unit), so it is not a separate level.`)
-  for (const name of observationIds) explanation.push(`${q(name)} is different for almost every row, so it numbers the observations rather than grouping them.`)
+  for (const alias of aliases)
+    explanation.push(
+      `${q(alias.column)} adds nothing beyond ${q(alias.sameAs)} (one value per unit), so it is not a separate level.`,
+    )
+  for (const name of observationIds)
+    explanation.push(
+      `${q(name)} is different for almost every row, so it numbers the observations rather than grouping them.`,
+    )
   if (conditionPick && condition) {
-    const values = condition.labels.slice(0, MAX_CONDITION_VALUES).map((l) => `“${l}”`).join(', ')
+    const values = condition.labels
+      .slice(0, MAX_CONDITION_VALUES)
+      .map((l) => `“${l}”`)
+      .join(', ')
     explanation.push(`${q(conditionPick.name)} looks like the condition to compare (${values}).`)
     if (paths.length) {
       const { depth, placement } = placementOf(paths, condition)
@@ -204,9 +317,12 @@ export function suggestNesting(rowCount: number, columns: readonly SuggestionCol
       explanation.push(placementSentence(paths, condition, depth))
     }
   } else {
-    explanation.push('No column looks like a condition (treatment, genotype, dose). Pick one if you compare conditions.')
+    explanation.push(
+      'No column looks like a condition (treatment, genotype, dose). Pick one if you compare conditions.',
+    )
   }
-  if (responseColumns.length) explanation.push(`Numeric columns that can be the response: ${responseColumns.map(q).join(', ')}.`)
+  if (responseColumns.length)
+    explanation.push(`Numeric columns that can be the response: ${responseColumns.map(q).join(', ')}.`)
 
   return {
     levels: paths.map((level, d) => ({

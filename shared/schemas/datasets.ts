@@ -106,7 +106,12 @@ export const TaggingInput = z
     const all = [...v.responseColumns, ...(v.conditionColumn ? [v.conditionColumn] : []), ...v.levels]
     const seen = new Set<string>()
     for (const name of all) {
-      if (seen.has(name)) ctx.addIssue({ code: 'custom', message: `"${name}" is used twice; each column can have one role`, path: [] })
+      if (seen.has(name))
+        ctx.addIssue({
+          code: 'custom',
+          message: `"${name}" is used twice; each column can have one role`,
+          path: [],
+        })
       seen.add(name)
     }
   })
@@ -126,7 +131,9 @@ export const DesignSummary = z.object({
   conditionLevel: z.string().nullable(),
   conditionPlacement: ConditionPlacement.nullable(),
   /** Per condition value: units at the condition level (or observations when it varies within every unit). */
-  arms: z.array(z.object({ value: z.string(), unitCount: z.number().int(), observationCount: z.number().int() })),
+  arms: z.array(
+    z.object({ value: z.string(), unitCount: z.number().int(), observationCount: z.number().int() }),
+  ),
   explanation: z.array(z.string()),
 })
 export type DesignSummary = z.infer<typeof DesignSummary>
@@ -154,14 +161,23 @@ export const ExclusionRule = z
     column: ColumnName,
     operator: RuleOperator,
     /** Text for eq/ne on text columns; a number (or numeric text) for numeric comparisons; absent for `missing`. */
-    value: z.union([z.string().max(10_000), z.number()]).nullable().default(null),
+    value: z
+      .union([z.string().max(10_000), z.number()])
+      .nullable()
+      .default(null),
   })
-  .refine((r) => r.operator === 'missing' || r.value !== null, { error: 'This rule needs a value', path: ['value'] })
+  .refine((r) => r.operator === 'missing' || r.value !== null, {
+    error: 'This rule needs a value',
+    path: ['value'],
+  })
 export type ExclusionRule = z.infer<typeof ExclusionRule>
 
 export const ExclusionUnit = z.object({
   /** From the outermost level down to the unit: [{ column: 'lab', value: 'Nimbus' }, { column: 'animal', value: 'm03' }]. */
-  path: z.array(z.object({ column: ColumnName, value: z.string().max(10_000) })).min(1).max(8),
+  path: z
+    .array(z.object({ column: ColumnName, value: z.string().max(10_000) }))
+    .min(1)
+    .max(8),
 })
 export type ExclusionUnit = z.infer<typeof ExclusionUnit>
 
@@ -256,7 +272,10 @@ export const DatasetListQuery = z.object({
   labId: Id.optional(),
   projectId: Id.optional(),
   /** Admins only: list soft-deleted datasets (of every lab) to restore one. */
-  deleted: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
+  deleted: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
 })
 
 export const DatasetUpdate = z
@@ -265,7 +284,9 @@ export const DatasetUpdate = z
     description: z.string().trim().max(5000).optional(),
     projectId: Id.optional(),
   })
-  .refine((v) => v.name !== undefined || v.description !== undefined || v.projectId !== undefined, { error: 'Nothing to change' })
+  .refine((v) => v.name !== undefined || v.description !== undefined || v.projectId !== undefined, {
+    error: 'Nothing to change',
+  })
 export type DatasetUpdate = z.infer<typeof DatasetUpdate>
 
 /** Text fields of the multipart upload that creates a dataset (the file goes in the field `file`). */
@@ -280,7 +301,10 @@ export const DatasetUploadFields = z
     /** XLSX only: sheet name or 1-based number; default the first sheet. */
     sheet: z.string().trim().max(200).optional(),
   })
-  .refine((v) => v.projectId !== undefined || v.projectName !== undefined, { error: 'Choose a project or name a new one', path: ['projectId'] })
+  .refine((v) => v.projectId !== undefined || v.projectName !== undefined, {
+    error: 'Choose a project or name a new one',
+    path: ['projectId'],
+  })
 export type DatasetUploadFields = z.infer<typeof DatasetUploadFields>
 
 export const VersionUploadFields = z.object({ sheet: z.string().trim().max(200).optional() })
@@ -296,7 +320,10 @@ export const RowsQuery = z.object({
   pageSize: z.coerce.number().int().min(1).max(500).default(50),
   /** Column name; numeric columns sort numerically, missing values last. */
   sortBy: z.string().max(200).optional(),
-  sortDesc: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
+  sortDesc: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
   /** Which rows: all, only those kept for analysis, or only excluded ones. */
   show: z.enum(['all', 'included', 'excluded']).default('all'),
 })

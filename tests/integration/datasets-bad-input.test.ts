@@ -15,38 +15,114 @@ beforeAll(async () => {
 })
 
 async function rowsTableCount(): Promise<number> {
-  const result = await db.raw(`SELECT count(*)::int AS n FROM pg_tables WHERE tablename ~ '^dataset_rows_[0-9]+$'`)
+  const result = await db.raw(
+    `SELECT count(*)::int AS n FROM pg_tables WHERE tablename ~ '^dataset_rows_[0-9]+$'`,
+  )
   return result.rows[0].n
 }
 
 async function refused(file: Buffer, name: string) {
-  const datasetsBefore = await db('datasets').where({ lab_id: team.lab.id }).count<{ n: number }[]>('* as n').first()
+  const datasetsBefore = await db('datasets')
+    .where({ lab_id: team.lab.id })
+    .count<{ n: number }[]>('* as n')
+    .first()
   const tablesBefore = await rowsTableCount()
-  const res = await uploadDataset(app, team.cookies.scientist, file, name, { labId: team.lab.id, name: `bad ${name}` })
+  const res = await uploadDataset(app, team.cookies.scientist, file, name, {
+    labId: team.lab.id,
+    name: `bad ${name}`,
+  })
   // Nothing of a refused upload stays behind: no dataset, no version, no rows table.
-  const datasetsAfter = await db('datasets').where({ lab_id: team.lab.id }).count<{ n: number }[]>('* as n').first()
+  const datasetsAfter = await db('datasets')
+    .where({ lab_id: team.lab.id })
+    .count<{ n: number }[]>('* as n')
+    .first()
   expect(Number(datasetsAfter?.n)).toBe(Number(datasetsBefore?.n))
   expect(await rowsTableCount()).toBe(tablesBefore)
   return res
 }
 
 describe('bad files are refused with a message naming row and column', () => {
-  const cases: { file: string; status: number; reason: string; message: RegExp; row?: number; column?: string }[] = [
+  const cases: {
+    file: string
+    status: number
+    reason: string
+    message: RegExp
+    row?: number
+    column?: string
+  }[] = [
     { file: 'empty.csv', status: 400, reason: 'EMPTY_FILE', message: /The file is empty/ },
-    { file: 'header-only.csv', status: 400, reason: 'HEADER_ONLY', message: /header row \(4 columns\) but no data rows/ },
+    {
+      file: 'header-only.csv',
+      status: 400,
+      reason: 'HEADER_ONLY',
+      message: /header row \(4 columns\) but no data rows/,
+    },
     { file: 'one-row.csv', status: 422, reason: 'ONE_ROW', message: /only one data row/ },
     { file: 'picture.csv', status: 400, reason: 'BINARY_FILE', message: /does not contain text/ },
-    { file: 'workbook-renamed.csv', status: 400, reason: 'WORKBOOK_AS_TEXT', message: /Excel workbook .* with a \.csv name/ },
+    {
+      file: 'workbook-renamed.csv',
+      status: 400,
+      reason: 'WORKBOOK_AS_TEXT',
+      message: /Excel workbook .* with a \.csv name/,
+    },
     { file: 'old-excel.xls', status: 400, reason: 'OLD_EXCEL_FORMAT', message: /old Excel format/ },
-    { file: 'notes.pdf', status: 400, reason: 'UNSUPPORTED_FILE_TYPE', message: /\.csv, \.tsv, \.txt or \.xlsx/ },
-    { file: 'ragged-short-row.csv', status: 400, reason: 'RAGGED_ROW', message: /Row 7 has 3 values, but the header names 4 columns: values for column 4 \("neurite_length_um"\) onwards are missing/, row: 7 },
-    { file: 'ragged-long-row.csv', status: 400, reason: 'RAGGED_ROW', message: /Row 10 has 5 values, but the header names only 4 columns/, row: 10 },
-    { file: 'duplicate-header.csv', status: 400, reason: 'DUPLICATE_HEADER', message: /Columns 3 and 4 are both named "length"/, column: 'length' },
-    { file: 'blank-header.csv', status: 400, reason: 'BLANK_HEADER', message: /Column 2 has no name in the header row/ },
+    {
+      file: 'notes.pdf',
+      status: 400,
+      reason: 'UNSUPPORTED_FILE_TYPE',
+      message: /\.csv, \.tsv, \.txt or \.xlsx/,
+    },
+    {
+      file: 'ragged-short-row.csv',
+      status: 400,
+      reason: 'RAGGED_ROW',
+      message:
+        /Row 7 has 3 values, but the header names 4 columns: values for column 4 \("neurite_length_um"\) onwards are missing/,
+      row: 7,
+    },
+    {
+      file: 'ragged-long-row.csv',
+      status: 400,
+      reason: 'RAGGED_ROW',
+      message: /Row 10 has 5 values, but the header names only 4 columns/,
+      row: 10,
+    },
+    {
+      file: 'duplicate-header.csv',
+      status: 400,
+      reason: 'DUPLICATE_HEADER',
+      message: /Columns 3 and 4 are both named "length"/,
+      column: 'length',
+    },
+    {
+      file: 'blank-header.csv',
+      status: 400,
+      reason: 'BLANK_HEADER',
+      message: /Column 2 has no name in the header row/,
+    },
     { file: 'blank-row-between.csv', status: 400, reason: 'BLANK_ROW', message: /Row 5 is empty/, row: 5 },
-    { file: 'unterminated-quote.csv', status: 400, reason: 'UNTERMINATED_QUOTE', message: /Row 8, column 1 \("lab"\): a quoted value starts here but its closing quote never comes/, row: 8 },
-    { file: 'text-after-quote.csv', status: 400, reason: 'TEXT_AFTER_QUOTE', message: /Row 8, column 1 \("lab"\): there is text after the closing quote/, row: 8 },
-    { file: 'number-overflow.csv', status: 400, reason: 'NUMBER_OVERFLOW', message: /Row 11, column 4 \("neurite_length_um"\): 1e400 is too large/, row: 11, column: 'neurite_length_um' },
+    {
+      file: 'unterminated-quote.csv',
+      status: 400,
+      reason: 'UNTERMINATED_QUOTE',
+      message: /Row 8, column 1 \("lab"\): a quoted value starts here but its closing quote never comes/,
+      row: 8,
+    },
+    {
+      file: 'text-after-quote.csv',
+      status: 400,
+      reason: 'TEXT_AFTER_QUOTE',
+      message: /Row 8, column 1 \("lab"\): there is text after the closing quote/,
+      row: 8,
+    },
+    {
+      file: 'number-overflow.csv',
+      status: 400,
+      reason: 'NUMBER_OVERFLOW',
+      message: /Row 11, column 4 \("neurite_length_um"\): 1e400 is too large/,
+      row: 11,
+      column: 'neurite_length_um',
+    },
   ]
   for (const c of cases) {
     it(`${c.file} → ${c.status} ${c.reason}`, async () => {
@@ -70,7 +146,10 @@ describe('bad files are refused with a message naming row and column', () => {
 
   it('refuses a field longer than the limit (10,000 characters by default), naming row and column', async () => {
     const long = 'a'.repeat(10_001)
-    const res = await refused(Buffer.from(`lab,note\nNimbus,short\nNimbus,${long}\nFernhill,short\n`), 'long-note.csv')
+    const res = await refused(
+      Buffer.from(`lab,note\nNimbus,short\nNimbus,${long}\nFernhill,short\n`),
+      'long-note.csv',
+    )
     expect(res.status).toBe(400)
     expect(res.body.error.details).toMatchObject({ reason: 'FIELD_TOO_LONG', row: 3, column: 'note' })
     expect(res.body.error.message).toContain('Row 3, column 2 ("note"): the value is 10,001 characters long')
@@ -78,7 +157,10 @@ describe('bad files are refused with a message naming row and column', () => {
 
   it('stops reading a never-closed quote at the field limit instead of swallowing the file', async () => {
     const rest = Array.from({ length: 2000 }, (_, k) => `Nimbus,m${k % 4},vehicle,${k}`).join('\n')
-    const res = await refused(Buffer.from(`lab,mouse,treatment,length\n"Nimbus,m1,vehicle,1\n${rest}\n`), 'open-quote.csv')
+    const res = await refused(
+      Buffer.from(`lab,mouse,treatment,length\n"Nimbus,m1,vehicle,1\n${rest}\n`),
+      'open-quote.csv',
+    )
     expect(res.status).toBe(400)
     expect(res.body.error.details).toMatchObject({ reason: 'FIELD_TOO_LONG', row: 2, column: 'lab' })
   })
@@ -86,10 +168,19 @@ describe('bad files are refused with a message naming row and column', () => {
 
 describe('names with markup', () => {
   it('are stored and returned as plain text', async () => {
-    const res = await uploadDataset(app, team.cookies.scientist, fixture('markup-in-names.csv'), 'markup-in-names.csv', { labId: team.lab.id, name: '<i>Nimbus</i> run' })
+    const res = await uploadDataset(
+      app,
+      team.cookies.scientist,
+      fixture('markup-in-names.csv'),
+      'markup-in-names.csv',
+      { labId: team.lab.id, name: '<i>Nimbus</i> run' },
+    )
     expect(res.status).toBe(201)
     expect(res.body.data.name).toBe('<i>Nimbus</i> run')
-    const version = await db('dataset_columns').where({ version_id: res.body.data.latestVersion.id }).orderBy('position').pluck('name')
+    const version = await db('dataset_columns')
+      .where({ version_id: res.body.data.latestVersion.id })
+      .orderBy('position')
+      .pluck('name')
     expect(version).toEqual(['lab', '<script>alert("x")</script>', 'treatment', '<b>length</b>'])
   })
 })
@@ -100,13 +191,20 @@ describe('bad taggings are refused with the first offending row', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     return res.body.data.id as number
   }
-  const tag = (id: number, body: object) => putAs(app, team.cookies.scientist, `/api/v1/datasets/${id}/versions/1/tagging`, body)
-  const standard = { responseColumns: ['neurite_length_um'], conditionColumn: 'treatment', levels: ['lab', 'mouse'] }
+  const tag = (id: number, body: object) =>
+    putAs(app, team.cookies.scientist, `/api/v1/datasets/${id}/versions/1/tagging`, body)
+  const standard = {
+    responseColumns: ['neurite_length_um'],
+    conditionColumn: 'treatment',
+    levels: ['lab', 'mouse'],
+  }
 
   it('a response column that is not numeric → 400 naming row 8 and its value', async () => {
     const res = await tag(await uploaded('response-not-numeric.csv'), standard)
     expect(res.status).toBe(400)
-    expect(res.body.error.message).toBe('“neurite_length_um” cannot be a response: row 8 holds “n.d.”, which is not a number. Correct the file, or exclude such rows first.')
+    expect(res.body.error.message).toBe(
+      '“neurite_length_um” cannot be a response: row 8 holds “n.d.”, which is not a number. Correct the file, or exclude such rows first.',
+    )
     expect(res.body.error.details).toMatchObject({ column: 'neurite_length_um', row: 8 })
   })
 
@@ -131,7 +229,9 @@ describe('bad taggings are refused with the first offending row', () => {
 
   it('unknown columns and a column used twice → 400', async () => {
     const id = await uploaded('condition-single-value.csv')
-    expect((await tag(id, { ...standard, levels: ['lab', 'animal'] })).body.error.message).toBe('This version has no column “animal”.')
+    expect((await tag(id, { ...standard, levels: ['lab', 'animal'] })).body.error.message).toBe(
+      'This version has no column “animal”.',
+    )
     const twice = await tag(id, { ...standard, levels: ['lab', 'treatment'] })
     expect(twice.status).toBe(400)
     expect(twice.body.error.details.issues[0].message).toContain('"treatment" is used twice')
@@ -139,7 +239,11 @@ describe('bad taggings are refused with the first offending row', () => {
 
   it('a level that does not split its parent, or that is the rows themselves → 422', async () => {
     const id = await uploaded('condition-single-value.csv')
-    const res = await tag(id, { responseColumns: ['neurite_length_um'], conditionColumn: null, levels: ['lab', 'mouse', 'treatment'] })
+    const res = await tag(id, {
+      responseColumns: ['neurite_length_um'],
+      conditionColumn: null,
+      levels: ['lab', 'mouse', 'treatment'],
+    })
     expect(res.status).toBe(422)
     expect(res.body.error.message).toContain('“treatment” does not split “mouse”')
   })

@@ -9,13 +9,22 @@ import { closeConnections } from '../support/api'
 
 afterAll(closeConnections)
 
-async function versionOf(name: string): Promise<{ id: number; suggestion: { conditionPlacement: string; conditionLevel: string | null } }> {
-  return db('dataset_versions as v').join('datasets as d', 'd.id', 'v.dataset_id').where('d.name', name).first('v.id', 'v.suggestion')
+async function versionOf(
+  name: string,
+): Promise<{ id: number; suggestion: { conditionPlacement: string; conditionLevel: string | null } }> {
+  return db('dataset_versions as v')
+    .join('datasets as d', 'd.id', 'v.dataset_id')
+    .where('d.name', name)
+    .first('v.id', 'v.suggestion')
 }
 
 const summary = (values: number[]) => {
   const mean = values.reduce((a, b) => a + b, 0) / values.length
-  return { n: values.length, mean, variance: values.reduce((a, v) => a + (v - mean) ** 2, 0) / (values.length - 1) }
+  return {
+    n: values.length,
+    mean,
+    variance: values.reduce((a, v) => a + (v - mean) ** 2, 0) / (values.length - 1),
+  }
 }
 
 describe('demo datasets seed', () => {
@@ -23,15 +32,35 @@ describe('demo datasets seed', () => {
     await seedPeople(db)
     await seedDatasets(db)
     await seedDatasets(db)
-    const rows = await db('datasets as d').join('labs as l', 'l.id', 'd.lab_id').whereIn('l.slug', ['nimbus-neurite-lab', 'fernhill-culture-lab']).select('d.name')
-    expect(rows.map((r) => r.name).sort()).toEqual(['Consortium outgrowth, three labs', 'Outgrowth, single lab (NW-117 vs vehicle)', 'Plate reader, three doses', 'Within-mouse coverslips'])
-    const taggings = await db('dataset_taggings as t').join('dataset_versions as v', 'v.id', 't.version_id').join('datasets as d', 'd.id', 'v.dataset_id').whereIn('d.name', rows.map((r) => r.name)).count<{ n: number }[]>('* as n').first()
+    const rows = await db('datasets as d')
+      .join('labs as l', 'l.id', 'd.lab_id')
+      .whereIn('l.slug', ['nimbus-neurite-lab', 'fernhill-culture-lab'])
+      .select('d.name')
+    expect(rows.map((r) => r.name).sort()).toEqual([
+      'Consortium outgrowth, three labs',
+      'Outgrowth, single lab (NW-117 vs vehicle)',
+      'Plate reader, three doses',
+      'Within-mouse coverslips',
+    ])
+    const taggings = await db('dataset_taggings as t')
+      .join('dataset_versions as v', 'v.id', 't.version_id')
+      .join('datasets as d', 'd.id', 'v.dataset_id')
+      .whereIn(
+        'd.name',
+        rows.map((r) => r.name),
+      )
+      .count<{ n: number }[]>('* as n')
+      .first()
     expect(Number(taggings?.n)).toBe(4)
   })
 
   it('single lab: the naive test is "significant", the test on mouse means is not', async () => {
     const version = await versionOf('Outgrowth, single lab (NW-117 vs vehicle)')
-    const columns = await loadNestedColumns(version.id, { response: 'neurite_length_um', condition: 'treatment', levels: ['mouse'] })
+    const columns = await loadNestedColumns(version.id, {
+      response: 'neurite_length_um',
+      condition: 'treatment',
+      levels: ['mouse'],
+    })
     const byArm = new Map<string, number[]>()
     const byMouse = new Map<string, { arm: string; values: number[] }>()
     columns.response.forEach((y, r) => {
@@ -43,7 +72,8 @@ describe('demo datasets seed', () => {
     })
     // Demo property (common practice, no source): with 5 mice per arm the cell-level test overstates the evidence.
     const naive = welchTest(summary(byArm.get('NW-117')!), summary(byArm.get('vehicle')!))
-    const means = (arm: string) => [...byMouse.values()].filter((m) => m.arm === arm).map((m) => summary(m.values).mean)
+    const means = (arm: string) =>
+      [...byMouse.values()].filter((m) => m.arm === arm).map((m) => summary(m.values).mean)
     const unitMeans = unitMeansTest([means('vehicle'), means('NW-117')])
     expect(means('vehicle')).toHaveLength(5)
     expect(naive.p).toBeLessThan(0.05)
@@ -52,9 +82,15 @@ describe('demo datasets seed', () => {
 
   it('consortium: Larkspur spreads about twice as much as the other labs', async () => {
     const version = await versionOf('Consortium outgrowth, three labs')
-    const columns = await loadNestedColumns(version.id, { response: 'neurite_length_um', condition: 'treatment', levels: ['lab', 'mouse'] })
+    const columns = await loadNestedColumns(version.id, {
+      response: 'neurite_length_um',
+      condition: 'treatment',
+      levels: ['lab', 'mouse'],
+    })
     const sd = (lab: string) => {
-      const values = Array.from(columns.response).filter((_, r) => columns.levels[0].labels[columns.levels[0].codes[r]] === lab)
+      const values = Array.from(columns.response).filter(
+        (_, r) => columns.levels[0].labels[columns.levels[0].codes[r]] === lab,
+      )
       return Math.sqrt(summary(values).variance)
     }
     expect(sd('Larkspur') / sd('Nimbus')).toBeGreaterThan(1.6)
@@ -62,7 +98,12 @@ describe('demo datasets seed', () => {
   })
 
   it('within-mouse and plate designs are recognised where the condition varies', async () => {
-    expect((await versionOf('Within-mouse coverslips')).suggestion).toMatchObject({ conditionLevel: 'coverslip', conditionPlacement: 'between-units' })
-    expect((await versionOf('Plate reader, three doses')).suggestion).toMatchObject({ conditionPlacement: 'within-innermost' })
+    expect((await versionOf('Within-mouse coverslips')).suggestion).toMatchObject({
+      conditionLevel: 'coverslip',
+      conditionPlacement: 'between-units',
+    })
+    expect((await versionOf('Plate reader, three doses')).suggestion).toMatchObject({
+      conditionPlacement: 'within-innermost',
+    })
   })
 })

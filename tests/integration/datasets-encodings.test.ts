@@ -27,14 +27,29 @@ async function upload(file: Buffer, name: string, sheet?: string) {
 describe('encodings', () => {
   it('reads Windows-1252 with µ and é, semicolons and decimal commas, CRLF', async () => {
     const { version, rows } = await upload(fixture('windows1252-semicolon-decimal-comma.csv'), 'messung.csv')
-    expect(version).toMatchObject({ encoding: 'windows-1252', delimiter: ';', decimalMark: ',', rowCount: 16 })
-    expect(version.columns.map((c: { name: string }) => c.name)).toEqual(['Labor', 'Maus', 'Behandlung', 'Neuritenlänge µm', 'Notiz'])
+    expect(version).toMatchObject({
+      encoding: 'windows-1252',
+      delimiter: ';',
+      decimalMark: ',',
+      rowCount: 16,
+    })
+    expect(version.columns.map((c: { name: string }) => c.name)).toEqual([
+      'Labor',
+      'Maus',
+      'Behandlung',
+      'Neuritenlänge µm',
+      'Notiz',
+    ])
     const length = version.columns[3]
     // 100 + 1.25 k for k = 0…15: min 100, max 118.75, mean 109.375 (by hand).
     expect(length).toMatchObject({ type: 'numeric', min: 100, max: 118.75, mean: 109.375 })
     expect(rows.rows[2].values).toEqual(['Nimbus', 'm3', 'Vehikel', '102,50', 'Zelle größer, é'])
     // Decimal commas stay as written and are read as numbers on the way to the engine.
-    const columns = await loadNestedColumns(version.id, { response: 'Neuritenlänge µm', condition: 'Behandlung', levels: ['Labor', 'Maus'] })
+    const columns = await loadNestedColumns(version.id, {
+      response: 'Neuritenlänge µm',
+      condition: 'Behandlung',
+      levels: ['Labor', 'Maus'],
+    })
     expect(Array.from(columns.response.slice(0, 3))).toEqual([100, 101.25, 102.5])
     expect(columns.condition!.labels).toEqual(['Vehikel', 'NW-117'])
   })
@@ -63,9 +78,16 @@ describe('encodings', () => {
     const lines = ['lab,mouse,note,length']
     for (let k = 0; lines.join('\n').length < 70_000; k++) lines.push(`Nimbus,m${(k % 4) + 1},plain,${k}`)
     lines.push('Fernhill,m1,Zellkörper µ,7')
-    const { version, rows } = await upload(iconv.encode(lines.join('\n') + '\n', 'windows-1252'), 'late-latin1.csv')
+    const { version, rows } = await upload(
+      iconv.encode(lines.join('\n') + '\n', 'windows-1252'),
+      'late-latin1.csv',
+    )
     expect(version.encoding).toBe('windows-1252')
-    const last = await getAs(app, team.cookies.scientist, `/api/v1/datasets/${version.datasetId}/versions/1/rows?page=${Math.ceil(version.rowCount / 100)}&pageSize=100`)
+    const last = await getAs(
+      app,
+      team.cookies.scientist,
+      `/api/v1/datasets/${version.datasetId}/versions/1/rows?page=${Math.ceil(version.rowCount / 100)}&pageSize=100`,
+    )
     expect(last.body.data.rows.at(-1).values).toEqual(['Fernhill', 'm1', 'Zellkörper µ', '7'])
     expect(rows.total).toBe(lines.length - 1)
   })
@@ -98,7 +120,11 @@ describe('delimiters, quotes and line endings', () => {
     const text = 'lab,label,length\nNimbus,5" coverslip,1.5\nNimbus,plain,2.5\nFernhill,"quoted, fine",3.5\n'
     const { version, rows } = await upload(Buffer.from(text), 'inch.csv')
     expect(version.rowCount).toBe(3)
-    expect(rows.rows.map((r: { values: string[] }) => r.values[1])).toEqual(['5" coverslip', 'plain', 'quoted, fine'])
+    expect(rows.rows.map((r: { values: string[] }) => r.values[1])).toEqual([
+      '5" coverslip',
+      'plain',
+      'quoted, fine',
+    ])
   })
 
   it('ignores blank lines at the end of the file', async () => {
@@ -109,14 +135,28 @@ describe('delimiters, quotes and line endings', () => {
 
 describe('XLSX', () => {
   it('reads the first sheet by default and another sheet by name, with formulas and dates', async () => {
-    const first = await uploadDataset(app, team.cookies.scientist, fixture('two-sheets.xlsx'), 'book.xlsx', { labId: team.lab.id })
+    const first = await uploadDataset(app, team.cookies.scientist, fixture('two-sheets.xlsx'), 'book.xlsx', {
+      labId: team.lab.id,
+    })
     // The first sheet holds one line of notes only: a header without data.
     expect(first.status).toBe(400)
     expect(first.body.error.details.reason).toBe('HEADER_ONLY')
 
     const { version, rows } = await upload(fixture('two-sheets.xlsx'), 'book.xlsx', 'Cells')
-    expect(version).toMatchObject({ fileType: 'xlsx', sheetName: 'Cells', sheetNames: ['Notes', 'Cells'], rowCount: 17, delimiter: null })
-    expect(version.columns.map((c: { type: string }) => c.type)).toEqual(['text', 'text', 'text', 'numeric', 'text'])
+    expect(version).toMatchObject({
+      fileType: 'xlsx',
+      sheetName: 'Cells',
+      sheetNames: ['Notes', 'Cells'],
+      rowCount: 17,
+      delimiter: null,
+    })
+    expect(version.columns.map((c: { type: string }) => c.type)).toEqual([
+      'text',
+      'text',
+      'text',
+      'numeric',
+      'text',
+    ])
     expect(rows.rows[0].values).toEqual(['Nimbus', 'm1', 'vehicle', '100', '2026-03-01'])
     // A formula cell is stored as the result the workbook shows.
     expect(rows.rows[16].values.slice(0, 4)).toEqual(['Fernhill', 'm4', 'NW-117', '201'])
@@ -124,9 +164,14 @@ describe('XLSX', () => {
   })
 
   it('names the sheets when the chosen one does not exist', async () => {
-    const res = await uploadDataset(app, team.cookies.scientist, fixture('two-sheets.xlsx'), 'book.xlsx', { labId: team.lab.id, sheet: 'Cellz' })
+    const res = await uploadDataset(app, team.cookies.scientist, fixture('two-sheets.xlsx'), 'book.xlsx', {
+      labId: team.lab.id,
+      sheet: 'Cellz',
+    })
     expect(res.status).toBe(400)
-    expect(res.body.error.message).toBe('The workbook has no sheet "Cellz". Its sheets are: "Notes", "Cells".')
+    expect(res.body.error.message).toBe(
+      'The workbook has no sheet "Cellz". Its sheets are: "Notes", "Cells".',
+    )
   })
 
   it('takes a sheet by number too', async () => {

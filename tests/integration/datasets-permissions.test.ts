@@ -2,7 +2,17 @@ import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { closeConnections, createTestApp, signIn } from '../support/api'
 import { createLab, createUser } from '../support/factories'
-import { deleteAs, getAs, patchAs, postAs, putAs, signedInTeam, smallCellTable, uploadDataset, uploadVersion } from './datasets-support'
+import {
+  deleteAs,
+  getAs,
+  patchAs,
+  postAs,
+  putAs,
+  signedInTeam,
+  smallCellTable,
+  uploadDataset,
+  uploadVersion,
+} from './datasets-support'
 
 afterAll(closeConnections)
 
@@ -36,7 +46,16 @@ describe('who sees a dataset', () => {
     for (const cookie of [team.cookies.pi, team.cookies.scientist, team.cookies.biostatistician]) {
       const list = await getAs(app, cookie, '/api/v1/datasets')
       expect(list.body.data.map((d: { id: number }) => d.id)).toContain(datasetId)
-      for (const path of ['', '/versions/1', '/versions/1/rows', '/versions/1/columns', '/versions/1/tagging', '/versions/1/exclusions', '/versions/1/suggestion', '/versions/1/original']) {
+      for (const path of [
+        '',
+        '/versions/1',
+        '/versions/1/rows',
+        '/versions/1/columns',
+        '/versions/1/tagging',
+        '/versions/1/exclusions',
+        '/versions/1/suggestion',
+        '/versions/1/original',
+      ]) {
         const res = await getAs(app, cookie, `/api/v1/datasets/${datasetId}${path}`)
         expect(res.status, path).toBe(200)
       }
@@ -51,8 +70,17 @@ describe('who sees a dataset', () => {
       expect(res.status, path).toBe(404)
       expect(res.body.error.code).toBe('NOT_FOUND')
     }
-    expect((await putAs(app, outsider, `/api/v1/datasets/${datasetId}/versions/1/tagging`, { responseColumns: ['neurite_length_um'], levels: ['lab', 'mouse'] })).status).toBe(404)
-    expect((await patchAs(app, outsider, `/api/v1/datasets/${datasetId}`, { name: 'mine now' })).status).toBe(404)
+    expect(
+      (
+        await putAs(app, outsider, `/api/v1/datasets/${datasetId}/versions/1/tagging`, {
+          responseColumns: ['neurite_length_um'],
+          levels: ['lab', 'mouse'],
+        })
+      ).status,
+    ).toBe(404)
+    expect((await patchAs(app, outsider, `/api/v1/datasets/${datasetId}`, { name: 'mine now' })).status).toBe(
+      404,
+    )
     expect((await deleteAs(app, outsider, `/api/v1/datasets/${datasetId}`)).status).toBe(404)
     expect((await uploadVersion(app, outsider, datasetId, csv, 'cells.csv')).status).toBe(404)
     // Admins manage labs and people but do not read lab data unless they are members.
@@ -72,11 +100,26 @@ describe('who changes a dataset', () => {
     expect(upload.status).toBe(403)
     expect(upload.body.error.message).toContain('need the role scientist or PI')
     expect((await uploadVersion(app, cookie, datasetId, csv, 'cells.csv')).status).toBe(403)
-    expect((await putAs(app, cookie, `/api/v1/datasets/${datasetId}/versions/1/tagging`, { responseColumns: ['neurite_length_um'], levels: ['lab', 'mouse'] })).status).toBe(403)
-    const exclusion = { kind: 'rule', rule: { column: 'neurite_length_um', operator: 'gt', value: 140 }, reason: 'Out of focus' }
-    expect((await postAs(app, cookie, `/api/v1/datasets/${datasetId}/versions/1/exclusions`, exclusion)).status).toBe(403)
+    expect(
+      (
+        await putAs(app, cookie, `/api/v1/datasets/${datasetId}/versions/1/tagging`, {
+          responseColumns: ['neurite_length_um'],
+          levels: ['lab', 'mouse'],
+        })
+      ).status,
+    ).toBe(403)
+    const exclusion = {
+      kind: 'rule',
+      rule: { column: 'neurite_length_um', operator: 'gt', value: 140 },
+      reason: 'Out of focus',
+    }
+    expect(
+      (await postAs(app, cookie, `/api/v1/datasets/${datasetId}/versions/1/exclusions`, exclusion)).status,
+    ).toBe(403)
     expect((await patchAs(app, cookie, `/api/v1/datasets/${datasetId}`, { name: 'x' })).status).toBe(403)
-    expect((await postAs(app, cookie, '/api/v1/projects', { labId: team.lab.id, name: 'Reviews' })).status).toBe(403)
+    expect(
+      (await postAs(app, cookie, '/api/v1/projects', { labId: team.lab.id, name: 'Reviews' })).status,
+    ).toBe(403)
   })
 
   it('tells the client what the caller may do', async () => {
@@ -89,14 +132,18 @@ describe('who changes a dataset', () => {
   it('lets the author or a PI delete (softly), and only an admin restore', async () => {
     const other = await createUser({ memberships: [{ lab: team.lab, role: 'scientist' }] })
     const otherScientist = await signIn(app, other.email, other.password)
-    const mine = (await uploadDataset(app, team.cookies.scientist, csv, 'mine.csv', { labId: team.lab.id })).body.data.id
+    const mine = (await uploadDataset(app, team.cookies.scientist, csv, 'mine.csv', { labId: team.lab.id }))
+      .body.data.id
     expect((await deleteAs(app, otherScientist, `/api/v1/datasets/${mine}`)).status).toBe(403)
     expect((await deleteAs(app, team.cookies.biostatistician, `/api/v1/datasets/${mine}`)).status).toBe(403)
     expect((await deleteAs(app, team.cookies.scientist, `/api/v1/datasets/${mine}`)).status).toBe(204)
     expect((await getAs(app, team.cookies.scientist, `/api/v1/datasets/${mine}`)).status).toBe(404)
-    expect((await getAs(app, team.cookies.pi, '/api/v1/datasets')).body.data.map((d: { id: number }) => d.id)).not.toContain(mine)
+    expect(
+      (await getAs(app, team.cookies.pi, '/api/v1/datasets')).body.data.map((d: { id: number }) => d.id),
+    ).not.toContain(mine)
 
-    const byPi = (await uploadDataset(app, otherScientist, csv, 'theirs.csv', { labId: team.lab.id })).body.data.id
+    const byPi = (await uploadDataset(app, otherScientist, csv, 'theirs.csv', { labId: team.lab.id })).body
+      .data.id
     expect((await deleteAs(app, team.cookies.pi, `/api/v1/datasets/${byPi}`)).status).toBe(204)
 
     expect((await getAs(app, team.cookies.pi, '/api/v1/datasets?deleted=true')).status).toBe(403)
@@ -114,18 +161,45 @@ describe('who changes a dataset', () => {
 
 describe('projects', () => {
   it('are created by scientists and PIs, listed for members, unique per lab, 404 outside', async () => {
-    const created = await postAs(app, team.cookies.pi, '/api/v1/projects', { labId: team.lab.id, name: 'Dose finding', description: 'Three doses of NW-117' })
+    const created = await postAs(app, team.cookies.pi, '/api/v1/projects', {
+      labId: team.lab.id,
+      name: 'Dose finding',
+      description: 'Three doses of NW-117',
+    })
     expect(created.status).toBe(201)
     expect(created.body.data).toMatchObject({ labId: team.lab.id, name: 'Dose finding', datasetCount: 0 })
-    expect((await postAs(app, team.cookies.scientist, '/api/v1/projects', { labId: team.lab.id, name: 'Dose finding' })).status).toBe(409)
+    expect(
+      (
+        await postAs(app, team.cookies.scientist, '/api/v1/projects', {
+          labId: team.lab.id,
+          name: 'Dose finding',
+        })
+      ).status,
+    ).toBe(409)
     const list = await getAs(app, team.cookies.biostatistician, `/api/v1/projects?labId=${team.lab.id}`)
-    expect(list.body.data.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(['Dose finding', 'Neurite outgrowth']))
+    expect(list.body.data.map((p: { name: string }) => p.name)).toEqual(
+      expect.arrayContaining(['Dose finding', 'Neurite outgrowth']),
+    )
     expect((await getAs(app, outsider, `/api/v1/projects?labId=${team.lab.id}`)).body.data).toEqual([])
-    expect((await patchAs(app, outsider, `/api/v1/projects/${created.body.data.id}`, { name: 'x' })).status).toBe(404)
-    const renamed = await patchAs(app, team.cookies.scientist, `/api/v1/projects/${created.body.data.id}`, { name: 'Dose finding 2026' })
+    expect(
+      (await patchAs(app, outsider, `/api/v1/projects/${created.body.data.id}`, { name: 'x' })).status,
+    ).toBe(404)
+    const renamed = await patchAs(app, team.cookies.scientist, `/api/v1/projects/${created.body.data.id}`, {
+      name: 'Dose finding 2026',
+    })
     expect(renamed.body.data.name).toBe('Dose finding 2026')
-    const upload = await uploadDataset(app, team.cookies.scientist, csv, 'dose.csv', { labId: team.lab.id, projectId: created.body.data.id })
+    const upload = await uploadDataset(app, team.cookies.scientist, csv, 'dose.csv', {
+      labId: team.lab.id,
+      projectId: created.body.data.id,
+    })
     expect(upload.body.data.project).toEqual({ id: created.body.data.id, name: 'Dose finding 2026' })
-    expect((await uploadDataset(app, outsider, csv, 'dose.csv', { labId: team.lab.id, projectId: created.body.data.id })).status).toBe(404)
+    expect(
+      (
+        await uploadDataset(app, outsider, csv, 'dose.csv', {
+          labId: team.lab.id,
+          projectId: created.body.data.id,
+        })
+      ).status,
+    ).toBe(404)
   })
 })

@@ -24,7 +24,13 @@ export interface UploadSpec {
 }
 
 /** POST /api/v1/datasets as the browser sends it: text fields first, then the file. */
-export function uploadDataset(app: Express, cookie: string, file: Buffer, filename: string, spec: UploadSpec = {}) {
+export function uploadDataset(
+  app: Express,
+  cookie: string,
+  file: Buffer,
+  filename: string,
+  spec: UploadSpec = {},
+) {
   const req = request(app).post('/api/v1/datasets').set(appWriteHeaders).set('Cookie', cookie)
   if (spec.token) req.set('X-Upload-Token', spec.token)
   if (spec.labId !== undefined) req.field('labId', String(spec.labId))
@@ -35,20 +41,37 @@ export function uploadDataset(app: Express, cookie: string, file: Buffer, filena
   return req.attach('file', file, filename)
 }
 
-export function uploadVersion(app: Express, cookie: string, datasetId: number, file: Buffer, filename: string, sheet?: string) {
-  const req = request(app).post(`/api/v1/datasets/${datasetId}/versions`).set(appWriteHeaders).set('Cookie', cookie)
+export function uploadVersion(
+  app: Express,
+  cookie: string,
+  datasetId: number,
+  file: Buffer,
+  filename: string,
+  sheet?: string,
+) {
+  const req = request(app)
+    .post(`/api/v1/datasets/${datasetId}/versions`)
+    .set(appWriteHeaders)
+    .set('Cookie', cookie)
   if (sheet) req.field('sheet', sheet)
   return req.attach('file', file, filename)
 }
 
-export const getAs = (app: Express, cookie: string, path: string) => request(app).get(path).set('Cookie', cookie)
-export const putAs = (app: Express, cookie: string, path: string, body: object) => request(app).put(path).set(appWriteHeaders).set('Cookie', cookie).send(body)
-export const postAs = (app: Express, cookie: string, path: string, body: object = {}) => request(app).post(path).set(appWriteHeaders).set('Cookie', cookie).send(body)
-export const patchAs = (app: Express, cookie: string, path: string, body: object) => request(app).patch(path).set(appWriteHeaders).set('Cookie', cookie).send(body)
-export const deleteAs = (app: Express, cookie: string, path: string) => request(app).delete(path).set(appWriteHeaders).set('Cookie', cookie)
+export const getAs = (app: Express, cookie: string, path: string) =>
+  request(app).get(path).set('Cookie', cookie)
+export const putAs = (app: Express, cookie: string, path: string, body: object) =>
+  request(app).put(path).set(appWriteHeaders).set('Cookie', cookie).send(body)
+export const postAs = (app: Express, cookie: string, path: string, body: object = {}) =>
+  request(app).post(path).set(appWriteHeaders).set('Cookie', cookie).send(body)
+export const patchAs = (app: Express, cookie: string, path: string, body: object) =>
+  request(app).patch(path).set(appWriteHeaders).set('Cookie', cookie).send(body)
+export const deleteAs = (app: Express, cookie: string, path: string) =>
+  request(app).delete(path).set(appWriteHeaders).set('Cookie', cookie)
 
 /** A small invented per-cell table: 2 labs × 4 mice (labels reused), treatment per mouse, 5 cells each. */
-export function smallCellTable(options: { delimiter?: string; decimalComma?: boolean; eol?: string } = {}): string {
+export function smallCellTable(
+  options: { delimiter?: string; decimalComma?: boolean; eol?: string } = {},
+): string {
   const d = options.delimiter ?? ','
   const eol = options.eol ?? '\n'
   const lines = [['lab', 'mouse', 'treatment', 'cell', 'neurite_length_um'].join(d)]
@@ -57,7 +80,15 @@ export function smallCellTable(options: { delimiter?: string; decimalComma?: boo
     for (let m = 1; m <= 4; m++)
       for (let c = 1; c <= 5; c++) {
         const value = (100 + ((k++ * 37) % 50) + 0.25).toFixed(2)
-        lines.push([lab, `m${m}`, m % 2 ? 'vehicle' : 'NW-117', String(c), options.decimalComma ? value.replace('.', ',') : value].join(d))
+        lines.push(
+          [
+            lab,
+            `m${m}`,
+            m % 2 ? 'vehicle' : 'NW-117',
+            String(c),
+            options.decimalComma ? value.replace('.', ',') : value,
+          ].join(d),
+        )
       }
   return lines.join(eol) + eol
 }

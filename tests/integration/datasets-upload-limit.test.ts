@@ -15,12 +15,23 @@ describe('upload size limit', () => {
     const app = createTestApp()
     const team = await signedInTeam(app)
     const big = Buffer.from('lab,length\n' + 'Nimbus,123.456\n'.repeat(2000))
-    const res = await uploadDataset(app, team.cookies.scientist, big, 'big.csv', { labId: team.lab.id, token: 'too-big-upload' })
+    const res = await uploadDataset(app, team.cookies.scientist, big, 'big.csv', {
+      labId: team.lab.id,
+      token: 'too-big-upload',
+    })
     expect(res.status).toBe(413)
     expect(res.body.error).toMatchObject({ code: 'PAYLOAD_TOO_LARGE', details: { limitMb: 0.01 } })
-    expect(res.body.error.message).toBe('The file is larger than the upload limit of 0.01 MB. Split it, or ask the administrator to raise UPLOAD_MAX_MB.')
+    expect(res.body.error.message).toBe(
+      'The file is larger than the upload limit of 0.01 MB. Split it, or ask the administrator to raise UPLOAD_MAX_MB.',
+    )
     expect(await db('datasets').where({ lab_id: team.lab.id }).first()).toBeUndefined()
-    const small = await uploadDataset(app, team.cookies.scientist, Buffer.from('lab,length\nNimbus,1\nFernhill,2\n'), 'small.csv', { labId: team.lab.id })
+    const small = await uploadDataset(
+      app,
+      team.cookies.scientist,
+      Buffer.from('lab,length\nNimbus,1\nFernhill,2\n'),
+      'small.csv',
+      { labId: team.lab.id },
+    )
     expect(small.status).toBe(201)
   })
 })

@@ -8,7 +8,15 @@ import { originalPath } from '../../server/ingest/original-store'
 import { sweepDatasetLeftovers } from '../../server/services/datasets-upload.service'
 import { loadNestedColumns } from '../../server/services/datasets-readback.service'
 import { closeConnections, createTestApp } from '../support/api'
-import { getAs, patchAs, putAs, signedInTeam, smallCellTable, uploadDataset, uploadVersion } from './datasets-support'
+import {
+  getAs,
+  patchAs,
+  putAs,
+  signedInTeam,
+  smallCellTable,
+  uploadDataset,
+  uploadVersion,
+} from './datasets-support'
 
 afterAll(closeConnections)
 
@@ -25,23 +33,60 @@ describe('upload and profile', () => {
     const res = await uploadDataset(app, team.cookies.scientist, csv, 'outgrowth.csv', { labId: team.lab.id })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     const dataset = res.body.data
-    expect(dataset).toMatchObject({ name: 'outgrowth', labId: team.lab.id, labName: team.lab.name, project: { name: 'Neurite outgrowth' }, versionCount: 1, deletedAt: null })
-    expect(dataset.latestVersion).toMatchObject({ versionNo: 1, rowCount: 40, columnCount: 5, delimiter: ',', encoding: 'utf-8', status: 'ready', byteSize: csv.length, originalFilename: 'outgrowth.csv' })
+    expect(dataset).toMatchObject({
+      name: 'outgrowth',
+      labId: team.lab.id,
+      labName: team.lab.name,
+      project: { name: 'Neurite outgrowth' },
+      versionCount: 1,
+      deletedAt: null,
+    })
+    expect(dataset.latestVersion).toMatchObject({
+      versionNo: 1,
+      rowCount: 40,
+      columnCount: 5,
+      delimiter: ',',
+      encoding: 'utf-8',
+      status: 'ready',
+      byteSize: csv.length,
+      originalFilename: 'outgrowth.csv',
+    })
     expect(dataset.latestVersion.sha256).toBe(createHash('sha256').update(csv).digest('hex'))
     const detail = await getAs(app, team.cookies.biostatistician, `/api/v1/datasets/${dataset.id}/versions/1`)
     expect(detail.status).toBe(200)
     const columns = detail.body.data.columns
-    expect(columns.map((c: { type: string }) => c.type)).toEqual(['text', 'text', 'text', 'integer', 'numeric'])
-    expect(columns[1]).toMatchObject({ name: 'mouse', distinctCount: 4, missingCount: 0, sampleValues: ['m1', 'm2', 'm3', 'm4'] })
+    expect(columns.map((c: { type: string }) => c.type)).toEqual([
+      'text',
+      'text',
+      'text',
+      'integer',
+      'numeric',
+    ])
+    expect(columns[1]).toMatchObject({
+      name: 'mouse',
+      distinctCount: 4,
+      missingCount: 0,
+      sampleValues: ['m1', 'm2', 'm3', 'm4'],
+    })
     expect(columns[3]).toMatchObject({ name: 'cell', min: 1, max: 5 })
     // cells 1…5 in each of 8 mice: mean 3, SD √(80/39) (by hand); Welford's running mean rounds in the last bit.
     expect(columns[3].mean).toBeCloseTo(3, 12)
     expect(columns[3].sd).toBeCloseTo(Math.sqrt(80 / 39), 12)
     const suggestion = detail.body.data.suggestion
-    expect(suggestion).toMatchObject({ conditionColumn: 'treatment', conditionLevel: 'mouse', conditionPlacement: 'between-units', responseColumns: ['neurite_length_um'] })
+    expect(suggestion).toMatchObject({
+      conditionColumn: 'treatment',
+      conditionLevel: 'mouse',
+      conditionPlacement: 'between-units',
+      responseColumns: ['neurite_length_um'],
+    })
     expect(suggestion.levels).toEqual([
       { column: 'lab', unitCount: 2, perParent: null, reusedLabels: [] },
-      { column: 'mouse', unitCount: 8, perParent: { min: 4, median: 4, max: 4 }, reusedLabels: ['m1', 'm2', 'm3', 'm4'] },
+      {
+        column: 'mouse',
+        unitCount: 8,
+        perParent: { min: 4, median: 4, max: 4 },
+        reusedLabels: ['m1', 'm2', 'm3', 'm4'],
+      },
     ])
     expect(suggestion.explanation.length).toBeGreaterThan(3)
     expect(detail.body.data.tagging).toBeNull()
@@ -51,11 +96,17 @@ describe('upload and profile', () => {
     const res = await uploadDataset(app, team.cookies.scientist, csv, 'again.csv', { labId: team.lab.id })
     const sha = res.body.data.latestVersion.sha256
     expect(existsSync(originalPath(sha))).toBe(true)
-    const original = await getAs(app, team.cookies.biostatistician, `/api/v1/datasets/${res.body.data.id}/versions/1/original`).buffer(true).parse((r, done) => {
-      const chunks: Buffer[] = []
-      r.on('data', (c: Buffer) => chunks.push(c))
-      r.on('end', () => done(null, Buffer.concat(chunks)))
-    })
+    const original = await getAs(
+      app,
+      team.cookies.biostatistician,
+      `/api/v1/datasets/${res.body.data.id}/versions/1/original`,
+    )
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = []
+        r.on('data', (c: Buffer) => chunks.push(c))
+        r.on('end', () => done(null, Buffer.concat(chunks)))
+      })
     expect(original.status).toBe(200)
     expect(original.headers['content-disposition']).toContain('again.csv')
     expect(Buffer.compare(original.body as Buffer, csv)).toBe(0)
@@ -65,7 +116,10 @@ describe('upload and profile', () => {
 
   it('reports progress to the uploader under the token the client chose, and to nobody else', async () => {
     const token = `test-${Date.now().toString(36)}`
-    const res = await uploadDataset(app, team.cookies.scientist, csv, 'tracked.csv', { labId: team.lab.id, token })
+    const res = await uploadDataset(app, team.cookies.scientist, csv, 'tracked.csv', {
+      labId: team.lab.id,
+      token,
+    })
     expect(res.status).toBe(201)
     const progress = await getAs(app, team.cookies.scientist, `/api/v1/datasets/uploads/${token}`)
     expect(progress.body.data).toMatchObject({ token, phase: 'done', rowsStored: 40, message: null })
@@ -73,17 +127,30 @@ describe('upload and profile', () => {
     expect((await getAs(app, team.cookies.pi, `/api/v1/datasets/uploads/${token}`)).status).toBe(404)
 
     const failing = `fail-${Date.now().toString(36)}`
-    const bad = await uploadDataset(app, team.cookies.scientist, Buffer.from('a,b\n1\n2,3\n'), 'bad.csv', { labId: team.lab.id, token: failing })
+    const bad = await uploadDataset(app, team.cookies.scientist, Buffer.from('a,b\n1\n2,3\n'), 'bad.csv', {
+      labId: team.lab.id,
+      token: failing,
+    })
     expect(bad.status).toBe(400)
     const failed = await getAs(app, team.cookies.scientist, `/api/v1/datasets/uploads/${failing}`)
     expect(failed.body.data).toMatchObject({ phase: 'failed', message: bad.body.error.message })
   })
 
   it('asks for a file and for a project', async () => {
-    const noFile = await request(app).post('/api/v1/datasets').set({ Origin: 'http://127.0.0.1:3000', 'X-Requested-With': 'nestwise' }).set('Cookie', team.cookies.scientist).field('labId', String(team.lab.id)).field('projectName', 'x')
+    const noFile = await request(app)
+      .post('/api/v1/datasets')
+      .set({ Origin: 'http://127.0.0.1:3000', 'X-Requested-With': 'nestwise' })
+      .set('Cookie', team.cookies.scientist)
+      .field('labId', String(team.lab.id))
+      .field('projectName', 'x')
     expect(noFile.status).toBe(400)
     expect(noFile.body.error.message).toContain('Choose a file')
-    const noProject = await request(app).post('/api/v1/datasets').set({ Origin: 'http://127.0.0.1:3000', 'X-Requested-With': 'nestwise' }).set('Cookie', team.cookies.scientist).field('labId', String(team.lab.id)).attach('file', csv, 'x.csv')
+    const noProject = await request(app)
+      .post('/api/v1/datasets')
+      .set({ Origin: 'http://127.0.0.1:3000', 'X-Requested-With': 'nestwise' })
+      .set('Cookie', team.cookies.scientist)
+      .field('labId', String(team.lab.id))
+      .attach('file', csv, 'x.csv')
     expect(noProject.status).toBe(400)
   })
 })
@@ -98,8 +165,15 @@ describe('preview', () => {
   it('pages rows in file order with spreadsheet row numbers', async () => {
     const page = await getAs(app, team.cookies.biostatistician, `${base}/rows?page=2&pageSize=15`)
     expect(page.status).toBe(200)
-    expect(page.body.data).toMatchObject({ total: 40, page: 2, pageSize: 15, columns: ['lab', 'mouse', 'treatment', 'cell', 'neurite_length_um'] })
-    expect(page.body.data.rows.map((r: { rowNumber: number }) => r.rowNumber)).toEqual(Array.from({ length: 15 }, (_, k) => 17 + k))
+    expect(page.body.data).toMatchObject({
+      total: 40,
+      page: 2,
+      pageSize: 15,
+      columns: ['lab', 'mouse', 'treatment', 'cell', 'neurite_length_um'],
+    })
+    expect(page.body.data.rows.map((r: { rowNumber: number }) => r.rowNumber)).toEqual(
+      Array.from({ length: 15 }, (_, k) => 17 + k),
+    )
     const last = await getAs(app, team.cookies.biostatistician, `${base}/rows?page=3&pageSize=15`)
     expect(last.body.data.rows).toHaveLength(10)
     const reversed = await getAs(app, team.cookies.biostatistician, `${base}/rows?pageSize=3&sortDesc=true`)
@@ -107,7 +181,11 @@ describe('preview', () => {
   })
 
   it('sorts numeric columns as numbers and text columns as text, on the server', async () => {
-    const numeric = await getAs(app, team.cookies.scientist, `${base}/rows?sortBy=neurite_length_um&sortDesc=true&pageSize=40`)
+    const numeric = await getAs(
+      app,
+      team.cookies.scientist,
+      `${base}/rows?sortBy=neurite_length_um&sortDesc=true&pageSize=40`,
+    )
     const values = numeric.body.data.rows.map((r: { values: string[] }) => Number(r.values[4]))
     expect(values).toEqual([...values].sort((a, b) => b - a))
     expect(values[0]).toBe(149.25)
@@ -120,7 +198,13 @@ describe('preview', () => {
 
   it('returns the column summary', async () => {
     const res = await getAs(app, team.cookies.scientist, `${base}/columns`)
-    expect(res.body.data.map((c: { name: string }) => c.name)).toEqual(['lab', 'mouse', 'treatment', 'cell', 'neurite_length_um'])
+    expect(res.body.data.map((c: { name: string }) => c.name)).toEqual([
+      'lab',
+      'mouse',
+      'treatment',
+      'cell',
+      'neurite_length_um',
+    ])
     expect(res.body.data[2].topValues).toEqual([
       { value: 'vehicle', count: 20 },
       { value: 'NW-117', count: 20 },
@@ -132,12 +216,27 @@ describe('tagging and versions', () => {
   it('saves a tagging with its design, keeps the history, and carries it over to a new version', async () => {
     const res = await uploadDataset(app, team.cookies.scientist, csv, 'versions.csv', { labId: team.lab.id })
     const id = res.body.data.id
-    const tag = (body: object) => putAs(app, team.cookies.scientist, `/api/v1/datasets/${id}/versions/1/tagging`, body)
-    const first = await tag({ responseColumns: ['neurite_length_um'], conditionColumn: null, levels: ['mouse'] })
+    const tag = (body: object) =>
+      putAs(app, team.cookies.scientist, `/api/v1/datasets/${id}/versions/1/tagging`, body)
+    const first = await tag({
+      responseColumns: ['neurite_length_um'],
+      conditionColumn: null,
+      levels: ['mouse'],
+    })
     expect(first.status).toBe(200)
-    const second = await tag({ responseColumns: ['neurite_length_um'], conditionColumn: 'treatment', levels: ['lab', 'mouse'] })
+    const second = await tag({
+      responseColumns: ['neurite_length_um'],
+      conditionColumn: 'treatment',
+      levels: ['lab', 'mouse'],
+    })
     expect(second.status).toBe(200)
-    expect(second.body.data.tagging).toMatchObject({ responseColumns: ['neurite_length_um'], conditionColumn: 'treatment', levels: ['lab', 'mouse'], carriedOver: false, createdBy: { id: team.scientist.id } })
+    expect(second.body.data.tagging).toMatchObject({
+      responseColumns: ['neurite_length_um'],
+      conditionColumn: 'treatment',
+      levels: ['lab', 'mouse'],
+      carriedOver: false,
+      createdBy: { id: team.scientist.id },
+    })
     expect(second.body.data.design).toMatchObject({
       observationCount: 40,
       conditionLevel: 'mouse',
@@ -147,27 +246,47 @@ describe('tagging and versions', () => {
         { value: 'NW-117', unitCount: 4, observationCount: 20 },
       ],
     })
-    const history = await getAs(app, team.cookies.biostatistician, `/api/v1/datasets/${id}/versions/1/tagging/history`)
-    expect(history.body.data.map((t: { levels: string[] }) => t.levels)).toEqual([['lab', 'mouse'], ['mouse']])
+    const history = await getAs(
+      app,
+      team.cookies.biostatistician,
+      `/api/v1/datasets/${id}/versions/1/tagging/history`,
+    )
+    expect(history.body.data.map((t: { levels: string[] }) => t.levels)).toEqual([
+      ['lab', 'mouse'],
+      ['mouse'],
+    ])
     const design = await getAs(app, team.cookies.biostatistician, `/api/v1/datasets/${id}/versions/1/design`)
     expect(design.body.data.levels.map((l: { unitCount: number }) => l.unitCount)).toEqual([2, 8])
 
     // Version 2 adds a lab; version 1 stays exactly as it was.
-    const more = smallCellTable() + 'Ashgrove,m1,vehicle,1,130.5\nAshgrove,m1,vehicle,2,131.5\nAshgrove,m2,NW-117,1,140.5\nAshgrove,m2,NW-117,2,141.5\n'
+    const more =
+      smallCellTable() +
+      'Ashgrove,m1,vehicle,1,130.5\nAshgrove,m1,vehicle,2,131.5\nAshgrove,m2,NW-117,1,140.5\nAshgrove,m2,NW-117,2,141.5\n'
     const v2 = await uploadVersion(app, team.cookies.scientist, id, Buffer.from(more), 'versions-v2.csv')
     expect(v2.status, JSON.stringify(v2.body)).toBe(201)
     expect(v2.body.data).toMatchObject({ versionNo: 2, rowCount: 44, originalFilename: 'versions-v2.csv' })
     expect(v2.body.data.tagging).toMatchObject({ levels: ['lab', 'mouse'], carriedOver: true })
     const detail = await getAs(app, team.cookies.pi, `/api/v1/datasets/${id}`)
-    expect(detail.body.data.versions.map((v: { versionNo: number; rowCount: number }) => [v.versionNo, v.rowCount])).toEqual([
+    expect(
+      detail.body.data.versions.map((v: { versionNo: number; rowCount: number }) => [
+        v.versionNo,
+        v.rowCount,
+      ]),
+    ).toEqual([
       [2, 44],
       [1, 40],
     ])
     expect(detail.body.data.latestVersion.versionNo).toBe(2)
-    expect((await getAs(app, team.cookies.pi, `/api/v1/datasets/${id}/versions/1/rows`)).body.data.total).toBe(40)
+    expect(
+      (await getAs(app, team.cookies.pi, `/api/v1/datasets/${id}/versions/1/rows`)).body.data.total,
+    ).toBe(40)
     expect((await getAs(app, team.cookies.pi, `/api/v1/datasets/${id}/versions/3`)).status).toBe(404)
 
-    const columns = await loadNestedColumns(v2.body.data.id, { response: 'neurite_length_um', condition: 'treatment', levels: ['lab', 'mouse'] })
+    const columns = await loadNestedColumns(v2.body.data.id, {
+      response: 'neurite_length_um',
+      condition: 'treatment',
+      levels: ['lab', 'mouse'],
+    })
     expect(columns.levels[0].labels).toEqual(['Nimbus', 'Fernhill', 'Ashgrove'])
     expect(columns.response.length).toBe(44)
     expect(columns.response[43]).toBe(141.5)
@@ -175,10 +294,16 @@ describe('tagging and versions', () => {
 
   it('renames, describes and moves a dataset between projects of its lab', async () => {
     const res = await uploadDataset(app, team.cookies.scientist, csv, 'rename.csv', { labId: team.lab.id })
-    const patched = await patchAs(app, team.cookies.pi, `/api/v1/datasets/${res.body.data.id}`, { name: 'Outgrowth, March', description: 'Second imaging round' })
+    const patched = await patchAs(app, team.cookies.pi, `/api/v1/datasets/${res.body.data.id}`, {
+      name: 'Outgrowth, March',
+      description: 'Second imaging round',
+    })
     expect(patched.body.data).toMatchObject({ name: 'Outgrowth, March', description: 'Second imaging round' })
     expect((await patchAs(app, team.cookies.pi, `/api/v1/datasets/${res.body.data.id}`, {})).status).toBe(400)
-    expect((await patchAs(app, team.cookies.pi, `/api/v1/datasets/${res.body.data.id}`, { projectId: 999_999 })).status).toBe(404)
+    expect(
+      (await patchAs(app, team.cookies.pi, `/api/v1/datasets/${res.body.data.id}`, { projectId: 999_999 }))
+        .status,
+    ).toBe(404)
   })
 })
 
@@ -193,7 +318,9 @@ describe('startup sweep', () => {
     expect(swept.versions).toBeGreaterThanOrEqual(1)
     expect(swept.tables).toBeGreaterThanOrEqual(1)
     expect(await db('dataset_versions').where({ id: version.id }).first()).toBeUndefined()
-    const tables = await db.raw(`SELECT tablename FROM pg_tables WHERE tablename IN ('dataset_rows_${version.id}', 'dataset_rows_987654321')`)
+    const tables = await db.raw(
+      `SELECT tablename FROM pg_tables WHERE tablename IN ('dataset_rows_${version.id}', 'dataset_rows_987654321')`,
+    )
     expect(tables.rows).toEqual([])
   })
 })
