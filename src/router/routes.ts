@@ -1,5 +1,6 @@
 import type { RouteRecordRaw } from 'vue-router'
 import { analysisRoutes } from './analysis-routes'
+import { reviewRoutes } from './review-routes'
 import { teamRoutes } from './team-routes'
 
 // Views load on demand so the first page only downloads what it shows.
@@ -43,6 +44,7 @@ export const routes: RouteRecordRaw[] = [
   },
   ...analysisRoutes,
   ...teamRoutes,
+  ...reviewRoutes,
   {
     path: '/not-available',
     name: 'not-available',

@@ -295,9 +295,11 @@ describe('signing off', () => {
   }, 60_000)
 
   it('lets the requester withdraw an open request, and nobody decide it afterwards', async () => {
-    const versionNo = (
-      await db('analysis_versions').where({ analysis_id: analysisId }).max('version_no as max').first()
-    ).max
+    const newest = await db('analysis_versions')
+      .where({ analysis_id: analysisId })
+      .max('version_no as max')
+      .first()
+    const versionNo = Number(newest?.max)
     const req = await requestReview(team.cookies.scientist, versionNo, bio2.id)
     expect(req.status).toBe(201)
     expect(

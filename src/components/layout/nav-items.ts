@@ -55,6 +55,22 @@ export const navItems: NavItem[] = [
     visibleFor: visibleFor.everyone(),
   },
   {
+    id: 'lab-board',
+    title: 'Lab board',
+    icon: 'mdi-view-dashboard-outline',
+    to: { name: 'lab-board' },
+    section: 'work',
+    visibleFor: visibleFor.roles('pi'),
+  },
+  {
+    id: 'reviews',
+    title: 'Reviews',
+    icon: 'mdi-check-decagram-outline',
+    to: { name: 'reviews' },
+    section: 'work',
+    visibleFor: visibleFor.roles('biostatistician'),
+  },
+  {
     id: 'lab-members',
     title: 'Lab members',
     icon: 'mdi-account-group-outline',
