@@ -226,6 +226,7 @@ export async function storeCsv(
       }
       await flush()
       progress.update({ phase: 'storing', bytesRead, rowsStored: intake.dataRows })
+      progress.signal?.throwIfAborted()
     }
     feed(decoder.end())
     try {

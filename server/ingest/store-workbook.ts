@@ -153,6 +153,7 @@ export async function storeWorkbook(
           if (out.length >= 2000) {
             await write()
             progress.update({ phase: 'storing', bytesRead, rowsStored: intake.dataRows })
+            progress.signal?.throwIfAborted()
           }
         }
       }

@@ -138,7 +138,15 @@ async function withUpload<T>(
   res: Response,
   work: (file: UploadedFile, progress: ProgressSink) => Promise<T>,
 ): Promise<T> {
-  const progress = (res.locals.progress as ProgressSink | undefined) ?? noProgress
+  const reported = (res.locals.progress as ProgressSink | undefined) ?? noProgress
+  // A closed connection before the answer means the uploader cancelled: stop, roll back, store nothing.
+  const cancel = new AbortController()
+  const onClose = () => {
+    if (!res.writableEnded)
+      cancel.abort(new InvalidPayloadError('The upload was cancelled before it was stored.'))
+  }
+  res.on('close', onClose)
+  const progress: ProgressSink = { update: (change) => reported.update(change), signal: cancel.signal }
   try {
     const result = await work(uploadedFile(req), progress)
     finishProgress(req, res, null)
@@ -147,6 +155,7 @@ async function withUpload<T>(
     finishProgress(req, res, error)
     throw error
   } finally {
+    res.off('close', onClose)
     if (req.file) await rm(req.file.path, { force: true })
   }
 }

@@ -1,4 +1,6 @@
 import { createHash } from 'node:crypto'
+import { request as httpRequest } from 'node:http'
+import type { AddressInfo } from 'node:net'
 import { existsSync, readdirSync } from 'node:fs'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -7,7 +9,7 @@ import { ingestConfig } from '../../server/ingest/ingest-config'
 import { originalPath } from '../../server/ingest/original-store'
 import { sweepDatasetLeftovers } from '../../server/services/datasets-upload.service'
 import { loadNestedColumns } from '../../server/services/datasets-readback.service'
-import { closeConnections, createTestApp } from '../support/api'
+import { appWriteHeaders, closeConnections, createTestApp } from '../support/api'
 import {
   getAs,
   patchAs,
@@ -152,6 +154,67 @@ describe('upload and profile', () => {
       .field('labId', String(team.lab.id))
       .attach('file', csv, 'x.csv')
     expect(noProject.status).toBe(400)
+  })
+})
+
+describe('cancelled uploads', () => {
+  it('stop and store nothing when the uploader goes away while the rows are being stored', async () => {
+    const server = app.listen(0, '127.0.0.1')
+    await new Promise((resolve) => server.once('listening', resolve))
+    const { port } = server.address() as AddressInfo
+    try {
+      const lines = ['lab,mouse,treatment,cell,length']
+      for (let k = 0; k < 400_000; k++)
+        lines.push(`L${k % 7},m${k % 13},${k % 2 ? 'vehicle' : 'NW-117'},${k},${(k % 997) / 7}`)
+      const body = Buffer.from(lines.join('\n') + '\n')
+      const boundary = 'nestwise-cancel-test'
+      const payload = Buffer.concat([
+        Buffer.from(
+          `--${boundary}\r\nContent-Disposition: form-data; name="labId"\r\n\r\n${team.lab.id}\r\n--${boundary}\r\nContent-Disposition: form-data; name="projectName"\r\n\r\nCancelled\r\n`,
+        ),
+        Buffer.from(
+          `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="cancel.csv"\r\n\r\n`,
+        ),
+        body,
+        Buffer.from(`\r\n--${boundary}--\r\n`),
+      ])
+      const token = `cancel-${Date.now().toString(36)}`
+      const req = httpRequest({
+        host: '127.0.0.1',
+        port,
+        path: '/api/v1/datasets',
+        method: 'POST',
+        headers: {
+          ...appWriteHeaders,
+          Cookie: team.cookies.scientist,
+          'X-Upload-Token': token,
+          'Content-Type': `multipart/form-data; boundary=${boundary}`,
+          'Content-Length': payload.length,
+        },
+      })
+      req.on('error', () => {})
+      req.end(payload)
+      const progressOf = async () =>
+        (await getAs(app, team.cookies.scientist, `/api/v1/datasets/uploads/${token}`)).body.data
+      let progress = await progressOf()
+      for (let k = 0; k < 500 && progress?.phase !== 'storing'; k++) {
+        await new Promise((resolve) => setTimeout(resolve, 10))
+        progress = await progressOf()
+      }
+      expect(progress?.phase).toBe('storing')
+      req.destroy()
+      for (let k = 0; k < 500 && progress.phase !== 'failed'; k++) {
+        await new Promise((resolve) => setTimeout(resolve, 20))
+        progress = await progressOf()
+      }
+      expect(progress).toMatchObject({
+        phase: 'failed',
+        message: 'The upload was cancelled before it was stored.',
+      })
+      expect(await db('projects').where({ lab_id: team.lab.id, name: 'Cancelled' }).first()).toBeUndefined()
+    } finally {
+      await new Promise((resolve) => server.close(resolve))
+    }
   })
 })
 
