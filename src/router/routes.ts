@@ -1,5 +1,6 @@
 import type { RouteRecordRaw } from 'vue-router'
 import { analysisRoutes } from './analysis-routes'
+import { planningRoutes } from './planning-routes'
 import { reviewRoutes } from './review-routes'
 import { teamRoutes } from './team-routes'
 
@@ -44,6 +45,7 @@ export const routes: RouteRecordRaw[] = [
   },
   ...analysisRoutes,
   ...teamRoutes,
+  ...planningRoutes,
   ...reviewRoutes,
   {
     path: '/not-available',

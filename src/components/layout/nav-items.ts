@@ -71,6 +71,14 @@ export const navItems: NavItem[] = [
     visibleFor: visibleFor.roles('biostatistician'),
   },
   {
+    id: 'planner',
+    title: 'Planner',
+    icon: 'mdi-calculator-variant-outline',
+    to: { name: 'planner' },
+    section: 'work',
+    visibleFor: visibleFor.everyone(),
+  },
+  {
     id: 'lab-members',
     title: 'Lab members',
     icon: 'mdi-account-group-outline',

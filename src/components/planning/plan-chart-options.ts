@@ -1,0 +1,152 @@
+import type { EChartsCoreOption } from 'echarts/core'
+import type { PlanResult } from '../../../shared/schemas/plans'
+
+/** Okabe & Ito's colour-blind-safe hues (without black), one per curve; markers tell repeats apart. */
+export const CURVE_HUES = ['#0072B2', '#E69F00', '#009E73', '#CC79A7', '#56B4E9', '#D55E00', '#B8A900']
+const SYMBOLS = ['circle', 'rect', 'triangle', 'diamond']
+
+export interface PlanChartColors {
+  text: string
+  muted: string
+  grid: string
+  accent: string
+}
+
+const axis = (colors: PlanChartColors, name: string, extra: object = {}) => ({
+  name,
+  nameLocation: 'middle',
+  nameGap: 32,
+  axisLine: { lineStyle: { color: colors.grid } },
+  axisLabel: { color: colors.muted },
+  nameTextStyle: { color: colors.text },
+  splitLine: { lineStyle: { color: colors.grid, opacity: 0.5 } },
+  ...extra,
+})
+
+const percent = (v: number) => `${Math.round(v * 100)} %`
+
+/** Power against units per arm, one line per observations-per-unit value, with the target as a line. */
+export function powerCurvesOption(
+  result: PlanResult,
+  target: number,
+  colors: PlanChartColors,
+): EChartsCoreOption {
+  return {
+    animation: false,
+    grid: { left: 64, right: 24, top: 48, bottom: 52 },
+    legend: { top: 0, textStyle: { color: colors.text }, type: 'scroll' },
+    tooltip: { trigger: 'axis', valueFormatter: (v: unknown) => percent(Number(v)) },
+    xAxis: axis(colors, 'independent units per arm', { type: 'value', min: 2 }),
+    yAxis: axis(colors, 'power', {
+      type: 'value',
+      min: 0,
+      max: 1,
+      axisLabel: { color: colors.muted, formatter: percent },
+    }),
+    series: result.powerCurves.map((curve, i) => ({
+      type: 'line',
+      name: `${curve.obsPerUnit} obs. per unit${curve.obsPerUnit === result.obsPerUnit ? ' (recommended)' : ''}`,
+      data: curve.points.map((p) => [p.unitsPerArm, p.power]),
+      showSymbol: false,
+      symbol: SYMBOLS[Math.floor(i / CURVE_HUES.length) % SYMBOLS.length],
+      lineStyle: { width: curve.obsPerUnit === result.obsPerUnit ? 3 : 1.5 },
+      color: CURVE_HUES[i % CURVE_HUES.length],
+      ...(i === 0
+        ? {
+            markLine: {
+              silent: true,
+              symbol: 'none',
+              lineStyle: { color: colors.accent, type: 'dashed' },
+              label: { color: colors.accent, formatter: `target ${percent(target)}` },
+              data: [{ yAxis: target }, { xAxis: result.unitsPerArm }],
+            },
+          }
+        : {}),
+    })),
+  }
+}
+
+/**
+ * At the recommended units per arm: what more observations per unit buy. Effective observations per
+ * unit m / (1 + (m − 1)ρ) levels off at 1/ρ, and power with it.
+ */
+export function obsPerUnitOption(result: PlanResult, colors: PlanChartColors): EChartsCoreOption {
+  const ceiling = result.icc > 0 ? 1 / result.icc : null
+  return {
+    animation: false,
+    grid: { left: 64, right: 64, top: 48, bottom: 52 },
+    legend: { top: 0, textStyle: { color: colors.text } },
+    tooltip: { trigger: 'axis' },
+    xAxis: axis(colors, 'observations per unit', { type: 'value', min: 1 }),
+    yAxis: [
+      axis(colors, 'power', {
+        type: 'value',
+        min: 0,
+        max: 1,
+        axisLabel: { color: colors.muted, formatter: percent },
+      }),
+      axis(colors, 'effective n per unit', { type: 'value', min: 0, splitLine: { show: false } }),
+    ],
+    series: [
+      {
+        type: 'line',
+        name: `power with ${result.unitsPerArm} units per arm`,
+        data: result.obsCurve.map((p) => [p.obsPerUnit, p.power]),
+        showSymbol: false,
+        color: CURVE_HUES[0],
+        lineStyle: { width: 2.5 },
+        tooltip: { valueFormatter: (v: unknown) => percent(Number(v)) },
+      },
+      {
+        type: 'line',
+        name: 'effective n per unit',
+        yAxisIndex: 1,
+        data: result.obsCurve.map((p) => [p.obsPerUnit, p.effectivePerUnit]),
+        showSymbol: false,
+        color: CURVE_HUES[1],
+        lineStyle: { width: 2, type: 'dashed' },
+        tooltip: { valueFormatter: (v: unknown) => Number(v).toFixed(1) },
+        ...(ceiling !== null && ceiling < 1000
+          ? {
+              markLine: {
+                silent: true,
+                symbol: 'none',
+                lineStyle: { color: colors.muted, type: 'dotted' },
+                label: {
+                  color: colors.muted,
+                  formatter: `ceiling 1/ICC = ${ceiling.toFixed(1)}`,
+                  position: 'insideEndTop',
+                },
+                data: [{ yAxis: ceiling }],
+              },
+            }
+          : {}),
+      },
+    ],
+  }
+}
+
+/** Tab-separated designs, for pasting into a spreadsheet or a protocol. */
+export function planTableText(result: PlanResult, arms: number): string {
+  const header = [
+    'units per arm',
+    'observations per unit',
+    'total units',
+    'total observations',
+    'power',
+    'cost',
+    'recommended',
+  ]
+  const rows = result.table.map((r) =>
+    [
+      r.unitsPerArm,
+      r.obsPerUnit,
+      r.unitsPerArm * arms,
+      r.unitsPerArm * arms * r.obsPerUnit,
+      r.power.toFixed(3),
+      Math.round(r.cost),
+      r.recommended ? 'yes' : '',
+    ].join('\t'),
+  )
+  return [header.join('\t'), ...rows].join('\n')
+}
