@@ -72,7 +72,7 @@ export class ColumnProfiler {
     }
     if (code === NA_CODE) {
       this.missing++
-      if (this.codes) this.setCode(rowIndex, MISSING_CODE)
+      this.setCode(rowIndex, MISSING_CODE)
       return
     }
     this.sawValue = true
@@ -135,7 +135,9 @@ export class ColumnProfiler {
   private classify(text: string, rowIndex: number): number {
     if (isIntegerText(text)) return Number(text)
     if (isNumberText(text, this.options.decimalMark)) {
+      // Measurements with decimals never group rows into units: their per-row codes are not needed.
       this.allInteger = false
+      this.codes = null
       const value = parseNumberText(text, this.options.decimalMark)
       if (!Number.isFinite(value) && this.overflow === null) this.overflow = { rowIndex, text }
       return value
@@ -145,7 +147,9 @@ export class ColumnProfiler {
   }
 
   private setCode(rowIndex: number, code: number): void {
-    if (rowIndex >= this.codes!.length) this.codes = grow(this.codes!, rowIndex + 1) as Uint16Array
+    const codes = this.codes
+    if (!codes) return
+    if (rowIndex >= codes.length) this.codes = grow(codes, rowIndex + 1) as Uint16Array
     this.codes![rowIndex] = code
   }
 

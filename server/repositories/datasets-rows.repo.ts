@@ -80,10 +80,12 @@ export async function openCopyIn(
   columnCount: number,
   format: CopyInFormat,
 ): Promise<Writable & { rowCount: number }> {
+  // FREEZE: the table was created in this same (sub)transaction, so rows can be written frozen and
+  // all-visible; the first reads after the upload then skip setting hint bits on every page.
   const options =
     format.kind === 'csv'
-      ? `FORMAT csv, HEADER true, DELIMITER ${sqlLiteral(format.delimiter)}, ENCODING 'UTF8'`
-      : `FORMAT text, ENCODING 'UTF8'`
+      ? `FORMAT csv, HEADER true, DELIMITER ${sqlLiteral(format.delimiter)}, ENCODING 'UTF8', FREEZE true`
+      : `FORMAT text, ENCODING 'UTF8', FREEZE true`
   const sql = `COPY ${rowsTable(versionId)} (${columnList(columnCount)}) FROM STDIN (${options})`
   const client = await transactionClient(trx)
   return client.query(copyFrom(sql))

@@ -58,7 +58,11 @@ export function suggestionFromIntake(intake: IntakeResult): NestingSuggestion {
       type: profile.type,
       distinctCount: profile.distinctCount,
       missingCount: profile.missingCount,
-      coded: codes ? { name: profile.name, codes: toInt32Codes(codes.codes), labels: codes.labels } : null,
+      // Only text and integer columns can group rows; converting the others would only cost memory.
+      coded:
+        codes && (profile.type === 'text' || profile.type === 'integer')
+          ? { name: profile.name, codes: toInt32Codes(codes.codes), labels: codes.labels }
+          : null,
     }
   })
   return suggestNesting(intake.rowCount, columns)
