@@ -25,6 +25,14 @@ export const auditActionLabels: Partial<Record<AuditAction, string>> = {
   'dataset.exclusion_withdrawn': 'Exclusion withdrawn',
   'project.created': 'Project created',
   'project.updated': 'Project changed',
+  'review.requested': 'Review requested',
+  'review.commented': 'Review comment',
+  'review.signed_off': 'Signed off',
+  'review.changes_requested': 'Changes asked for',
+  'review.withdrawn': 'Review request withdrawn',
+  'share_link.created': 'Read-only link created',
+  'share_link.opened': 'Read-only link opened',
+  'share_link.revoked': 'Read-only link withdrawn',
 }
 
 export function auditActionLabel(action: string): string {
