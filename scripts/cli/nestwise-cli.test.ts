@@ -20,7 +20,10 @@ function nestwise(...args: string[]) {
 
 const analyzeCells = ['--response', 'neurite_length_um', '--levels', 'lab,mouse', '--condition', 'treatment']
 
-describe('nestwise analyze', () => {
+// Each test spawns node + tsx one to three times; a busy machine makes that slow, hence the long timeout.
+const SPAWNING = { timeout: 180_000 }
+
+describe('nestwise analyze', SPAWNING, () => {
   const csv = nestwise('analyze', fixture('cells.csv'), ...analyzeCells, '--reference', 'vehicle')
 
   it('prints exactly one JSON document matching the result schema, nothing else', () => {
@@ -78,7 +81,7 @@ describe('nestwise analyze', () => {
   })
 })
 
-describe('nestwise plan', () => {
+describe('nestwise plan', SPAWNING, () => {
   it('finds the units per arm of the clusterPower documentation example', () => {
     // clusterPower (R) crtpwr.2mean: m = 10, d = 1, ICC 0.1, σ² = 5, α 0.05, power 0.8 → 15.93 → 16 clusters per arm.
     const run = nestwise('plan', '--difference', '1', '--icc', '0.1', '--variance', '5', '--obs', '10')
