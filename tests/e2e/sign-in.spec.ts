@@ -6,12 +6,21 @@ import { attachScreenshot, openAccountMenu, signIn } from './support/demo'
  * empty pages): when a feature lands, add its label to BUILT and these checks cover it.
  */
 const NAV_BY_ROLE = {
-  everyone: ['Overview', 'Datasets'],
+  everyone: ['Overview', 'Datasets', 'Analyses', 'Planner'],
   pi: ['Lab board', 'Lab members', 'Audit log'],
   biostatistician: ['Reviews'],
   admin: ['People & labs', 'Outbox', 'Audit log'],
 } as const
-const BUILT = new Set<string>(['Overview', 'Datasets', 'Lab members', 'People & labs', 'Outbox', 'Audit log'])
+const BUILT = new Set<string>([
+  'Overview',
+  'Datasets',
+  'Analyses',
+  'Planner',
+  'Lab members',
+  'People & labs',
+  'Outbox',
+  'Audit log',
+])
 
 type NavGroup = keyof typeof NAV_BY_ROLE
 

@@ -55,6 +55,14 @@ export const navItems: NavItem[] = [
     visibleFor: visibleFor.everyone(),
   },
   {
+    id: 'planner',
+    title: 'Planner',
+    icon: 'mdi-calculator-variant-outline',
+    to: { name: 'planner' },
+    section: 'work',
+    visibleFor: visibleFor.everyone(),
+  },
+  {
     id: 'lab-board',
     title: 'Lab board',
     icon: 'mdi-view-dashboard-outline',
@@ -69,14 +77,6 @@ export const navItems: NavItem[] = [
     to: { name: 'reviews' },
     section: 'work',
     visibleFor: visibleFor.roles('biostatistician'),
-  },
-  {
-    id: 'planner',
-    title: 'Planner',
-    icon: 'mdi-calculator-variant-outline',
-    to: { name: 'planner' },
-    section: 'work',
-    visibleFor: visibleFor.everyone(),
   },
   {
     id: 'lab-members',
