@@ -205,12 +205,12 @@ export function mainChartOption(
       splitLine: { show: false },
       axisTick: { show: false },
       axisLine: { lineStyle: { color: colors.grid } },
+      // Labels at each condition's centre, not at the slot edges the value axis would pick.
       axisLabel: {
         color: colors.text,
         fontSize: 13,
+        customValues: conditionNames.map((_, i) => i),
         formatter: (value: number) => conditionNames[Math.round(value)] ?? '',
-        showMinLabel: false,
-        showMaxLabel: false,
       },
       name: chart.condition ?? '',
       nameLocation: 'middle',
@@ -223,6 +223,8 @@ export function mainChartOption(
       nameLocation: 'middle',
       nameGap: 48,
       axisLabel: { color: colors.text },
+      // Keep the axis at the left edge instead of crossing the first condition at x = 0.
+      axisLine: { onZero: false, show: true, lineStyle: { color: colors.grid } },
       splitLine: { lineStyle: { color: colors.grid, opacity: 0.5 } },
     },
     series: [
