@@ -1,0 +1,70 @@
+import { expect, test, type Page } from '@playwright/test'
+import { attachScreenshot, signIn } from './support/demo'
+
+// This machine is shared with other test runs: give the bundle and the server time.
+test.setTimeout(180_000)
+
+async function analysisId(page: Page, name: string): Promise<number> {
+  const res = await page.request.get('/api/v1/analyses')
+  expect(res.ok()).toBe(true)
+  const list = (await res.json()).data as { id: number; name: string }[]
+  const found = list.find((a) => a.name === name)
+  expect(found, `demo analysis "${name}"`).toBeTruthy()
+  return found!.id
+}
+
+test('a PI plans the next experiment from the single-lab demo analysis and saves the plan', async ({
+  page,
+}, testInfo) => {
+  await page.goto('/')
+  await signIn(page, 'petra@example.org')
+  await expect(page.getByTestId('nav-planner')).toBeVisible()
+  const id = await analysisId(page, 'Neurite length, NW-117 vs vehicle')
+
+  await page.goto(`/planner?analysisId=${id}&versionNo=1`)
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Plan an experiment', { timeout: 30_000 })
+  await expect(page.getByTestId('plan-source')).toContainText('Neurite length, NW-117 vs vehicle')
+  await expect(page.getByTestId('plan-source')).toContainText('ICC of the mice')
+  const units = page.getByTestId('plan-units')
+  await expect(units).toHaveText(/^\d+$/)
+  await expect(page.getByTestId('plan-power-chart')).toHaveAttribute('data-chart-ready', 'true')
+  await expect(page.getByTestId('plan-obs-chart')).toHaveAttribute('data-chart-ready', 'true')
+  await expect(page.getByTestId('plan-cautions')).toContainText('The numbers come from 5 mice per arm')
+  await expect(page.getByTestId('plan-table').locator('tbody tr')).not.toHaveCount(0)
+  await attachScreenshot(page, testInfo, 'planner-from-analysis')
+
+  // A larger difference worth detecting needs fewer mice.
+  const before = Number(await units.textContent())
+  const difference = page.getByTestId('input-difference').locator('input')
+  const current = Number(await difference.inputValue())
+  await difference.fill(String(current * 3))
+  await expect.poll(async () => Number(await units.textContent())).toBeLessThan(before)
+
+  await page.getByTestId('plan-name').locator('input').fill('Next outgrowth run (e2e)')
+  await page.getByTestId('plan-save-button').click()
+  await expect(page).toHaveURL(/\/plans\/\d+$/)
+  await expect(page.getByTestId('saved-plans')).toContainText('Next outgrowth run (e2e)')
+  await expect(page.getByTestId('saved-plans')).toContainText('NW-117 outgrowth')
+  await attachScreenshot(page, testInfo, 'planner-saved')
+})
+
+test('typed-in numbers: the clusterPower worked example gives 16 units per arm with 10 observations each', async ({
+  page,
+}, testInfo) => {
+  await page.goto('/')
+  await signIn(page, 'sami@example.org')
+  await page.getByTestId('nav-planner').click()
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Plan an experiment', { timeout: 30_000 })
+  // clusterPower (R) crtpwr.2mean documentation: m = 10, d = 1, ICC 0.1, σ² = 5 → 15.93 clusters per arm.
+  await page.getByTestId('input-icc').locator('input').fill('0.1')
+  await page
+    .getByTestId('input-sd-total')
+    .locator('input')
+    .fill(String(Math.sqrt(5)))
+  await page.getByTestId('input-difference').locator('input').fill('1')
+  await page.getByTestId('input-max-obs').locator('input').fill('10')
+  await expect(page.getByTestId('plan-obs')).toHaveText('10')
+  await expect(page.getByTestId('plan-units')).toHaveText('16')
+  await expect(page.getByTestId('plan-power-chart')).toHaveAttribute('data-chart-ready', 'true')
+  await attachScreenshot(page, testInfo, 'planner-typed-in')
+})
