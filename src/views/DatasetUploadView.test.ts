@@ -28,6 +28,9 @@ function server(user: CurrentUser) {
   )
 }
 
+const projectField = (wrapper: VueWrapper) =>
+  wrapper.findComponent('[data-testid="upload-project"]') as VueWrapper
+
 async function pickFile(wrapper: VueWrapper, file: File) {
   const input = wrapper.find('[data-testid="upload-file-input"]')
   Object.defineProperty(input.element, 'files', { value: [file], configurable: true })
@@ -52,7 +55,7 @@ describe('DatasetUploadView', () => {
     const { wrapper, router } = await mountWithApp(DatasetUploadView, {
       path: '/datasets/upload?projectId=4',
     })
-    expect(wrapper.findComponent('[data-testid="upload-project"]').props('modelValue')).toBe('Neurite pilot')
+    expect((projectField(wrapper).props() as { modelValue: unknown }).modelValue).toBe('Neurite pilot')
     expect(wrapper.find('[data-testid="upload-start"]').attributes('disabled')).toBeDefined()
 
     await pickFile(wrapper, table)
@@ -84,7 +87,7 @@ describe('DatasetUploadView', () => {
   it('creates a project by name when the typed name is new', async () => {
     server(samiScientist)
     const { wrapper } = await mountWithApp(DatasetUploadView, { path: '/datasets/upload' })
-    wrapper.findComponent('[data-testid="upload-project"]').vm.$emit('update:modelValue', 'Dose series')
+    projectField(wrapper).vm.$emit('update:modelValue', 'Dose series')
     await flushPromises()
     expect(wrapper.text()).toContain('A new project of this name will be created in the lab.')
     await pickFile(wrapper, table)

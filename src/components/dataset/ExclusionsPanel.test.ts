@@ -1,5 +1,5 @@
 // @vitest-environment happy-dom
-import { flushPromises } from '@vue/test-utils'
+import { flushPromises, type VueWrapper } from '@vue/test-utils'
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { ExclusionCreate } from '../../../shared/schemas/datasets'
 import { exclusion, neuriteColumns } from '@/testing/datasets'
@@ -26,9 +26,12 @@ function panel(overrides: Record<string, unknown> = {}) {
 }
 
 /** Sets a Vuetify select or combobox through its component, as a pick from the menu would. */
+function field(wrapper: ReturnType<typeof mountWithVuetify>, testId: string): VueWrapper {
+  return wrapper.findComponent(`[data-testid="${testId}"]`) as VueWrapper
+}
+
 function choose(wrapper: ReturnType<typeof mountWithVuetify>, testId: string, value: unknown) {
-  const field = wrapper.findComponent(`[data-testid="${testId}"]`)
-  field.vm.$emit('update:modelValue', value)
+  field(wrapper, testId).vm.$emit('update:modelValue', value)
   return flushPromises()
 }
 
@@ -67,9 +70,7 @@ describe('ExclusionsPanel', () => {
   it('offers only equality rules for text columns', async () => {
     const { wrapper } = panel()
     await choose(wrapper, 'exclusion-column', 'mouse')
-    const items = wrapper.findComponent('[data-testid="exclusion-operator"]').props('items') as {
-      value: string
-    }[]
+    const { items } = field(wrapper, 'exclusion-operator').props() as { items: { value: string }[] }
     expect(items.map((i) => i.value)).toEqual(['eq', 'ne', 'missing'])
   })
 
