@@ -1,19 +1,19 @@
 import type { ColumnProfile, ColumnType } from '../../shared/schemas/datasets'
 import { isIntegerText, isNumberText, parseNumberText, trimCell, type DecimalMark } from './number-text'
 
-/** Code stored for a missing cell in the per-row codes. */
-export const MISSING_CODE = 0xffff
+/** Code stored for a missing cell in the per-row codes (as the nesting functions expect). */
+export const MISSING_CODE = -1
 
 export interface ProfilerOptions {
   decimalMark: DecimalMark
   naValues: ReadonlySet<string>
-  /** Most distinct values tracked; must stay below MISSING_CODE so codes fit 16 bits. */
+  /** Most distinct values tracked per column. */
   distinctCap: number
 }
 
 /** Per-row label codes of a low-cardinality column, kept for the nesting suggestion. */
 export interface ColumnCodes {
-  codes: Uint16Array
+  codes: Int32Array
   labels: string[]
 }
 
@@ -39,7 +39,8 @@ export class ColumnProfiler {
   private labels: string[] = []
   private valueOfCode: Float64Array | null = new Float64Array(256)
   private counts: Uint32Array | null = new Uint32Array(256)
-  private codes: Uint16Array | null = new Uint16Array(1024)
+  // Int32 (not 16-bit) so the nesting suggestion uses them as they are, without a converted copy.
+  private codes: Int32Array | null = new Int32Array(1024)
   private numericCount = 0
   private mean = 0
   private m2 = 0
@@ -55,9 +56,7 @@ export class ColumnProfiler {
     readonly position: number,
     readonly name: string,
     private readonly options: ProfilerOptions,
-  ) {
-    if (options.distinctCap >= MISSING_CODE) throw new Error('distinctCap must stay below 65535')
-  }
+  ) {}
 
   add(raw: string | null): void {
     const rowIndex = this.rows++
@@ -149,7 +148,7 @@ export class ColumnProfiler {
   private setCode(rowIndex: number, code: number): void {
     const codes = this.codes
     if (!codes) return
-    if (rowIndex >= codes.length) this.codes = grow(codes, rowIndex + 1) as Uint16Array
+    if (rowIndex >= codes.length) this.codes = grow(codes, rowIndex + 1) as Int32Array
     this.codes![rowIndex] = code
   }
 
@@ -194,9 +193,10 @@ export class ColumnProfiler {
   }
 }
 
-function grow<T extends Uint16Array | Uint32Array | Float64Array>(array: T, atLeast: number): T {
-  let size = array.length * 2
-  while (size < atLeast) size *= 2
+/** Grows by half: a million-row file wastes less memory than with doubling. */
+function grow<T extends Int32Array | Uint32Array | Float64Array>(array: T, atLeast: number): T {
+  let size = Math.ceil(array.length * 1.5)
+  while (size < atLeast) size = Math.ceil(size * 1.5)
   const bigger = new (array.constructor as new (n: number) => T)(size)
   bigger.set(array)
   return bigger

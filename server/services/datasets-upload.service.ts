@@ -11,7 +11,6 @@ import type {
 import { suggestNesting, type SuggestionColumn } from '../../shared/nesting/suggest-nesting'
 import { db } from '../db'
 import { NotFoundError } from '../errors/app-error'
-import { MISSING_CODE } from '../ingest/column-profiler'
 import { ingestConfig } from '../ingest/ingest-config'
 import { ingestFile, type UploadedFile } from '../ingest/ingest-file'
 import { discardOriginal, holdHash, keepOriginal, staleFiles } from '../ingest/original-store'
@@ -42,13 +41,6 @@ import { findOrInsertProject, findProject } from '../repositories/projects.repo'
 import { assertCanWriteInLab, datasetFor } from './datasets-access.service'
 import { getDatasetDetail, getVersionDetail } from './datasets.service'
 
-/** The profiler's 16-bit codes as the Int32Array the nesting functions take (-1 for missing). */
-function toInt32Codes(codes: Uint16Array): Int32Array {
-  const out = new Int32Array(codes.length)
-  for (let r = 0; r < codes.length; r++) out[r] = codes[r] === MISSING_CODE ? -1 : codes[r]
-  return out
-}
-
 /** The nesting suggestion from the codes the profiler kept during ingest (no second pass over the rows). */
 export function suggestionFromIntake(intake: IntakeResult): NestingSuggestion {
   const columns: SuggestionColumn[] = intake.profiles.map((profile, k) => {
@@ -61,7 +53,7 @@ export function suggestionFromIntake(intake: IntakeResult): NestingSuggestion {
       // Only text and integer columns can group rows; converting the others would only cost memory.
       coded:
         codes && (profile.type === 'text' || profile.type === 'integer')
-          ? { name: profile.name, codes: toInt32Codes(codes.codes), labels: codes.labels }
+          ? { name: profile.name, codes: codes.codes, labels: codes.labels }
           : null,
     }
   })
