@@ -21,7 +21,10 @@ test('a PI plans the next experiment from the single-lab demo analysis and saves
   await expect(page.getByTestId('nav-planner')).toBeVisible()
   const id = await analysisId(page, 'Neurite length, NW-117 vs vehicle')
 
-  await page.goto(`/planner?analysisId=${id}&versionNo=1`)
+  // From the result page: its "Plan the next experiment" button opens the planner on this version.
+  await page.goto(`/analyses/${id}`)
+  await page.getByTestId('plan-next').click({ timeout: 30_000 })
+  await expect(page).toHaveURL(new RegExp(`/planner\\?analysisId=${id}&versionNo=1$`))
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Plan an experiment', { timeout: 30_000 })
   await expect(page.getByTestId('plan-source')).toContainText('Neurite length, NW-117 vs vehicle')
   await expect(page.getByTestId('plan-source')).toContainText('ICC of the mice')

@@ -22,13 +22,14 @@ export function mandelOption(
   colors: PlanChartColors,
 ): EChartsCoreOption {
   const lines = [
-    { value: critical.fivePercent, label: '5 %', type: 'dashed' },
-    { value: critical.onePercent, label: '1 %', type: 'solid' },
+    // The two lines can nearly coincide (3 labs: h 1.151 and 1.155): labels go on either side.
+    { value: critical.fivePercent, label: '5 %', type: 'dashed', position: 'insideEndBottom' },
+    { value: critical.onePercent, label: '1 %', type: 'solid', position: 'insideEndTop' },
   ]
   const markData = lines.flatMap((l) => {
     const style = {
       lineStyle: { color: colors.accent, type: l.type },
-      label: { formatter: l.label, color: colors.accent },
+      label: { formatter: l.label, color: colors.accent, position: l.position },
     }
     return signed
       ? [

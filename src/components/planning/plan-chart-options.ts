@@ -33,8 +33,8 @@ export function powerCurvesOption(
 ): EChartsCoreOption {
   return {
     animation: false,
-    grid: { left: 64, right: 24, top: 48, bottom: 52 },
-    legend: { top: 0, textStyle: { color: colors.text }, type: 'scroll' },
+    grid: { left: 64, right: 24, top: 76, bottom: 52 },
+    legend: { top: 0, textStyle: { color: colors.text }, itemGap: 12 },
     tooltip: { trigger: 'axis', valueFormatter: (v: unknown) => percent(Number(v)) },
     xAxis: axis(colors, 'independent units per arm', { type: 'value', min: 2 }),
     yAxis: axis(colors, 'power', {
@@ -45,7 +45,7 @@ export function powerCurvesOption(
     }),
     series: result.powerCurves.map((curve, i) => ({
       type: 'line',
-      name: `${curve.obsPerUnit} obs. per unit${curve.obsPerUnit === result.obsPerUnit ? ' (recommended)' : ''}`,
+      name: `m = ${curve.obsPerUnit}${curve.obsPerUnit === result.obsPerUnit ? ' (plan)' : ''}`,
       data: curve.points.map((p) => [p.unitsPerArm, p.power]),
       showSymbol: false,
       symbol: SYMBOLS[Math.floor(i / CURVE_HUES.length) % SYMBOLS.length],
@@ -74,7 +74,7 @@ export function obsPerUnitOption(result: PlanResult, colors: PlanChartColors): E
   const ceiling = result.icc > 0 ? 1 / result.icc : null
   return {
     animation: false,
-    grid: { left: 64, right: 64, top: 48, bottom: 52 },
+    grid: { left: 64, right: 72, top: 56, bottom: 52 },
     legend: { top: 0, textStyle: { color: colors.text } },
     tooltip: { trigger: 'axis' },
     xAxis: axis(colors, 'observations per unit', { type: 'value', min: 1 }),
@@ -85,12 +85,12 @@ export function obsPerUnitOption(result: PlanResult, colors: PlanChartColors): E
         max: 1,
         axisLabel: { color: colors.muted, formatter: percent },
       }),
-      axis(colors, 'effective n per unit', { type: 'value', min: 0, splitLine: { show: false } }),
+      axis(colors, 'effective n', { type: 'value', min: 0, splitLine: { show: false }, nameGap: 36 }),
     ],
     series: [
       {
         type: 'line',
-        name: `power with ${result.unitsPerArm} units per arm`,
+        name: 'power',
         data: result.obsCurve.map((p) => [p.obsPerUnit, p.power]),
         showSymbol: false,
         color: CURVE_HUES[0],

@@ -1,0 +1,19 @@
+import type { PlanInputsInput } from '../../../shared/schemas/plans'
+
+const significant = (v: number, digits = 4) => Number(v.toPrecision(digits))
+
+/**
+ * Numbers suggested by an analysis, rounded for the form: an estimate carries no more than three or
+ * four meaningful digits, and 19.299919646047865 only looks more certain than it is.
+ */
+export function roundInputs(inputs: PlanInputsInput): PlanInputsInput {
+  const spread =
+    inputs.spread.kind === 'total'
+      ? { kind: 'total' as const, sdTotal: significant(inputs.spread.sdTotal) }
+      : {
+          kind: 'components' as const,
+          sdBetween: significant(inputs.spread.sdBetween),
+          sdWithin: significant(inputs.spread.sdWithin),
+        }
+  return { ...inputs, icc: Number(inputs.icc.toFixed(3)), spread, difference: significant(inputs.difference) }
+}
