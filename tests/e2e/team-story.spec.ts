@@ -117,7 +117,8 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
   const guestContext = await browser.newContext()
   const guest = await guestContext.newPage()
   await guest.goto(url!.trim())
-  await expect(guest.getByTestId('shared-name')).toHaveText(ANALYSIS)
+  // The first page load of a fresh browser fetches the chart code too: allow for a busy machine.
+  await expect(guest.getByTestId('shared-name')).toHaveText(ANALYSIS, { timeout: 90_000 })
   await expect(guest.getByTestId('shared-facts')).toContainText('signed off by a biostatistician')
   await expect(guest.getByText('Comparisons', { exact: true })).toBeVisible()
   await expect(guest.getByTestId('main-nav')).toHaveCount(0)
@@ -132,7 +133,7 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
 
   // The PI sees that it was opened.
   await pi.reload()
-  await expect(pi.getByTestId('share-open-count').first()).toContainText('1×')
+  await expect(pi.getByTestId('share-open-count').first()).toContainText('1×', { timeout: 90_000 })
   await guestContext.close()
   await piContext.close()
 })
