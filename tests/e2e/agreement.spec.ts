@@ -7,7 +7,7 @@ test.setTimeout(180_000)
 test('the consortium lead sees which lab disagrees, in spread or effect', async ({ page }, testInfo) => {
   await page.goto('/')
   await signIn(page, 'petra@example.org')
-  await expect(page.getByTestId('nav-overview')).toBeVisible()
+  await expect(page.getByTestId('nav-overview')).toBeVisible({ timeout: 30_000 })
   const res = await page.request.get('/api/v1/analyses')
   const list = (await res.json()).data as { id: number; name: string }[]
   const analysis = list.find((a) => a.name === 'Neurite length across three labs')
@@ -45,7 +45,7 @@ test('the consortium lead sees which lab disagrees, in spread or effect', async 
 test('a single-lab analysis says plainly why there is no agreement view', async ({ page }, testInfo) => {
   await page.goto('/')
   await signIn(page, 'sami@example.org')
-  await expect(page.getByTestId('nav-overview')).toBeVisible()
+  await expect(page.getByTestId('nav-overview')).toBeVisible({ timeout: 30_000 })
   const list = (await (await page.request.get('/api/v1/analyses')).json()).data as {
     id: number
     name: string

@@ -18,7 +18,7 @@ test('a PI plans the next experiment from the single-lab demo analysis and saves
 }, testInfo) => {
   await page.goto('/')
   await signIn(page, 'petra@example.org')
-  await expect(page.getByTestId('nav-planner')).toBeVisible()
+  await expect(page.getByTestId('nav-planner')).toBeVisible({ timeout: 30_000 })
   const id = await analysisId(page, 'Neurite length, NW-117 vs vehicle')
 
   // From the result page: its "Plan the next experiment" button opens the planner on this version.
@@ -46,6 +46,8 @@ test('a PI plans the next experiment from the single-lab demo analysis and saves
   await page.getByTestId('plan-name').locator('input').fill('Next outgrowth run (e2e)')
   await page.getByTestId('plan-save-button').click()
   await expect(page).toHaveURL(/\/plans\/\d+$/)
+  // Just saved: the form shows exactly the saved numbers.
+  await expect(page.getByText('The numbers above differ from the saved ones')).toHaveCount(0)
   await expect(page.getByTestId('saved-plans')).toContainText('Next outgrowth run (e2e)')
   await expect(page.getByTestId('saved-plans')).toContainText('NW-117 outgrowth')
   await attachScreenshot(page, testInfo, 'planner-saved')

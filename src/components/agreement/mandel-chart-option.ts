@@ -22,14 +22,16 @@ export function mandelOption(
   colors: PlanChartColors,
 ): EChartsCoreOption {
   const lines = [
-    // The two lines can nearly coincide (3 labs: h 1.151 and 1.155): labels go on either side.
-    { value: critical.fivePercent, label: '5 %', type: 'dashed', position: 'insideEndBottom' },
-    { value: critical.onePercent, label: '1 %', type: 'solid', position: 'insideEndTop' },
+    // No text on the lines: they can nearly coincide (3 labs: h 1.151 and 1.155) and their labels
+    // would sit on the bars; the caption says dashed 5 %, solid 1 %, and the tooltip gives values.
+    { value: critical.fivePercent, label: '5 %', type: 'dashed' },
+    { value: critical.onePercent, label: '1 %', type: 'solid' },
   ]
   const markData = lines.flatMap((l) => {
     const style = {
       lineStyle: { color: colors.accent, type: l.type },
-      label: { formatter: l.label, color: colors.accent, position: l.position },
+      label: { show: false },
+      name: `${l.label} critical value ${l.value.toFixed(3)}`,
     }
     return signed
       ? [

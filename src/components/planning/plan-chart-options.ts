@@ -57,8 +57,17 @@ export function powerCurvesOption(
               silent: true,
               symbol: 'none',
               lineStyle: { color: colors.accent, type: 'dashed' },
-              label: { color: colors.accent, formatter: `target ${percent(target)}` },
-              data: [{ yAxis: target }, { xAxis: result.unitsPerArm }],
+              label: { color: colors.accent },
+              data: [
+                {
+                  yAxis: target,
+                  label: { formatter: `target ${percent(target)}`, position: 'insideStartTop' },
+                },
+                {
+                  xAxis: result.unitsPerArm,
+                  label: { formatter: `${result.unitsPerArm} per arm`, position: 'end' },
+                },
+              ],
             },
           }
         : {}),
