@@ -103,4 +103,15 @@ test('creates a new analysis on a demo dataset and sees it finish', async ({ pag
   await mainChartDrawn(page)
   await expect(page.getByTestId('result-badges')).toBeVisible()
   await attachScreenshot(page, testInfo, 'new-analysis-result')
+
+  // New settings make version 2; version 1 stays readable.
+  await page.getByTestId('change-settings').click()
+  await page.getByRole('dialog').getByRole('button', { name: 'SD', exact: true }).click()
+  await page.getByTestId('run-new-version').click()
+  await expect(page.getByTestId('version-picker')).toContainText('Version 2', { timeout: 30_000 })
+  await mainChartDrawn(page)
+  await page.getByTestId('version-picker').click()
+  await page.getByRole('option', { name: /Version 1/ }).click()
+  await expect(page.getByTestId('older-version')).toBeVisible()
+  await mainChartDrawn(page)
 })
