@@ -145,6 +145,15 @@ export class ColumnProfiler {
     return NaN
   }
 
+  /** Makes room for `rows` codes at once, sparing repeated growth on large files. */
+  reserve(rows: number): void {
+    if (this.codes && this.codes.length < rows) {
+      const bigger = new Int32Array(rows)
+      bigger.set(this.codes)
+      this.codes = bigger
+    }
+  }
+
   private setCode(rowIndex: number, code: number): void {
     const codes = this.codes
     if (!codes) return

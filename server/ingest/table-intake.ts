@@ -134,6 +134,11 @@ export class TableIntake {
     )
   }
 
+  /** Expected number of data rows (an estimate from the file size); profilers reserve room for them. */
+  reserveRows(rows: number): void {
+    for (const profiler of this.profilers) profiler.reserve(rows)
+  }
+
   /** The checks that need the whole file: empty, header only, one row, numbers out of range. */
   finish(): IntakeResult {
     if (this.columnNames === null) throw badFile('EMPTY_FILE', 'The file is empty.')

@@ -1,6 +1,13 @@
 import type { ColumnType, NestingSuggestion } from '../schemas/datasets'
 import { levelSentences, placementOf, placementSentence } from './describe-design'
-import { childrenPerParent, extendPaths, reusedLabels, type CodedColumn, type PathLevel } from './unit-paths'
+import {
+  childrenPerParent,
+  countPaths,
+  extendPaths,
+  reusedLabels,
+  type CodedColumn,
+  type PathLevel,
+} from './unit-paths'
 
 export interface SuggestionColumn {
   name: string
@@ -176,7 +183,8 @@ function conditionScore(column: SuggestionColumn): number {
 
 interface Trial {
   column: SuggestionColumn
-  level: PathLevel
+  /** Units the column would split the current parent into. */
+  count: number
 }
 
 /**
@@ -184,18 +192,23 @@ interface Trial {
  * units. When neither is (labels reused, so the columns look crossed), prefer the usual order of
  * unit words, then the column whose value changes less often in file order.
  */
-function resolveCrossed(best: Trial, trials: readonly Trial[], rowCount: number): Trial {
+function resolveCrossed(
+  bestLevel: PathLevel,
+  best: Trial,
+  trials: readonly Trial[],
+  rowCount: number,
+): Trial {
   const contenders = trials.filter((t) => {
     if (t === best) return false
-    const splitsBest = extendPaths(best.level, t.column.coded!, rowCount).count > best.level.count
-    const splitByBest = extendPaths(t.level, best.column.coded!, rowCount).count > t.level.count
-    return splitsBest && splitByBest
+    // Units of both columns together: more than either alone means neither is constant within the other.
+    const joint = countPaths(bestLevel, t.column.coded!, rowCount)
+    return joint > best.count && joint > t.count
   })
   if (!contenders.length) return best
   const key = (t: Trial) => ({
     rank: unitRank(t.column.name),
     runs: runCount(t.column.coded!, rowCount),
-    count: t.level.count,
+    count: t.count,
   })
   return [best, ...contenders].sort((a, b) => {
     const ka = key(a)
@@ -235,40 +248,43 @@ export function suggestNesting(rowCount: number, columns: readonly SuggestionCol
   while (remaining.length && paths.length < MAX_LEVELS) {
     const parent = paths[paths.length - 1] ?? null
     const parentCount = parent ? parent.count : 1
-    const trials = remaining.map((c) => ({ column: c, level: extendPaths(parent, c.coded!, rowCount) }))
+    const trials: Trial[] = remaining.map((c) => ({
+      column: c,
+      count: countPaths(parent, c.coded!, rowCount),
+    }))
     const next: typeof remaining = []
     let best: Trial | null = null
     for (const trial of trials) {
-      if (trial.level.count <= parentCount && parent) {
+      if (trial.count <= parentCount && parent) {
         aliases.push({ column: trial.column.name, sameAs: parent.column.name })
-      } else if (trial.level.count > rowCount / 2) {
+      } else if (trial.count > rowCount / 2) {
         observationIds.push(trial.column.name)
       } else {
         next.push(trial.column)
-        if (!best || trial.level.count < best.level.count) best = trial
+        if (!best || trial.count < best.count) best = trial
       }
     }
     if (!best) break
-    best = resolveCrossed(
+    const bestLevel = extendPaths(parent, best.column.coded!, rowCount)
+    const chosenTrial = resolveCrossed(
+      bestLevel,
       best,
       trials.filter((t) => next.includes(t.column)),
       rowCount,
     )
-    paths.push(best.level)
-    const chosen = best.column
+    paths.push(chosenTrial === best ? bestLevel : extendPaths(parent, chosenTrial.column.coded!, rowCount))
+    const chosen = chosenTrial.column
     remaining = next.filter((c) => c !== chosen)
   }
   observationIds = observationIds.filter((name) => !paths.some((p) => p.column.name === name))
-  // Integer columns that are unique within the innermost unit number the observations (cell 1, 2, 3 … in each animal).
-  const innermost = paths[paths.length - 1]
+  // Integer columns that count up row by row number the observations (cell 1, 2, 3 … in each animal).
+  // Checked on the values in file order only: building a unit per row would cost a million-entry map.
   for (const column of columns) {
     if (column.type !== 'integer' || candidates.includes(column) || observationIds.includes(column.name))
       continue
     const namedLikeId = nameWords(column.name).some((w) => ID_WORDS.has(w))
-    const counting = column.coded ? countsUpByOne(column.coded, rowCount) : false
-    const uniqueWithinUnits =
-      counting && innermost ? extendPaths(innermost, column.coded!, rowCount).count >= 0.95 * rowCount : false
-    if (namedLikeId || uniqueWithinUnits) observationIds.push(column.name)
+    if (namedLikeId || (column.coded && countsUpByOne(column.coded, rowCount)))
+      observationIds.push(column.name)
   }
 
   const used = new Set([

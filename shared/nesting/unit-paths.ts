@@ -43,12 +43,13 @@ export function extendPaths(parent: PathLevel | null, column: CodedColumn, rowCo
   const parentOf = new Int32Array(capacity)
   const labelOf = new Int32Array(capacity)
   const codes = column.codes
-  const parentIds = parent ? parent.ids : new Int32Array(rowCount)
+  // The outermost level has one notional parent: a shared zero array would cost a row-sized allocation.
+  const parentIds = parent ? parent.ids : null
   let count = 0
   if (parentCount * labelCount <= DENSE_LIMIT) {
     const table = new Int32Array(parentCount * labelCount).fill(-1)
     for (let r = 0; r < rowCount; r++) {
-      const p = parentIds[r]
+      const p = parentIds === null ? 0 : parentIds[r]
       const code = codes[r]
       if (p < 0 || code < 0) {
         ids[r] = -1
@@ -67,7 +68,7 @@ export function extendPaths(parent: PathLevel | null, column: CodedColumn, rowCo
   } else {
     const map = new Map<number, number>()
     for (let r = 0; r < rowCount; r++) {
-      const p = parentIds[r]
+      const p = parentIds === null ? 0 : parentIds[r]
       const code = codes[r]
       if (p < 0 || code < 0) {
         ids[r] = -1
@@ -85,6 +86,39 @@ export function extendPaths(parent: PathLevel | null, column: CodedColumn, rowCo
     }
   }
   return { column, ids, count, parent: parentOf.slice(0, count), label: labelOf.slice(0, count) }
+}
+
+/**
+ * How many units `column` would split `parent` into, without building the per-row ids: the
+ * suggestion tries every candidate column this way and builds paths only for the ones it keeps.
+ */
+export function countPaths(parent: PathLevel | null, column: CodedColumn, rowCount: number): number {
+  const labelCount = Math.max(column.labels.length, 1)
+  const parentCount = parent ? parent.count : 1
+  const codes = column.codes
+  const parentIds = parent ? parent.ids : null
+  let count = 0
+  if (parentCount * labelCount <= DENSE_LIMIT) {
+    const seen = new Uint8Array(parentCount * labelCount)
+    for (let r = 0; r < rowCount; r++) {
+      const p = parentIds === null ? 0 : parentIds[r]
+      const code = codes[r]
+      if (p < 0 || code < 0) continue
+      const key = p * labelCount + code
+      if (seen[key] === 0) {
+        seen[key] = 1
+        count++
+      }
+    }
+    return count
+  }
+  const seen = new Set<number>()
+  for (let r = 0; r < rowCount; r++) {
+    const p = parentIds === null ? 0 : parentIds[r]
+    const code = codes[r]
+    if (p >= 0 && code >= 0) seen.add(p * labelCount + code)
+  }
+  return seen.size
 }
 
 /** Paths for each level, outermost first. */
