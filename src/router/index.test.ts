@@ -10,7 +10,6 @@ import { routes } from './routes'
 
 const Blank = { render: () => null }
 const testRoutes = [
-  { path: '/lab-board', name: 'lab-board', component: Blank, meta: { roles: ['pi' as const] } },
   { path: '/people', name: 'people', component: Blank, meta: { admin: true } },
   ...routes,
 ]
@@ -33,9 +32,9 @@ afterEach(() => vi.unstubAllGlobals())
 describe('route guard', () => {
   it('sends an anonymous visitor to sign-in and remembers where they were going', async () => {
     const router = signedInAs(null)
-    await router.push('/lab-board?week=3')
+    await router.push('/lab/board?week=3')
     expect(router.currentRoute.value.name).toBe('sign-in')
-    expect(router.currentRoute.value.query.redirect).toBe('/lab-board?week=3')
+    expect(router.currentRoute.value.query.redirect).toBe('/lab/board?week=3')
   })
 
   it('adds no redirect for the overview itself', async () => {
@@ -46,16 +45,16 @@ describe('route guard', () => {
 
   it('lets a signed-in person with the right role through', async () => {
     const router = signedInAs(petraPi)
-    await router.push('/lab-board')
+    await router.push('/lab/board')
     expect(router.currentRoute.value.name).toBe('lab-board')
-    expect(document.title).toBe('Nestwise')
+    expect(document.title).toBe('Lab board · Nestwise')
   })
 
   it('shows "not available" for the wrong role, naming the refused page', async () => {
     const router = signedInAs(samiScientist)
-    await router.push('/lab-board')
+    await router.push('/lab/board')
     expect(router.currentRoute.value.name).toBe('not-available')
-    expect(router.currentRoute.value.query.page).toBe('/lab-board')
+    expect(router.currentRoute.value.query.page).toBe('/lab/board')
   })
 
   it('keeps admin pages for admins', async () => {
@@ -71,7 +70,7 @@ describe('route guard', () => {
 
   it('sends a signed-in person away from the sign-in page to the requested page', async () => {
     const router = signedInAs(petraPi)
-    await router.push('/sign-in?redirect=/lab-board')
+    await router.push('/sign-in?redirect=/lab/board')
     expect(router.currentRoute.value.name).toBe('lab-board')
   })
 

@@ -17,10 +17,7 @@ describe('NotAvailableView', () => {
       fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: samiScientist } } }).fetch,
     )
     const { wrapper } = await mountWithApp(NotAvailableView, {
-      path: '/not-available?page=/lab-board',
-      extraRoutes: [
-        { path: '/lab-board', name: 'lab-board', component: { render: () => null }, meta: { roles: ['pi'] } },
-      ],
+      path: '/not-available?page=/lab/board',
     })
 
     expect(wrapper.find('h1').text()).toBe('Not available for your role')
