@@ -1,6 +1,4 @@
 import { createHash } from 'node:crypto'
-import { createReadStream } from 'node:fs'
-import { stat } from 'node:fs/promises'
 import { finished } from 'node:stream/promises'
 import iconv from 'iconv-lite'
 import type { Knex } from 'knex'
@@ -22,6 +20,13 @@ export class NotUtf8 extends Error {}
 export type CsvMode = 'original-bytes' | 'parsed-rows'
 
 type CopyIn = Awaited<ReturnType<typeof openCopyIn>>
+
+/** Where a file's bytes come from: the file on disk, or an upload still in transfer. */
+export interface ByteSource {
+  chunks(): AsyncIterable<Buffer>
+  /** Exact size on disk, or the size announced by the request while the upload is in transfer. */
+  expectedBytes: number
+}
 
 interface TextDecoderLike {
   write(bytes: Buffer): string
@@ -129,7 +134,7 @@ export interface StoreCsvResult {
 export async function storeCsv(
   trx: Knex.Transaction,
   versionId: number,
-  path: string,
+  source: ByteSource,
   sniff: TextSniff,
   mode: CsvMode,
   limits: IntakeLimits,
@@ -166,7 +171,7 @@ export async function storeCsv(
   let bytesRead = 0
   let skipBom = sniff.bomBytes
   let reserved = false
-  const { size: fileSize } = await stat(path)
+  const fileSize = source.expectedBytes
 
   const feed = (text: string) => {
     try {
@@ -208,9 +213,7 @@ export async function storeCsv(
   }
 
   try {
-    for await (const chunk of createReadStream(path, {
-      highWaterMark: 256 * 1024,
-    }) as AsyncIterable<Buffer>) {
+    for await (const chunk of source.chunks()) {
       hash.update(chunk)
       bytesRead += chunk.length
       let bytes = chunk

@@ -244,6 +244,7 @@ export async function insertVersion(
 
 export interface IngestedVersion {
   sha256: string
+  byteSize: number
   fileType: 'csv' | 'xlsx'
   encoding: string
   delimiter: string | null
@@ -266,6 +267,7 @@ export async function completeVersion(
     .where({ id })
     .update({
       sha256: values.sha256,
+      byte_size: values.byteSize,
       file_type: values.fileType,
       encoding: values.encoding,
       delimiter: values.delimiter,

@@ -20,7 +20,9 @@ import {
 } from '../../shared/schemas/datasets'
 import { InvalidPayloadError, NotFoundError, PayloadTooLargeError } from '../errors/app-error'
 import { translateError } from '../errors/translate-error'
+import { ChunkChannel } from '../ingest/chunk-channel'
 import { ingestConfig } from '../ingest/ingest-config'
+import { liveDiskStorage } from '../ingest/live-upload-storage'
 import type { UploadedFile } from '../ingest/ingest-file'
 import { originalPath } from '../ingest/original-store'
 import { noProgress, uploadProgress, type ProgressSink } from '../ingest/upload-progress'
@@ -65,17 +67,54 @@ function sweepOnce(): void {
   })
 }
 
-function uploadMiddleware(): RequestHandler {
+/** Text tables are ingested while they arrive; workbooks are read once on disk (their zip needs the whole file). */
+const LIVE_EXTENSIONS = new Set(['.csv', '.tsv', '.tab', '.txt'])
+
+/** Random names: the original name is kept in the database, never used as a path. */
+const tempName = (file: Express.Multer.File) =>
+  `${Date.now()}-${randomBytes(8).toString('hex')}${extname(file.originalname).toLowerCase().slice(0, 8)}`
+
+/**
+ * An upload being ingested while it arrives: the storing runs alongside the transfer and waits,
+ * before it commits, for the request to complete (`accept`) — or gives up when it fails (`reject`).
+ */
+interface LiveIngest {
+  channel: ChunkChannel
+  accept: (size: number) => void
+  reject: (error: Error) => void
+  result: Promise<unknown>
+}
+
+/**
+ * The route's use case for an upload that may run live: `begin` checks the text fields that came
+ * before the file and returns the work to start, or null to wait for the whole file instead.
+ */
+type LiveStarter = (req: Request) => ((file: UploadedFile, progress: ProgressSink) => Promise<unknown>) | null
+
+function uploadMiddleware(begin: LiveStarter): RequestHandler {
   mkdirSync(ingestConfig.uploadsDir, { recursive: true })
   const upload = multer({
-    storage: multer.diskStorage({
-      destination: ingestConfig.uploadsDir,
-      // Random names: the original name is kept in the database, never used as a path.
-      filename: (_req, file, done) =>
-        done(
-          null,
-          `${Date.now()}-${randomBytes(8).toString('hex')}${extname(file.originalname).toLowerCase().slice(0, 8)}`,
-        ),
+    storage: liveDiskStorage(ingestConfig.uploadsDir, tempName, (req, file, path) => {
+      if (!LIVE_EXTENSIONS.has(extname(file.originalname).toLowerCase())) return null
+      const work = begin(req)
+      if (!work) return null
+      const res = req.res!
+      const channel = new ChunkChannel()
+      let accept!: (size: number) => void
+      let reject!: (error: Error) => void
+      const accepted = new Promise<number>((resolve, fail) => {
+        accept = resolve
+        reject = fail
+      })
+      accepted.catch(() => {})
+      const size = Number(req.get('content-length')) || 0
+      const result = runUpload(res, (progress) =>
+        work({ path, originalName: file.originalname, size, live: { channel, accepted } }, progress),
+      )
+      // Awaited by the route handler; this only keeps an early failure from counting as unhandled.
+      result.catch(() => {})
+      res.locals.live = { channel, accept, reject, result } satisfies LiveIngest
+      return channel
     }),
     limits: { fileSize: ingestConfig.uploadMaxBytes, files: 1, fields: 20, fieldSize: 16 * 1024, parts: 25 },
   }).single('file')
@@ -91,6 +130,9 @@ function uploadMiddleware(): RequestHandler {
           ),
         )
       }
+      const message = (err as { message?: string }).message
+      if (message === 'Request aborted' || message === 'Request closed')
+        return next(new InvalidPayloadError('The upload was cancelled before it was stored.'))
       if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT')
         return next(new InvalidPayloadError('Send one file, in the form field “file”.'))
       next(err)
@@ -121,8 +163,14 @@ function finishProgress(req: Request, res: Response, error: unknown | null): voi
   )
 }
 
-/** Reports failures of the multipart parsing to the progress entry too, then passes them on. */
+/** A failed multipart transfer stops a live ingest (nothing is stored) and is reported to the progress entry. */
 const failProgress: ErrorRequestHandler = (err, req, res, next) => {
+  const live = res.locals.live as LiveIngest | undefined
+  if (live) {
+    const error = err instanceof Error ? err : new Error(String(err))
+    live.channel.fail(error)
+    live.reject(error)
+  }
   finishProgress(req, res, err)
   next(err)
 }
@@ -132,12 +180,8 @@ function uploadedFile(req: Request): UploadedFile {
   return { path: req.file.path, originalName: req.file.originalname, size: req.file.size }
 }
 
-/** Runs an upload handler with progress reporting and removes the temp file whatever happens. */
-async function withUpload<T>(
-  req: Request,
-  res: Response,
-  work: (file: UploadedFile, progress: ProgressSink) => Promise<T>,
-): Promise<T> {
+/** Runs an upload's use case with progress reporting and cancellation when the uploader goes away. */
+async function runUpload<T>(res: Response, work: (progress: ProgressSink) => Promise<T>): Promise<T> {
   const reported = (res.locals.progress as ProgressSink | undefined) ?? noProgress
   // A closed connection before the answer means the uploader cancelled: stop, roll back, store nothing.
   const cancel = new AbortController()
@@ -146,16 +190,38 @@ async function withUpload<T>(
       cancel.abort(new InvalidPayloadError('The upload was cancelled before it was stored.'))
   }
   res.on('close', onClose)
-  const progress: ProgressSink = { update: (change) => reported.update(change), signal: cancel.signal }
   try {
-    const result = await work(uploadedFile(req), progress)
+    return await work({ update: (change) => reported.update(change), signal: cancel.signal })
+  } finally {
+    res.off('close', onClose)
+  }
+}
+
+/**
+ * After multer: lets a live ingest commit and waits for it, or runs the use case on the complete
+ * file. Reports the end to the progress entry and removes the temp file whatever happens.
+ */
+async function completeUpload<T>(
+  req: Request,
+  res: Response,
+  work: (file: UploadedFile, progress: ProgressSink) => Promise<T>,
+): Promise<T> {
+  const live = res.locals.live as LiveIngest | undefined
+  try {
+    let result: T
+    if (live) {
+      live.accept(req.file?.size ?? 0)
+      result = (await live.result) as T
+    } else {
+      const file = uploadedFile(req)
+      result = await runUpload(res, (progress) => work(file, progress))
+    }
     finishProgress(req, res, null)
     return result
   } catch (error) {
     finishProgress(req, res, error)
     throw error
   } finally {
-    res.off('close', onClose)
     if (req.file) await rm(req.file.path, { force: true })
   }
 }
@@ -169,7 +235,20 @@ export function datasetsRoutes(): Router {
   sweepOnce()
   const router = Router()
   router.use(requireUser)
-  const upload = uploadMiddleware()
+  // Fields sent before the file (as the client does) let the ingest start while the file arrives.
+  const createLive: LiveStarter = (req) => {
+    const fields = DatasetUploadFields.safeParse(req.body ?? {})
+    if (!fields.success) return null
+    return (file, progress) => createDatasetFromUpload(req.user!, fields.data, file, progress)
+  }
+  const versionLive: LiveStarter = (req) => {
+    const fields = VersionUploadFields.safeParse(req.body ?? {})
+    if (!fields.success) return null
+    return (file, progress) =>
+      addVersionFromUpload(req.user!, Number(req.params.datasetId), fields.data.sheet, file, progress)
+  }
+  const uploadDatasetFile = uploadMiddleware(createLive)
+  const uploadVersionFile = uploadMiddleware(versionLive)
 
   router.get('/uploads/:token', validate({ params: UploadTokenParams }), (req, res) => {
     const progress = uploadProgress.get(req.params.token as string, req.user!.id)
@@ -182,8 +261,8 @@ export function datasetsRoutes(): Router {
     res.json({ data: await listDatasetsFor(req.user!, query) })
   })
 
-  router.post('/', startProgress, upload, failProgress, async (req: Request, res: Response) => {
-    const detail = await withUpload(req, res, async (file, progress) => {
+  router.post('/', startProgress, uploadDatasetFile, failProgress, async (req: Request, res: Response) => {
+    const detail = await completeUpload(req, res, async (file, progress) => {
       const fields = DatasetUploadFields.parse(req.body ?? {})
       return createDatasetFromUpload(req.user!, fields, file, progress)
     })
@@ -211,10 +290,10 @@ export function datasetsRoutes(): Router {
     '/:datasetId/versions',
     validate({ params: DatasetParams }),
     startProgress,
-    upload,
+    uploadVersionFile,
     failProgress,
     async (req: Request, res: Response) => {
-      const detail = await withUpload(req, res, async (file, progress) => {
+      const detail = await completeUpload(req, res, async (file, progress) => {
         const fields = VersionUploadFields.parse(req.body ?? {})
         return addVersionFromUpload(req.user!, Number(req.params.datasetId), fields.sheet, file, progress)
       })

@@ -94,6 +94,8 @@ async function storeVersion(
     trx,
   )
   const outcome = await ingestFile(trx, versionId, file, { sheet, progress })
+  // A live upload is only stored once the whole request arrived and was accepted.
+  const byteSize = file.live ? await file.live.accepted : file.size
   progress.update({ phase: 'profiling', bytesRead: file.size, rowsStored: outcome.intake.rowCount })
   await insertColumns(versionId, outcome.intake.profiles, trx)
   const suggestion = suggestionFromIntake(outcome.intake)
@@ -101,6 +103,7 @@ async function storeVersion(
     versionId,
     {
       sha256: outcome.sha256,
+      byteSize,
       fileType: outcome.fileType,
       encoding: outcome.encoding,
       delimiter: outcome.delimiter,
