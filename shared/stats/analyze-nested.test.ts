@@ -28,7 +28,7 @@ describe('analyzeNested on six animals (hand calculation, common practice, no so
   // Within-animal SS = 0.5 + 0.125 + 2 + 2 + 0.5 + 0.5 = 5.625 on 6 df → MSW = 0.9375.
   // Pooled variance of unit means within arms = (0.2916̅ + 2.1666̅) / 4 = 0.6145833; MS(animal) = 2 × that.
   const msw = 0.9375
-  const pooledUnitMeanVar = (0.29166666666666667 + 2.1666666666666667) / 4
+  const pooledUnitMeanVar = (7 / 24 + 13 / 6) / 4
   const sigmaAnimal = (2 * pooledUnitMeanVar - msw) / 2
 
   it('matches the result schema', () => {

@@ -85,7 +85,12 @@ describe('hierarchicalBootstrap', () => {
     const means = [0, 1].map((c) => {
       let s = 0
       let k = 0
-      for (let i = 0; i < y.length; i++) if (codes[i] === c) (s += y[i]), k++
+      for (let i = 0; i < y.length; i++) {
+        if (codes[i] === c) {
+          s += y[i]
+          k++
+        }
+      }
       return s / k
     })
     expect(r.conditions.map((c) => c.label)).toEqual(['vehicle', 'compound'])
