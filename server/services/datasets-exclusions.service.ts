@@ -1,3 +1,4 @@
+import { recordAudit } from './audit.service'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import type { Exclusion, ExclusionCreate, ExclusionRule } from '../../shared/schemas/datasets'
 import { db } from '../db'
@@ -80,7 +81,7 @@ export async function addExclusion(
   versionNo: number,
   input: ExclusionCreate,
 ): Promise<Exclusion> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
   const shape = await shapeOf(version)
   const rule = input.kind === 'rule' ? normaliseRule(shape, version, input.rule) : null
   const unit =
@@ -120,6 +121,14 @@ export async function addExclusion(
       trx,
     )
     await refreshExcludedCount(shape, version.id, trx)
+    await recordAudit(trx, {
+      actorUserId: user.id,
+      labId: dataset.labId,
+      action: 'dataset.exclusion_added',
+      subjectType: 'dataset',
+      subjectId: datasetId,
+      details: { versionNo, exclusionId: id, kind: input.kind, reason: input.reason, matchedRows },
+    })
     return (await findExclusion(version.id, id, trx))!
   })
 }
@@ -131,7 +140,7 @@ export async function withdrawExclusion(
   versionNo: number,
   exclusionId: number,
 ): Promise<Exclusion> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
   const shape = await shapeOf(version)
   return db.transaction(async (trx) => {
     await trx('dataset_versions').where({ id: version.id }).forUpdate().first('id')
@@ -140,6 +149,14 @@ export async function withdrawExclusion(
     if (exclusion.removedAt) throw new ConflictError('This exclusion was already withdrawn.')
     await markExclusionRemoved(exclusionId, user.id, trx)
     await refreshExcludedCount(shape, version.id, trx)
+    await recordAudit(trx, {
+      actorUserId: user.id,
+      labId: dataset.labId,
+      action: 'dataset.exclusion_withdrawn',
+      subjectType: 'dataset',
+      subjectId: datasetId,
+      details: { versionNo, exclusionId },
+    })
     return (await findExclusion(version.id, exclusionId, trx))!
   })
 }

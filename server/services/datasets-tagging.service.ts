@@ -1,3 +1,4 @@
+import { recordAudit } from './audit.service'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import type { DesignSummary, Tagging, TaggingInput } from '../../shared/schemas/datasets'
 import { describeDesign, type DesignFacts } from '../../shared/nesting/describe-design'
@@ -169,7 +170,7 @@ export async function saveTagging(
   versionNo: number,
   input: TaggingInput,
 ): Promise<TaggingResult> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
   const shape = await shapeOf(version)
   const facts = await validate(version, shape, input)
   const tagging = await db.transaction(async (trx) => {
@@ -185,6 +186,14 @@ export async function saveTagging(
       trx,
     )
     await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
+    await recordAudit(trx, {
+      actorUserId: user.id,
+      labId: dataset.labId,
+      action: 'dataset.tagging_changed',
+      subjectType: 'dataset',
+      subjectId: datasetId,
+      details: { versionNo, ...input },
+    })
     return (await currentTagging(version.id, trx))!
   })
   return { tagging, design: publicDesign(facts) }

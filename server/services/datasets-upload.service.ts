@@ -1,3 +1,4 @@
+import { recordAudit } from './audit.service'
 import { basename, extname, join } from 'node:path'
 import { rm } from 'node:fs/promises'
 import type { Knex } from 'knex'
@@ -227,6 +228,14 @@ export async function createDatasetFromUpload(
       trx,
     )
     const stored = await storeVersion(trx, id, 1, user.id, file, fields.sheet, progress, onOriginalKept)
+    await recordAudit(trx, {
+      actorUserId: user.id,
+      labId: fields.labId,
+      action: 'dataset.uploaded',
+      subjectType: 'dataset',
+      subjectId: id,
+      details: { fileName: file.originalName },
+    })
     return { datasetId: id, versionId: stored.versionId }
   })
   indexLater(versionId)
@@ -241,11 +250,19 @@ export async function addVersionFromUpload(
   file: UploadedFile,
   progress: ProgressSink,
 ): Promise<DatasetVersionDetail> {
-  await datasetFor(user, datasetId, 'write')
+  const dataset = await datasetFor(user, datasetId, 'write')
   const { versionNo, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
     const stored = await storeVersion(trx, datasetId, next, user.id, file, sheet, progress, onOriginalKept)
     await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
+    await recordAudit(trx, {
+      actorUserId: user.id,
+      labId: dataset.labId,
+      action: 'dataset.version_added',
+      subjectType: 'dataset',
+      subjectId: datasetId,
+      details: { versionNo: next, fileName: file.originalName },
+    })
     return { versionNo: next, versionId: stored.versionId }
   })
   indexLater(versionId)
