@@ -11,7 +11,12 @@ export default defineConfig({
   // Generous: sign-in hashes with scrypt, and this machine may be busy with other test runs.
   timeout: 60_000,
   expect: { timeout: 10_000 },
-  reporter: [['list'], ['html', { open: 'never', outputFolder: 'test-results/html-report' }]],
+  // npm test reads the counts from the JSON report it asks for through PLAYWRIGHT_JSON_OUTPUT_NAME.
+  reporter: [
+    ['list'],
+    ['html', { open: 'never', outputFolder: 'test-results/html-report' }],
+    ...(process.env.PLAYWRIGHT_JSON_OUTPUT_NAME ? [['json'] as ['json']] : []),
+  ],
   use: {
     baseURL: 'http://127.0.0.1:3100',
     trace: 'retain-on-failure',
