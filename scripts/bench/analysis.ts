@@ -16,12 +16,11 @@
  * Targets: stored result drawn < 2 s; fresh run < 5 s.
  */
 import { spawn, spawnSync } from 'node:child_process'
-import { randomBytes } from 'node:crypto'
-import { createReadStream, existsSync, mkdirSync, statSync } from 'node:fs'
-import { request } from 'node:http'
+import { existsSync, mkdirSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import { chromium } from '@playwright/test'
 import { BENCH_SPEC, writeNestedCsv } from './generate-nested-csv'
+import { postMultipart } from './post-multipart'
 
 const args = process.argv.slice(2)
 const option = (name: string, fallback: number) => {
@@ -40,49 +39,6 @@ const { demoPassword } = await import('../../seeds/data/demo-accounts')
 
 const seconds = (ms: number) => `${(ms / 1000).toFixed(2)} s`
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]
-
-/** Streams a multipart upload from disk, as a browser does. */
-function postMultipart(
-  url: string,
-  headers: Record<string, string>,
-  fields: Record<string, string>,
-  file: { path: string; name: string },
-): Promise<{ status: number; body: string }> {
-  const boundary = `----nestwise${randomBytes(12).toString('hex')}`
-  const head =
-    Object.entries(fields)
-      .map(([k, v]) => `--${boundary}\r\nContent-Disposition: form-data; name="${k}"\r\n\r\n${v}\r\n`)
-      .join('') +
-    `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${file.name}"\r\nContent-Type: text/csv\r\n\r\n`
-  const tail = `\r\n--${boundary}--\r\n`
-  const length = Buffer.byteLength(head) + statSync(file.path).size + Buffer.byteLength(tail)
-  return new Promise((resolvePost, reject) => {
-    const req = request(
-      url,
-      {
-        method: 'POST',
-        headers: {
-          ...headers,
-          'Content-Type': `multipart/form-data; boundary=${boundary}`,
-          'Content-Length': String(length),
-        },
-      },
-      (res) => {
-        const chunks: Buffer[] = []
-        res.on('data', (c: Buffer) => chunks.push(c))
-        res.on('end', () =>
-          resolvePost({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8') }),
-        )
-      },
-    )
-    req.on('error', reject)
-    req.write(head)
-    const stream = createReadStream(file.path)
-    stream.on('error', reject)
-    stream.on('end', () => req.end(tail))
-    stream.pipe(req, { end: false })
-  })
-}
 
 async function waitForHealth(base: string): Promise<void> {
   for (let k = 0; k < 600; k++) {
