@@ -22,13 +22,24 @@ describe('compareEstimates', () => {
       means: [{ condition: 'vehicle', estimate: 120, se: 2 }],
     })
     expect(rows.map((r) => r.quantity)).toEqual([
-      'variance lab', 'variance animal', 'variance residual', 'contrast NW-117 − vehicle', '  SE', '  Satterthwaite df', 'mean vehicle', '  SE', '  Satterthwaite df',
+      'variance lab',
+      'variance animal',
+      'variance residual',
+      'contrast NW-117 − vehicle',
+      '  SE',
+      '  Satterthwaite df',
+      'mean vehicle',
+      '  SE',
+      '  Satterthwaite df',
     ])
     // |50 − 50.5| / 50.5 and |400 − 440| / 440: arithmetic, common practice, no source.
     expect(rows[0].relativeDifference).toBeCloseTo(0.5 / 50.5, 12)
     expect(rows[1].relativeDifference).toBe(0)
     expect(rows[5].relativeDifference).toBeCloseTo(40 / 440, 12)
     expect(rows[8]).toMatchObject({ reference: null, relativeDifference: null })
-    expect(largestDifference(rows)).toEqual({ quantity: 'contrast NW-117 − vehicle Satterthwaite df', value: 40 / 440 })
+    expect(largestDifference(rows)).toEqual({
+      quantity: 'contrast NW-117 − vehicle Satterthwaite df',
+      value: 40 / 440,
+    })
   })
 })

@@ -24,7 +24,12 @@ export function compareEstimates(result: AnalysisResult, reference: ReferenceEst
   const rows: EstimateRow[] = []
   const add = (quantity: string, ours: number, theirs: number | undefined) => {
     const ref = theirs === undefined ? null : theirs
-    rows.push({ quantity, ours, reference: ref, relativeDifference: ref === null ? null : Math.abs(ours - ref) / Math.abs(ref) })
+    rows.push({
+      quantity,
+      ours,
+      reference: ref,
+      relativeDifference: ref === null ? null : Math.abs(ours - ref) / Math.abs(ref),
+    })
   }
   const givenNames = result.levels.map((l) => l.name)
   for (const component of result.varianceComponents) {
@@ -54,7 +59,8 @@ export function largestDifference(rows: EstimateRow[]): { quantity: string; valu
   for (const row of rows) {
     const name = row.quantity.startsWith('  ') ? `${lastName.trim()} ${row.quantity.trim()}` : row.quantity
     if (!row.quantity.startsWith('  ')) lastName = row.quantity
-    if (row.relativeDifference !== null && (!worst || row.relativeDifference > worst.value)) worst = { quantity: name, value: row.relativeDifference }
+    if (row.relativeDifference !== null && (!worst || row.relativeDifference > worst.value))
+      worst = { quantity: name, value: row.relativeDifference }
   }
   return worst
 }

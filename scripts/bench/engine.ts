@@ -27,7 +27,12 @@ import { fitNestedReml } from '../../shared/stats/fit-nested-reml'
 import { hierarchicalBootstrap } from '../../shared/stats/hierarchical-bootstrap'
 import { prepareNestedDesign } from '../../shared/stats/prepare-nested-design'
 import { readColumnsFromFile } from '../cli/read-columns'
-import { compareEstimates, largestDifference, type EstimateRow, type ReferenceEstimates } from './compare-estimates'
+import {
+  compareEstimates,
+  largestDifference,
+  type EstimateRow,
+  type ReferenceEstimates,
+} from './compare-estimates'
 import { BENCH_SPEC, QUICK_SPEC, writeNestedCsv } from './generate-nested-csv'
 import { runTimed } from './run-timed'
 
@@ -38,13 +43,30 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
 const folder = mkdtempSync(join(tmpdir(), 'nestwise-bench-'))
 const csv = join(folder, 'neurite-lengths.csv')
 const usageFile = join(folder, 'usage.json')
-const columns = { response: 'neurite_length_um', levels: ['lab', 'animal'], condition: 'treatment', reference: 'vehicle' }
-const analyzeArgs = ['analyze', csv, '--response', columns.response, '--levels', columns.levels.join(','), '--condition', columns.condition, '--reference', columns.reference]
+const columns = {
+  response: 'neurite_length_um',
+  levels: ['lab', 'animal'],
+  condition: 'treatment',
+  reference: 'vehicle',
+}
+const analyzeArgs = [
+  'analyze',
+  csv,
+  '--response',
+  columns.response,
+  '--levels',
+  columns.levels.join(','),
+  '--condition',
+  columns.condition,
+  '--reference',
+  columns.reference,
+]
 const nodeArgs = ['--import', 'tsx', '--import', './scripts/bench/report-usage.ts', 'scripts/nestwise.ts']
 
 const fmt = (x: number, digits = 2) => x.toFixed(digits)
 const sci = (x: number | null) => (x === null ? '—' : x.toExponential(1))
-const num = (x: number | null) => (x === null ? '—' : Math.abs(x) >= 1e5 ? x.toExponential(6) : x.toPrecision(7))
+const num = (x: number | null) =>
+  x === null ? '—' : Math.abs(x) >= 1e5 ? x.toExponential(6) : x.toPrecision(7)
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
 const mb = (kb: number) => `${fmt(kb / 1024, 0)} MB`
 
@@ -58,7 +80,10 @@ async function analyzerRuns(extra: string[], runs: number) {
   let last = null
   let peak = 0
   for (let i = 0; i < runs; i++) {
-    const run = await runTimed(process.execPath, [...nodeArgs, ...analyzeArgs, ...extra], { cwd: root, usageFile })
+    const run = await runTimed(process.execPath, [...nodeArgs, ...analyzeArgs, ...extra], {
+      cwd: root,
+      usageFile,
+    })
     if (run.code !== 0) throw new Error(`nestwise analyze failed (exit ${run.code}): ${run.stderr.trim()}`)
     times.push(run.seconds)
     cpuTimes.push(run.cpuSeconds ?? NaN)
@@ -74,20 +99,35 @@ function rscriptAvailable(): boolean {
 }
 
 function printComparison(ours: EstimateRow[], polished: EstimateRow[] | null) {
-  const header = ['quantity'.padEnd(34), 'nestwise'.padStart(14), 'lmerTest'.padStart(14), 'rel.diff'.padStart(9)]
+  const header = [
+    'quantity'.padEnd(34),
+    'nestwise'.padStart(14),
+    'lmerTest'.padStart(14),
+    'rel.diff'.padStart(9),
+  ]
   if (polished) header.push('polished'.padStart(14), 'rel.diff'.padStart(9))
   console.log('  ' + header.join(' '))
   ours.forEach((row, i) => {
-    const cells = [row.quantity.padEnd(34), num(row.ours).padStart(14), num(row.reference).padStart(14), sci(row.relativeDifference).padStart(9)]
-    if (polished) cells.push(num(polished[i].reference).padStart(14), sci(polished[i].relativeDifference).padStart(9))
+    const cells = [
+      row.quantity.padEnd(34),
+      num(row.ours).padStart(14),
+      num(row.reference).padStart(14),
+      sci(row.relativeDifference).padStart(9),
+    ]
+    if (polished)
+      cells.push(num(polished[i].reference).padStart(14), sci(polished[i].relativeDifference).padStart(9))
     console.log('  ' + cells.join(' '))
   })
 }
 
 async function main() {
-  console.log(`Nestwise engine benchmark (${quick ? 'quick' : 'full'}) — node ${process.version}, ${new Date().toISOString()}`)
+  console.log(
+    `Nestwise engine benchmark (${quick ? 'quick' : 'full'}) — node ${process.version}, ${new Date().toISOString()}`,
+  )
   // Other work on the machine slows both sides; the load average says how much to trust the times.
-  console.log(`machine: ${availableParallelism()} cores, load average (1 min) ${fmt(loadavg()[0], 1)} at the start`)
+  console.log(
+    `machine: ${availableParallelism()} cores, load average (1 min) ${fmt(loadavg()[0], 1)} at the start`,
+  )
 
   let started = performance.now()
   const rows = writeNestedCsv(csv, spec)
@@ -97,10 +137,16 @@ async function main() {
       `treatment between mice; CSV ${fmt(size / 1e6, 1)} MB written in ${fmt((performance.now() - started) / 1000)} s (seed "${spec.seed}")`,
   )
 
-  section('nestwise analyze (child process: start-up + parse + REML fit + Satterthwaite + summaries; bootstrap off)')
+  section(
+    'nestwise analyze (child process: start-up + parse + REML fit + Satterthwaite + summaries; bootstrap off)',
+  )
   const analyzer = await analyzerRuns([], 3)
-  console.log(`  wall: ${analyzer.times.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.median)} s`)
-  console.log(`  CPU (user + system, all threads): ${analyzer.cpuTimes.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.cpuMedian)} s`)
+  console.log(
+    `  wall: ${analyzer.times.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.median)} s`,
+  )
+  console.log(
+    `  CPU (user + system, all threads): ${analyzer.cpuTimes.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.cpuMedian)} s`,
+  )
   console.log(`  peak memory (maxRSS of the child): ${mb(analyzer.peakKb)}`)
 
   section('where the time goes (same steps in this process; CPU seconds, wall in brackets)')
@@ -117,8 +163,12 @@ async function main() {
   const whole = await stage(() => analyzeNested(read.value, { reference: columns.reference }))
   const design = prepared.value
   const show = (t: { cpu: number; wall: number }) => `${fmt(t.cpu)} s (${fmt(t.wall)} s)`
-  console.log(`  read CSV ${show(read)}; analyzeNested ${show(whole)}, of which path-keyed design ${show(prepared)}, REML fit ${show(fitted)},`)
-  console.log(`  Satterthwaite, means, tests and warnings the rest; start-up of node + tsx + modules ≈ the child's CPU minus these`)
+  console.log(
+    `  read CSV ${show(read)}; analyzeNested ${show(whole)}, of which path-keyed design ${show(prepared)}, REML fit ${show(fitted)},`,
+  )
+  console.log(
+    `  Satterthwaite, means, tests and warnings the rest; start-up of node + tsx + modules ≈ the child's CPU minus these`,
+  )
 
   let speedup: number | null = null
   let cpuSpeedup: number | null = null
@@ -130,7 +180,9 @@ async function main() {
     section('lmerTest::lmer: skipped (Rscript not installed)')
   } else {
     const polish = !flags.has('--no-polish')
-    section(`lmerTest::lmer (Rscript, lme4 default settings${polish ? '; then an untimed polish with a tight tolerance' : ''})`)
+    section(
+      `lmerTest::lmer (Rscript, lme4 default settings${polish ? '; then an untimed polish with a tight tolerance' : ''})`,
+    )
     // Our components under R's path names, so R can evaluate its own criterion at our estimates.
     const ours: Record<string, number> = {}
     for (const c of analyzer.result.varianceComponents) {
@@ -140,8 +192,14 @@ async function main() {
     const run = await runTimed(
       'Rscript',
       [
-        'scripts/bench/lmer-bench.R', csv, columns.response, columns.levels.join(','), columns.condition, columns.reference,
-        polish ? 'polish' : 'no-polish', JSON.stringify(ours),
+        'scripts/bench/lmer-bench.R',
+        csv,
+        columns.response,
+        columns.levels.join(','),
+        columns.condition,
+        columns.reference,
+        polish ? 'polish' : 'no-polish',
+        JSON.stringify(ours),
       ],
       { cwd: root },
     )
@@ -161,7 +219,9 @@ async function main() {
       `  lme4 ${reference.versions.lme4}, lmerTest ${reference.versions.lmerTest}: read.csv ${fmt(reference.readSeconds)} s (not counted); ` +
         `lmer + Satterthwaite + condition means ${fmt(reference.fitSeconds)} s wall, ${fmt(reference.fitCpuSeconds)} s CPU; whole Rscript ${fmt(run.seconds)} s`,
     )
-    console.log(`  lme4 convergence check: ${reference.converged ? 'passed' : 'warned (stopped short of its gradient tolerance)'}`)
+    console.log(
+      `  lme4 convergence check: ${reference.converged ? 'passed' : 'warned (stopped short of its gradient tolerance)'}`,
+    )
     if (reference.polished) {
       console.log(
         `  polish (not in the ratio): refit ${fmt(reference.polished.seconds)} s, Satterthwaite again ${fmt(reference.polished.satterthwaiteSeconds)} s`,
@@ -184,15 +244,25 @@ async function main() {
     printComparison(rowsDefault, rowsPolished)
     worstDefault = largestDifference(rowsDefault)
     worstPolished = rowsPolished ? largestDifference(rowsPolished) : null
-    const tolerance = (name: string) => name.startsWith('variance ' + columns.levels[0]) ? ' ← the outermost level: only ' + spec.labs + ' labs inform it, so the criterion is flat there' : ''
-    console.log(`  largest vs lmerTest (default): ${sci(worstDefault?.value ?? null)} (${worstDefault?.quantity})`)
-    if (worstPolished) console.log(`  largest vs polished lme4 + lmerTest: ${sci(worstPolished.value)} (${worstPolished.quantity})${tolerance(worstPolished.quantity)}`)
+    const tolerance = (name: string) =>
+      name.startsWith('variance ' + columns.levels[0])
+        ? ' ← the outermost level: only ' + spec.labs + ' labs inform it, so the criterion is flat there'
+        : ''
+    console.log(
+      `  largest vs lmerTest (default): ${sci(worstDefault?.value ?? null)} (${worstDefault?.quantity})`,
+    )
+    if (worstPolished)
+      console.log(
+        `  largest vs polished lme4 + lmerTest: ${sci(worstPolished.value)} (${worstPolished.quantity})${tolerance(worstPolished.quantity)}`,
+      )
     const atOurs = reference.criterionAtOther
-    const versus = (value: number) => `${value.toFixed(8)} (${value - atOurs >= 0 ? '+' : '−'}${Math.abs(value - atOurs).toExponential(1)} vs nestwise's estimates)`
+    const versus = (value: number) =>
+      `${value.toFixed(8)} (${value - atOurs >= 0 ? '+' : '−'}${Math.abs(value - atOurs).toExponential(1)} vs nestwise's estimates)`
     console.log("  lme4's own REML criterion (lower is better):")
     console.log(`    at nestwise's estimates    ${atOurs.toFixed(8)}`)
     console.log(`    at its default fit         ${versus(reference.remlCriterion)}`)
-    if (reference.polished) console.log(`    at its polished fit        ${versus(reference.polished.remlCriterion)}`)
+    if (reference.polished)
+      console.log(`    at its polished fit        ${versus(reference.polished.remlCriterion)}`)
     console.log(`    (nestwise's own value:     ${analyzer.result.remlCriterion.toFixed(8)})`)
   }
 
@@ -211,12 +281,24 @@ async function main() {
   console.log(`  load average (1 min) at the end: ${fmt(loadavg()[0], 1)} on ${availableParallelism()} cores`)
   const mark = (ok: boolean) => (ok ? 'met' : 'MISSED')
   const peakKb = Math.max(analyzer.peakKb, withBootstrap.peakKb)
-  if (speedup !== null) console.log(`  speed vs lmerTest, wall: ${fmt(speedup, 1)}× (target ≥ 30×: ${mark(speedup >= 30)})`)
-  if (cpuSpeedup !== null) console.log(`  speed vs lmerTest, CPU time: ${fmt(cpuSpeedup, 1)}× (target ≥ 30×: ${mark(cpuSpeedup >= 30)}; steadier when the machine is busy)`)
-  if (worstDefault) console.log(`  estimates vs lmerTest default: ${sci(worstDefault.value)} (target ≤ 1e-4: ${mark(worstDefault.value <= 1e-4)})`)
-  if (worstPolished) console.log(`  estimates vs polished lme4: ${sci(worstPolished.value)} (target ≤ 1e-4: ${mark(worstPolished.value <= 1e-4)})`)
+  if (speedup !== null)
+    console.log(`  speed vs lmerTest, wall: ${fmt(speedup, 1)}× (target ≥ 30×: ${mark(speedup >= 30)})`)
+  if (cpuSpeedup !== null)
+    console.log(
+      `  speed vs lmerTest, CPU time: ${fmt(cpuSpeedup, 1)}× (target ≥ 30×: ${mark(cpuSpeedup >= 30)}; steadier when the machine is busy)`,
+    )
+  if (worstDefault)
+    console.log(
+      `  estimates vs lmerTest default: ${sci(worstDefault.value)} (target ≤ 1e-4: ${mark(worstDefault.value <= 1e-4)})`,
+    )
+  if (worstPolished)
+    console.log(
+      `  estimates vs polished lme4: ${sci(worstPolished.value)} (target ≤ 1e-4: ${mark(worstPolished.value <= 1e-4)})`,
+    )
   console.log(`  peak memory: ${mb(peakKb)} (target < 1 GB: ${mark(peakKb < 1024 * 1024)})`)
-  console.log(`  bootstrap 1,000 resamples, whole command: ${fmt(withBootstrap.median)} s wall, ${fmt(withBootstrap.cpuMedian)} s CPU (target < 10 s: ${mark(withBootstrap.median < 10)})`)
+  console.log(
+    `  bootstrap 1,000 resamples, whole command: ${fmt(withBootstrap.median)} s wall, ${fmt(withBootstrap.cpuMedian)} s CPU (target < 10 s: ${mark(withBootstrap.median < 10)})`,
+  )
   if (quick) console.log('  (quick mode: small data, the targets are meant for the full run)')
 }
 

@@ -32,7 +32,13 @@ export const BENCH_SPEC: NestedCsvSpec = {
   residualSd: 25,
 }
 
-export const QUICK_SPEC: NestedCsvSpec = { ...BENCH_SPEC, seed: 'nestwise-bench-quick', animalsPerLab: 10, minCells: 100, maxCells: 300 }
+export const QUICK_SPEC: NestedCsvSpec = {
+  ...BENCH_SPEC,
+  seed: 'nestwise-bench-quick',
+  animalsPerLab: 10,
+  minCells: 100,
+  maxCells: 300,
+}
 
 export const CSV_HEADER = 'lab,animal,treatment,neurite_length_um'
 
@@ -67,15 +73,19 @@ export function writeNestedCsv(path: string, spec: NestedCsvSpec): number {
     for (let lab = 1; lab <= spec.labs; lab++) {
       const labLabel = `lab-${pad(lab)}`
       const labShift = spec.labSd * normal()
-      const treatedAnimals = new Set(shuffledIndices(spec.animalsPerLab, uniform).slice(0, Math.floor(spec.animalsPerLab / 2)))
+      const treatedAnimals = new Set(
+        shuffledIndices(spec.animalsPerLab, uniform).slice(0, Math.floor(spec.animalsPerLab / 2)),
+      )
       for (let animal = 0; animal < spec.animalsPerLab; animal++) {
         const treated = treatedAnimals.has(animal)
         const treatment = treated ? 'NW-117' : 'vehicle'
         const prefix = `${labLabel},m${pad(animal + 1)},${treatment},`
-        const centre = spec.grandMean + labShift + spec.animalSd * normal() + (treated ? spec.compoundEffect : 0)
+        const centre =
+          spec.grandMean + labShift + spec.animalSd * normal() + (treated ? spec.compoundEffect : 0)
         const cells = spec.minCells + Math.floor(uniform() * (spec.maxCells - spec.minCells + 1))
         const lines: string[] = new Array(cells)
-        for (let cell = 0; cell < cells; cell++) lines[cell] = prefix + (centre + spec.residualSd * normal()).toFixed(3)
+        for (let cell = 0; cell < cells; cell++)
+          lines[cell] = prefix + (centre + spec.residualSd * normal()).toFixed(3)
         writeSync(fd, lines.join('\n') + '\n')
         rows += cells
       }

@@ -9,6 +9,9 @@ const target = process.env.NESTWISE_USAGE_FILE
 if (target) {
   process.on('exit', () => {
     const usage = process.resourceUsage()
-    writeFileSync(target, JSON.stringify({ maxRssKb: usage.maxRSS, cpuSeconds: (usage.userCPUTime + usage.systemCPUTime) / 1e6 }))
+    writeFileSync(
+      target,
+      JSON.stringify({ maxRssKb: usage.maxRSS, cpuSeconds: (usage.userCPUTime + usage.systemCPUTime) / 1e6 }),
+    )
   })
 }

@@ -13,7 +13,11 @@ export interface TimedRun {
 }
 
 /** Runs a command to completion and measures its wall-clock time from spawn to exit. */
-export function runTimed(command: string, args: string[], options: { cwd: string; usageFile?: string }): Promise<TimedRun> {
+export function runTimed(
+  command: string,
+  args: string[],
+  options: { cwd: string; usageFile?: string },
+): Promise<TimedRun> {
   if (options.usageFile && existsSync(options.usageFile)) rmSync(options.usageFile)
   return new Promise((resolve, reject) => {
     const started = performance.now()
@@ -29,7 +33,10 @@ export function runTimed(command: string, args: string[], options: { cwd: string
     child.on('error', reject)
     child.on('close', (code) => {
       const seconds = (performance.now() - started) / 1000
-      const usage = options.usageFile && existsSync(options.usageFile) ? JSON.parse(readFileSync(options.usageFile, 'utf8')) : null
+      const usage =
+        options.usageFile && existsSync(options.usageFile)
+          ? JSON.parse(readFileSync(options.usageFile, 'utf8'))
+          : null
       resolve({
         seconds,
         code,
