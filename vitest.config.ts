@@ -11,7 +11,13 @@ export default mergeConfig(
           extends: true,
           test: {
             name: 'unit',
-            include: ['shared/**/*.test.ts', 'server/**/*.test.ts', 'src/**/*.test.ts', 'scripts/**/*.test.ts', 'tests/reference/**/*.test.ts'],
+            include: [
+              'shared/**/*.test.ts',
+              'server/**/*.test.ts',
+              'src/**/*.test.ts',
+              'scripts/**/*.test.ts',
+              'tests/reference/**/*.test.ts',
+            ],
             environment: 'node',
             server: { deps: { inline: ['vuetify'] } },
             testTimeout: 60_000,

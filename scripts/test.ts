@@ -4,14 +4,29 @@ import { mkdirSync, readFileSync, existsSync, rmSync } from 'node:fs'
 import { ensurePostgres } from './lib/postgres'
 import { ensureChromium, ensureRReference } from './lib/prerequisites'
 
-interface Counts { passed: number; failed: number; skipped: number }
-interface Stage { name: string; ok: boolean; seconds: number; counts?: Counts }
+interface Counts {
+  passed: number
+  failed: number
+  skipped: number
+}
+interface Stage {
+  name: string
+  ok: boolean
+  seconds: number
+  counts?: Counts
+}
 
 const reportDir = 'test-results/reports'
 rmSync(reportDir, { recursive: true, force: true })
 mkdirSync(reportDir, { recursive: true })
 
-function stage(name: string, command: string, args: string[], env: NodeJS.ProcessEnv = {}, counts?: () => Counts): Stage {
+function stage(
+  name: string,
+  command: string,
+  args: string[],
+  env: NodeJS.ProcessEnv = {},
+  counts?: () => Counts,
+): Stage {
   console.log(`\n=== ${name}: ${command} ${args.join(' ')}`)
   const started = Date.now()
   const result = spawnSync(command, args, { stdio: 'inherit', env: { ...process.env, ...env } })
@@ -27,7 +42,11 @@ function stage(name: string, command: string, args: string[], env: NodeJS.Proces
 function vitestCounts(file: string): () => Counts {
   return () => {
     const report = JSON.parse(readFileSync(file, 'utf8'))
-    return { passed: report.numPassedTests, failed: report.numFailedTests, skipped: report.numPendingTests + report.numTodoTests }
+    return {
+      passed: report.numPassedTests,
+      failed: report.numFailedTests,
+      skipped: report.numPendingTests + report.numTodoTests,
+    }
   }
 }
 
@@ -43,7 +62,12 @@ ensureRReference()
 ensurePostgres()
 
 const vitest = (project: string) => [
-  'vitest', 'run', '--project', project, '--reporter=default', '--reporter=json',
+  'vitest',
+  'run',
+  '--project',
+  project,
+  '--reporter=default',
+  '--reporter=json',
   `--outputFile.json=${reportDir}/${project}.json`,
 ]
 const stages: Stage[] = [
@@ -56,8 +80,13 @@ const stages: Stage[] = [
 const built = stages.at(-1)!.ok && existsSync('dist/client/index.html')
 if (built) {
   stages.push(
-    stage('browser', 'npx', ['playwright', 'test'], { PLAYWRIGHT_JSON_OUTPUT_NAME: `${reportDir}/e2e.json` },
-      playwrightCounts(`${reportDir}/e2e.json`)),
+    stage(
+      'browser',
+      'npx',
+      ['playwright', 'test'],
+      { PLAYWRIGHT_JSON_OUTPUT_NAME: `${reportDir}/e2e.json` },
+      playwrightCounts(`${reportDir}/e2e.json`),
+    ),
   )
 }
 

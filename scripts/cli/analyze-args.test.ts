@@ -20,10 +20,26 @@ describe('parseAnalyzeArgs', () => {
   it('reads every option, including "tab" as a separator', () => {
     const args = parseAnalyzeArgs([
       ...base,
-      '--condition', 'treatment', '--reference', 'vehicle', '--bootstrap', '1000', '--seed', 's1',
-      '--delimiter', 'tab', '--decimal', ',',
+      '--condition',
+      'treatment',
+      '--reference',
+      'vehicle',
+      '--bootstrap',
+      '1000',
+      '--seed',
+      's1',
+      '--delimiter',
+      'tab',
+      '--decimal',
+      ',',
     ])
-    expect(args).toMatchObject({ condition: 'treatment', reference: 'vehicle', bootstrap: { resamples: 1000, seed: 's1' }, delimiter: '\t', decimal: ',' })
+    expect(args).toMatchObject({
+      condition: 'treatment',
+      reference: 'vehicle',
+      bootstrap: { resamples: 1000, seed: 's1' },
+      delimiter: '\t',
+      decimal: ',',
+    })
     expect(parseAnalyzeArgs([...base, '--delimiter', ';'])?.delimiter).toBe(';')
   })
 

@@ -37,7 +37,14 @@ Example:
   npm run --silent nestwise -- analyze cells.csv --response neurite_length_um --levels lab,animal --condition treatment`
 
 /** Separators people type on a command line, mapped to the character. */
-const DELIMITERS: Record<string, string> = { ',': ',', ';': ';', tab: '\t', '\\t': '\t', '\t': '\t', '|': '|' }
+const DELIMITERS: Record<string, string> = {
+  ',': ',',
+  ';': ';',
+  tab: '\t',
+  '\\t': '\t',
+  '\t': '\t',
+  '|': '|',
+}
 
 /** Parses the arguments after "analyze"; null means help was asked for. */
 export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
@@ -65,36 +72,48 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
   const { values, positionals } = parsed
   if (values.help) return null
   if (positionals.length === 0) throw new CliInputError('No input file given. Run "nestwise analyze --help".')
-  if (positionals.length > 1) throw new CliInputError(`Expected one input file, got ${positionals.length}: ${positionals.join(' ')}.`)
+  if (positionals.length > 1)
+    throw new CliInputError(`Expected one input file, got ${positionals.length}: ${positionals.join(' ')}.`)
   if (!values.response) throw new CliInputError('Missing --response COL (the numeric column to analyse).')
-  if (!values.levels) throw new CliInputError('Missing --levels OUTER,INNER (the nesting levels, outermost first).')
+  if (!values.levels)
+    throw new CliInputError('Missing --levels OUTER,INNER (the nesting levels, outermost first).')
   const levels = values.levels.split(',').map((name) => name.trim())
-  if (levels.some((name) => name === '')) throw new CliInputError(`--levels has an empty name: "${values.levels}".`)
-  if (levels.length > 4) throw new CliInputError(`--levels takes 1 to 4 nesting levels, got ${levels.length}.`)
+  if (levels.some((name) => name === ''))
+    throw new CliInputError(`--levels has an empty name: "${values.levels}".`)
+  if (levels.length > 4)
+    throw new CliInputError(`--levels takes 1 to 4 nesting levels, got ${levels.length}.`)
 
   let delimiter: string | undefined
   if (values.delimiter !== undefined) {
     delimiter = DELIMITERS[values.delimiter]
-    if (!delimiter) throw new CliInputError(`--delimiter must be ',', ';', '|' or 'tab', got "${values.delimiter}".`)
+    if (!delimiter)
+      throw new CliInputError(`--delimiter must be ',', ';', '|' or 'tab', got "${values.delimiter}".`)
   }
   const decimal = values.decimal ?? '.'
-  if (decimal !== '.' && decimal !== ',') throw new CliInputError(`--decimal must be '.' or ',', got "${decimal}".`)
-  if (decimal === ',' && delimiter === ',') throw new CliInputError('--decimal "," cannot be combined with --delimiter ","; use ";" or tab.')
+  if (decimal !== '.' && decimal !== ',')
+    throw new CliInputError(`--decimal must be '.' or ',', got "${decimal}".`)
+  if (decimal === ',' && delimiter === ',')
+    throw new CliInputError('--decimal "," cannot be combined with --delimiter ","; use ";" or tab.')
 
   let bootstrap: AnalyzeArgs['bootstrap'] = null
   if (values.bootstrap !== undefined) {
     const resamples = Number(values.bootstrap)
     if (!Number.isInteger(resamples) || resamples < 100 || resamples > 100_000) {
-      throw new CliInputError(`--bootstrap must be a whole number of resamples from 100 to 100000, got "${values.bootstrap}".`)
+      throw new CliInputError(
+        `--bootstrap must be a whole number of resamples from 100 to 100000, got "${values.bootstrap}".`,
+      )
     }
-    if (values.seed === undefined || values.seed === '') throw new CliInputError('--bootstrap needs --seed S so the result can be reproduced.')
+    if (values.seed === undefined || values.seed === '')
+      throw new CliInputError('--bootstrap needs --seed S so the result can be reproduced.')
     bootstrap = { resamples, seed: values.seed }
   } else if (values.seed !== undefined) {
     throw new CliInputError('--seed only applies together with --bootstrap N.')
   }
 
-  if (values.condition !== undefined && values.condition.trim() === '') throw new CliInputError('--condition needs a column name.')
-  if (values.reference !== undefined && values.condition === undefined) throw new CliInputError('--reference needs --condition COL.')
+  if (values.condition !== undefined && values.condition.trim() === '')
+    throw new CliInputError('--condition needs a column name.')
+  if (values.reference !== undefined && values.condition === undefined)
+    throw new CliInputError('--reference needs --condition COL.')
 
   return {
     file: positionals[0],

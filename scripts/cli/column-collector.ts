@@ -83,9 +83,16 @@ export class ColumnCollector {
 
   constructor(private readonly selection: ColumnSelection) {
     this.decimalComma = selection.decimal === ','
-    const names = [selection.response, ...selection.levels, ...(selection.condition ? [selection.condition] : [])]
+    const names = [
+      selection.response,
+      ...selection.levels,
+      ...(selection.condition ? [selection.condition] : []),
+    ]
     const repeated = names.find((name, i) => names.indexOf(name) !== i)
-    if (repeated !== undefined) throw new CliInputError(`The column "${repeated}" is used twice; response, levels and condition must be different columns.`)
+    if (repeated !== undefined)
+      throw new CliInputError(
+        `The column "${repeated}" is used twice; response, levels and condition must be different columns.`,
+      )
   }
 
   get rowCount(): number {
@@ -148,7 +155,8 @@ export class ColumnCollector {
         const available = header.filter((h) => h !== '').join(', ')
         throw new CliInputError(`Column "${name}" not found. Available columns: ${available || '(none)'}.`)
       }
-      if (header.indexOf(name, index + 1) >= 0) throw new CliInputError(`Column "${name}" appears more than once in the header; rename one of them.`)
+      if (header.indexOf(name, index + 1) >= 0)
+        throw new CliInputError(`Column "${name}" appears more than once in the header; rename one of them.`)
       return index
     }
     this.responseIndex = find(this.selection.response)
@@ -170,7 +178,8 @@ export class ColumnCollector {
     if (!Number.isFinite(value)) {
       if (MISSING_TOKENS.has(text)) return NaN
       // Data row r sits on file line r + 2 when no field spans lines (header is line 1).
-      const hint = !this.decimalComma && /^-?\d+,\d+$/.test(text) ? ' (for a decimal comma use --decimal ",")' : ''
+      const hint =
+        !this.decimalComma && /^-?\d+,\d+$/.test(text) ? ' (for a decimal comma use --decimal ",")' : ''
       throw new CliInputError(
         `Row ${row + 1} (line ${row + 2}): the response column "${this.selection.response}" holds "${text}", which is not a number${hint}.`,
       )

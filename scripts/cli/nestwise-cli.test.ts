@@ -14,7 +14,10 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
 const fixture = (name: string) => join('tests', 'fixtures', 'cli', name)
 
 function nestwise(...args: string[]) {
-  const run = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/nestwise.ts', ...args], { cwd: root, encoding: 'utf8' })
+  const run = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/nestwise.ts', ...args], {
+    cwd: root,
+    encoding: 'utf8',
+  })
   return { code: run.status, stdout: run.stdout, stderr: run.stderr }
 }
 
@@ -31,8 +34,17 @@ describe('nestwise analyze', SPAWNING, () => {
     expect(csv.code).toBe(0)
     expect(csv.stdout.trim().split('\n')).toHaveLength(1)
     const result = AnalysisResult.parse(JSON.parse(csv.stdout))
-    expect(result).toMatchObject({ nObs: 62, response: 'neurite_length_um', condition: 'treatment', reference: 'vehicle', conditionLevel: 'mouse' })
-    expect(result.levels.map((l) => [l.name, l.nUnits])).toEqual([['lab', 4], ['mouse', 16]])
+    expect(result).toMatchObject({
+      nObs: 62,
+      response: 'neurite_length_um',
+      condition: 'treatment',
+      reference: 'vehicle',
+      conditionLevel: 'mouse',
+    })
+    expect(result.levels.map((l) => [l.name, l.nUnits])).toEqual([
+      ['lab', 4],
+      ['mouse', 16],
+    ])
     expect(result.varianceComponents.map((c) => c.level)).toEqual(['lab', 'mouse', 'residual'])
     expect(result.groups.map((g) => g.condition).sort()).toEqual(['NW-117', 'vehicle'])
     expect(result.comparisons.mixedModel!.contrasts[0]).toMatchObject({ a: 'NW-117', b: 'vehicle' })
@@ -40,8 +52,24 @@ describe('nestwise analyze', SPAWNING, () => {
   })
 
   it('reads the same table with semicolons and decimal commas, and as a TSV with BOM and CRLF', () => {
-    const semicolon = nestwise('analyze', fixture('cells-semicolon-decimal-comma.csv'), ...analyzeCells, '--reference', 'vehicle', '--decimal', ',')
-    const tsv = nestwise('analyze', fixture('cells-bom-crlf.tsv'), ...analyzeCells, '--reference', 'vehicle', '--delimiter', 'tab')
+    const semicolon = nestwise(
+      'analyze',
+      fixture('cells-semicolon-decimal-comma.csv'),
+      ...analyzeCells,
+      '--reference',
+      'vehicle',
+      '--decimal',
+      ',',
+    )
+    const tsv = nestwise(
+      'analyze',
+      fixture('cells-bom-crlf.tsv'),
+      ...analyzeCells,
+      '--reference',
+      'vehicle',
+      '--delimiter',
+      'tab',
+    )
     expect(semicolon.code).toBe(0)
     expect(tsv.code).toBe(0)
     expect(JSON.parse(semicolon.stdout)).toEqual(JSON.parse(csv.stdout))
@@ -49,8 +77,24 @@ describe('nestwise analyze', SPAWNING, () => {
   })
 
   it('adds a seeded bootstrap that reproduces', () => {
-    const once = nestwise('analyze', fixture('cells.csv'), ...analyzeCells, '--bootstrap', '200', '--seed', 'fixed')
-    const twice = nestwise('analyze', fixture('cells.csv'), ...analyzeCells, '--bootstrap', '200', '--seed', 'fixed')
+    const once = nestwise(
+      'analyze',
+      fixture('cells.csv'),
+      ...analyzeCells,
+      '--bootstrap',
+      '200',
+      '--seed',
+      'fixed',
+    )
+    const twice = nestwise(
+      'analyze',
+      fixture('cells.csv'),
+      ...analyzeCells,
+      '--bootstrap',
+      '200',
+      '--seed',
+      'fixed',
+    )
     expect(once.code).toBe(0)
     const bootstrap = JSON.parse(once.stdout).comparisons.bootstrap
     expect(bootstrap).toMatchObject({ resamples: 200, seed: 'fixed' })
@@ -65,11 +109,31 @@ describe('nestwise analyze', SPAWNING, () => {
   })
 
   it.each([
-    ['a missing column, listing the available ones', ['analyze', fixture('cells.csv'), '--response', 'length', '--levels', 'lab,mouse'], /^nestwise: Column "length" not found\. Available columns: lab, mouse, treatment, neurite_length_um\.$/],
-    ['a non-numeric value, naming row, line and column', ['analyze', fixture('bad-value.csv'), ...analyzeCells], /^nestwise: Row 7 \(line 8\): the response column "neurite_length_um" holds "n\.d\.", which is not a number\.$/],
-    ['fewer than two outermost units', ['analyze', fixture('one-lab.csv'), ...analyzeCells], /^nestwise: The level "lab" has only 1 unit; at least 2 are needed\.$/],
-    ['an unreadable file', ['analyze', fixture('absent.csv'), ...analyzeCells], /^nestwise: Cannot read ".*absent\.csv": no such file\.$/],
-    ['an unknown reference condition', ['analyze', fixture('cells.csv'), ...analyzeCells, '--reference', 'saline'], /^nestwise: .*"saline".*$/],
+    [
+      'a missing column, listing the available ones',
+      ['analyze', fixture('cells.csv'), '--response', 'length', '--levels', 'lab,mouse'],
+      /^nestwise: Column "length" not found\. Available columns: lab, mouse, treatment, neurite_length_um\.$/,
+    ],
+    [
+      'a non-numeric value, naming row, line and column',
+      ['analyze', fixture('bad-value.csv'), ...analyzeCells],
+      /^nestwise: Row 7 \(line 8\): the response column "neurite_length_um" holds "n\.d\.", which is not a number\.$/,
+    ],
+    [
+      'fewer than two outermost units',
+      ['analyze', fixture('one-lab.csv'), ...analyzeCells],
+      /^nestwise: The level "lab" has only 1 unit; at least 2 are needed\.$/,
+    ],
+    [
+      'an unreadable file',
+      ['analyze', fixture('absent.csv'), ...analyzeCells],
+      /^nestwise: Cannot read ".*absent\.csv": no such file\.$/,
+    ],
+    [
+      'an unknown reference condition',
+      ['analyze', fixture('cells.csv'), ...analyzeCells, '--reference', 'saline'],
+      /^nestwise: .*"saline".*$/,
+    ],
     ['an unknown command', ['summarise'], /^nestwise: Unknown command "summarise"/],
   ])('exits with code 2 and one line on stderr for %s', (_, args, message) => {
     const run = nestwise(...args)
@@ -90,7 +154,12 @@ describe('nestwise plan', SPAWNING, () => {
     const plan = JSON.parse(run.stdout)
     expect(plan.unitsNeeded.unitsPerArm).toBe(16)
     expect(plan.unitsNeeded.exact).toBeCloseTo(15.93, 2)
-    expect(plan).toMatchObject({ power: null, cheapestDesign: null, grid: null, engine: { version: expect.any(String) } })
+    expect(plan).toMatchObject({
+      power: null,
+      cheapestDesign: null,
+      grid: null,
+      engine: { version: expect.any(String) },
+    })
   })
 
   it('takes the ICC of the condition level and the total SD from a saved analysis', () => {
@@ -100,11 +169,28 @@ describe('nestwise plan', SPAWNING, () => {
       const analysis = nestwise('analyze', fixture('cells.csv'), ...analyzeCells)
       writeFileSync(saved, analysis.stdout)
       const result = AnalysisResult.parse(JSON.parse(analysis.stdout))
-      const run = nestwise('plan', '--from', saved, '--difference', '5', '--units', '6', '--obs', '20', '--cost-unit', '400', '--cost-obs', '2')
+      const run = nestwise(
+        'plan',
+        '--from',
+        saved,
+        '--difference',
+        '5',
+        '--units',
+        '6',
+        '--obs',
+        '20',
+        '--cost-unit',
+        '400',
+        '--cost-obs',
+        '2',
+      )
       expect(run.code).toBe(0)
       const plan = JSON.parse(run.stdout)
       const total = result.varianceComponents.reduce((s, c) => s + c.variance, 0)
-      expect(plan.inputs).toMatchObject({ iccSource: { kind: 'analysis', level: 'mouse' }, sdSource: 'analysis' })
+      expect(plan.inputs).toMatchObject({
+        iccSource: { kind: 'analysis', level: 'mouse' },
+        sdSource: 'analysis',
+      })
       expect(plan.inputs.icc).toBeCloseTo(result.icc.find((i) => i.level === 'mouse')!.icc, 12)
       expect(plan.inputs.sdTotal).toBeCloseTo(Math.sqrt(total), 10)
       expect(plan.power.power).toBeGreaterThan(0)

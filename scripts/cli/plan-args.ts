@@ -56,14 +56,25 @@ Exit codes: 0 success; 2 bad input (one line on stderr); 1 internal error.
 Example:
   npm run --silent nestwise -- plan --difference 5 --icc 0.1 --sd 25 --obs 50 --cost-unit 400 --cost-obs 2`
 
-function number(name: string, raw: string | undefined, check: (v: number) => boolean, rule: string): number | null {
+function number(
+  name: string,
+  raw: string | undefined,
+  check: (v: number) => boolean,
+  rule: string,
+): number | null {
   if (raw === undefined) return null
   const value = Number(raw)
-  if (raw.trim() === '' || !Number.isFinite(value) || !check(value)) throw new CliInputError(`--${name} must be ${rule}, got "${raw}".`)
+  if (raw.trim() === '' || !Number.isFinite(value) || !check(value))
+    throw new CliInputError(`--${name} must be ${rule}, got "${raw}".`)
   return value
 }
 
-function list(name: string, raw: string | undefined, check: (v: number) => boolean, rule: string): number[] | null {
+function list(
+  name: string,
+  raw: string | undefined,
+  check: (v: number) => boolean,
+  rule: string,
+): number[] | null {
   if (raw === undefined) return null
   return raw.split(',').map((part) => number(name, part, check, rule)!)
 }
@@ -82,9 +93,23 @@ export function parsePlanArgs(argv: string[]): PlanArgs | null {
       allowPositionals: false,
       strict: true,
       options: {
-        from: option, icc: option, sd: option, variance: option, difference: option, alpha: option, power: option,
-        arms: option, units: option, obs: option, 'cost-unit': option, 'cost-obs': option, 'max-units': option,
-        'max-obs': option, 'grid-units': option, 'grid-obs': option, help: { type: 'boolean', short: 'h' },
+        from: option,
+        icc: option,
+        sd: option,
+        variance: option,
+        difference: option,
+        alpha: option,
+        power: option,
+        arms: option,
+        units: option,
+        obs: option,
+        'cost-unit': option,
+        'cost-obs': option,
+        'max-units': option,
+        'max-obs': option,
+        'grid-units': option,
+        'grid-obs': option,
+        help: { type: 'boolean', short: 'h' },
       },
     }))
   } catch (error) {
@@ -111,21 +136,35 @@ export function parsePlanArgs(argv: string[]): PlanArgs | null {
     gridObs: list('grid-obs', values['grid-obs'], wholeAtLeast(1), 'whole numbers of at least 1'),
   }
   const difference = number('difference', values.difference, (v) => v !== 0, 'a non-zero number')
-  if (difference === null) throw new CliInputError('Missing --difference D (the smallest difference between arm means worth detecting).')
+  if (difference === null)
+    throw new CliInputError(
+      'Missing --difference D (the smallest difference between arm means worth detecting).',
+    )
   args.difference = difference
-  if (args.sd !== null && args.variance !== null) throw new CliInputError('Give --sd or --variance, not both.')
-  if (args.from === null && args.icc === null) throw new CliInputError('Missing --icc R (or --from RESULT.json to take it from an analysis).')
+  if (args.sd !== null && args.variance !== null)
+    throw new CliInputError('Give --sd or --variance, not both.')
+  if (args.from === null && args.icc === null)
+    throw new CliInputError('Missing --icc R (or --from RESULT.json to take it from an analysis).')
   if (args.from === null && args.sd === null && args.variance === null) {
-    throw new CliInputError('Missing --sd S or --variance V (or --from RESULT.json to take it from an analysis).')
+    throw new CliInputError(
+      'Missing --sd S or --variance V (or --from RESULT.json to take it from an analysis).',
+    )
   }
-  if (args.units !== null && args.obs === null) throw new CliInputError('--units K needs --obs M (observations per unit) to compute power.')
-  if ((args.costUnit === null) !== (args.costObs === null)) throw new CliInputError('--cost-unit and --cost-obs go together.')
-  if ((args.gridUnits === null) !== (args.gridObs === null)) throw new CliInputError('--grid-units and --grid-obs go together.')
+  if (args.units !== null && args.obs === null)
+    throw new CliInputError('--units K needs --obs M (observations per unit) to compute power.')
+  if ((args.costUnit === null) !== (args.costObs === null))
+    throw new CliInputError('--cost-unit and --cost-obs go together.')
+  if ((args.gridUnits === null) !== (args.gridObs === null))
+    throw new CliInputError('--grid-units and --grid-obs go together.')
   if ((args.maxUnits !== null || args.maxObs !== null) && args.costUnit === null) {
-    throw new CliInputError('--max-units and --max-obs limit the cheapest design; add --cost-unit and --cost-obs.')
+    throw new CliInputError(
+      '--max-units and --max-obs limit the cheapest design; add --cost-unit and --cost-obs.',
+    )
   }
   if (args.obs === null && args.costUnit === null && args.gridUnits === null) {
-    throw new CliInputError('Nothing to plan: give --units and --obs (power), --obs (units needed), --cost-unit and --cost-obs (cheapest design) or --grid-units and --grid-obs (power grid).')
+    throw new CliInputError(
+      'Nothing to plan: give --units and --obs (power), --obs (units needed), --cost-unit and --cost-obs (cheapest design) or --grid-units and --grid-obs (power grid).',
+    )
   }
   return args
 }

@@ -9,7 +9,10 @@ const selection = { response: 'length', levels: ['lab', 'animal'], condition: 't
 
 describe('readColumnsFromText', () => {
   it('codes labels in order of appearance and keeps the response as doubles', () => {
-    const columns = readColumnsFromText('lab,animal,treatment,length\nA,1,vehicle,10.5\nA,2,NW-117,11\nB,1,vehicle,9.25\n', selection)
+    const columns = readColumnsFromText(
+      'lab,animal,treatment,length\nA,1,vehicle,10.5\nA,2,NW-117,11\nB,1,vehicle,9.25\n',
+      selection,
+    )
     expect(Array.from(columns.response)).toEqual([10.5, 11, 9.25])
     expect(columns.response).toBeInstanceOf(Float64Array)
     expect(columns.levels[0]).toMatchObject({ name: 'lab', labels: ['A', 'B'] })
@@ -21,21 +24,33 @@ describe('readColumnsFromText', () => {
   })
 
   it('detects tab and semicolon separators and handles quotes and CRLF', () => {
-    const tsv = readColumnsFromText('lab\tanimal\ttreatment\tlength\r\n"A x"\t1\tvehicle\t3\r\nB\t1\tvehicle\t4\r\n', selection)
+    const tsv = readColumnsFromText(
+      'lab\tanimal\ttreatment\tlength\r\n"A x"\t1\tvehicle\t3\r\nB\t1\tvehicle\t4\r\n',
+      selection,
+    )
     expect(tsv.levels[0].labels).toEqual(['A x', 'B'])
     expect(Array.from(tsv.response)).toEqual([3, 4])
-    const semi = readColumnsFromText('lab;animal;treatment;length\n"A;1";1;"veh""icle";3\nB;1;vehicle;4\n', selection)
+    const semi = readColumnsFromText(
+      'lab;animal;treatment;length\n"A;1";1;"veh""icle";3\nB;1;vehicle;4\n',
+      selection,
+    )
     expect(semi.levels[0].labels).toEqual(['A;1', 'B'])
     expect(semi.condition?.labels).toEqual(['veh"icle', 'vehicle'])
   })
 
   it('reads a decimal comma on request, with a semicolon separator detected', () => {
-    const columns = readColumnsFromText('lab;animal;treatment;length\nA;1;v;1,5\nA;2;v;-2,25\nB;1;v;3\n', { ...selection, decimal: ',' })
+    const columns = readColumnsFromText('lab;animal;treatment;length\nA;1;v;1,5\nA;2;v;-2,25\nB;1;v;3\n', {
+      ...selection,
+      decimal: ',',
+    })
     expect(Array.from(columns.response)).toEqual([1.5, -2.25, 3])
   })
 
   it('marks missing responses and missing labels as NaN and skips separator-only rows', () => {
-    const columns = readColumnsFromText('lab,animal,treatment,length\nA,1,v,NA\nA,,v,2\nA,2,v,\n,,,\nB,1,v,4\n', selection)
+    const columns = readColumnsFromText(
+      'lab,animal,treatment,length\nA,1,v,NA\nA,,v,2\nA,2,v,\n,,,\nB,1,v,4\n',
+      selection,
+    )
     expect(columns.response.length).toBe(4)
     expect(Array.from(columns.response).map((v) => Number.isNaN(v))).toEqual([true, true, true, false])
     expect(columns.levels[1].labels).toEqual(['1', '2'])
@@ -45,7 +60,9 @@ describe('readColumnsFromText', () => {
     expect(() => readColumnsFromText('lab,animal,treatment,length\nA,1,v,1\nA,2,v,abc\n', selection)).toThrow(
       'Row 2 (line 3): the response column "length" holds "abc", which is not a number.',
     )
-    expect(() => readColumnsFromText('lab;animal;treatment;length\nA;1;v;1,5\n', selection)).toThrow(/--decimal ","/)
+    expect(() => readColumnsFromText('lab;animal;treatment;length\nA;1;v;1,5\n', selection)).toThrow(
+      /--decimal ","/,
+    )
   })
 
   it('lists the available columns when one is missing', () => {
@@ -55,9 +72,15 @@ describe('readColumnsFromText', () => {
   })
 
   it('rejects a column used twice, a duplicated header and an empty table', () => {
-    expect(() => readColumnsFromText('lab,length\nA,1\n', { response: 'length', levels: ['lab', 'length'] })).toThrow(/used twice/)
-    expect(() => readColumnsFromText('lab,lab,length\nA,B,1\n', { response: 'length', levels: ['lab'] })).toThrow(/more than once/)
-    expect(() => readColumnsFromText('lab,length\n', { response: 'length', levels: ['lab'] })).toThrow(/no data rows/)
+    expect(() =>
+      readColumnsFromText('lab,length\nA,1\n', { response: 'length', levels: ['lab', 'length'] }),
+    ).toThrow(/used twice/)
+    expect(() =>
+      readColumnsFromText('lab,lab,length\nA,B,1\n', { response: 'length', levels: ['lab'] }),
+    ).toThrow(/more than once/)
+    expect(() => readColumnsFromText('lab,length\n', { response: 'length', levels: ['lab'] })).toThrow(
+      /no data rows/,
+    )
     expect(() => readColumnsFromText('', { response: 'length', levels: ['lab'] })).toThrow(/empty/)
   })
 
@@ -89,7 +112,10 @@ describe('readColumnsFromFile', () => {
 
   it('decodes UTF-16 little-endian files with a byte-order mark', async () => {
     const path = join(folder, 'utf16.tsv')
-    writeFileSync(path, iconv.encode('lab\tanimal\ttreatment\tlength\nÄ\t1\tv\t3\n', 'utf16le', { addBOM: true }))
+    writeFileSync(
+      path,
+      iconv.encode('lab\tanimal\ttreatment\tlength\nÄ\t1\tv\t3\n', 'utf16le', { addBOM: true }),
+    )
     const columns = await readColumnsFromFile(path, selection)
     expect(columns.levels[0].labels).toEqual(['Ä'])
     expect(Array.from(columns.response)).toEqual([3])
@@ -109,7 +135,12 @@ describe('readColumnsFromFile', () => {
   it('reserves room from the first chunk and still reads a file longer than estimated', async () => {
     // Long rows first, short rows later: the estimate from the first chunk is too small and the columns must grow.
     const lines = ['lab,animal,treatment,length']
-    for (let i = 0; i < 60000; i++) lines.push(i >= 30000 ? `A,${i % 9},v,${i}` : `Lab-with-a-much-longer-name-${i % 4},animal-${i % 9},vehicle,${i}`)
+    for (let i = 0; i < 60000; i++)
+      lines.push(
+        i >= 30000
+          ? `A,${i % 9},v,${i}`
+          : `Lab-with-a-much-longer-name-${i % 4},animal-${i % 9},vehicle,${i}`,
+      )
     const path = join(folder, 'uneven.csv')
     writeFileSync(path, lines.join('\n'))
     const columns = await readColumnsFromFile(path, selection)
@@ -122,7 +153,9 @@ describe('readColumnsFromFile', () => {
   })
 
   it('reports an unreadable path and the first bad value of a long file', async () => {
-    await expect(readColumnsFromFile(join(folder, 'absent.csv'), selection)).rejects.toThrow(/Cannot read ".*absent.csv": no such file/)
+    await expect(readColumnsFromFile(join(folder, 'absent.csv'), selection)).rejects.toThrow(
+      /Cannot read ".*absent.csv": no such file/,
+    )
     await expect(readColumnsFromFile(folder, selection)).rejects.toThrow(/is a folder/)
     const lines = ['lab,animal,treatment,length']
     for (let i = 0; i < 30000; i++) lines.push(`A,${i % 5},v,${i === 25000 ? 'x1' : i}`)

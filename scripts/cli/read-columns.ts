@@ -54,7 +54,8 @@ async function openText(path: string): Promise<Readable> {
   } catch (error) {
     if (error instanceof CliInputError) throw error
     const code = (error as NodeJS.ErrnoException).code
-    const reason = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : (error as Error).message
+    const reason =
+      code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : (error as Error).message
     throw new CliInputError(`Cannot read "${path}": ${reason}.`)
   }
   // Default 64 KiB reads: papaparse's chunk handling slows down markedly with much larger chunks.

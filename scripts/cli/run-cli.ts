@@ -56,7 +56,9 @@ export async function runCli(argv: string[], out: CliOutput): Promise<number> {
       out.stderr(`nestwise: ${oneLine(error.message)}\n`)
       return 2
     }
-    out.stderr(`nestwise: internal error: ${oneLine(error instanceof Error ? error.message : String(error))}\n`)
+    out.stderr(
+      `nestwise: internal error: ${oneLine(error instanceof Error ? error.message : String(error))}\n`,
+    )
     return 1
   }
 }

@@ -23,7 +23,14 @@ export interface PlanOutput {
     targetPower: number
     arms: number
   }
-  power: { unitsPerArm: number; obsPerUnit: number; power: number; deff: number; df: number; ncp: number } | null
+  power: {
+    unitsPerArm: number
+    obsPerUnit: number
+    power: number
+    deff: number
+    df: number
+    ncp: number
+  } | null
   unitsNeeded: (UnitsNeededResult & { obsPerUnit: number }) | null
   cheapestDesign: PlanDesignResult | null
   /** exact is null when there is no finite optimum. */
@@ -39,7 +46,9 @@ function fromAnalysis(path: string): { icc: number; level: string; sdTotal: numb
     raw = readFileSync(path, 'utf8')
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code
-    throw new CliInputError(`Cannot read "${path}": ${code === 'ENOENT' ? 'no such file' : (error as Error).message}.`)
+    throw new CliInputError(
+      `Cannot read "${path}": ${code === 'ENOENT' ? 'no such file' : (error as Error).message}.`,
+    )
   }
   let parsed
   try {
@@ -47,7 +56,10 @@ function fromAnalysis(path: string): { icc: number; level: string; sdTotal: numb
   } catch {
     throw new CliInputError(`"${path}" is not JSON; pass the output of "nestwise analyze".`)
   }
-  if (!parsed.success) throw new CliInputError(`"${path}" is not a result of "nestwise analyze" (${parsed.error.issues[0]?.path.join('.')}: ${parsed.error.issues[0]?.message}).`)
+  if (!parsed.success)
+    throw new CliInputError(
+      `"${path}" is not a result of "nestwise analyze" (${parsed.error.issues[0]?.path.join('.')}: ${parsed.error.issues[0]?.message}).`,
+    )
   const result = parsed.data
   const level = result.conditionLevel ?? result.levels[result.levels.length - 1].name
   const icc = result.icc.find((entry) => entry.level === level)
@@ -72,12 +84,22 @@ export function runPlan(args: PlanArgs): PlanOutput {
       ? {
           unitsPerArm: args.units,
           obsPerUnit: args.obs,
-          ...pick(clusterPower({ ...spread, unitsPerArm: args.units, obsPerUnit: args.obs, alpha: alphaPerComparison })),
+          ...pick(
+            clusterPower({
+              ...spread,
+              unitsPerArm: args.units,
+              obsPerUnit: args.obs,
+              alpha: alphaPerComparison,
+            }),
+          ),
         }
       : null
   const needed =
     args.obs !== null && args.units === null
-      ? { obsPerUnit: args.obs, ...unitsNeeded({ ...spread, obsPerUnit: args.obs, alpha: alphaPerComparison, power: args.power }) }
+      ? {
+          obsPerUnit: args.obs,
+          ...unitsNeeded({ ...spread, obsPerUnit: args.obs, alpha: alphaPerComparison, power: args.power }),
+        }
       : null
   let cheapestDesign: PlanDesignResult | null = null
   let costOptimal: PlanOutput['costOptimal'] = null
@@ -97,7 +119,13 @@ export function runPlan(args: PlanArgs): PlanOutput {
   }
   const grid =
     args.gridUnits && args.gridObs
-      ? powerCurve({ ...spread, alpha: args.alpha, arms: args.arms, kValues: args.gridUnits, mValues: args.gridObs })
+      ? powerCurve({
+          ...spread,
+          alpha: args.alpha,
+          arms: args.arms,
+          kValues: args.gridUnits,
+          mValues: args.gridObs,
+        })
       : null
 
   return {

@@ -44,8 +44,17 @@ function initCluster(bin: string): void {
   writeFileSync(pwfile, `${config.PGPASSWORD}\n`, { mode: 0o644 })
   try {
     asPostgres(join(bin, 'initdb'), [
-      '-D', clusterDir, '-U', config.PGUSER, `--pwfile=${pwfile}`,
-      '--no-instructions', '--auth-local=scram-sha-256', '--auth-host=scram-sha-256', '-E', 'UTF8', '--locale=C.UTF-8',
+      '-D',
+      clusterDir,
+      '-U',
+      config.PGUSER,
+      `--pwfile=${pwfile}`,
+      '--no-instructions',
+      '--auth-local=scram-sha-256',
+      '--auth-host=scram-sha-256',
+      '-E',
+      'UTF8',
+      '--locale=C.UTF-8',
     ])
   } finally {
     rmSync(pwfile, { force: true })
@@ -75,7 +84,16 @@ export function ensurePostgres(): void {
   }
   if (!existsSync(join(clusterDir, 'PG_VERSION'))) initCluster(bin)
   if (isRunning(bin)) return
-  asPostgres(join(bin, 'pg_ctl'), ['-D', clusterDir, '-l', join(clusterDir, 'server.log'), '-w', '-t', '60', 'start'])
+  asPostgres(join(bin, 'pg_ctl'), [
+    '-D',
+    clusterDir,
+    '-l',
+    join(clusterDir, 'server.log'),
+    '-w',
+    '-t',
+    '60',
+    'start',
+  ])
   console.log(`[setup] PostgreSQL listening on ${config.PGHOST}:${config.PGPORT}`)
 }
 

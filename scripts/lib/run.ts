@@ -27,9 +27,17 @@ export function aptInstall(packages: string[], { noRecommends = false } = {}): v
   }
   console.log(`[setup] installing ${packages.join(' ')} from Debian's packages…`)
   run('apt-get', ['-o', 'DPkg::Lock::Timeout=1800', 'update', '-qq'])
-  run('apt-get', [
-    '-o', 'DPkg::Lock::Timeout=1800', 'install', '-y', '-qq',
-    ...(noRecommends ? ['--no-install-recommends'] : []),
-    ...packages,
-  ], { env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } })
+  run(
+    'apt-get',
+    [
+      '-o',
+      'DPkg::Lock::Timeout=1800',
+      'install',
+      '-y',
+      '-qq',
+      ...(noRecommends ? ['--no-install-recommends'] : []),
+      ...packages,
+    ],
+    { env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } },
+  )
 }

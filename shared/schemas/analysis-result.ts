@@ -185,7 +185,13 @@ export type BootstrapResult = z.infer<typeof BootstrapResult>
 
 export const BalancedAnovaCheck = z.object({
   table: z.array(
-    z.object({ level: z.string(), df: z.number(), sumOfSquares: z.number(), meanSquare: z.number(), unitSize: z.number() }),
+    z.object({
+      level: z.string(),
+      df: z.number(),
+      sumOfSquares: z.number(),
+      meanSquare: z.number(),
+      unitSize: z.number(),
+    }),
   ),
   /** Variance components from expected mean squares (can be negative). */
   components: z.array(z.object({ level: z.string(), variance: z.number() })),
@@ -215,7 +221,9 @@ export const AnalysisResult = z.object({
   conditionLevel: z.string().nullable(),
   levels: z.array(LevelSummary),
   /** Levels whose unit labels repeat under different parents; units are keyed by full path anyway. */
-  implicitNesting: z.array(z.object({ level: z.string(), nRepeatedLabels: count, examples: z.array(z.string()) })),
+  implicitNesting: z.array(
+    z.object({ level: z.string(), nRepeatedLabels: count, examples: z.array(z.string()) }),
+  ),
   /** Random levels outer → inner (including "<level>:condition"), then "residual". */
   varianceComponents: z.array(VarianceComponentShare),
   /** One per random level, outer → inner. */

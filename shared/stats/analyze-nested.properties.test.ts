@@ -40,7 +40,11 @@ function simulate(s: Scenario): NestedColumns {
       }
     }
   }
-  const factor = (name: string, codes: number[], labels: string[]): Factor => ({ name, codes: Int32Array.from(codes), labels })
+  const factor = (name: string, codes: number[], labels: string[]): Factor => ({
+    name,
+    codes: Int32Array.from(codes),
+    labels,
+  })
   return {
     responseName: 'neurite_length_um',
     response: Float64Array.from(y),
@@ -87,7 +91,8 @@ function shift(columns: NestedColumns, by: number): NestedColumns {
 /** Fields that name units; they differ after relabelling by construction. */
 const NAMING_FIELDS = new Set(['implicitNesting', 'warnings'])
 /** Fields that move with the response's origin. */
-const LOCATION_FIELDS = /^groups\.\d+\.(mean|naive\.ci(Low|High)|clustered\.(estimate|ci(Low|High)))$|^comparisons\.bootstrap\.groups\.\d+\.(estimate|ciLow|ciHigh)$/
+const LOCATION_FIELDS =
+  /^groups\.\d+\.(mean|naive\.ci(Low|High)|clustered\.(estimate|ci(Low|High)))$|^comparisons\.bootstrap\.groups\.\d+\.(estimate|ciLow|ciHigh)$/
 
 /** Walks both results; numbers must agree within a relative tolerance, `offset(path)` is added to the expected value. */
 function expectSameResult(
@@ -101,7 +106,9 @@ function expectSameResult(
     const target = expected + (options.offset?.(path) ?? 0)
     expect(typeof actual, path).toBe('number')
     const scale = Math.max(1, Math.abs(target))
-    expect(Math.abs((actual as number) - target), `${path}: ${actual} vs ${target}`).toBeLessThanOrEqual(options.tolerance * scale)
+    expect(Math.abs((actual as number) - target), `${path}: ${actual} vs ${target}`).toBeLessThanOrEqual(
+      options.tolerance * scale,
+    )
     return
   }
   if (expected === null || typeof expected !== 'object') {
@@ -113,14 +120,34 @@ function expectSameResult(
   expect(Object.keys(actual as object).sort(), path).toEqual([...keys].sort())
   for (const key of keys) {
     const child = path ? `${path}.${key}` : key
-    expectSameResult((actual as Record<string, unknown>)[key], (expected as Record<string, unknown>)[key], options, child)
+    expectSameResult(
+      (actual as Record<string, unknown>)[key],
+      (expected as Record<string, unknown>)[key],
+      options,
+      child,
+    )
   }
 }
 
 const scenarios: Scenario[] = [
-  { name: 'two conditions between mice', seed: 'prop-a', conditions: ['vehicle', 'NW-117'], conditionAt: 'animal' },
-  { name: 'three conditions between mice', seed: 'prop-b', conditions: ['0 µM', '1 µM', '10 µM'], conditionAt: 'animal' },
-  { name: 'two conditions within mice', seed: 'prop-c', conditions: ['vehicle', 'NW-117'], conditionAt: 'within' },
+  {
+    name: 'two conditions between mice',
+    seed: 'prop-a',
+    conditions: ['vehicle', 'NW-117'],
+    conditionAt: 'animal',
+  },
+  {
+    name: 'three conditions between mice',
+    seed: 'prop-b',
+    conditions: ['0 µM', '1 µM', '10 µM'],
+    conditionAt: 'animal',
+  },
+  {
+    name: 'two conditions within mice',
+    seed: 'prop-c',
+    conditions: ['vehicle', 'NW-117'],
+    conditionAt: 'within',
+  },
 ]
 
 describe.each(scenarios)('analyzeNested invariances: $name', (scenario) => {
@@ -156,13 +183,16 @@ describe.each(scenarios)('analyzeNested invariances: $name', (scenario) => {
     })
     expect(shifted.remlCriterion).toBeCloseTo(base.remlCriterion, 4)
     // The comparison is not vacuous: without the offset the shifted means are caught.
-    expect(() => expectSameResult(shifted, base, { tolerance: 1e-6, skip: new Set(['remlCriterion']) })).toThrow(/groups\.0\.mean/)
+    expect(() =>
+      expectSameResult(shifted, base, { tolerance: 1e-6, skip: new Set(['remlCriterion']) }),
+    ).toThrow(/groups\.0\.mean/)
   })
 
   it('moves the bootstrap means by the constant and keeps its differences', () => {
     const settings = { resamples: 200, seed: 'prop' }
     const plain = analyzeNested(columns, { reference, bootstrap: settings }).comparisons.bootstrap!
-    const moved = analyzeNested(shift(columns, 1000), { reference, bootstrap: settings }).comparisons.bootstrap!
+    const moved = analyzeNested(shift(columns, 1000), { reference, bootstrap: settings }).comparisons
+      .bootstrap!
     expectSameResult(moved, plain, {
       tolerance: 1e-8,
       offset: (path) => (/^groups\.\d+\.(estimate|ciLow|ciHigh)$/.test(path) ? 1000 : 0),

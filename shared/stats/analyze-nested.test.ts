@@ -18,7 +18,20 @@ const codes = (result: AnalysisResult) => result.warnings.map((w) => w.code)
  */
 const sixAnimals = {
   animal: ['v1', 'v1', 'v2', 'v2', 'v3', 'v3', 't1', 't1', 't2', 't2', 't3', 't3'],
-  treatment: ['vehicle', 'vehicle', 'vehicle', 'vehicle', 'vehicle', 'vehicle', 'NW-117', 'NW-117', 'NW-117', 'NW-117', 'NW-117', 'NW-117'],
+  treatment: [
+    'vehicle',
+    'vehicle',
+    'vehicle',
+    'vehicle',
+    'vehicle',
+    'vehicle',
+    'NW-117',
+    'NW-117',
+    'NW-117',
+    'NW-117',
+    'NW-117',
+    'NW-117',
+  ],
   length: [1, 2, 2, 2.5, 1, 3, 3, 5, 4, 3, 6, 5],
 }
 
@@ -84,7 +97,14 @@ describe('analyzeNested on six animals (hand calculation, common practice, no so
     expect(contrast.pHolm).toBe(contrast.p)
     expect(result.comparisons.mixedModel!.omnibus).toBeNull()
     const unitMeans = result.comparisons.unitMeans
-    expect(unitMeans).toMatchObject({ method: 'student-t', level: 'animal', nUnits: 6, a: 'NW-117', b: 'vehicle', df: 4 })
+    expect(unitMeans).toMatchObject({
+      method: 'student-t',
+      level: 'animal',
+      nUnits: 6,
+      a: 'NW-117',
+      b: 'vehicle',
+      df: 4,
+    })
     if (unitMeans?.method !== 'student-t') throw new Error('expected a t-test')
     expect(unitMeans.t).toBeCloseTo(t, 10)
     expect(unitMeans.p).toBeCloseTo(contrast.p, 5)
@@ -150,10 +170,13 @@ describe('analyzeNested on public data sets', () => {
     expect(residual).toBeCloseTo(0.678, 3)
     expect(result.groups[0].clustered.se).toBeCloseTo(0.6769, 4)
     const total = batch + cask + residual
-    expect(result.icc.map((i) => i.icc)).toEqual([expect.closeTo(batch / total, 10), expect.closeTo((batch + cask) / total, 10)])
+    expect(result.icc.map((i) => i.icc)).toEqual([
+      expect.closeTo(batch / total, 10),
+      expect.closeTo((batch + cask) / total, 10),
+    ])
     expect(result.icc[0].ciLow).toBeNull()
     // Design effect, common practice, no source: 1 + (6 − 1)ρ_batch + (2 − 1)ρ_cask for 6 assays per batch, 2 per cask.
-    expect(result.designEffect).toBeCloseTo(1 + 5 * (batch / total) + (cask / total), 10)
+    expect(result.designEffect).toBeCloseTo(1 + 5 * (batch / total) + cask / total, 10)
     expect(result.levels).toEqual([
       { name: 'batch', nUnits: 10, minUnitSize: 6, meanUnitSize: 6, maxUnitSize: 6, unitSizeCv: 0 },
       { name: 'cask', nUnits: 30, minUnitSize: 2, meanUnitSize: 2, maxUnitSize: 2, unitSizeCv: 0 },
@@ -175,7 +198,11 @@ describe('analyzeNested on public data sets', () => {
     expect(omnibus.f).toBeCloseTo(20.576, 3)
     expect(omnibus.df1).toBe(2)
     expect(omnibus.df2).toBeCloseTo(10, 3)
-    expect(result.comparisons.mixedModel!.contrasts.map((c) => `${c.a}-${c.b}`)).toEqual(['B-A', 'C-A', 'C-B'])
+    expect(result.comparisons.mixedModel!.contrasts.map((c) => `${c.a}-${c.b}`)).toEqual([
+      'B-A',
+      'C-A',
+      'C-B',
+    ])
     expect(result.comparisons.unitMeans).toBeNull()
     expect(result.comparisons.naive).toMatchObject({ method: 'one-way-anova', df1: 2, df2: 51 })
     expect(result.groups.map((g) => g.nUnits)).toEqual([null, null, null])
@@ -195,9 +222,40 @@ describe('analyzeNested on public data sets', () => {
 describe('analyzeNested with three conditions between animals (invented data)', () => {
   // 9 animals, 3 per arm, 3 cells each; values chosen by hand.
   const table = {
-    animal: ['a1', 'a1', 'a1', 'a2', 'a2', 'a2', 'a3', 'a3', 'a3', 'b1', 'b1', 'b1', 'b2', 'b2', 'b2', 'b3', 'b3', 'b3', 'c1', 'c1', 'c1', 'c2', 'c2', 'c2', 'c3', 'c3', 'c3'],
+    animal: [
+      'a1',
+      'a1',
+      'a1',
+      'a2',
+      'a2',
+      'a2',
+      'a3',
+      'a3',
+      'a3',
+      'b1',
+      'b1',
+      'b1',
+      'b2',
+      'b2',
+      'b2',
+      'b3',
+      'b3',
+      'b3',
+      'c1',
+      'c1',
+      'c1',
+      'c2',
+      'c2',
+      'c2',
+      'c3',
+      'c3',
+      'c3',
+    ],
     dose: [...Array(9).fill('0 µM'), ...Array(9).fill('1 µM'), ...Array(9).fill('10 µM')],
-    length: [10, 12, 11, 13, 12, 14, 9, 11, 10, 14, 13, 15, 12, 14, 13, 16, 15, 17, 18, 17, 19, 15, 16, 17, 20, 18, 19],
+    length: [
+      10, 12, 11, 13, 12, 14, 9, 11, 10, 14, 13, 15, 12, 14, 13, 16, 15, 17, 18, 17, 19, 15, 16, 17, 20, 18,
+      19,
+    ],
   }
   const result = analyzeNested(nestedColumnsFromTable(table, 'length', ['animal'], 'dose'))
 
@@ -212,10 +270,18 @@ describe('analyzeNested with three conditions between animals (invented data)', 
     // equals the one-way ANOVA F on unit means (common practice, no source).
     const unitMeans = result.comparisons.unitMeans
     if (unitMeans?.method !== 'one-way-anova') throw new Error('expected an ANOVA on unit means')
-    const groups = [[11, 13, 10], [14, 13, 16], [18, 16, 19]]
+    const groups = [
+      [11, 13, 10],
+      [14, 13, 16],
+      [18, 16, 19],
+    ]
     const grand = groups.flat().reduce((s, v) => s + v, 0) / 9
     const msb = groups.reduce((s, g) => s + 3 * (g.reduce((a, b) => a + b, 0) / 3 - grand) ** 2, 0) / 2
-    const msw = groups.reduce((s, g) => { const m = g.reduce((a, b) => a + b, 0) / 3; return s + g.reduce((a, v) => a + (v - m) ** 2, 0) }, 0) / 6
+    const msw =
+      groups.reduce((s, g) => {
+        const m = g.reduce((a, b) => a + b, 0) / 3
+        return s + g.reduce((a, v) => a + (v - m) ** 2, 0)
+      }, 0) / 6
     expect(unitMeans.f).toBeCloseTo(msb / msw, 10)
     expect(unitMeans).toMatchObject({ df1: 2, df2: 6, nUnits: 9 })
     expect(omnibus!.f).toBeCloseTo(msb / msw, 5)
@@ -226,7 +292,9 @@ describe('analyzeNested with three conditions between animals (invented data)', 
   })
 
   it('honours the reference condition', () => {
-    const other = analyzeNested(nestedColumnsFromTable(table, 'length', ['animal'], 'dose'), { reference: '10 µM' })
+    const other = analyzeNested(nestedColumnsFromTable(table, 'length', ['animal'], 'dose'), {
+      reference: '10 µM',
+    })
     expect(other.reference).toBe('10 µM')
     expect(other.comparisons.mixedModel!.contrasts[0]).toMatchObject({ a: '0 µM', b: '10 µM' })
   })
@@ -238,11 +306,15 @@ describe('analyzeNested with three conditions between animals (invented data)', 
     expect(a.comparisons.bootstrap).toEqual(b.comparisons.bootstrap)
     const bootstrap = a.comparisons.bootstrap!
     expect(bootstrap).toMatchObject({ resamples: 200, seed: 'check', confidence: 0.95 })
-    expect(bootstrap.contrasts.map((c) => [c.a, c.b])).toEqual(a.comparisons.mixedModel!.contrasts.map((c) => [c.a, c.b]))
+    expect(bootstrap.contrasts.map((c) => [c.a, c.b])).toEqual(
+      a.comparisons.mixedModel!.contrasts.map((c) => [c.a, c.b]),
+    )
     // The bootstrap's point estimate is the plain difference of the condition means of the observations.
     const mean = (label: string) => a.groups.find((g) => g.condition === label)!.mean
     for (const c of bootstrap.contrasts) expect(c.estimate).toBeCloseTo(mean(c.a) - mean(c.b), 12)
-    expect(() => analyzeNested(columns, { bootstrap: { resamples: 50, seed: 'x' } })).toThrow(EngineInputError)
+    expect(() => analyzeNested(columns, { bootstrap: { resamples: 50, seed: 'x' } })).toThrow(
+      EngineInputError,
+    )
   })
 })
 
@@ -251,7 +323,20 @@ describe('analyzeNested warnings and guards', () => {
     const table = {
       lab: ['L1', 'L1', 'L1', 'L1', 'L2', 'L2', 'L2', 'L2', 'L3', 'L3', 'L3', 'L3'],
       animal: ['1', '1', '2', '2', '1', '1', '2', '2', '1', '1', '2', '2'],
-      treatment: ['vehicle', 'vehicle', 'vehicle', 'vehicle', 'NW-117', 'NW-117', 'NW-117', 'NW-117', 'vehicle', 'vehicle', 'vehicle', 'vehicle'],
+      treatment: [
+        'vehicle',
+        'vehicle',
+        'vehicle',
+        'vehicle',
+        'NW-117',
+        'NW-117',
+        'NW-117',
+        'NW-117',
+        'vehicle',
+        'vehicle',
+        'vehicle',
+        'vehicle',
+      ],
       length: [1, 2, 2, 3, 5, 6, 6, NaN, 2, 1, 3, 3],
     }
     const result = analyzeNested(nestedColumnsFromTable(table, 'length', ['lab', 'animal'], 'treatment'))
@@ -270,19 +355,32 @@ describe('analyzeNested warnings and guards', () => {
     ])
     expect(result.warnings.find((w) => w.code === 'FEW_UNITS')!.message).toContain('"NW-117" has 1 lab unit')
     // Lab means by hand: L1 2, L3 2.25 (vehicle) and L2 17/3 (NW-117): a t-test with 1 df.
-    expect(result.comparisons.unitMeans).toMatchObject({ method: 'student-t', level: 'lab', nUnits: 3, df: 1 })
+    expect(result.comparisons.unitMeans).toMatchObject({
+      method: 'student-t',
+      level: 'lab',
+      nUnits: 3,
+      df: 1,
+    })
     expect(result.comparisons.unitMeans).toHaveProperty('estimate', expect.closeTo(17 / 3 - 2.125, 12))
   })
 
   it('rejects thin input with EngineInputError naming the problem', () => {
     const oneLab = { lab: ['A', 'A', 'A'], length: [1, 2, 3] }
     expect(() => analyzeNested(nestedColumnsFromTable(oneLab, 'length', ['lab']))).toThrow(/only 1 unit/)
-    const single = { animal: ['a', 'a', 'b', 'b', 'c'], treatment: ['x', 'x', 'x', 'x', 'y'], length: [1, 2, 3, 4, 5] }
+    const single = {
+      animal: ['a', 'a', 'b', 'b', 'c'],
+      treatment: ['x', 'x', 'x', 'x', 'y'],
+      length: [1, 2, 3, 4, 5],
+    }
     expect(() => analyzeNested(nestedColumnsFromTable(single, 'length', ['animal'], 'treatment'))).toThrow(
       'The condition "y" has 1 observation; at least 2 per condition are needed.',
     )
     const flat = { animal: ['a', 'a', 'b', 'b'], length: [2, 2, 2, 2] }
     expect(() => analyzeNested(nestedColumnsFromTable(flat, 'length', ['animal']))).toThrow(EngineInputError)
-    expect(() => analyzeNested(nestedColumnsFromTable(sixAnimals, 'length', ['animal'], 'treatment'), { reference: 'saline' })).toThrow(/saline/)
+    expect(() =>
+      analyzeNested(nestedColumnsFromTable(sixAnimals, 'length', ['animal'], 'treatment'), {
+        reference: 'saline',
+      }),
+    ).toThrow(/saline/)
   })
 })

@@ -1,4 +1,9 @@
-import type { AnalysisResult, BalancedAnovaCheck, BootstrapResult, LevelIcc } from '../schemas/analysis-result'
+import type {
+  AnalysisResult,
+  BalancedAnovaCheck,
+  BootstrapResult,
+  LevelIcc,
+} from '../schemas/analysis-result'
 import { anovaNestedBalanced } from './anova-nested-balanced'
 import { buildWarnings } from './build-warnings'
 import { compareUnitMeans } from './compare-unit-means'
@@ -57,7 +62,10 @@ const MAX_LABEL_EXAMPLES = 5
  * //     designEffect: 5.2, effectiveN: 184.6, groups: [...], comparisons: {...}, warnings: [...] }
  */
 export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOptions = {}): AnalysisResult {
-  const design = prepareNestedDesign(columns, options.reference === undefined ? {} : { reference: options.reference })
+  const design = prepareNestedDesign(
+    columns,
+    options.reference === undefined ? {} : { reference: options.reference },
+  )
   const fit = fitNestedReml(design)
 
   const total = fit.components.reduce((sum, c) => sum + c.variance, 0)
@@ -65,7 +73,9 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
   const randomShares = shares.slice(0, -1)
   const unitSizes = design.randomLevels.map((level) => observationsPerUnit(level))
 
-  const deff = nestedDesignEffect(design.randomLevels.map((_, l) => ({ unitSizes: unitSizes[l], share: randomShares[l] })))
+  const deff = nestedDesignEffect(
+    design.randomLevels.map((_, l) => ({ unitSizes: unitSizes[l], share: randomShares[l] })),
+  )
   const designEffectTerms = design.randomLevels.map((level, l) => ({
     level: level.name,
     meanUnitSize: deff.terms[l].meanSize,
@@ -105,7 +115,11 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
       nRepeatedLabels: labels.length,
       examples: labels.slice(0, MAX_LABEL_EXAMPLES),
     })),
-    varianceComponents: fit.components.map((c, i) => ({ level: c.level, variance: c.variance, share: shares[i] })),
+    varianceComponents: fit.components.map((c, i) => ({
+      level: c.level,
+      variance: c.variance,
+      share: shares[i],
+    })),
     icc: levelIccs(design, randomShares),
     singular: fit.singular,
     converged: fit.converged,
@@ -131,18 +145,25 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
     levels: givenLevels.map((level, l) => ({
       name: level.name,
       unitSizes: unitSizes[l],
-      childrenPerUnit: l + 1 < givenLevels.length ? observationsPerUnit({ nUnits: level.nUnits, unitOfObs: givenLevels[l + 1].parentOfUnit }) : null,
+      childrenPerUnit:
+        l + 1 < givenLevels.length
+          ? observationsPerUnit({ nUnits: level.nUnits, unitOfObs: givenLevels[l + 1].parentOfUnit })
+          : null,
     })),
     condition: design.condition
       ? {
           name: design.condition.name,
           level: design.conditionLevel,
-          unitsPerCondition: design.conditionLevel ? groups.map((g) => ({ condition: g.condition, nUnits: g.nUnits ?? 0 })) : [],
+          unitsPerCondition: design.conditionLevel
+            ? groups.map((g) => ({ condition: g.condition, nUnits: g.nUnits ?? 0 }))
+            : [],
           constantConditions: groups.filter((g) => g.naive.se === 0).map((g) => g.condition),
         }
       : null,
     unitMeansProblem: unitMeans.problem,
-    zeroVarianceLevels: fit.components.filter((c) => c.level !== 'residual' && c.variance === 0).map((c) => c.level),
+    zeroVarianceLevels: fit.components
+      .filter((c) => c.level !== 'residual' && c.variance === 0)
+      .map((c) => c.level),
     implicitNesting: design.implicitNesting,
     nDropped: design.nDropped,
     naiveShown: naive !== null,
@@ -183,7 +204,12 @@ function balancedCheck(design: NestedDesign, fit: NestedFit, total: number): Bal
   const maxDifferenceToReml = Math.max(
     ...anova.components.map((c, i) => Math.abs(c.variance - fit.components[i].variance) / total),
   )
-  return { table: anova.table, components: anova.components, anyNegative: anova.anyNegative, maxDifferenceToReml }
+  return {
+    table: anova.table,
+    components: anova.components,
+    anyNegative: anova.anyNegative,
+    maxDifferenceToReml,
+  }
 }
 
 function runBootstrap(
@@ -205,7 +231,13 @@ function runBootstrap(
     exactBelow: boot.exactBelow,
     approximatedGroups: boot.approximatedGroups,
     innermostGroups: boot.innermostGroups,
-    groups: boot.conditions.map((c) => ({ condition: c.label, estimate: c.observed, se: c.se, ciLow: c.ci[0], ciHigh: c.ci[1] })),
+    groups: boot.conditions.map((c) => ({
+      condition: c.label,
+      estimate: c.observed,
+      se: c.se,
+      ciLow: c.ci[0],
+      ciHigh: c.ci[1],
+    })),
     contrasts: boot.differences.map((d) => ({
       a: d.a,
       b: d.b,

@@ -47,7 +47,9 @@ describe('anovaNestedBalanced', () => {
     const cols = nestedColumnsFromTable(pastes, 'strength', ['batch', 'cask'])
     cols.response[0] = NaN
     expect(anovaNestedBalanced(prepareNestedDesign(cols))).toBeNull()
-    const withCondition = prepareNestedDesign(nestedColumnsFromTable(machines, 'score', ['Worker'], 'Machine'))
+    const withCondition = prepareNestedDesign(
+      nestedColumnsFromTable(machines, 'score', ['Worker'], 'Machine'),
+    )
     expect(() => anovaNestedBalanced(withCondition)).toThrow(EngineInputError)
     expect(() => anovaNestedBalanced(withCondition)).toThrow(/without condition/)
   })

@@ -72,7 +72,9 @@ describe('buildWarnings', () => {
   it('NO_VARIATION names the conditions whose values are all equal', () => {
     const facts = cleanFacts()
     facts.condition!.constantConditions = ['NW-117']
-    expect(buildWarnings(facts)).toEqual([expect.objectContaining({ code: 'NO_VARIATION', message: expect.stringContaining('under "NW-117"') })])
+    expect(buildWarnings(facts)).toEqual([
+      expect.objectContaining({ code: 'NO_VARIATION', message: expect.stringContaining('under "NW-117"') }),
+    ])
   })
 
   it('SINGLE_OBSERVATION_UNITS and SINGLE_CHILD_UNITS count the affected units', () => {
@@ -86,7 +88,10 @@ describe('buildWarnings', () => {
   })
 
   it('IMPLICIT_NESTING shows a few example labels and the parent level', () => {
-    const facts = { ...cleanFacts(), implicitNesting: [{ level: 'animal', labels: ['m01', 'm02', 'm03', 'm04', 'm05'] }] }
+    const facts = {
+      ...cleanFacts(),
+      implicitNesting: [{ level: 'animal', labels: ['m01', 'm02', 'm03', 'm04', 'm05'] }],
+    }
     const [warning] = buildWarnings(facts)
     expect(warning.code).toBe('IMPLICIT_NESTING')
     expect(warning.message).toContain('"m01", "m02", "m03" (and 2 more) occur in more than one lab')
@@ -111,12 +116,18 @@ describe('buildWarnings', () => {
   })
 
   it('UNIT_MEANS_UNAVAILABLE passes on the reason; ROWS_DROPPED counts rows', () => {
-    const facts = { ...cleanFacts(), nDropped: 1, unitMeansProblem: 'the treatment varies inside every unit.' }
+    const facts = {
+      ...cleanFacts(),
+      nDropped: 1,
+      unitMeansProblem: 'the treatment varies inside every unit.',
+    }
     facts.condition!.level = null
     facts.condition!.unitsPerCondition = []
     const warnings = buildWarnings(facts)
     expect(warnings.map((w) => w.code)).toEqual(['ROWS_DROPPED', 'UNIT_MEANS_UNAVAILABLE'])
-    expect(warnings[1].message).toBe('The test on unit means is not shown: the treatment varies inside every unit. The mixed-model comparison does not need it.')
+    expect(warnings[1].message).toBe(
+      'The test on unit means is not shown: the treatment varies inside every unit. The mixed-model comparison does not need it.',
+    )
     expect(warnings[0].message).toBe('1 row was left out because the response or a label was missing.')
   })
 

@@ -137,7 +137,10 @@ export function buildWarnings(facts: WarningFacts): Warning[] {
         'CONDITION_CONFOUNDED',
         `Every ${condition.level} ran a single ${condition.name}, so ${condition.name} differences cannot be separated from ` +
           `${condition.level}-to-${condition.level} differences. The comparison rests on ${outer.unitSizes.length} ${condition.level} units, ` +
-          `not on the ${facts.levels.slice(1).map((l) => l.name).join(' or ')} units inside them.`,
+          `not on the ${facts.levels
+            .slice(1)
+            .map((l) => l.name)
+            .join(' or ')} units inside them.`,
       )
     }
   }
@@ -215,6 +218,9 @@ function quoteList(names: string[]): string {
 }
 
 function examples(labels: string[]): string {
-  const shown = labels.slice(0, MAX_EXAMPLES).map((l) => `"${l}"`).join(', ')
+  const shown = labels
+    .slice(0, MAX_EXAMPLES)
+    .map((l) => `"${l}"`)
+    .join(', ')
   return labels.length > MAX_EXAMPLES ? `${shown} (and ${labels.length - MAX_EXAMPLES} more)` : shown
 }

@@ -12,22 +12,38 @@ describe('clusterPower', () => {
     expect(r.df).toBe(30)
     expect(r.ncp).toBeCloseTo(2.90190500044, 9)
     expect(r.tCritical).toBeCloseTo(2.0422724563, 7)
-    expect(clusterPower({ unitsPerArm: 5, obsPerUnit: 20, difference: -0.8, variance: 2, icc: 0.25, alpha: 0.01 }).power).toBeCloseTo(0.10975151669, 7)
-    expect(clusterPower({ unitsPerArm: 40, obsPerUnit: 3, difference: 0.3, sdTotal: 1, icc: 0.05 }).power).toBeCloseTo(0.590328491164, 7)
-    expect(clusterPower({ unitsPerArm: 2.5, obsPerUnit: 4, difference: 1, variance: 1, icc: 0.2 }).power).toBeCloseTo(0.238763460092, 7)
+    expect(
+      clusterPower({ unitsPerArm: 5, obsPerUnit: 20, difference: -0.8, variance: 2, icc: 0.25, alpha: 0.01 })
+        .power,
+    ).toBeCloseTo(0.10975151669, 7)
+    expect(
+      clusterPower({ unitsPerArm: 40, obsPerUnit: 3, difference: 0.3, sdTotal: 1, icc: 0.05 }).power,
+    ).toBeCloseTo(0.590328491164, 7)
+    expect(
+      clusterPower({ unitsPerArm: 2.5, obsPerUnit: 4, difference: 1, variance: 1, icc: 0.2 }).power,
+    ).toBeCloseTo(0.238763460092, 7)
   })
 
   it('stays right at large noncentrality with few degrees of freedom', () => {
     // R 4.x: k = 2, m = 900, ρ = 0, δ/σ = 1, α = 0.002 → 0.834734499224 (plain jStat would say 1).
-    expect(clusterPower({ unitsPerArm: 2, obsPerUnit: 900, difference: 1, variance: 1, icc: 0, alpha: 0.002 }).power).toBeCloseTo(0.834734499224, 8)
+    expect(
+      clusterPower({ unitsPerArm: 2, obsPerUnit: 900, difference: 1, variance: 1, icc: 0, alpha: 0.002 })
+        .power,
+    ).toBeCloseTo(0.834734499224, 8)
   })
 
   it('gives power α for a vanishing difference and rises with units and observations', () => {
     // Common practice, no source: monotonicity and the limit δ → 0.
-    expect(clusterPower({ unitsPerArm: 6, obsPerUnit: 5, difference: 1e-9, variance: 1, icc: 0.1 }).power).toBeCloseTo(0.05, 6)
+    expect(
+      clusterPower({ unitsPerArm: 6, obsPerUnit: 5, difference: 1e-9, variance: 1, icc: 0.1 }).power,
+    ).toBeCloseTo(0.05, 6)
     const base = { obsPerUnit: 10, difference: 0.5, variance: 1, icc: 0.2 }
-    expect(clusterPower({ ...base, unitsPerArm: 10 }).power).toBeGreaterThan(clusterPower({ ...base, unitsPerArm: 8 }).power)
-    expect(clusterPower({ ...base, unitsPerArm: 8, obsPerUnit: 20 }).power).toBeGreaterThan(clusterPower({ ...base, unitsPerArm: 8 }).power)
+    expect(clusterPower({ ...base, unitsPerArm: 10 }).power).toBeGreaterThan(
+      clusterPower({ ...base, unitsPerArm: 8 }).power,
+    )
+    expect(clusterPower({ ...base, unitsPerArm: 8, obsPerUnit: 20 }).power).toBeGreaterThan(
+      clusterPower({ ...base, unitsPerArm: 8 }).power,
+    )
   })
 
   it('refuses impossible designs with a clear message', () => {

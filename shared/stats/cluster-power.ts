@@ -57,7 +57,9 @@ export function clusterPower(input: ClusterPowerInput): ClusterPowerResult {
     throw new EngineInputError(`clusterPower requires at least one observation per unit, got ${m}`)
   }
   if (typeof difference !== 'number' || !Number.isFinite(difference) || difference === 0) {
-    throw new EngineInputError(`clusterPower: the difference to detect must be a non-zero number, got ${difference}`)
+    throw new EngineInputError(
+      `clusterPower: the difference to detect must be a non-zero number, got ${difference}`,
+    )
   }
   if (typeof icc !== 'number' || !(icc >= 0 && icc <= 1)) {
     throw new EngineInputError(`clusterPower: icc must be between 0 and 1, got ${icc}`)

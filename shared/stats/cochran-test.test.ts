@@ -64,7 +64,17 @@ describe('cochranTest', () => {
 
   it('refuses thin or degenerate input', () => {
     expect(() => cochranTest([{ n: 2, mean: 1, sd: 1 }])).toThrow(/at least 2 laboratories/)
-    expect(() => cochranTest([{ n: 1, mean: 1, sd: 0 }, { n: 1, mean: 1, sd: 0 }])).toThrow(/at least two results per laboratory/)
-    expect(() => cochranTest([{ n: 3, mean: 1, sd: 0 }, { n: 3, mean: 1, sd: 0 }])).toThrow(/every laboratory SD is 0/)
+    expect(() =>
+      cochranTest([
+        { n: 1, mean: 1, sd: 0 },
+        { n: 1, mean: 1, sd: 0 },
+      ]),
+    ).toThrow(/at least two results per laboratory/)
+    expect(() =>
+      cochranTest([
+        { n: 3, mean: 1, sd: 0 },
+        { n: 3, mean: 1, sd: 0 },
+      ]),
+    ).toThrow(/every laboratory SD is 0/)
   })
 })

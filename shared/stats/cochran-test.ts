@@ -49,7 +49,10 @@ export function cochranTest(labs: LabSummary[]): CochranTestResult {
   })
   if (sumSquares === 0) throw new EngineInputError('cochranTest: every laboratory SD is 0, so C is undefined')
   const c = (labs[index].sd * labs[index].sd) / sumSquares
-  const critical = { fivePercent: cochranCritical(p, nUsed, 0.05), onePercent: cochranCritical(p, nUsed, 0.01) }
+  const critical = {
+    fivePercent: cochranCritical(p, nUsed, 0.05),
+    onePercent: cochranCritical(p, nUsed, 0.01),
+  }
   return {
     c,
     index,

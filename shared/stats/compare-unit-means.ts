@@ -22,12 +22,18 @@ export interface UnitMeansComparison {
  * compareUnitMeans(design, { a: 'NW-117', b: 'vehicle' })
  * // → { test: { method: 'student-t', level: 'animal', nUnits: 24, estimate: 5.1, t: 2.4, df: 22, … }, problem: null }
  */
-export function compareUnitMeans(design: NestedDesign, pair: { a: string; b: string } | null): UnitMeansComparison {
+export function compareUnitMeans(
+  design: NestedDesign,
+  pair: { a: string; b: string } | null,
+): UnitMeansComparison {
   const condition = design.condition
   if (!condition) return { test: null, problem: null }
   const level = design.randomLevels.find((l) => l.name === design.conditionLevel)
   if (!level) {
-    return { test: null, problem: `the ${condition.name} varies inside every unit, so no unit carries a single ${condition.name}` }
+    return {
+      test: null,
+      problem: `the ${condition.name} varies inside every unit, so no unit carries a single ${condition.name}`,
+    }
   }
   const sums = new Float64Array(level.nUnits)
   const counts = new Float64Array(level.nUnits)
@@ -42,12 +48,16 @@ export function compareUnitMeans(design: NestedDesign, pair: { a: string; b: str
   for (let u = 0; u < level.nUnits; u++) groups[conditionOfUnit[u]].push(sums[u] / counts[u])
 
   const k = condition.labels.length
-  const order = k === 2 && pair ? [pair.a, pair.b].map((label) => condition.labels.indexOf(label)) : condition.labels.map((_, c) => c)
+  const order =
+    k === 2 && pair
+      ? [pair.a, pair.b].map((label) => condition.labels.indexOf(label))
+      : condition.labels.map((_, c) => c)
   let result
   try {
     result = unitMeansTest(order.map((c) => groups[c]))
   } catch (error) {
-    if (error instanceof EngineInputError) return { test: null, problem: error.message.replace(/^unitMeansTest:?\s*/, '') }
+    if (error instanceof EngineInputError)
+      return { test: null, problem: error.message.replace(/^unitMeansTest:?\s*/, '') }
     throw error
   }
   const base = { level: level.name, nUnits: level.nUnits, p: result.p }
@@ -66,5 +76,8 @@ export function compareUnitMeans(design: NestedDesign, pair: { a: string; b: str
       problem: null,
     }
   }
-  return { test: { method: 'one-way-anova', ...base, f: result.f, df1: result.df1, df2: result.df2 }, problem: null }
+  return {
+    test: { method: 'one-way-anova', ...base, f: result.f, df1: result.df1, df2: result.df2 },
+    problem: null,
+  }
 }

@@ -42,6 +42,14 @@ export function conditionMeans(design: NestedDesign, fit: NestedFit, confidence 
     const L = fit.beta.map((_, i) => (i === 0 || i === j ? 1 : 0))
     const c = satterthwaiteContrast(design, fit, L)
     const half = jStat.studentt.inv(1 - (1 - confidence) / 2, c.df) * c.se
-    return { condition, mean: c.estimate, se: c.se, df: c.df, ciLower: c.estimate - half, ciUpper: c.estimate + half, confidence }
+    return {
+      condition,
+      mean: c.estimate,
+      se: c.se,
+      df: c.df,
+      ciLower: c.estimate - half,
+      ciUpper: c.estimate + half,
+      confidence,
+    }
   })
 }

@@ -4,7 +4,11 @@ import { costOptimalObsPerUnit } from './cost-optimal-obs-per-unit'
 describe('costOptimalObsPerUnit', () => {
   it('gives m* = √((c_unit / c_obs)(1 − ρ)/ρ)', () => {
     // Raudenbush (1997) formula evaluated by hand: √(100 · 0.9 / 0.1) = 30.
-    expect(costOptimalObsPerUnit({ costPerUnit: 100, costPerObs: 1, icc: 0.1 })).toEqual({ exact: 30, obsPerUnit: 30, note: null })
+    expect(costOptimalObsPerUnit({ costPerUnit: 100, costPerObs: 1, icc: 0.1 })).toEqual({
+      exact: 30,
+      obsPerUnit: 30,
+      note: null,
+    })
     // √(50/2 · 0.75/0.25) = √75 = 8.660
     const r = costOptimalObsPerUnit({ costPerUnit: 50, costPerObs: 2, icc: 0.25 })
     expect(r.exact).toBeCloseTo(Math.sqrt(75), 12)
@@ -28,15 +32,28 @@ describe('costOptimalObsPerUnit', () => {
     expect(none.obsPerUnit).toBeNull()
     expect(none.note).toMatch(/no finite optimum/)
     expect(costOptimalObsPerUnit({ costPerUnit: 100, costPerObs: 0, icc: 0.2 }).note).toMatch(/cost nothing/)
-    expect(costOptimalObsPerUnit({ costPerUnit: 100, costPerObs: 1, icc: 1 })).toMatchObject({ exact: 0, obsPerUnit: 1 })
-    expect(costOptimalObsPerUnit({ costPerUnit: 0, costPerObs: 1, icc: 0.2 })).toMatchObject({ obsPerUnit: 1 })
+    expect(costOptimalObsPerUnit({ costPerUnit: 100, costPerObs: 1, icc: 1 })).toMatchObject({
+      exact: 0,
+      obsPerUnit: 1,
+    })
+    expect(costOptimalObsPerUnit({ costPerUnit: 0, costPerObs: 1, icc: 0.2 })).toMatchObject({
+      obsPerUnit: 1,
+    })
     expect(costOptimalObsPerUnit({ costPerUnit: 1, costPerObs: 1000, icc: 0.9 }).obsPerUnit).toBe(1)
   })
 
   it('refuses malformed input', () => {
-    expect(() => costOptimalObsPerUnit({ costPerUnit: -1, costPerObs: 1, icc: 0.1 })).toThrow(/costPerUnit must be a non-negative number/)
-    expect(() => costOptimalObsPerUnit({ costPerUnit: 1, costPerObs: Number.NaN, icc: 0.1 })).toThrow(/costPerObs/)
-    expect(() => costOptimalObsPerUnit({ costPerUnit: 0, costPerObs: 0, icc: 0.1 })).toThrow(/at least one non-zero cost/)
-    expect(() => costOptimalObsPerUnit({ costPerUnit: 1, costPerObs: 1, icc: 2 })).toThrow(/icc must be between 0 and 1/)
+    expect(() => costOptimalObsPerUnit({ costPerUnit: -1, costPerObs: 1, icc: 0.1 })).toThrow(
+      /costPerUnit must be a non-negative number/,
+    )
+    expect(() => costOptimalObsPerUnit({ costPerUnit: 1, costPerObs: Number.NaN, icc: 0.1 })).toThrow(
+      /costPerObs/,
+    )
+    expect(() => costOptimalObsPerUnit({ costPerUnit: 0, costPerObs: 0, icc: 0.1 })).toThrow(
+      /at least one non-zero cost/,
+    )
+    expect(() => costOptimalObsPerUnit({ costPerUnit: 1, costPerObs: 1, icc: 2 })).toThrow(
+      /icc must be between 0 and 1/,
+    )
   })
 })

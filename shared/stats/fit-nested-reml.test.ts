@@ -9,8 +9,10 @@ import { pastes } from './fixtures/pastes'
 import { prepareNestedDesign } from './prepare-nested-design'
 import type { NestedColumns } from './types'
 
-const fit = (cols: NestedColumns, reference?: string) => fitNestedReml(prepareNestedDesign(cols, { reference }))
-const variance = (f: ReturnType<typeof fit>, level: string) => f.components.find((c) => c.level === level)!.variance
+const fit = (cols: NestedColumns, reference?: string) =>
+  fitNestedReml(prepareNestedDesign(cols, { reference }))
+const variance = (f: ReturnType<typeof fit>, level: string) =>
+  f.components.find((c) => c.level === level)!.variance
 
 describe('fitNestedReml', () => {
   it('reproduces the published Dyestuff REML fit', () => {
@@ -84,7 +86,10 @@ describe('fitNestedReml', () => {
     })
 
     it('does not depend on unit labels', () => {
-      const relabelled = { ...pastes, batch: pastes.batch.map((b) => `lot-${'JIHGFEDCBA'['ABCDEFGHIJ'.indexOf(b)]}`) }
+      const relabelled = {
+        ...pastes,
+        batch: pastes.batch.map((b) => `lot-${'JIHGFEDCBA'['ABCDEFGHIJ'.indexOf(b)]}`),
+      }
       const f = fit(nestedColumnsFromTable(relabelled, 'strength', ['batch', 'cask']))
       f.components.forEach((c, i) => expect(c.variance).toBeCloseTo(reference.components[i].variance, 9))
     })
@@ -108,7 +113,11 @@ describe('fitNestedReml', () => {
       expect(() => fitNestedReml(prepareNestedDesign(cols))).toThrow(/does not vary within conditions/)
     })
     it('rejects a response explained entirely by the condition', () => {
-      const t = { g: ['a', 'a', 'b', 'b', 'c', 'c'], d: ['x', 'y', 'x', 'y', 'x', 'y'], y: [1, 2, 1, 2, 1, 2] }
+      const t = {
+        g: ['a', 'a', 'b', 'b', 'c', 'c'],
+        d: ['x', 'y', 'x', 'y', 'x', 'y'],
+        y: [1, 2, 1, 2, 1, 2],
+      }
       expect(() => fit(nestedColumnsFromTable(t, 'y', ['g'], 'd'))).toThrow(/does not vary within conditions/)
     })
   })

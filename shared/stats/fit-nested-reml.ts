@@ -35,7 +35,9 @@ export function fitNestedReml(design: NestedDesign): NestedFit {
   const stats = nestedSufficientStats(design)
   const { p, nObs, nLevels: K } = stats
   if (nObs - p < 1) {
-    throw new EngineInputError(`${nObs} observations cannot estimate ${p} condition means and a residual variance.`)
+    throw new EngineInputError(
+      `${nObs} observations cannot estimate ${p} condition means and a residual variance.`,
+    )
   }
   const flat = evaluateNestedReml(stats, new Array(K).fill(0))
   if (!(flat.r2 > 1e-12 * totalSumOfSquares(design.y))) {
@@ -45,7 +47,11 @@ export function fitNestedReml(design: NestedDesign): NestedFit {
     )
   }
 
-  const criterion = (t: number[]) => evaluateNestedReml(stats, t.map((v) => v * v)).deviance
+  const criterion = (t: number[]) =>
+    evaluateNestedReml(
+      stats,
+      t.map((v) => v * v),
+    ).deviance
   let best = minimiseNewton(criterion, bestGridStart(criterion, K))
   let iterations = best.iterations
 

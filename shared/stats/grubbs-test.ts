@@ -44,7 +44,9 @@ export interface GrubbsTestResult {
  */
 export function grubbsTest(values: number[]): GrubbsTestResult {
   if (!Array.isArray(values) || values.length < 3) {
-    throw new EngineInputError(`grubbsTest requires at least three values, got ${Array.isArray(values) ? values.length : 0}`)
+    throw new EngineInputError(
+      `grubbsTest requires at least three values, got ${Array.isArray(values) ? values.length : 0}`,
+    )
   }
   values.forEach((v, i) => {
     if (typeof v !== 'number' || !Number.isFinite(v)) {

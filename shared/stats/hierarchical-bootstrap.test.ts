@@ -35,7 +35,10 @@ function simulate(spec: SimulationSpec): BootstrapInput {
       animalParent.push(lab)
       const code = spec.condition === 'animal' ? k % 2 : 0
       const b = spec.sdAnimal * normal()
-      const cells = typeof spec.cells === 'number' ? spec.cells : spec.cells[0] + Math.floor(rng() * (spec.cells[1] - spec.cells[0] + 1))
+      const cells =
+        typeof spec.cells === 'number'
+          ? spec.cells
+          : spec.cells[0] + Math.floor(rng() * (spec.cells[1] - spec.cells[0] + 1))
       for (let c = 0; c < cells; c++) {
         y.push(spec.mean + (code === 1 ? (spec.effect ?? 0) : 0) + a + b + spec.sdCell * normal())
         labOfObs.push(lab)
@@ -47,10 +50,19 @@ function simulate(spec: SimulationSpec): BootstrapInput {
   return {
     y: Float64Array.from(y),
     randomLevels: [
-      { nUnits: spec.labs, unitOfObs: Int32Array.from(labOfObs), parentOfUnit: new Int32Array(spec.labs).fill(-1) },
-      { nUnits: animalParent.length, unitOfObs: Int32Array.from(animalOfObs), parentOfUnit: Int32Array.from(animalParent) },
+      {
+        nUnits: spec.labs,
+        unitOfObs: Int32Array.from(labOfObs),
+        parentOfUnit: new Int32Array(spec.labs).fill(-1),
+      },
+      {
+        nUnits: animalParent.length,
+        unitOfObs: Int32Array.from(animalOfObs),
+        parentOfUnit: Int32Array.from(animalParent),
+      },
     ],
-    condition: spec.condition === 'none' ? null : { labels: ['vehicle', 'compound'], codes: Int32Array.from(codes) },
+    condition:
+      spec.condition === 'none' ? null : { labels: ['vehicle', 'compound'], codes: Int32Array.from(codes) },
   }
 }
 
@@ -152,11 +164,33 @@ describe('hierarchicalBootstrap', () => {
   })
 
   it('finds a large difference and not a null one', () => {
-    const big = simulate({ labs: 8, animalsPerLab: 6, cells: 20, sdLab: 1, sdAnimal: 1, sdCell: 3, mean: 10, condition: 'animal', effect: 6, seed: 'big' })
+    const big = simulate({
+      labs: 8,
+      animalsPerLab: 6,
+      cells: 20,
+      sdLab: 1,
+      sdAnimal: 1,
+      sdCell: 3,
+      mean: 10,
+      condition: 'animal',
+      effect: 6,
+      seed: 'big',
+    })
     const r = hierarchicalBootstrap(big, { resamples: 500, seed: 3 })
     expect(r.differences[0].pBootstrap).toBe(0)
     expect(r.differences[0].ci[0]).toBeGreaterThan(0)
-    const none = simulate({ labs: 8, animalsPerLab: 6, cells: 20, sdLab: 1, sdAnimal: 1, sdCell: 3, mean: 10, condition: 'animal', effect: 0, seed: 'null-7' })
+    const none = simulate({
+      labs: 8,
+      animalsPerLab: 6,
+      cells: 20,
+      sdLab: 1,
+      sdAnimal: 1,
+      sdCell: 3,
+      mean: 10,
+      condition: 'animal',
+      effect: 0,
+      seed: 'null-7',
+    })
     const n = hierarchicalBootstrap(none, { resamples: 500, seed: 3 })
     expect(n.differences[0].pBootstrap).toBeGreaterThan(0.05)
   })
@@ -180,7 +214,9 @@ describe('hierarchicalBootstrap', () => {
     }
     const data: BootstrapInput = {
       y: Float64Array.from(y),
-      randomLevels: [{ nUnits: 12, unitOfObs: Int32Array.from(unit), parentOfUnit: new Int32Array(12).fill(-1) }],
+      randomLevels: [
+        { nUnits: 12, unitOfObs: Int32Array.from(unit), parentOfUnit: new Int32Array(12).fill(-1) },
+      ],
       condition: { labels: ['vehicle', 'compound'], codes: Int32Array.from(codes) },
     }
     const r = hierarchicalBootstrap(data, { resamples: 500, seed: 9, keepDraws: true })
@@ -193,7 +229,12 @@ describe('hierarchicalBootstrap', () => {
       responseName: 'neurite_length',
       nObs: moderate.y.length,
       y: moderate.y,
-      randomLevels: moderate.randomLevels.map((l, i) => ({ ...l, name: i === 0 ? 'lab' : 'animal', unitLabels: [], inserted: false })),
+      randomLevels: moderate.randomLevels.map((l, i) => ({
+        ...l,
+        name: i === 0 ? 'lab' : 'animal',
+        unitLabels: [],
+        inserted: false,
+      })),
       condition: { name: 'treatment', reference: 'vehicle', ...moderate.condition! },
       conditionLevel: 'animal',
     }
@@ -201,34 +242,68 @@ describe('hierarchicalBootstrap', () => {
   })
 
   it('refuses thin or malformed input with a clear message', () => {
-    const oneLevel = (labs: number[], parents = new Int32Array(Math.max(...labs) + 1).fill(-1)): BootstrapInput => ({
+    const oneLevel = (
+      labs: number[],
+      parents = new Int32Array(Math.max(...labs) + 1).fill(-1),
+    ): BootstrapInput => ({
       y: Float64Array.from(labs, (_, i) => i),
       randomLevels: [{ nUnits: parents.length, unitOfObs: Int32Array.from(labs), parentOfUnit: parents }],
       condition: null,
     })
     expect(() => hierarchicalBootstrap(oneLevel([0, 0, 0]))).toThrow(/at least two outermost units/)
-    expect(() => hierarchicalBootstrap({ ...oneLevel([0, 1]), y: new Float64Array(0) })).toThrow(/at least one observation/)
-    expect(() => hierarchicalBootstrap({ ...oneLevel([0, 1]), randomLevels: [] })).toThrow(/at least one level/)
-    expect(() => hierarchicalBootstrap({ ...oneLevel([0, 1]), y: Float64Array.from([1, Number.NaN]) })).toThrow(/observation 2 is not a finite number/)
+    expect(() => hierarchicalBootstrap({ ...oneLevel([0, 1]), y: new Float64Array(0) })).toThrow(
+      /at least one observation/,
+    )
+    expect(() => hierarchicalBootstrap({ ...oneLevel([0, 1]), randomLevels: [] })).toThrow(
+      /at least one level/,
+    )
+    expect(() =>
+      hierarchicalBootstrap({ ...oneLevel([0, 1]), y: Float64Array.from([1, Number.NaN]) }),
+    ).toThrow(/observation 2 is not a finite number/)
     expect(() => hierarchicalBootstrap(oneLevel([0, 2]))).toThrow(/unit 2 of level 1 has no observations/)
-    expect(() => hierarchicalBootstrap(oneLevel([0, 1], Int32Array.from([-1, 0])))).toThrow(/invalid parent index/)
+    expect(() => hierarchicalBootstrap(oneLevel([0, 1], Int32Array.from([-1, 0])))).toThrow(
+      /invalid parent index/,
+    )
     expect(() => hierarchicalBootstrap(oneLevel([0, 5], new Int32Array(2).fill(-1)))).toThrow(/out of range/)
     expect(() =>
-      hierarchicalBootstrap({ ...oneLevel([0, 1]), randomLevels: [{ nUnits: 2, unitOfObs: Int32Array.from([0]), parentOfUnit: Int32Array.from([-1, -1]) }] }),
+      hierarchicalBootstrap({
+        ...oneLevel([0, 1]),
+        randomLevels: [
+          { nUnits: 2, unitOfObs: Int32Array.from([0]), parentOfUnit: Int32Array.from([-1, -1]) },
+        ],
+      }),
     ).toThrow(/one unit index per observation/)
     expect(() =>
-      hierarchicalBootstrap({ ...oneLevel([0, 1]), condition: { labels: ['a', 'b'], codes: Int32Array.from([0, 2]) } }),
+      hierarchicalBootstrap({
+        ...oneLevel([0, 1]),
+        condition: { labels: ['a', 'b'], codes: Int32Array.from([0, 2]) },
+      }),
     ).toThrow(/condition code 2 of observation 2 is out of range/)
     expect(() =>
-      hierarchicalBootstrap({ ...oneLevel([0, 1]), condition: { labels: ['a', 'b'], codes: Int32Array.from([0, 0]) } }),
+      hierarchicalBootstrap({
+        ...oneLevel([0, 1]),
+        condition: { labels: ['a', 'b'], codes: Int32Array.from([0, 0]) },
+      }),
     ).toThrow(/"b" has no observations/)
     expect(() => hierarchicalBootstrap(oneLevel([0, 1]), { resamples: 50 })).toThrow(/at least 100 resamples/)
     expect(() => hierarchicalBootstrap(oneLevel([0, 1]), { confidence: 0 })).toThrow(/confidence/)
     expect(() => hierarchicalBootstrap(moderate, { pairs: [[0, 0]] })).toThrow(/invalid condition pair/)
     expect(() => hierarchicalBootstrap(moderate, { pairs: [[0, 3]] })).toThrow(EngineInputError)
     // An animal whose parent lab disagrees with the lab recorded for its observations.
-    const broken = simulate({ labs: 2, animalsPerLab: 2, cells: 3, sdLab: 1, sdAnimal: 1, sdCell: 1, mean: 0, condition: 'none', seed: 'b' })
+    const broken = simulate({
+      labs: 2,
+      animalsPerLab: 2,
+      cells: 3,
+      sdLab: 1,
+      sdAnimal: 1,
+      sdCell: 1,
+      mean: 0,
+      condition: 'none',
+      seed: 'b',
+    })
     broken.randomLevels[1].parentOfUnit[0] = 1
-    expect(() => hierarchicalBootstrap(broken)).toThrow(/whose parent is not the observation's unit one level up/)
+    expect(() => hierarchicalBootstrap(broken)).toThrow(
+      /whose parent is not the observation's unit one level up/,
+    )
   })
 })

@@ -129,7 +129,9 @@ export function hierarchicalBootstrap(
   const exactBelow = options.exactBelow ?? 50
   const seed = String(options.seed ?? 1)
   if (!Number.isInteger(resamples) || resamples < 100) {
-    throw new EngineInputError(`hierarchicalBootstrap requires a whole number of at least 100 resamples, got ${resamples}`)
+    throw new EngineInputError(
+      `hierarchicalBootstrap requires a whole number of at least 100 resamples, got ${resamples}`,
+    )
   }
   if (!(confidence > 0 && confidence < 1)) {
     throw new EngineInputError(`hierarchicalBootstrap: confidence must be between 0 and 1, got ${confidence}`)
@@ -297,7 +299,8 @@ function buildPlan(input: BootstrapInput): Plan {
     throw new EngineInputError('hierarchicalBootstrap requires at least one level of units')
   }
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(y[i])) throw new EngineInputError(`hierarchicalBootstrap: observation ${i + 1} is not a finite number`)
+    if (!Number.isFinite(y[i]))
+      throw new EngineInputError(`hierarchicalBootstrap: observation ${i + 1} is not a finite number`)
   }
   checkLevels(levels, n)
 
@@ -316,7 +319,9 @@ function buildPlan(input: BootstrapInput): Plan {
   for (let i = 0; i < n; i++) {
     const c = codes[i]
     if (c < 0 || c >= nConditions) {
-      throw new EngineInputError(`hierarchicalBootstrap: condition code ${c} of observation ${i + 1} is out of range`)
+      throw new EngineInputError(
+        `hierarchicalBootstrap: condition code ${c} of observation ${i + 1} is out of range`,
+      )
     }
     conditionTotals[c] += y[i]
     conditionCounts[c]++
@@ -356,7 +361,8 @@ function buildPlan(input: BootstrapInput): Plan {
     const child = levels[l + 1]
     const unions: Set<number>[] = Array.from({ length: levels[l].nUnits }, () => new Set<number>())
     const childKeys = contentKeys[l + 1]
-    for (let u = 0; u < child.nUnits; u++) for (const c of keySets[childKeys[u]]) unions[child.parentOfUnit[u]].add(c)
+    for (let u = 0; u < child.nUnits; u++)
+      for (const c of keySets[childKeys[u]]) unions[child.parentOfUnit[u]].add(c)
     contentKeys[l] = Int32Array.from(unions, (set) => intern([...set].sort((a, b) => a - b)))
   }
 
@@ -385,7 +391,9 @@ function checkLevels(levels: BootstrapLevel[], n: number): void {
     for (let u = 0; u < level.nUnits; u++) {
       const p = level.parentOfUnit[u]
       if (l === 0 ? p !== -1 : p < 0 || p >= parentUnits) {
-        throw new EngineInputError(`hierarchicalBootstrap: unit ${u + 1} of ${where} has an invalid parent index ${p}`)
+        throw new EngineInputError(
+          `hierarchicalBootstrap: unit ${u + 1} of ${where} has an invalid parent index ${p}`,
+        )
       }
     }
     const seen = new Uint8Array(level.nUnits)
@@ -393,7 +401,9 @@ function checkLevels(levels: BootstrapLevel[], n: number): void {
     for (let i = 0; i < n; i++) {
       const u = level.unitOfObs[i]
       if (u < 0 || u >= level.nUnits) {
-        throw new EngineInputError(`hierarchicalBootstrap: observation ${i + 1} has unit index ${u} out of range at ${where}`)
+        throw new EngineInputError(
+          `hierarchicalBootstrap: observation ${i + 1} has unit index ${u} out of range at ${where}`,
+        )
       }
       if (above && level.parentOfUnit[u] !== above[i]) {
         throw new EngineInputError(
@@ -403,7 +413,8 @@ function checkLevels(levels: BootstrapLevel[], n: number): void {
       seen[u] = 1
     }
     const empty = seen.indexOf(0)
-    if (empty >= 0) throw new EngineInputError(`hierarchicalBootstrap: unit ${empty + 1} of ${where} has no observations`)
+    if (empty >= 0)
+      throw new EngineInputError(`hierarchicalBootstrap: unit ${empty + 1} of ${where} has no observations`)
   })
   if (levels[0].nUnits < 2) {
     throw new EngineInputError('hierarchicalBootstrap requires at least two outermost units')
@@ -422,7 +433,8 @@ function buildPools(y: Float64Array, inner: BootstrapLevel, codes: Int32Array, n
   const start: number[] = []
   for (let i = 0; i < n; i++) {
     const o = obs[i]
-    const isNew = i === 0 || inner.unitOfObs[obs[i - 1]] !== inner.unitOfObs[o] || codes[obs[i - 1]] !== codes[o]
+    const isNew =
+      i === 0 || inner.unitOfObs[obs[i - 1]] !== inner.unitOfObs[o] || codes[obs[i - 1]] !== codes[o]
     if (isNew) {
       condition.push(codes[o])
       start.push(i)
@@ -457,7 +469,12 @@ function buildPools(y: Float64Array, inner: BootstrapLevel, codes: Int32Array, n
   }
 }
 
-function buildStrata(parentOfUnit: Int32Array, nParents: number, keys: Int32Array, nKeys: number): LevelStrata {
+function buildStrata(
+  parentOfUnit: Int32Array,
+  nParents: number,
+  keys: Int32Array,
+  nKeys: number,
+): LevelStrata {
   const nUnits = parentOfUnit.length
   // Order units by (parent, content key) with two stable counting sorts.
   const byKey = countingSort(keys, nKeys, identityOrder(nUnits))
@@ -472,7 +489,8 @@ function buildStrata(parentOfUnit: Int32Array, nParents: number, keys: Int32Arra
       parentStart[parentOfUnit[u] + 1] = stratumStart.length
     }
   }
-  for (let p = 1; p <= nParents; p++) if (parentStart[p] < parentStart[p - 1]) parentStart[p] = parentStart[p - 1]
+  for (let p = 1; p <= nParents; p++)
+    if (parentStart[p] < parentStart[p - 1]) parentStart[p] = parentStart[p - 1]
   stratumStart.push(nUnits)
   return { parentStart, stratumStart: Int32Array.from(stratumStart), members }
 }

@@ -58,7 +58,17 @@ describe('labPrecision', () => {
 
   it('refuses thin or malformed input', () => {
     expect(() => labPrecision([{ n: 3, mean: 1, sd: 1 }])).toThrow(/at least 2 laboratories/)
-    expect(() => labPrecision([{ n: 1, mean: 1, sd: 0 }, { n: 1, mean: 2, sd: 0 }])).toThrow(/at least one laboratory with two or more results/)
-    expect(() => labPrecision([{ n: 3, mean: 1, sd: -1 }, { n: 3, mean: 2, sd: 1 }])).toThrow(/SD of laboratory 1/)
+    expect(() =>
+      labPrecision([
+        { n: 1, mean: 1, sd: 0 },
+        { n: 1, mean: 2, sd: 0 },
+      ]),
+    ).toThrow(/at least one laboratory with two or more results/)
+    expect(() =>
+      labPrecision([
+        { n: 3, mean: 1, sd: -1 },
+        { n: 3, mean: 2, sd: 1 },
+      ]),
+    ).toThrow(/SD of laboratory 1/)
   })
 })

@@ -22,7 +22,9 @@ export interface LabSummary {
  */
 export function checkLabSummaries(labs: LabSummary[], minLabs: number, caller: string): LabSummary[] {
   if (!Array.isArray(labs) || labs.length < minLabs) {
-    throw new EngineInputError(`${caller} requires at least ${minLabs} laboratories, got ${Array.isArray(labs) ? labs.length : 0}`)
+    throw new EngineInputError(
+      `${caller} requires at least ${minLabs} laboratories, got ${Array.isArray(labs) ? labs.length : 0}`,
+    )
   }
   labs.forEach((lab, i) => {
     if (!lab || !Number.isInteger(lab.n) || lab.n < 1) {

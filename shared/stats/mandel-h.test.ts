@@ -42,6 +42,12 @@ describe('mandelH', () => {
   it('refuses thin or degenerate input', () => {
     expect(() => mandelH(labsWithMeans([1, 2]))).toThrow(/at least 3 laboratories/)
     expect(() => mandelH(labsWithMeans([5, 5, 5]))).toThrow(/all laboratory means are equal/)
-    expect(() => mandelH([{ n: 2, mean: 1, sd: 1 }, { n: 2, mean: 2, sd: 1 }, { n: 2, mean: Infinity, sd: 1 }])).toThrow(/not a finite number/)
+    expect(() =>
+      mandelH([
+        { n: 2, mean: 1, sd: 1 },
+        { n: 2, mean: 2, sd: 1 },
+        { n: 2, mean: Infinity, sd: 1 },
+      ]),
+    ).toThrow(/not a finite number/)
   })
 })

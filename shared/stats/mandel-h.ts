@@ -38,7 +38,11 @@ export function mandelH(labs: LabSummary[]): MandelHResult {
   if (spread === 0) throw new EngineInputError('mandelH: all laboratory means are equal, so h is undefined')
   const h = means.map((m) => (m - center) / spread)
   const critical = { fivePercent: hCritical(p, 0.05), onePercent: hCritical(p, 0.01) }
-  return { h, flags: h.map((v) => precisionFlag(Math.abs(v), critical.fivePercent, critical.onePercent)), critical }
+  return {
+    h,
+    flags: h.map((v) => precisionFlag(Math.abs(v), critical.fivePercent, critical.onePercent)),
+    critical,
+  }
 }
 
 function hCritical(p: number, alpha: number): number {

@@ -58,7 +58,17 @@ describe('mandelK', () => {
 
   it('refuses thin or degenerate input', () => {
     expect(() => mandelK([{ n: 2, mean: 1, sd: 1 }])).toThrow(/at least 2 laboratories/)
-    expect(() => mandelK([{ n: 1, mean: 1, sd: 0 }, { n: 1, mean: 2, sd: 0 }])).toThrow(/at least two results per laboratory/)
-    expect(() => mandelK([{ n: 2, mean: 1, sd: 0 }, { n: 2, mean: 2, sd: 0 }])).toThrow(/every laboratory SD is 0/)
+    expect(() =>
+      mandelK([
+        { n: 1, mean: 1, sd: 0 },
+        { n: 1, mean: 2, sd: 0 },
+      ]),
+    ).toThrow(/at least two results per laboratory/)
+    expect(() =>
+      mandelK([
+        { n: 2, mean: 1, sd: 0 },
+        { n: 2, mean: 2, sd: 0 },
+      ]),
+    ).toThrow(/every laboratory SD is 0/)
   })
 })

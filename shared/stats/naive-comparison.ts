@@ -13,7 +13,10 @@ import { welchTest } from './welch-test'
  * naiveComparison(design, { a: 'NW-117', b: 'vehicle' })
  * // → { method: 'welch', a: 'NW-117', b: 'vehicle', estimate: 5.5, t: 12.1, df: 9.7e5, p: 1e-33, … }
  */
-export function naiveComparison(design: NestedDesign, pair: { a: string; b: string } | null): NaiveTest | null {
+export function naiveComparison(
+  design: NestedDesign,
+  pair: { a: string; b: string } | null,
+): NaiveTest | null {
   const condition = design.condition
   if (!condition) return null
   const k = condition.labels.length
@@ -22,7 +25,16 @@ export function naiveComparison(design: NestedDesign, pair: { a: string; b: stri
       const summaries = conditionSummaries(design.y, condition.codes, k)
       const [a, b] = [pair.a, pair.b].map((label) => summaries[condition.labels.indexOf(label)])
       const test = welchTest(a, b)
-      return { method: 'welch', a: pair.a, b: pair.b, estimate: test.diff, se: test.se, t: test.t, df: test.df, p: test.p }
+      return {
+        method: 'welch',
+        a: pair.a,
+        b: pair.b,
+        estimate: test.diff,
+        se: test.se,
+        t: test.t,
+        df: test.df,
+        p: test.p,
+      }
     }
     const groups: number[][] = condition.labels.map(() => [])
     for (let i = 0; i < design.nObs; i++) groups[condition.codes[i]].push(design.y[i])

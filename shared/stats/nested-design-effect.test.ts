@@ -54,8 +54,12 @@ describe('nestedDesignEffect', () => {
 
   it('refuses malformed input', () => {
     expect(() => nestedDesignEffect([])).toThrow(/at least one level/)
-    expect(() => nestedDesignEffect([{ unitSizes: [], share: 0.1 }])).toThrow(/level 1\) requires at least one unit size/)
-    expect(() => nestedDesignEffect([{ unitSizes: [5], share: 1.2 }])).toThrow(/share of level 1 must be between 0 and 1/)
+    expect(() => nestedDesignEffect([{ unitSizes: [], share: 0.1 }])).toThrow(
+      /level 1\) requires at least one unit size/,
+    )
+    expect(() => nestedDesignEffect([{ unitSizes: [5], share: 1.2 }])).toThrow(
+      /share of level 1 must be between 0 and 1/,
+    )
     expect(() =>
       nestedDesignEffect([
         { unitSizes: [5], share: 0.6 },

@@ -51,7 +51,9 @@ export function nestedDesignEffect(levels: NestedDesignEffectLevel[]): NestedDes
   const terms = levels.map((level, index) => {
     const share = level?.share
     if (typeof share !== 'number' || !(share >= 0 && share <= 1)) {
-      throw new EngineInputError(`nestedDesignEffect: the share of level ${index + 1} must be between 0 and 1, got ${share}`)
+      throw new EngineInputError(
+        `nestedDesignEffect: the share of level ${index + 1} must be between 0 and 1, got ${share}`,
+      )
     }
     shareSum += share
     const { meanSize, cv } = unitSizeSummary(level.unitSizes, `nestedDesignEffect (level ${index + 1})`)

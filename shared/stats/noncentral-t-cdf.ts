@@ -28,7 +28,8 @@ export function noncentralTCdf(x: number, df: number, ncp: number): number {
   if (!(df > 0) || !Number.isFinite(x) || !Number.isFinite(ncp)) return Number.NaN
   if (Math.abs(ncp) <= SERIES_LIMIT) return jStat.noncentralt.cdf(x, df, ncp)
   const scale = x / Math.sqrt(df)
-  const density = (u: number) => (u <= 0 ? (df === 1 ? 2 * jStat.normal.pdf(0, 0, 1) : 0) : 2 * u * jStat.chisquare.pdf(u * u, df))
+  const density = (u: number) =>
+    u <= 0 ? (df === 1 ? 2 * jStat.normal.pdf(0, 0, 1) : 0) : 2 * u * jStat.chisquare.pdf(u * u, df)
   const integrand = (u: number) => jStat.normal.cdf(scale * u - ncp, 0, 1) * density(u)
   const low = Math.sqrt(jStat.chisquare.inv(1e-15, df))
   const high = Math.sqrt(jStat.chisquare.inv(1 - 1e-15, df))

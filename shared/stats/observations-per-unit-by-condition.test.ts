@@ -7,7 +7,10 @@ describe('observationsPerUnitByCondition', () => {
     // Hand count, common practice, no source.
     const level = { nUnits: 3, unitOfObs: Int32Array.from([0, 0, 1, 2, 2, 2]) }
     const codes = Int32Array.from([0, 1, 1, 0, 0, 1])
-    expect(observationsPerUnitByCondition(level, codes, 2)).toEqual([[1, 2], [1, 1, 1]])
+    expect(observationsPerUnitByCondition(level, codes, 2)).toEqual([
+      [1, 2],
+      [1, 1, 1],
+    ])
   })
 
   it('agrees with counting one condition at a time', () => {

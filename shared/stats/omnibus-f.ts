@@ -25,7 +25,9 @@ export function omnibusF(design: NestedDesign, fit: NestedFit): SatterthwaiteFRe
   for (let i = 0; i < condition.codes.length; i++) counts[condition.codes[i]]++
   // XᵀX for columns [1, d_1 … d_{k−1}].
   const xtx = Array.from({ length: k }, (_, r) =>
-    Array.from({ length: k }, (__, c) => (r === 0 ? (c === 0 ? design.nObs : counts[c]) : c === 0 ? counts[r] : r === c ? counts[r] : 0)),
+    Array.from({ length: k }, (__, c) =>
+      r === 0 ? (c === 0 ? design.nObs : counts[c]) : c === 0 ? counts[r] : r === c ? counts[r] : 0,
+    ),
   )
   const U = unitLowerFactor(xtx)
   const L = Array.from({ length: k - 1 }, (_, r) => Array.from({ length: k }, (__, c) => U[c][r + 1]))

@@ -99,10 +99,33 @@ describe('oneWayAnova', () => {
     expect(() => oneWayAnova([])).toThrow(EngineInputError)
     expect(() => oneWayAnova([[1, 2], []])).toThrow(/group 2 has no observations/)
     expect(() => oneWayAnova([[1], [2]])).toThrow(/two or more observations/)
-    expect(() => oneWayAnova([[1, Number.NaN], [2, 3]])).toThrow(/not a finite number/)
-    expect(() => oneWayAnova([[1, 2], [2, Infinity]])).toThrow(/not a finite number/)
-    expect(() => oneWayAnova([[5, 5], [5, 5]])).toThrow(/identical/)
-    expect(() => oneWayAnova([[1, 2], [3, 4]], { confidence: 1 })).toThrow(/confidence/)
+    expect(() =>
+      oneWayAnova([
+        [1, Number.NaN],
+        [2, 3],
+      ]),
+    ).toThrow(/not a finite number/)
+    expect(() =>
+      oneWayAnova([
+        [1, 2],
+        [2, Infinity],
+      ]),
+    ).toThrow(/not a finite number/)
+    expect(() =>
+      oneWayAnova([
+        [5, 5],
+        [5, 5],
+      ]),
+    ).toThrow(/identical/)
+    expect(() =>
+      oneWayAnova(
+        [
+          [1, 2],
+          [3, 4],
+        ],
+        { confidence: 1 },
+      ),
+    ).toThrow(/confidence/)
     expect(() => oneWayAnova(null as unknown as number[][])).toThrow(/at least two groups/)
   })
 })

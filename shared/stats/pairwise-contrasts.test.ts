@@ -27,7 +27,9 @@ describe('pairwiseContrasts', () => {
 
   it('reads every comparison with a new reference against it', () => {
     // Common practice, no source: the reference moves to the front, differences flip sign.
-    const design = prepareNestedDesign(nestedColumnsFromTable(machines, 'score', ['Worker'], 'Machine'), { reference: 'C' })
+    const design = prepareNestedDesign(nestedColumnsFromTable(machines, 'score', ['Worker'], 'Machine'), {
+      reference: 'C',
+    })
     const r = pairwiseContrasts(design, fitNestedReml(design))
     expect(r.map((c) => `${c.a}-${c.b}`)).toEqual(['A-C', 'B-C', 'B-A'])
     expect(r[0].estimate).toBeCloseTo(-13.91667, 5)

@@ -3,13 +3,33 @@ import { planDesign } from './plan-design'
 import { clusterPower } from './cluster-power'
 
 /** Exhaustive search, the slow way, to check the fast one (common practice, no source). */
-function bruteForce(input: { icc: number; variance: number; difference: number; costPerUnit: number; costPerObs: number; arms?: number }, maxObs: number) {
+function bruteForce(
+  input: {
+    icc: number
+    variance: number
+    difference: number
+    costPerUnit: number
+    costPerObs: number
+    arms?: number
+  },
+  maxObs: number,
+) {
   const arms = input.arms ?? 2
   const alpha = 0.05 / ((arms * (arms - 1)) / 2)
   let best: { k: number; m: number; cost: number } | null = null
   for (let m = 1; m <= maxObs; m++) {
     let k = 2
-    while (clusterPower({ unitsPerArm: k, obsPerUnit: m, difference: input.difference, variance: input.variance, icc: input.icc, alpha }).power < 0.8) k++
+    while (
+      clusterPower({
+        unitsPerArm: k,
+        obsPerUnit: m,
+        difference: input.difference,
+        variance: input.variance,
+        icc: input.icc,
+        alpha,
+      }).power < 0.8
+    )
+      k++
     const cost = arms * k * (input.costPerUnit + m * input.costPerObs)
     if (!best || cost < best.cost) best = { k, m, cost }
   }
@@ -49,10 +69,25 @@ describe('planDesign', () => {
   })
 
   it('respects limits and reports an infeasible plan honestly', () => {
-    const limited = planDesign({ icc: 0.1, variance: 5, difference: 1, costPerUnit: 100, costPerObs: 1, maxObsPerUnit: 8 })
+    const limited = planDesign({
+      icc: 0.1,
+      variance: 5,
+      difference: 1,
+      costPerUnit: 100,
+      costPerObs: 1,
+      maxObsPerUnit: 8,
+    })
     expect(limited.obsPerUnit).toBeLessThanOrEqual(8)
     expect(limited.achievedPower).toBeGreaterThanOrEqual(0.8)
-    const impossible = planDesign({ icc: 0.3, sdTotal: 10, difference: 2, costPerUnit: 500, costPerObs: 2, maxUnitsPerArm: 8, maxObsPerUnit: 50 })
+    const impossible = planDesign({
+      icc: 0.3,
+      sdTotal: 10,
+      difference: 2,
+      costPerUnit: 500,
+      costPerObs: 2,
+      maxUnitsPerArm: 8,
+      maxObsPerUnit: 50,
+    })
     expect(impossible.feasible).toBe(false)
     expect(impossible.unitsPerArm).toBe(8)
     expect(impossible.obsPerUnit).toBe(50)
@@ -64,7 +99,9 @@ describe('planDesign', () => {
     const ok = { icc: 0.1, variance: 5, difference: 1, costPerUnit: 100, costPerObs: 1 }
     expect(() => planDesign({ ...ok, arms: 1 })).toThrow(/at least two arms/)
     expect(() => planDesign({ ...ok, arms: 2.5 })).toThrow(/arms/)
-    expect(() => planDesign({ ...ok, maxUnitsPerArm: 1 })).toThrow(/maxUnitsPerArm must be a whole number of at least 2/)
+    expect(() => planDesign({ ...ok, maxUnitsPerArm: 1 })).toThrow(
+      /maxUnitsPerArm must be a whole number of at least 2/,
+    )
     expect(() => planDesign({ ...ok, maxObsPerUnit: 0 })).toThrow(/maxObsPerUnit/)
     expect(() => planDesign({ ...ok, power: 1.2 })).toThrow(/target power/)
     expect(() => planDesign({ ...ok, alpha: 1 })).toThrow(/alpha/)

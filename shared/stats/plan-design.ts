@@ -93,14 +93,20 @@ export function planDesign(input: PlanDesignInput): PlanDesignResult {
     throw new EngineInputError(`planDesign: alpha must be between 0 and 1, got ${alpha}`)
   }
   if (typeof target !== 'number' || !(target > alpha && target < 1)) {
-    throw new EngineInputError(`planDesign: the target power must be between alpha (${alpha}) and 1, got ${target}`)
+    throw new EngineInputError(
+      `planDesign: the target power must be between alpha (${alpha}) and 1, got ${target}`,
+    )
   }
   const { maxUnitsPerArm, maxObsPerUnit } = input
   if (maxUnitsPerArm !== undefined && !(Number.isInteger(maxUnitsPerArm) && maxUnitsPerArm >= 2)) {
-    throw new EngineInputError(`planDesign: maxUnitsPerArm must be a whole number of at least 2, got ${maxUnitsPerArm}`)
+    throw new EngineInputError(
+      `planDesign: maxUnitsPerArm must be a whole number of at least 2, got ${maxUnitsPerArm}`,
+    )
   }
   if (maxObsPerUnit !== undefined && !(Number.isInteger(maxObsPerUnit) && maxObsPerUnit >= 1)) {
-    throw new EngineInputError(`planDesign: maxObsPerUnit must be a whole number of at least 1, got ${maxObsPerUnit}`)
+    throw new EngineInputError(
+      `planDesign: maxObsPerUnit must be a whole number of at least 1, got ${maxObsPerUnit}`,
+    )
   }
   const alphaPerComparison = alpha / ((arms * (arms - 1)) / 2)
   const variance = totalVariance(input, 'planDesign')
@@ -112,16 +118,21 @@ export function planDesign(input: PlanDesignInput): PlanDesignResult {
   if (optimum.note) notes.push(optimum.note)
 
   const mStar = optimum.exact
-  const searchCap = maxObsPerUnit ?? (Number.isFinite(mStar) ? Math.max(20, Math.ceil(4 * mStar)) : DEFAULT_OBS_CAP)
+  const searchCap =
+    maxObsPerUnit ?? (Number.isFinite(mStar) ? Math.max(20, Math.ceil(4 * mStar)) : DEFAULT_OBS_CAP)
   if (maxObsPerUnit === undefined && !Number.isFinite(mStar)) {
-    notes.push(`Observations per unit were searched up to ${DEFAULT_OBS_CAP}; set a limit to search a different range.`)
+    notes.push(
+      `Observations per unit were searched up to ${DEFAULT_OBS_CAP}; set a limit to search a different range.`,
+    )
   }
 
   const powerAt = (k: number, m: number) =>
-    clusterPower({ unitsPerArm: k, obsPerUnit: m, difference, variance, icc, alpha: alphaPerComparison }).power
+    clusterPower({ unitsPerArm: k, obsPerUnit: m, difference, variance, icc, alpha: alphaPerComparison })
+      .power
   const costOf = (k: number, m: number) => arms * k * (costPerUnit + m * costPerObs)
   const z = jStat.normal.inv(1 - alphaPerComparison / 2, 0, 1) + jStat.normal.inv(target, 0, 1)
-  const approximateUnits = (m: number) => Math.max(2, (2 * (1 + (m - 1) * icc) * variance * z * z) / (m * difference * difference))
+  const approximateUnits = (m: number) =>
+    Math.max(2, (2 * (1 + (m - 1) * icc) * variance * z * z) / (m * difference * difference))
 
   const ranked: { m: number; cost: number }[] = []
   for (let m = 1; m <= searchCap; m++) ranked.push({ m, cost: costOf(approximateUnits(m), m) })
@@ -131,8 +142,15 @@ export function planDesign(input: PlanDesignInput): PlanDesignResult {
 
   let best: { k: number; m: number; power: number; cost: number } | null = null
   for (const { m } of candidates) {
-    const k = smallestUnits(m, Math.ceil(approximateUnits(m)), target, maxUnitsPerArm, powerAt, () =>
-      unitsNeeded({ obsPerUnit: m, difference, variance, icc, alpha: alphaPerComparison, power: target }).unitsPerArm,
+    const k = smallestUnits(
+      m,
+      Math.ceil(approximateUnits(m)),
+      target,
+      maxUnitsPerArm,
+      powerAt,
+      () =>
+        unitsNeeded({ obsPerUnit: m, difference, variance, icc, alpha: alphaPerComparison, power: target })
+          .unitsPerArm,
     )
     if (k === null) continue
     const cost = costOf(k, m)
@@ -153,8 +171,10 @@ export function planDesign(input: PlanDesignInput): PlanDesignResult {
       `No design within ${k} units per arm and ${m} observations per unit reaches power ${target}; the most powerful one reaches ${best.power.toFixed(3)}.`,
     )
   } else {
-    if (maxUnitsPerArm !== undefined && best.k === maxUnitsPerArm) notes.push('The limit on units per arm is binding.')
-    if (maxObsPerUnit !== undefined && best.m === maxObsPerUnit) notes.push('The limit on observations per unit is binding.')
+    if (maxUnitsPerArm !== undefined && best.k === maxUnitsPerArm)
+      notes.push('The limit on units per arm is binding.')
+    if (maxObsPerUnit !== undefined && best.m === maxObsPerUnit)
+      notes.push('The limit on observations per unit is binding.')
   }
   if (arms > 2) {
     notes.push(

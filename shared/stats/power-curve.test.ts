@@ -25,10 +25,14 @@ describe('powerCurve', () => {
   it('refuses empty, oversized or impossible grids', () => {
     const base = { icc: 0.1, variance: 5, difference: 1 }
     expect(() => powerCurve({ ...base, kValues: [], mValues: [5] })).toThrow(/at least one value/)
-    expect(() => powerCurve({ ...base, kValues: Array(200).fill(5), mValues: Array(100).fill(5) })).toThrow(/at most 10000 grid points/)
+    expect(() => powerCurve({ ...base, kValues: Array(200).fill(5), mValues: Array(100).fill(5) })).toThrow(
+      /at most 10000 grid points/,
+    )
     expect(() => powerCurve({ ...base, kValues: [1], mValues: [5] })).toThrow(/at least two units per arm/)
     expect(() => powerCurve({ ...base, kValues: [4], mValues: [0] })).toThrow(/at least one observation/)
     expect(() => powerCurve({ ...base, kValues: [4], mValues: [5], arms: 1 })).toThrow(/at least two arms/)
-    expect(() => powerCurve({ icc: 0.1, difference: 1, kValues: [4], mValues: [5] })).toThrow(/exactly one of sdTotal or variance/)
+    expect(() => powerCurve({ icc: 0.1, difference: 1, kValues: [4], mValues: [5] })).toThrow(
+      /exactly one of sdTotal or variance/,
+    )
   })
 })

@@ -52,10 +52,14 @@ const MAX_POINTS = 10_000
 export function powerCurve(input: PowerCurveInput): PowerCurveResult {
   const { kValues, mValues } = input ?? ({} as PowerCurveInput)
   if (!Array.isArray(kValues) || kValues.length === 0 || !Array.isArray(mValues) || mValues.length === 0) {
-    throw new EngineInputError('powerCurve requires at least one value of units per arm and one of observations per unit')
+    throw new EngineInputError(
+      'powerCurve requires at least one value of units per arm and one of observations per unit',
+    )
   }
   if (kValues.length * mValues.length > MAX_POINTS) {
-    throw new EngineInputError(`powerCurve: at most ${MAX_POINTS} grid points, got ${kValues.length * mValues.length}`)
+    throw new EngineInputError(
+      `powerCurve: at most ${MAX_POINTS} grid points, got ${kValues.length * mValues.length}`,
+    )
   }
   const arms = input.arms ?? 2
   if (!Number.isInteger(arms) || arms < 2) {
@@ -70,9 +74,18 @@ export function powerCurve(input: PowerCurveInput): PowerCurveResult {
   const power = kValues.map((k) =>
     mValues.map(
       (m) =>
-        clusterPower({ unitsPerArm: k, obsPerUnit: m, difference: input.difference, variance, icc: input.icc, alpha: alphaPerComparison }).power,
+        clusterPower({
+          unitsPerArm: k,
+          obsPerUnit: m,
+          difference: input.difference,
+          variance,
+          icc: input.icc,
+          alpha: alphaPerComparison,
+        }).power,
     ),
   )
-  const points = kValues.flatMap((k, i) => mValues.map((m, j) => ({ unitsPerArm: k, obsPerUnit: m, power: power[i][j] })))
+  const points = kValues.flatMap((k, i) =>
+    mValues.map((m, j) => ({ unitsPerArm: k, obsPerUnit: m, power: power[i][j] })),
+  )
   return { kValues: [...kValues], mValues: [...mValues], power, points, alphaPerComparison }
 }

@@ -51,13 +51,26 @@ describe('prepareNestedDesign', () => {
     const cell = d.randomLevels[2]
     expect(cell.name).toBe('animal:condition')
     expect(cell.inserted).toBe(true)
-    expect(cell.unitLabels).toEqual(['A/1/ctl', 'A/1/drug', 'A/2/ctl', 'A/2/drug', 'B/1/ctl', 'B/1/drug', 'B/2/ctl', 'B/2/drug'])
+    expect(cell.unitLabels).toEqual([
+      'A/1/ctl',
+      'A/1/drug',
+      'A/2/ctl',
+      'A/2/drug',
+      'B/1/ctl',
+      'B/1/drug',
+      'B/2/ctl',
+      'B/2/drug',
+    ])
     expect([...cell.parentOfUnit]).toEqual([0, 0, 1, 1, 2, 2, 3, 3])
     expect(cell.unitOfObs[8]).toBe(7)
   })
 
   it('leaves the unit × condition level out when each cell holds one observation', () => {
-    const t = { lab: ['A', 'A', 'B', 'B', 'C', 'C'], dose: ['c', 'd', 'c', 'd', 'c', 'd'], y: [1, 2, 3, 5, 4, 4] }
+    const t = {
+      lab: ['A', 'A', 'B', 'B', 'C', 'C'],
+      dose: ['c', 'd', 'c', 'd', 'c', 'd'],
+      y: [1, 2, 3, 5, 4, 4],
+    }
     const d = prepareNestedDesign(nestedColumnsFromTable(t, 'y', ['lab'], 'dose'))
     expect(d.randomLevels.map((l) => l.name)).toEqual(['lab'])
     expect(d.conditionLevel).toBeNull()
@@ -81,8 +94,10 @@ describe('prepareNestedDesign', () => {
     // Numbering follows the factor's label order, so give both the same label lists.
     expect(b.randomLevels[1].unitLabels).toEqual(['B/2', 'B/1', 'A/2', 'A/1'])
     const sameLabels = nestedColumnsFromTable(shuffled, 'y', ['lab', 'animal'])
-    const reorder = (f: (typeof sameLabels.levels)[0], labels: string[]) =>
-      (f.codes = f.codes.map((c) => labels.indexOf(f.labels[c])), (f.labels = labels))
+    const reorder = (f: (typeof sameLabels.levels)[0], labels: string[]) => (
+      (f.codes = f.codes.map((c) => labels.indexOf(f.labels[c]))),
+      (f.labels = labels)
+    )
     reorder(sameLabels.levels[0], ['A', 'B'])
     reorder(sameLabels.levels[1], ['1', '2'])
     const c = prepareNestedDesign(sameLabels)
@@ -100,25 +115,47 @@ describe('prepareNestedDesign', () => {
     }
     it('needs a level', () => fails((c) => (c.levels = []), /At least one nesting level/))
     it('needs columns of equal length', () =>
-      fails((c) => (c.levels[0].codes = c.levels[0].codes.slice(1)), /"lab" has 8 values but the response has 9/))
+      fails(
+        (c) => (c.levels[0].codes = c.levels[0].codes.slice(1)),
+        /"lab" has 8 values but the response has 9/,
+      ))
     it('rejects an infinite response', () => fails((c) => (c.response[4] = Infinity), /infinite in row 5/))
-    it('rejects codes outside the label list', () => fails((c) => (c.levels[1].codes[0] = 7), /"animal" has no valid label in row 1/))
+    it('rejects codes outside the label list', () =>
+      fails((c) => (c.levels[1].codes[0] = 7), /"animal" has no valid label in row 1/))
     it('needs two observations', () =>
       fails((c) => c.response.fill(NaN, 1), /Only 1 row\(s\) have a response value; at least 2 are needed/))
     it('needs two outermost units', () =>
-      fails((c) => (c.levels[0].codes = c.levels[0].codes.fill(0)), /"lab" has only 1 unit; at least 2 are needed/))
+      fails(
+        (c) => (c.levels[0].codes = c.levels[0].codes.fill(0)),
+        /"lab" has only 1 unit; at least 2 are needed/,
+      ))
     it('rejects a level with one child per parent', () =>
-      fails((c) => (c.levels = [c.levels[0], { ...c.levels[0], name: 'lab2' }]), /Each "lab" holds a single "lab2"/))
+      fails(
+        (c) => (c.levels = [c.levels[0], { ...c.levels[0], name: 'lab2' }]),
+        /Each "lab" holds a single "lab2"/,
+      ))
     it('rejects a level with one observation per unit', () =>
       fails(
-        (c) => (c.levels[1] = { name: 'cell', labels: table.y.map(String), codes: Int32Array.from(table.y.keys()) }),
+        (c) =>
+          (c.levels[1] = {
+            name: 'cell',
+            labels: table.y.map(String),
+            codes: Int32Array.from(table.y.keys()),
+          }),
         /Each "cell" unit has a single observation/,
       ))
-    it('rejects an unknown reference', () => fails(() => {}, /reference condition "placebo" does not occur/, { reference: 'placebo' }))
+    it('rejects an unknown reference', () =>
+      fails(() => {}, /reference condition "placebo" does not occur/, { reference: 'placebo' }))
     it('needs two condition labels', () =>
-      fails((c) => (c.condition = { name: 'dose', labels: ['ctl'], codes: new Int32Array(9) }), /only 1 label/))
+      fails(
+        (c) => (c.condition = { name: 'dose', labels: ['ctl'], codes: new Int32Array(9) }),
+        /only 1 label/,
+      ))
     it('needs observations for every condition label', () =>
-      fails((c) => (c.condition!.labels = [...c.condition!.labels, 'unused']), /no observations with a response for: unused/))
+      fails(
+        (c) => (c.condition!.labels = [...c.condition!.labels, 'unused']),
+        /no observations with a response for: unused/,
+      ))
     it('rejects duplicate and reserved names', () => {
       fails((c) => (c.levels[1] = { ...c.levels[1], name: 'lab' }), /"lab" is used twice/)
       fails((c) => (c.levels[1] = { ...c.levels[1], name: 'residual' }), /named "residual"/)

@@ -63,7 +63,10 @@ export function prepareNestedDesign(
     const v = response[r]
     if (v !== v) continue // NaN: missing response
     if (v === Infinity || v === -Infinity) {
-      throw new EngineInputError(`The response "${columns.responseName}" is infinite in row ${r + 1}.`, columns.responseName)
+      throw new EngineInputError(
+        `The response "${columns.responseName}" is infinite in row ${r + 1}.`,
+        columns.responseName,
+      )
     }
     kept[nObs++] = r
   }
@@ -124,7 +127,10 @@ function checkNames(levels: Factor[], condition: Factor | null): void {
   const seen = new Set<string>()
   for (const f of condition ? [...levels, condition] : levels) {
     if (f.name === 'residual') {
-      throw new EngineInputError('A column named "residual" clashes with the residual variance; rename it.', f.name)
+      throw new EngineInputError(
+        'A column named "residual" clashes with the residual variance; rename it.',
+        f.name,
+      )
     }
     if (seen.has(f.name)) throw new EngineInputError(`The column "${f.name}" is used twice.`, f.name)
     seen.add(f.name)
@@ -163,7 +169,8 @@ function nestLevel(
   const nLabels = labels.length
   const nParents = parent ? parent.nUnits : 1
   const slots = nParents * nLabels
-  if (slots > Number.MAX_SAFE_INTEGER) throw new EngineInputError(`The level "${name}" has too many units.`, name)
+  if (slots > Number.MAX_SAFE_INTEGER)
+    throw new EngineInputError(`The level "${name}" has too many units.`, name)
   const parentOf = parent ? parent.unitOfObs : new Int32Array(nObs)
 
   const unitOfObs = new Int32Array(nObs)
@@ -231,7 +238,11 @@ function labelsUnderSeveralParents(level: RandomLevel, codes: Int32Array, labels
   return repeated
 }
 
-function codeCondition(condition: Factor, rowOfObs: Int32Array, reference: string | undefined): ConditionCoding {
+function codeCondition(
+  condition: Factor,
+  rowOfObs: Int32Array,
+  reference: string | undefined,
+): ConditionCoding {
   const { name, labels } = condition
   const refLabel = reference ?? labels[0]
   const refIndex = labels.indexOf(refLabel)
@@ -239,7 +250,10 @@ function codeCondition(condition: Factor, rowOfObs: Int32Array, reference: strin
     throw new EngineInputError(`The reference condition "${reference}" does not occur in "${name}".`, name)
   }
   if (labels.length < 2) {
-    throw new EngineInputError(`The condition "${name}" has only ${labels.length} label; at least 2 are needed.`, name)
+    throw new EngineInputError(
+      `The condition "${name}" has only ${labels.length} label; at least 2 are needed.`,
+      name,
+    )
   }
   const order = [refIndex, ...labels.map((_, i) => i).filter((i) => i !== refIndex)]
   const newCode = new Int32Array(labels.length)

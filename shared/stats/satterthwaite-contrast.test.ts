@@ -66,11 +66,19 @@ describe('satterthwaiteContrast', () => {
     const shuffled = Object.fromEntries(Object.entries(machines).map(([k, v]) => [k, order.map((i) => v[i])]))
     const s = setup(shuffled, 'score', ['Worker'], 'Machine')
     // Labels appear in another order after shuffling: fix the reference so the coding matches.
-    const s2 = { design: prepareNestedDesign(nestedColumnsFromTable(shuffled, 'score', ['Worker'], 'Machine'), { reference: 'A' }) }
+    const s2 = {
+      design: prepareNestedDesign(nestedColumnsFromTable(shuffled, 'score', ['Worker'], 'Machine'), {
+        reference: 'A',
+      }),
+    }
     const fit2 = fitNestedReml(s2.design)
     const iB = s2.design.condition!.labels.indexOf('B')
     const a = satterthwaiteContrast(m.design, m.fit, [1, 1, 0])
-    const b = satterthwaiteContrast(s2.design, fit2, fit2.beta.map((_, i) => (i === 0 || i === iB ? 1 : 0)))
+    const b = satterthwaiteContrast(
+      s2.design,
+      fit2,
+      fit2.beta.map((_, i) => (i === 0 || i === iB ? 1 : 0)),
+    )
     expect(b.estimate).toBeCloseTo(a.estimate, 9)
     expect(b.df).toBeCloseTo(a.df, 6)
     expect(s.fit.remlCriterion).toBeCloseTo(m.fit.remlCriterion, 9)

@@ -39,9 +39,12 @@ export function satterthwaiteContrast(
 ): SatterthwaiteContrastResult {
   const p = fit.beta.length
   if (L.length !== p || !L.every(Number.isFinite)) {
-    throw new EngineInputError(`A contrast needs ${p} finite coefficients, one per fixed effect; got ${L.length}.`)
+    throw new EngineInputError(
+      `A contrast needs ${p} finite coefficients, one per fixed effect; got ${L.length}.`,
+    )
   }
-  if (L.every((v) => v === 0)) throw new EngineInputError('A contrast must have at least one non-zero coefficient.')
+  if (L.every((v) => v === 0))
+    throw new EngineInputError('A contrast must have at least one non-zero coefficient.')
   const ingredients = satterthwaiteIngredients(design, fit)
   const estimate = L.reduce((s, v, i) => s + v * fit.beta[i], 0)
   const variance = quadraticForm(L, fit.vcovBeta)

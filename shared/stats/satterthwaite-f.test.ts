@@ -14,7 +14,10 @@ describe('satterthwaiteF', () => {
   it('matches lmerTest anova() on Machines', () => {
     // Machines (nlme), lmerTest 3.1-3 anova(m) (rows [0 1 -0.5; 0 0 1]): F 20.57608, NumDF 2,
     // DenDF 10.0, p 0.00028555.
-    const r = satterthwaiteF(design, fit, [[0, 1, -0.5], [0, 0, 1]])
+    const r = satterthwaiteF(design, fit, [
+      [0, 1, -0.5],
+      [0, 0, 1],
+    ])
     expect(r.f).toBeCloseTo(20.57608, 4)
     expect(r.df1).toBe(2)
     expect(r.df2).toBeCloseTo(10, 5)
@@ -23,8 +26,14 @@ describe('satterthwaiteF', () => {
 
   it('does not depend on the basis of the rows for F', () => {
     // Common practice, no source: F is a property of the row space.
-    const a = satterthwaiteF(design, fit, [[0, 1, 0], [0, 0, 1]])
-    const b = satterthwaiteF(design, fit, [[0, 1, -1], [0, 1, 1]])
+    const a = satterthwaiteF(design, fit, [
+      [0, 1, 0],
+      [0, 0, 1],
+    ])
+    const b = satterthwaiteF(design, fit, [
+      [0, 1, -1],
+      [0, 1, 1],
+    ])
     expect(b.f).toBeCloseTo(a.f, 10)
   })
 
@@ -39,7 +48,10 @@ describe('satterthwaiteF', () => {
 
   it('counts the rank, not the rows', () => {
     // Kuznetsova et al. 2017, §3.3: the numerator df is the rank of L C Lᵀ.
-    const r = satterthwaiteF(design, fit, [[0, 1, 0], [0, 2, 0]])
+    const r = satterthwaiteF(design, fit, [
+      [0, 1, 0],
+      [0, 2, 0],
+    ])
     expect(r.df1).toBe(1)
   })
 

@@ -45,14 +45,18 @@ export function satterthwaiteF(design: NestedDesign, fit: NestedFit, L: number[]
     }
   }
   const ingredients = satterthwaiteIngredients(design, fit)
-  const LC = L.map((row) => fit.vcovBeta.map((_, j) => row.reduce((s, v, k) => s + v * fit.vcovBeta[k][j], 0)))
+  const LC = L.map((row) =>
+    fit.vcovBeta.map((_, j) => row.reduce((s, v, k) => s + v * fit.vcovBeta[k][j], 0)),
+  )
   const VL = L.map((_, a) => L.map((rowB) => LC[a].reduce((s, v, j) => s + v * rowB[j], 0)))
   const { values, vectors } = symmetricEigen(VL)
   const tol = Math.max(RANK_TOL * values[0], 0)
   const q = values.filter((d) => d > tol).length
   if (q === 0) throw new EngineInputError('The contrast rows test nothing (their covariance has rank 0).')
 
-  const rotated = vectors.slice(0, q).map((vec) => fit.beta.map((_, j) => L.reduce((s, row, a) => s + vec[a] * row[j], 0)))
+  const rotated = vectors
+    .slice(0, q)
+    .map((vec) => fit.beta.map((_, j) => L.reduce((s, row, a) => s + vec[a] * row[j], 0)))
   let sumT2 = 0
   const nu = rotated.map((u, m) => {
     const est = u.reduce((s, v, j) => s + v * fit.beta[j], 0)
@@ -67,7 +71,8 @@ export function satterthwaiteF(design: NestedDesign, fit: NestedFit, L: number[]
 
 function denominatorDf(nu: number[]): number {
   if (nu.length === 1) return nu[0]
-  if (nu.every((v, i) => i === 0 || Math.abs(v - nu[i - 1]) < 1e-8)) return nu.reduce((s, v) => s + v, 0) / nu.length
+  if (nu.every((v, i) => i === 0 || Math.abs(v - nu[i - 1]) < 1e-8))
+    return nu.reduce((s, v) => s + v, 0) / nu.length
   if (nu.some((v) => v <= 2)) return 2
   const E = nu.reduce((s, v) => s + v / (v - 2), 0)
   return (2 * E) / (E - nu.length)

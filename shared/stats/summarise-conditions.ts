@@ -57,7 +57,9 @@ export function summariseConditions(
         design.condition?.name ?? null,
       )
     }
-    const deff = nestedDesignEffect(sizes.map((bySize, l) => ({ unitSizes: bySize[c], share: shares[l] }))).deff
+    const deff = nestedDesignEffect(
+      sizes.map((bySize, l) => ({ unitSizes: bySize[c], share: shares[l] })),
+    ).deff
     const naiveSe = Math.sqrt(squares[c] / (n[c] - 1) / n[c])
     const naiveHalf = jStat.studentt.inv(tail, n[c] - 1) * naiveSe
     const model = modelMeans[c]
@@ -69,7 +71,13 @@ export function summariseConditions(
       designEffect: deff,
       mean: mean[c],
       naive: { se: naiveSe, df: n[c] - 1, ciLow: mean[c] - naiveHalf, ciHigh: mean[c] + naiveHalf },
-      clustered: { estimate: model.mean, se: model.se, df: model.df, ciLow: model.ciLower, ciHigh: model.ciUpper },
+      clustered: {
+        estimate: model.mean,
+        se: model.se,
+        df: model.df,
+        ciLow: model.ciLower,
+        ciHigh: model.ciUpper,
+      },
     }
   })
 }

@@ -8,7 +8,9 @@ describe('totalVariance', () => {
   })
 
   it('requires exactly one positive value', () => {
-    expect(() => totalVariance({}, 'clusterPower')).toThrow(/clusterPower requires exactly one of sdTotal or variance/)
+    expect(() => totalVariance({}, 'clusterPower')).toThrow(
+      /clusterPower requires exactly one of sdTotal or variance/,
+    )
     expect(() => totalVariance({ sdTotal: 1, variance: 1 }, 'x')).toThrow(/exactly one/)
     expect(() => totalVariance({ sdTotal: 0 }, 'x')).toThrow(/sdTotal must be a positive number/)
     expect(() => totalVariance({ variance: -2 }, 'x')).toThrow(/variance must be a positive number/)

@@ -27,7 +27,9 @@ export function totalVariance(spread: TotalSpread, caller: string): number {
   }
   const value = hasSd ? spread.sdTotal : spread.variance
   if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) {
-    throw new EngineInputError(`${caller}: ${hasSd ? 'sdTotal' : 'variance'} must be a positive number, got ${value}`)
+    throw new EngineInputError(
+      `${caller}: ${hasSd ? 'sdTotal' : 'variance'} must be a positive number, got ${value}`,
+    )
   }
   return hasSd ? value * value : value
 }

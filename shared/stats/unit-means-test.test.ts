@@ -42,8 +42,23 @@ describe('unitMeansTest', () => {
     expect(() => unitMeansTest([sleep1])).toThrow(/at least two conditions/)
     expect(() => unitMeansTest([sleep1, []])).toThrow(/condition 2 has no unit means/)
     expect(() => unitMeansTest([[1], [2]])).toThrow(/one unit per condition/)
-    expect(() => unitMeansTest([[1, 2], [Number.NaN, 3]])).toThrow(/condition 2 contains a value that is not a finite number/)
-    expect(() => unitMeansTest([[1, 1], [2, 2]])).toThrow(/do not vary within any condition/)
-    expect(() => unitMeansTest([[1, 1], [1, 1]])).toThrow(EngineInputError)
+    expect(() =>
+      unitMeansTest([
+        [1, 2],
+        [Number.NaN, 3],
+      ]),
+    ).toThrow(/condition 2 contains a value that is not a finite number/)
+    expect(() =>
+      unitMeansTest([
+        [1, 1],
+        [2, 2],
+      ]),
+    ).toThrow(/do not vary within any condition/)
+    expect(() =>
+      unitMeansTest([
+        [1, 1],
+        [1, 1],
+      ]),
+    ).toThrow(EngineInputError)
   })
 })

@@ -56,7 +56,9 @@ export function unitMeansTest(groups: number[][]): UnitMeansTestResult {
   }
   const anova = anovaOrExplain(groups)
   if (anova.msw === 0) {
-    throw new EngineInputError('unitMeansTest: the unit means do not vary within any condition, so the test is undefined')
+    throw new EngineInputError(
+      'unitMeansTest: the unit means do not vary within any condition, so the test is undefined',
+    )
   }
   if (groups.length > 2) {
     return { method: 'one-way-anova', f: anova.f, df1: anova.dfBetween, df2: anova.dfWithin, p: anova.p }
@@ -77,7 +79,9 @@ function anovaOrExplain(groups: number[][]) {
     return oneWayAnova(groups)
   } catch (error) {
     if (error instanceof EngineInputError) {
-      throw new EngineInputError(error.message.replace(/^oneWayAnova/, 'unitMeansTest').replace(/group/g, 'condition'))
+      throw new EngineInputError(
+        error.message.replace(/^oneWayAnova/, 'unitMeansTest').replace(/group/g, 'condition'),
+      )
     }
     throw error
   }

@@ -11,7 +11,9 @@ describe('unitSizeSummary', () => {
 
   it('names the caller in its errors', () => {
     expect(() => unitSizeSummary([], 'someCaller')).toThrow(/someCaller requires at least one unit size/)
-    expect(() => unitSizeSummary([1, -2], 'someCaller')).toThrow(/someCaller: every unit size must be a positive number/)
+    expect(() => unitSizeSummary([1, -2], 'someCaller')).toThrow(
+      /someCaller: every unit size must be a positive number/,
+    )
     expect(() => unitSizeSummary([1, Infinity], 'x')).toThrow(/positive number/)
   })
 })

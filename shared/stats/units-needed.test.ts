@@ -35,6 +35,8 @@ describe('unitsNeeded', () => {
     expect(() => unitsNeeded({ ...ok, power: 0.01 })).toThrow(/target power/)
     expect(() => unitsNeeded({ ...ok, difference: 0 })).toThrow(/non-zero/)
     expect(() => unitsNeeded({ ...ok, icc: -1 })).toThrow(/icc/)
-    expect(() => unitsNeeded({ ...ok, difference: 1e-6, icc: 1, power: 0.99 })).toThrow(/more than 10 million units/)
+    expect(() => unitsNeeded({ ...ok, difference: 1e-6, icc: 1, power: 0.99 })).toThrow(
+      /more than 10 million units/,
+    )
   })
 })

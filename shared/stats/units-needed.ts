@@ -50,7 +50,9 @@ export function unitsNeeded(input: UnitsNeededInput): UnitsNeededResult {
   const target = input?.power ?? 0.8
   const alpha = input?.alpha ?? 0.05
   if (typeof target !== 'number' || !(target > alpha && target < 1)) {
-    throw new EngineInputError(`unitsNeeded: the target power must be between alpha (${alpha}) and 1, got ${target}`)
+    throw new EngineInputError(
+      `unitsNeeded: the target power must be between alpha (${alpha}) and 1, got ${target}`,
+    )
   }
   const powerAt = (k: number) => clusterPower({ ...input, unitsPerArm: k, alpha }).power
   const atTwo = powerAt(2)
@@ -66,7 +68,9 @@ export function unitsNeeded(input: UnitsNeededInput): UnitsNeededResult {
     lowGap = highGap
     high *= 2
     if (high > MAX_UNITS) {
-      throw new EngineInputError('unitsNeeded: the target power needs more than 10 million units per arm; check the difference, spread and ICC')
+      throw new EngineInputError(
+        'unitsNeeded: the target power needs more than 10 million units per arm; check the difference, spread and ICC',
+      )
     }
     highGap = powerAt(high) - target
   }

@@ -31,11 +31,17 @@ describe('welchTest', () => {
   })
 
   it('refuses thin or malformed summaries', () => {
-    expect(() => welchTest({ n: 1, mean: 1, variance: 1 }, group2)).toThrow(/at least two observations in the first group/)
+    expect(() => welchTest({ n: 1, mean: 1, variance: 1 }, group2)).toThrow(
+      /at least two observations in the first group/,
+    )
     expect(() => welchTest(group1, { n: 2.5, mean: 1, variance: 1 })).toThrow(/second group/)
-    expect(() => welchTest({ n: 3, mean: Number.NaN, variance: 1 }, group2)).toThrow(/mean of the first group/)
+    expect(() => welchTest({ n: 3, mean: Number.NaN, variance: 1 }, group2)).toThrow(
+      /mean of the first group/,
+    )
     expect(() => welchTest(group1, { n: 3, mean: 1, variance: -1 })).toThrow(/variance of the second group/)
-    expect(() => welchTest({ n: 3, mean: 1, variance: 0 }, { n: 3, mean: 2, variance: 0 })).toThrow(/zero variance/)
+    expect(() => welchTest({ n: 3, mean: 1, variance: 0 }, { n: 3, mean: 2, variance: 0 })).toThrow(
+      /zero variance/,
+    )
     expect(() => welchTest(undefined as never, group2)).toThrow(/first group/)
   })
 })

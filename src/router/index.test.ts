@@ -9,10 +9,7 @@ import { createAppRouter } from './index'
 import { routes } from './routes'
 
 const Blank = { render: () => null }
-const testRoutes = [
-  { path: '/people', name: 'people', component: Blank, meta: { admin: true } },
-  ...routes,
-]
+const testRoutes = [{ path: '/people', name: 'people', component: Blank, meta: { admin: true } }, ...routes]
 
 function signedInAs(user: CurrentUser | null) {
   vi.stubGlobal(

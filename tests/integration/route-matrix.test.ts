@@ -140,7 +140,11 @@ const make = {
     return expectStatus(res, 201, 'share link').body.data.id
   },
   async plan(): Promise<number> {
-    const res = await apiOf('scientist').post('/api/v1/plans', { labId: w.labId, name: `Plan ${uniqueSuffix()}`, inputs: planInputs })
+    const res = await apiOf('scientist').post('/api/v1/plans', {
+      labId: w.labId,
+      name: `Plan ${uniqueSuffix()}`,
+      inputs: planInputs,
+    })
     return expectStatus(res, 201, 'plan').body.data.id
   },
   async failedMail(): Promise<number> {
@@ -155,7 +159,13 @@ const make = {
   },
 }
 
-const planInputs = { icc: 0.1, spread: { kind: 'total', sdTotal: 2 }, difference: 1, costPerUnit: 100, costPerObs: 1 }
+const planInputs = {
+  icc: 0.1,
+  spread: { kind: 'total', sdTotal: 2 },
+  difference: 1,
+  costPerUnit: 100,
+  costPerObs: 1,
+}
 const pl = (path = '') => `/api/v1/plans/${w.planId}${path}`
 
 const ds = (path = '') => `/api/v1/datasets/${w.datasetId}${path}`

@@ -44,7 +44,11 @@ interface Case {
 }
 
 const sim = (s: Omit<NestedSimulation, 'cells' | 'sd'> & Partial<NestedSimulation>): Table =>
-  simulateNestedTable({ cells: [2, 12], sd: { lab: 1, animal: 0.8, slice: 0.5, animalCondition: 0.6, residual: 1.5 }, ...s })
+  simulateNestedTable({
+    cells: [2, 12],
+    sd: { lab: 1, animal: 0.8, slice: 0.5, animalCondition: 0.6, residual: 1.5 },
+    ...s,
+  })
 
 const cases: Case[] = [
   // Public data sets (lme4 / nlme), see the fixture files for their sources.
@@ -53,26 +57,65 @@ const cases: Case[] = [
   { id: 'Pastes', table: pastes, response: 'strength', levels: ['batch', 'cask'] },
   { id: 'Rail', table: rail, response: 'travel', levels: ['Rail'] },
   { id: 'Oxide', table: oxide, response: 'Thickness', levels: ['Lot', 'Wafer'], condition: 'Source' },
-  { id: 'Machines', table: machines, response: 'score', levels: ['Worker'], condition: 'Machine', expectInserted: true },
-  { id: 'Oats', table: oats, response: 'yield', levels: ['Block'], condition: 'Variety', reference: 'Victory', expectInserted: true },
+  {
+    id: 'Machines',
+    table: machines,
+    response: 'score',
+    levels: ['Worker'],
+    condition: 'Machine',
+    expectInserted: true,
+  },
+  {
+    id: 'Oats',
+    table: oats,
+    response: 'yield',
+    levels: ['Block'],
+    condition: 'Variety',
+    reference: 'Victory',
+    expectInserted: true,
+  },
   // Simulated (seeded, invented): unbalanced, with missing responses and repeating animal labels.
   {
     id: 'sim-2level-between-2cond',
-    table: sim({ seed: 'two-level', labs: 7, animals: [2, 6], conditions: ['vehicle', 'compound'], means: [20, 21.5], conditionAt: 'animal', missing: 0.03 }),
+    table: sim({
+      seed: 'two-level',
+      labs: 7,
+      animals: [2, 6],
+      conditions: ['vehicle', 'compound'],
+      means: [20, 21.5],
+      conditionAt: 'animal',
+      missing: 0.03,
+    }),
     response: 'length',
     levels: ['lab', 'animal'],
     condition: 'condition',
   },
   {
     id: 'sim-3level-between-3cond',
-    table: sim({ seed: 'three-level', labs: 6, animals: [3, 5], slices: [1, 4], conditions: ['vehicle', 'low', 'high'], means: [20, 20.7, 22], conditionAt: 'animal' }),
+    table: sim({
+      seed: 'three-level',
+      labs: 6,
+      animals: [3, 5],
+      slices: [1, 4],
+      conditions: ['vehicle', 'low', 'high'],
+      means: [20, 20.7, 22],
+      conditionAt: 'animal',
+    }),
     response: 'length',
     levels: ['lab', 'animal', 'slice'],
     condition: 'condition',
   },
   {
     id: 'sim-within-animal-2cond',
-    table: sim({ seed: 'within', labs: 6, animals: [3, 6], conditions: ['vehicle', 'compound'], means: [20, 21], conditionAt: 'within', missing: 0.02 }),
+    table: sim({
+      seed: 'within',
+      labs: 6,
+      animals: [3, 6],
+      conditions: ['vehicle', 'compound'],
+      means: [20, 21],
+      conditionAt: 'within',
+      missing: 0.02,
+    }),
     response: 'length',
     levels: ['lab', 'animal'],
     condition: 'condition',
@@ -80,7 +123,14 @@ const cases: Case[] = [
   },
   {
     id: 'sim-within-animal-3cond',
-    table: sim({ seed: 'within-three', labs: 5, animals: [3, 5], conditions: ['vehicle', 'low', 'high'], means: [20, 20.4, 21.3], conditionAt: 'within' }),
+    table: sim({
+      seed: 'within-three',
+      labs: 5,
+      animals: [3, 5],
+      conditions: ['vehicle', 'low', 'high'],
+      means: [20, 20.4, 21.3],
+      conditionAt: 'within',
+    }),
     response: 'length',
     levels: ['lab', 'animal'],
     condition: 'condition',
@@ -89,7 +139,15 @@ const cases: Case[] = [
   },
   {
     id: 'sim-within-slice-3level',
-    table: sim({ seed: 'within-slice', labs: 4, animals: [2, 4], slices: [2, 3], conditions: ['vehicle', 'compound'], means: [20, 20.8], conditionAt: 'within' }),
+    table: sim({
+      seed: 'within-slice',
+      labs: 4,
+      animals: [2, 4],
+      slices: [2, 3],
+      conditions: ['vehicle', 'compound'],
+      means: [20, 20.8],
+      conditionAt: 'within',
+    }),
     response: 'length',
     levels: ['lab', 'animal', 'slice'],
     condition: 'condition',
@@ -97,7 +155,15 @@ const cases: Case[] = [
   },
   {
     id: 'sim-boundary-no-lab-variance',
-    table: sim({ seed: 'boundary-7', labs: 5, animals: [3, 5], sd: { lab: 0, animal: 0.8, residual: 1.5 }, conditions: ['vehicle', 'compound'], means: [20, 21], conditionAt: 'animal' }),
+    table: sim({
+      seed: 'boundary-7',
+      labs: 5,
+      animals: [3, 5],
+      sd: { lab: 0, animal: 0.8, residual: 1.5 },
+      conditions: ['vehicle', 'compound'],
+      means: [20, 21],
+      conditionAt: 'animal',
+    }),
     response: 'length',
     levels: ['lab', 'animal'],
     condition: 'condition',
@@ -105,14 +171,29 @@ const cases: Case[] = [
   },
   {
     id: 'sim-condition-between-labs',
-    table: sim({ seed: 'per-lab', labs: 8, animals: [2, 5], conditions: ['vehicle', 'compound'], means: [20, 22], conditionAt: 'lab' }),
+    table: sim({
+      seed: 'per-lab',
+      labs: 8,
+      animals: [2, 5],
+      conditions: ['vehicle', 'compound'],
+      means: [20, 22],
+      conditionAt: 'lab',
+    }),
     response: 'length',
     levels: ['lab', 'animal'],
     condition: 'condition',
   },
   {
     id: 'sim-large-offset',
-    table: sim({ seed: 'offset', labs: 6, animals: [2, 5], sd: { lab: 0.02, animal: 0.01, residual: 0.03 }, conditions: ['vehicle', 'compound'], means: [1e5, 1e5 + 0.02], conditionAt: 'animal' }),
+    table: sim({
+      seed: 'offset',
+      labs: 6,
+      animals: [2, 5],
+      sd: { lab: 0.02, animal: 0.01, residual: 0.03 },
+      conditions: ['vehicle', 'compound'],
+      means: [1e5, 1e5 + 0.02],
+      conditionAt: 'animal',
+    }),
     response: 'length',
     levels: ['lab', 'animal'],
     condition: 'condition',
@@ -168,13 +249,19 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
     const specPath = join(dir, 'spec.json')
     writeFileSync(specPath, JSON.stringify(specs))
     const script = join(dirname(fileURLToPath(import.meta.url)), 'lmer-reference.R')
-    const out = execFileSync('Rscript', [script, specPath], { encoding: 'utf8', timeout: 120_000, maxBuffer: 1 << 26 })
+    const out = execFileSync('Rscript', [script, specPath], {
+      encoding: 'utf8',
+      timeout: 120_000,
+      maxBuffer: 1 << 26,
+    })
     reference = JSON.parse(out)
   }, 120_000)
 
   afterAll(() => {
     rmSync(dir, { recursive: true, force: true })
-    const lines = [...worst.entries()].map(([q, w]) => `  ${q.padEnd(22)} ${w.rel.toExponential(2)}  (${w.where})`)
+    const lines = [...worst.entries()].map(
+      ([q, w]) => `  ${q.padEnd(22)} ${w.rel.toExponential(2)}  (${w.where})`,
+    )
     if (lines.length) console.log(`lmer-reference: largest differences per quantity\n${lines.join('\n')}`)
   })
 
@@ -195,12 +282,18 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
       if (c.expectInserted !== undefined) expect(design.randomLevels.at(-1)!.inserted).toBe(c.expectInserted)
 
       // Variance components: lme4 VarCorr groups u1, u2, … are our random levels in order.
-      const refVar = new Map<string, number>(ref.components.map((x: { group: string; variance: number }) => [x.group, x.variance]))
-      design.randomLevels.forEach((level, l) => agree('variance', `${c.id}/${level.name}`, fit.components[l].variance, refVar.get(`u${l + 1}`)!))
+      const refVar = new Map<string, number>(
+        ref.components.map((x: { group: string; variance: number }) => [x.group, x.variance]),
+      )
+      design.randomLevels.forEach((level, l) =>
+        agree('variance', `${c.id}/${level.name}`, fit.components[l].variance, refVar.get(`u${l + 1}`)!),
+      )
       agree('variance', `${c.id}/residual`, fit.sigma2, refVar.get('Residual')!)
       agree('REML criterion', c.id, fit.remlCriterion, ref.remlCriterion)
       fit.beta.forEach((b, i) => agree('fixed effect', `${c.id}/${fit.betaNames[i]}`, b, ref.beta[i]))
-      fit.vcovBeta.forEach((row, i) => agree('fixed-effect SE', `${c.id}/${fit.betaNames[i]}`, Math.sqrt(row[i]), ref.se[i]))
+      fit.vcovBeta.forEach((row, i) =>
+        agree('fixed-effect SE', `${c.id}/${fit.betaNames[i]}`, Math.sqrt(row[i]), ref.se[i]),
+      )
 
       conditionMeans(design, fit).forEach((m, j) => {
         const r = ref.means[j]
@@ -240,7 +333,11 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
 /** The CSV for R: response, condition and one path-keyed unit id column per random level. */
 function referenceCsv(c: Case, design: NestedDesign): string {
   const n = c.table[c.response].length
-  const header = [c.response, ...(c.condition ? [c.condition] : []), ...design.randomLevels.map((_, l) => `u${l + 1}`)]
+  const header = [
+    c.response,
+    ...(c.condition ? [c.condition] : []),
+    ...design.randomLevels.map((_, l) => `u${l + 1}`),
+  ]
   const rows = [header.join(',')]
   for (let r = 0; r < n; r++) {
     const y = Number(c.table[c.response][r])
@@ -249,7 +346,13 @@ function referenceCsv(c: Case, design: NestedDesign): string {
       path.push(String(level.inserted ? c.table[c.condition!][r] : c.table[level.name][r]))
       return quote(path.join('/'))
     })
-    rows.push([Number.isNaN(y) ? 'NA' : String(y), ...(c.condition ? [quote(String(c.table[c.condition][r]))] : []), ...ids].join(','))
+    rows.push(
+      [
+        Number.isNaN(y) ? 'NA' : String(y),
+        ...(c.condition ? [quote(String(c.table[c.condition][r]))] : []),
+        ...ids,
+      ].join(','),
+    )
   }
   return rows.join('\n') + '\n'
 }

@@ -49,7 +49,10 @@ export function simulateNestedTable(sim: NestedSimulation): SimulatedTable {
       let conditions: number[]
       if (sim.conditionAt === 'lab') conditions = [labCondition]
       else if (sim.conditionAt === 'animal') conditions = [animalCondition]
-      else conditions = sim.conditions.map((_, c) => c).filter((c) => c === animalCondition || c === (animalCondition + 1) % k || rng() < 0.6)
+      else
+        conditions = sim.conditions
+          .map((_, c) => c)
+          .filter((c) => c === animalCondition || c === (animalCondition + 1) % k || rng() < 0.6)
       const nSlices = sim.slices ? int(sim.slices) : 1
       for (let s = 0; s < nSlices; s++) {
         const sliceEffect = sim.slices ? normal(sim.sd.slice ?? 0) : 0
@@ -57,7 +60,8 @@ export function simulateNestedTable(sim: NestedSimulation): SimulatedTable {
           const cellEffect = normal(sim.sd.animalCondition ?? 0)
           const nCells = int(sim.cells)
           for (let i = 0; i < nCells; i++) {
-            const value = sim.means[c] + labEffect + animalEffect + sliceEffect + cellEffect + normal(sim.sd.residual)
+            const value =
+              sim.means[c] + labEffect + animalEffect + sliceEffect + cellEffect + normal(sim.sd.residual)
             table.lab.push(`L${l + 1}`)
             table.animal.push(String(a + 1))
             table.slice.push(`s${s + 1}`)

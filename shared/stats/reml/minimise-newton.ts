@@ -36,7 +36,8 @@ export function minimiseNewton(
   const maxIterations = opts.maxIterations ?? 200
   let x = [...x0]
   let fx = f(x)
-  if (!Number.isFinite(fx) || idx.length === 0) return { x, f: fx, iterations: 0, converged: idx.length === 0 }
+  if (!Number.isFinite(fx) || idx.length === 0)
+    return { x, f: fx, iterations: 0, converged: idx.length === 0 }
 
   let converged = false
   let iterations = 0
@@ -122,7 +123,22 @@ function derivatives(f: (x: number[]) => number, x: number[], fx: number, idx: n
     H[j][j] = (fp - 2 * fx + fm) / (h[j] * h[j])
     for (let l = 0; l < j; l++) {
       const v =
-        (at([[j, h[j]], [l, h[l]]]) - at([[j, h[j]], [l, -h[l]]]) - at([[j, -h[j]], [l, h[l]]]) + at([[j, -h[j]], [l, -h[l]]])) /
+        (at([
+          [j, h[j]],
+          [l, h[l]],
+        ]) -
+          at([
+            [j, h[j]],
+            [l, -h[l]],
+          ]) -
+          at([
+            [j, -h[j]],
+            [l, h[l]],
+          ]) +
+          at([
+            [j, -h[j]],
+            [l, -h[l]],
+          ])) /
         (4 * h[j] * h[l])
       H[j][l] = v
       H[l][j] = v

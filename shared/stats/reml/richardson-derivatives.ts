@@ -42,10 +42,30 @@ export function richardsonDerivatives(
         H[i][i] = (scalar(shifted([[i, h]])) - 2 * f0 + scalar(shifted([[i, -h]]))) / (h * h)
         for (let j = 0; j < i; j++) {
           const v =
-            (scalar(shifted([[i, h], [j, h]])) -
-              scalar(shifted([[i, h], [j, -h]])) -
-              scalar(shifted([[i, -h], [j, h]])) +
-              scalar(shifted([[i, -h], [j, -h]]))) /
+            (scalar(
+              shifted([
+                [i, h],
+                [j, h],
+              ]),
+            ) -
+              scalar(
+                shifted([
+                  [i, h],
+                  [j, -h],
+                ]),
+              ) -
+              scalar(
+                shifted([
+                  [i, -h],
+                  [j, h],
+                ]),
+              ) +
+              scalar(
+                shifted([
+                  [i, -h],
+                  [j, -h],
+                ]),
+              )) /
             (4 * h * h)
           H[i][j] = v
           H[j][i] = v

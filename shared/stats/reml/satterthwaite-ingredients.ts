@@ -58,7 +58,9 @@ export function satterthwaiteIngredients(design: NestedDesign, fit: NestedFit): 
   }
   const covBeta = (x: number[]) => {
     const { sigma2, theta } = thetaAt(x)
-    return evaluateNestedReml(stats, theta, true).xtHxInverse!.flat().map((v) => v * sigma2)
+    return evaluateNestedReml(stats, theta, true)
+      .xtHxInverse!.flat()
+      .map((v) => v * sigma2)
   }
   const { hessian, jacobian } = richardsonDerivatives(x0, 0.1, minus2LogLik, covBeta)
 
@@ -68,7 +70,8 @@ export function satterthwaiteIngredients(design: NestedDesign, fit: NestedFit): 
   eig.values.forEach((d, e) => {
     if (!(d > tol)) return
     const v = eig.vectors[e]
-    for (let i = 0; i < v.length; i++) for (let j = 0; j < v.length; j++) covariance[i][j] += (2 * v[i] * v[j]) / d
+    for (let i = 0; i < v.length; i++)
+      for (let j = 0; j < v.length; j++) covariance[i][j] += (2 * v[i] * v[j]) / d
   })
   const p = stats.p
   const result: SatterthwaiteIngredients = {
