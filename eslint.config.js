@@ -11,6 +11,7 @@ export default tseslint.config(
       'dist/**',
       'node_modules/**',
       '.data/**',
+      '.bench/**',
       'test-results/**',
       'playwright-report/**',
       'coverage/**',
