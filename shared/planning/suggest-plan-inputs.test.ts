@@ -1,0 +1,40 @@
+import { describe, expect, it } from 'vitest'
+import type { AnalysisResult } from '../schemas/analysis-result'
+import demo from '../report/fixtures/single-lab-demo.json'
+import { suggestPlanInputs } from './suggest-plan-inputs'
+
+// Fixture: the engine's stored result for the seeded single-lab demo analysis (10 mice, 2 arms).
+const result = demo.result as AnalysisResult
+
+describe('suggestPlanInputs', () => {
+  it('splits the total variance by the ICC of the mouse level and takes the observed difference', () => {
+    const suggested = suggestPlanInputs(result)!
+    const icc = result.icc.find((e) => e.level === 'mouse')!.icc
+    const total = result.varianceComponents.reduce((s, c) => s + c.variance, 0)
+    expect(suggested.unitLevel).toBe('mouse')
+    // Common practice, no source: σ_between² = ICC · σ², σ_within² = (1 − ICC) · σ².
+    expect(suggested.inputs.spread).toEqual({
+      kind: 'components',
+      sdBetween: expect.closeTo(Math.sqrt(icc * total), 12),
+      sdWithin: expect.closeTo(Math.sqrt((1 - icc) * total), 12),
+    })
+    expect(suggested.inputs.difference).toBeCloseTo(
+      Math.abs(result.comparisons.mixedModel!.contrasts[0].estimate),
+      12,
+    )
+    expect(suggested.inputs.arms).toBe(2)
+    expect(suggested.unitsInData).toBe(5)
+  })
+
+  it('gives half an SD as the difference without a contrast, and nothing without variation', () => {
+    const noContrast = { ...result, comparisons: { ...result.comparisons, mixedModel: null } }
+    const total = result.varianceComponents.reduce((s, c) => s + c.variance, 0)
+    // Half an SD: a common default, no source.
+    expect(suggestPlanInputs(noContrast)!.inputs.difference).toBeCloseTo(0.5 * Math.sqrt(total), 12)
+    const flat = {
+      ...result,
+      varianceComponents: result.varianceComponents.map((c) => ({ ...c, variance: 0 })),
+    }
+    expect(suggestPlanInputs(flat)).toBeNull()
+  })
+})
