@@ -83,16 +83,32 @@ const planQuery = (conn: Conn) =>
     )
 
 export async function listPlans(
-  filter: { labIds: number[]; projectId?: number },
+  filter: { labIds: number[]; projectId?: number; analysisId?: number; versionNo?: number },
   conn: Conn = defaultConn,
 ): Promise<PlanRecord[]> {
   if (!filter.labIds.length) return []
   const query = planQuery(conn).whereIn('pl.lab_id', filter.labIds)
   if (filter.projectId !== undefined) query.where('pl.project_id', filter.projectId)
+  if (filter.analysisId !== undefined) query.where('a.id', filter.analysisId)
+  if (filter.versionNo !== undefined) query.where('av.version_no', filter.versionNo)
   const rows: PlanRow[] = await query.orderBy([
     { column: 'pl.updated_at', order: 'desc' },
     { column: 'pl.id', order: 'desc' },
   ])
+  return rows.map(toPlan)
+}
+
+/** Plans saved from one analysis version, oldest first (the order they were made in). */
+export async function listPlansOfVersion(
+  analysisVersionId: number,
+  conn: Conn = defaultConn,
+): Promise<PlanRecord[]> {
+  const rows: PlanRow[] = await planQuery(conn)
+    .where('pl.analysis_version_id', analysisVersionId)
+    .orderBy([
+      { column: 'pl.created_at', order: 'asc' },
+      { column: 'pl.id', order: 'asc' },
+    ])
   return rows.map(toPlan)
 }
 

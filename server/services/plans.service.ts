@@ -1,4 +1,5 @@
 import { computePlan } from '../../shared/planning/compute-plan'
+import { suggestPlanInputs } from '../../shared/planning/suggest-plan-inputs'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import type {
   Plan,
@@ -22,6 +23,7 @@ import {
   updatePlan,
   type PlanRecord,
 } from '../repositories/plans.repo'
+import { recordAudit } from './audit.service'
 import { assertCanWriteInLab, canWrite, membershipIn, readableLabIds } from './datasets-access.service'
 
 /**
@@ -71,58 +73,32 @@ async function finishedVersion(user: CurrentUser, analysisId: number, versionNo:
   return { analysis, version, result }
 }
 
-/**
- * Planning inputs suggested by a finished analysis: the ICC of the level whose units carry the
- * condition (else the innermost level), the total SD from all variance components split into
- * between and within units, and the observed difference of the first mixed-model contrast.
- */
+/** Inputs a finished analysis version suggests (see suggestPlanInputs), with where they came from. */
 export async function planDefaultsFor(
   user: CurrentUser,
   analysisId: number,
   versionNo: number,
 ): Promise<PlanDefaults> {
   const { analysis, result } = await finishedVersion(user, analysisId, versionNo)
-  const unitLevel = result.conditionLevel ?? result.levels[result.levels.length - 1].name
-  const icc = result.icc.find((entry) => entry.level === unitLevel)?.icc ?? 0
-  const variance = result.varianceComponents.reduce((sum, c) => sum + c.variance, 0)
-  if (!(variance > 0)) throw new UnprocessableError('This analysis found no variation to plan with.')
-  const contrast = result.comparisons.mixedModel?.contrasts[0] ?? null
-  const observed = contrast ? Math.abs(contrast.estimate) : null
-  const level = result.levels.find((l) => l.name === unitLevel)
-  const conditions = Math.max(1, result.groups.length)
+  const suggested = suggestPlanInputs(result)
+  if (!suggested) throw new UnprocessableError('This analysis found no variation to plan with.')
   return {
     source: { analysisId, versionNo, analysisName: analysis.name },
     labId: analysis.labId,
     projectId: analysis.project.id,
-    unitLevel,
-    responseName: result.response,
-    inputs: {
-      icc,
-      spread: {
-        kind: 'components',
-        sdBetween: Math.sqrt(icc * variance),
-        sdWithin: Math.sqrt((1 - icc) * variance),
-      },
-      // Without an observed difference, half an SD is a common default, no source.
-      difference: observed && observed > 0 ? observed : 0.5 * Math.sqrt(variance),
-      alpha: 0.05,
-      targetPower: 0.8,
-      arms: Math.min(8, Math.max(2, result.groups.length)),
-      costPerUnit: 100,
-      costPerObs: 1,
-      maxUnitsPerArm: null,
-      maxObsPerUnit: null,
-    },
-    observedDifference: contrast ? contrast.estimate : null,
-    unitsInData: Math.round((level?.nUnits ?? 0) / conditions),
-    meanObsPerUnit: level?.meanUnitSize ?? 0,
+    ...suggested,
   }
 }
 
 export async function listPlansFor(user: CurrentUser, query: PlanListQuery): Promise<Plan[]> {
   let labIds = readableLabIds(user)
   if (query.labId !== undefined) labIds = labIds.filter((id) => id === query.labId)
-  const plans = await listPlans({ labIds, projectId: query.projectId })
+  const plans = await listPlans({
+    labIds,
+    projectId: query.projectId,
+    analysisId: query.analysisId,
+    versionNo: query.versionNo,
+  })
   return plans.map((plan) => toPublic(user, plan))
 }
 
@@ -140,8 +116,8 @@ export async function createPlanFor(user: CurrentUser, input: PlanCreate): Promi
     analysisVersionId = version.id
   }
   const result = previewPlan(input.inputs)
-  const id = await db.transaction((trx) =>
-    insertPlan(
+  const id = await db.transaction(async (trx) => {
+    const planId = await insertPlan(
       {
         labId: input.labId,
         projectId,
@@ -152,8 +128,23 @@ export async function createPlanFor(user: CurrentUser, input: PlanCreate): Promi
         createdBy: user.id,
       },
       trx,
-    ),
-  )
+    )
+    await recordAudit(trx, {
+      action: 'plan.created',
+      actorUserId: user.id,
+      labId: input.labId,
+      subjectType: 'plan',
+      subjectId: planId,
+      details: {
+        name: input.name,
+        projectId,
+        ...(input.source ? { analysisId: input.source.analysisId, versionNo: input.source.versionNo } : {}),
+        unitsPerArm: result.unitsPerArm,
+        obsPerUnit: result.obsPerUnit,
+      },
+    })
+    return planId
+  })
   return getPlanFor(user, id)
 }
 
@@ -161,11 +152,45 @@ export async function updatePlanFor(user: CurrentUser, planId: number, changes: 
   const plan = await planFor(user, planId, 'write')
   const projectId =
     changes.projectId === undefined ? undefined : await projectInLab(changes.projectId, plan.labId)
-  await updatePlan(planId, { name: changes.name, projectId })
+  await db.transaction(async (trx) => {
+    await updatePlan(planId, { name: changes.name, projectId }, trx)
+    await recordAudit(trx, {
+      action: 'plan.updated',
+      actorUserId: user.id,
+      labId: plan.labId,
+      subjectType: 'plan',
+      subjectId: planId,
+      details: changedFields(plan, { name: changes.name, projectId }),
+    })
+  })
   return getPlanFor(user, planId)
 }
 
+/** Old and new value of each field a rename or move touches; unchanged fields are left out. */
+function changedFields(
+  plan: PlanRecord,
+  changes: { name?: string; projectId?: number | null },
+): Record<string, { from: unknown; to: unknown }> {
+  const changed: Record<string, { from: unknown; to: unknown }> = {}
+  if (changes.name !== undefined && changes.name !== plan.name)
+    changed.name = { from: plan.name, to: changes.name }
+  const projectBefore = plan.project?.id ?? null
+  if (changes.projectId !== undefined && changes.projectId !== projectBefore)
+    changed.projectId = { from: projectBefore, to: changes.projectId }
+  return changed
+}
+
 export async function deletePlanFor(user: CurrentUser, planId: number): Promise<void> {
-  await planFor(user, planId, 'write')
-  await deletePlan(planId)
+  const plan = await planFor(user, planId, 'write')
+  await db.transaction(async (trx) => {
+    await deletePlan(planId, trx)
+    await recordAudit(trx, {
+      action: 'plan.deleted',
+      actorUserId: user.id,
+      labId: plan.labId,
+      subjectType: 'plan',
+      subjectId: planId,
+      details: { name: plan.name, ...(plan.source ?? {}) },
+    })
+  })
 }

@@ -36,6 +36,9 @@ export const AuditAction = z.enum([
   'share_link.created',
   'share_link.opened',
   'share_link.revoked',
+  'plan.created',
+  'plan.updated',
+  'plan.deleted',
 ])
 export type AuditAction = z.infer<typeof AuditAction>
 

@@ -109,7 +109,18 @@ export const PlanPreview = z.object({ inputs: PlanInputs })
 export type PlanPreview = z.infer<typeof PlanPreview>
 
 export const PlanParams = z.object({ planId: Id })
-export const PlanListQuery = z.object({ labId: Id.optional(), projectId: Id.optional() })
+/** analysisId alone: plans from any version of it; with versionNo: from that version only. */
+export const PlanListQuery = z
+  .object({
+    labId: Id.optional(),
+    projectId: Id.optional(),
+    analysisId: Id.optional(),
+    versionNo: Id.optional(),
+  })
+  .refine((q) => q.versionNo === undefined || q.analysisId !== undefined, {
+    error: 'versionNo needs analysisId',
+    path: ['versionNo'],
+  })
 export type PlanListQuery = z.infer<typeof PlanListQuery>
 export const PlanDefaultsQuery = z.object({ analysisId: Id, versionNo: Id })
 
@@ -147,3 +158,28 @@ export const PlanDefaults = z.object({
   meanObsPerUnit: z.number(),
 })
 export type PlanDefaults = z.infer<typeof PlanDefaults>
+
+/** The recommendation of a plan without its curves and tables: what a summary or a report shows. */
+export const PlanRecommendation = PlanResult.pick({
+  feasible: true,
+  unitsPerArm: true,
+  obsPerUnit: true,
+  totalUnits: true,
+  totalObs: true,
+  power: true,
+  cost: true,
+  designEffect: true,
+})
+export type PlanRecommendation = z.infer<typeof PlanRecommendation>
+
+/**
+ * A saved plan as a reader outside the lab may see it (share link, printed report): no ids, no
+ * people, no lab. A full Plan fits this shape too, so one summary component shows both.
+ */
+export const PlanSummary = z.object({
+  name: z.string(),
+  createdAt: z.string(),
+  inputs: PlanInputs,
+  result: PlanRecommendation,
+})
+export type PlanSummary = z.infer<typeof PlanSummary>

@@ -11,10 +11,20 @@ import { request } from './http'
 
 const base = '/api/v1/plans'
 
-export function listPlans(query: { labId?: number; projectId?: number } = {}): Promise<Plan[]> {
+export interface PlanListFilter {
+  labId?: number
+  projectId?: number
+  /** Plans saved from this analysis (and, with versionNo, from that version only). */
+  analysisId?: number
+  versionNo?: number
+}
+
+export function listPlans(query: PlanListFilter = {}): Promise<Plan[]> {
   const params = new URLSearchParams()
-  if (query.labId !== undefined) params.set('labId', String(query.labId))
-  if (query.projectId !== undefined) params.set('projectId', String(query.projectId))
+  for (const key of ['labId', 'projectId', 'analysisId', 'versionNo'] as const) {
+    const value = query[key]
+    if (value !== undefined) params.set(key, String(value))
+  }
   const text = params.toString()
   return request<Plan[]>(text ? `${base}?${text}` : base)
 }

@@ -33,6 +33,9 @@ export const auditActionLabels: Partial<Record<AuditAction, string>> = {
   'share_link.created': 'Read-only link created',
   'share_link.opened': 'Read-only link opened',
   'share_link.revoked': 'Read-only link withdrawn',
+  'plan.created': 'Plan saved',
+  'plan.updated': 'Plan renamed or moved',
+  'plan.deleted': 'Plan deleted',
 }
 
 export function auditActionLabel(action: string): string {
