@@ -1,4 +1,5 @@
 import type { CurrentUser } from '../../shared/schemas/auth'
+import type { PlanSummary } from '../../shared/schemas/plans'
 import type {
   CreatedShareLink,
   ShareLink,
@@ -11,6 +12,7 @@ import { db } from '../db'
 import { ConflictError, ForbiddenError, NotFoundError } from '../errors/app-error'
 import { shareLinkMail } from '../mail/templates/review-mails'
 import { findAnalysis, findAnalysisVersionResult } from '../repositories/analyses.repo'
+import { listPlansOfVersion, type PlanRecord } from '../repositories/plans.repo'
 import { findReviewableVersion, findReviewableVersionById } from '../repositories/reviews.repo'
 import {
   countShareLinkOpened,
@@ -178,6 +180,26 @@ async function usableLink(token: string): Promise<ShareLinkRecord> {
   return link
 }
 
+/** A plan as the link holder sees it: numbers and name, nothing about who made it or where it is filed. */
+function toSharedPlan(plan: PlanRecord): PlanSummary {
+  const r = plan.result
+  return {
+    name: plan.name,
+    createdAt: plan.createdAt,
+    inputs: plan.inputs,
+    result: {
+      feasible: r.feasible,
+      unitsPerArm: r.unitsPerArm,
+      obsPerUnit: r.obsPerUnit,
+      totalUnits: r.totalUnits,
+      totalObs: r.totalObs,
+      power: r.power,
+      cost: r.cost,
+      designEffect: r.designEffect,
+    },
+  }
+}
+
 /** What someone holding the link sees; counts the opening and records it in the audit log. */
 export async function openSharedAnalysis(token: string): Promise<SharedAnalysis> {
   const link = await usableLink(token)
@@ -186,6 +208,7 @@ export async function openSharedAnalysis(token: string): Promise<SharedAnalysis>
   if (!version || version.status !== 'done' || !result || !chart) throw new NotFoundError(GONE)
   const stored = await findSharedVersionFacts(version.id)
   const signOff = await signOffStateOf(version.analysisId, version.versionNo)
+  const plans = await listPlansOfVersion(version.id)
   await db.transaction(async (trx) => {
     await countShareLinkOpened(link.id, trx)
     await recordAudit(trx, {
@@ -210,6 +233,7 @@ export async function openSharedAnalysis(token: string): Promise<SharedAnalysis>
     allowUnitTable: link.allowUnitTable,
     expiresAt: link.expiresAt.toISOString(),
     signedOff: signOff.signedOff,
+    plans: plans.map(toSharedPlan),
   }
 }
 

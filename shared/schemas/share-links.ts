@@ -2,6 +2,7 @@ import { z } from 'zod'
 import { ChartData } from './analyses'
 import { AnalysisResult } from './analysis-result'
 import { Email } from './auth'
+import { PlanSummary } from './plans'
 
 export const SHARE_LINK_DEFAULT_DAYS = 30
 export const SHARE_LINK_MAX_DAYS = 365
@@ -64,5 +65,7 @@ export const SharedAnalysis = z.object({
   allowUnitTable: z.boolean(),
   expiresAt: z.string(),
   signedOff: z.boolean(),
+  /** Plans saved from this very version, oldest first. */
+  plans: z.array(PlanSummary),
 })
 export type SharedAnalysis = z.infer<typeof SharedAnalysis>
