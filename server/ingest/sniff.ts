@@ -1,7 +1,7 @@
 import { extname } from 'node:path'
 import iconv from 'iconv-lite'
 import jschardet from 'jschardet'
-import { CsvTokenizer } from './csv-tokenizer'
+import { guessDecimalMark, guessDelimiter } from './guess-delimiter'
 import { badFile } from './ingest-errors'
 import type { DecimalMark } from './number-text'
 
@@ -25,7 +25,6 @@ export interface WorkbookSniff {
 export type Sniff = TextSniff | WorkbookSniff
 
 const TEXT_EXTENSIONS = new Set(['.csv', '.tsv', '.tab', '.txt'])
-const DELIMITERS = [',', ';', '\t', '|']
 /** Encodings jschardet may name that are not Western European; trusted only when it is sure. */
 const TRUSTED_DETECTIONS = new Set([
   'shift_jis',
@@ -151,76 +150,4 @@ function looksBinary(text: string): boolean {
     else if (c === 0xfffd) control++
   }
   return n > 0 && control / n > 0.02
-}
-
-interface DelimiterScore {
-  delimiter: string
-  headerFields: number
-  consistent: number
-}
-
-function scoreDelimiter(text: string, delimiter: string): DelimiterScore | null {
-  const counts: number[] = []
-  const tokenizer = new CsvTokenizer({
-    delimiter,
-    maxFieldChars: Number.MAX_SAFE_INTEGER,
-    maxFieldsPerRow: Number.MAX_SAFE_INTEGER,
-    onRow: (fields) => {
-      if (counts.length < 200) counts.push(fields.length)
-    },
-  })
-  try {
-    tokenizer.push(text)
-    tokenizer.end()
-  } catch {
-    return null
-  }
-  if (counts.length === 0) return null
-  const headerFields = counts[0]
-  const rest = counts.slice(1)
-  const consistent = rest.length === 0 ? 1 : rest.filter((c) => c === headerFields).length / rest.length
-  return { delimiter, headerFields, consistent }
-}
-
-/** The delimiter that gives the header more than one column and the most rows of the same width. */
-export function guessDelimiter(text: string, ext: string): string {
-  const preferred = ext === '.tsv' || ext === '.tab' ? '\t' : ','
-  const scores = DELIMITERS.map((d) => scoreDelimiter(text, d)).filter(
-    (s): s is DelimiterScore => s !== null && s.headerFields > 1,
-  )
-  if (scores.length === 0) return preferred
-  scores.sort(
-    (a, b) =>
-      b.consistent - a.consistent ||
-      b.headerFields - a.headerFields ||
-      Number(b.delimiter === preferred) - Number(a.delimiter === preferred),
-  )
-  return scores[0].delimiter
-}
-
-/** A decimal comma is only possible when the delimiter is not a comma; it wins when no cell uses a point. */
-export function guessDecimalMark(text: string, delimiter: string): DecimalMark {
-  if (delimiter === ',') return '.'
-  let commas = 0
-  let points = 0
-  const tokenizer = new CsvTokenizer({
-    delimiter,
-    maxFieldChars: Number.MAX_SAFE_INTEGER,
-    maxFieldsPerRow: Number.MAX_SAFE_INTEGER,
-    onRow: (fields, recordNo) => {
-      if (recordNo === 1) return
-      for (const field of fields) {
-        const value = field.trim()
-        if (/^[+-]?\d*,\d+$/.test(value)) commas++
-        else if (/^[+-]?\d*\.\d+$/.test(value)) points++
-      }
-    },
-  })
-  try {
-    tokenizer.push(text)
-    tokenizer.end()
-  } catch {
-    return '.'
-  }
-  return commas > 0 && points === 0 ? ',' : '.'
 }
