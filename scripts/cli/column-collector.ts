@@ -21,10 +21,6 @@ function clean(field: string | undefined): string {
   return first <= 32 || last <= 32 || first === 0xa0 || last === 0xa0 ? field.trim() : field
 }
 
-function isBlank(fields: string[]): boolean {
-  return fields.every((field) => field.trim() === '')
-}
-
 /** A factor under construction: codes grow by doubling, labels get codes in order of appearance. */
 class FactorBuilder {
   readonly codeOf = new Map<string, number>()
@@ -62,24 +58,22 @@ class FactorBuilder {
 }
 
 /**
- * Turns parsed rows (arrays of strings, first one the header) into engine columns without keeping
- * any per-row object: labels become integer codes through Map lookups, the response goes straight
- * into a Float64Array. A row with a missing label or a missing response gets NaN as its response
- * so the engine leaves it out and counts it.
+ * Turns table rows into engine columns without keeping any per-row object: labels become integer
+ * codes through Map lookups, the response goes straight into a Float64Array. A row with a missing
+ * label or a missing response gets NaN as its response so the engine leaves it out and counts it.
+ * The reader calls, per data row: `startRow`, `setLabel` for each factor, then `commitRow`.
  */
 export class ColumnCollector {
   private responseIndex = -1
-  private levelIndices: number[] = []
-  private conditionIndex = -1
   private levels: FactorBuilder[] = []
   private condition: FactorBuilder | null = null
-  /** Levels then condition, with their column indices: the per-row loop treats them alike. */
   private factors: FactorBuilder[] = []
-  private factorIndices: number[] = []
+  /** Column index of each factor: the levels, outermost first, then the condition. */
+  factorColumns: number[] = []
   private response = new Float64Array(1024)
   private rows = 0
   private headerSeen = false
-  private readonly decimalComma: boolean
+  readonly decimalComma: boolean
 
   constructor(private readonly selection: ColumnSelection) {
     this.decimalComma = selection.decimal === ','
@@ -99,41 +93,36 @@ export class ColumnCollector {
     return this.rows
   }
 
-  /** Feeds one parsed row; the first row fed is the header. */
-  add(fields: string[]): void {
-    this.addRows([fields])
+  get hasHeader(): boolean {
+    return this.headerSeen
   }
 
-  /** Feeds parsed rows in order (a papaparse chunk); the first row ever fed is the header. */
-  addRows(rows: string[][]): void {
-    let first = 0
-    if (!this.headerSeen && rows.length > 0) {
-      this.readHeader(rows[0])
-      first = 1
+  get responseColumn(): number {
+    return this.responseIndex
+  }
+
+  /** Index of the next data row, with room made for it. */
+  startRow(): number {
+    if (this.rows === this.response.length) this.grow()
+    return this.rows
+  }
+
+  /** Codes factor `factor` of row `row`; false when the label is missing (the row is then left out). */
+  setLabel(factor: number, row: number, raw: string): boolean {
+    const label = clean(raw)
+    const builder = this.factors[factor]
+    if (label === '') {
+      // A row with a missing label still needs a code; it is left out through its NaN response.
+      builder.codes[row] = 0
+      return false
     }
-    const factors = this.factors
-    const indices = this.factorIndices
-    const nFactors = factors.length
-    for (let r = first; r < rows.length; r++) {
-      const fields = rows[r]
-      if (this.rows === this.response.length) this.grow()
-      const row = this.rows
-      let missing = false
-      for (let f = 0; f < nFactors; f++) {
-        const label = clean(fields[indices[f]])
-        if (label === '') {
-          // A row with a missing label still needs a code; it is left out through its NaN response.
-          missing = true
-          factors[f].codes[row] = 0
-        } else {
-          factors[f].codes[row] = factors[f].code(label)
-        }
-      }
-      // A row of separators only (spreadsheet leftovers) is not data: forget it instead of counting it.
-      if (missing && isBlank(fields)) continue
-      this.rows++
-      this.response[row] = missing ? NaN : this.parseResponse(fields[this.responseIndex], row)
-    }
+    builder.codes[row] = builder.code(label)
+    return true
+  }
+
+  /** Keeps the row started last, with its response (NaN = missing). */
+  commitRow(response: number): void {
+    this.response[this.rows++] = response
   }
 
   finish(): NestedColumns {
@@ -147,7 +136,8 @@ export class ColumnCollector {
     }
   }
 
-  private readHeader(fields: string[]): void {
+  /** Reads the header row and finds the selected columns in it. */
+  addHeader(fields: string[]): void {
     const header = fields.map((field, i) => (i === 0 ? field.replace(/^\uFEFF/, '') : field).trim())
     const find = (name: string): number => {
       const index = header.indexOf(name)
@@ -160,28 +150,25 @@ export class ColumnCollector {
       return index
     }
     this.responseIndex = find(this.selection.response)
-    this.levelIndices = this.selection.levels.map(find)
     this.levels = this.selection.levels.map((name) => new FactorBuilder(name, this.response.length))
-    if (this.selection.condition) {
-      this.conditionIndex = find(this.selection.condition)
-      this.condition = new FactorBuilder(this.selection.condition, this.response.length)
-    }
+    const { condition } = this.selection
+    this.condition = condition ? new FactorBuilder(condition, this.response.length) : null
     this.factors = this.condition ? [...this.levels, this.condition] : [...this.levels]
-    this.factorIndices = this.condition ? [...this.levelIndices, this.conditionIndex] : [...this.levelIndices]
+    this.factorColumns = [...this.selection.levels, ...(condition ? [condition] : [])].map(find)
     this.headerSeen = true
   }
 
-  private parseResponse(raw: string | undefined, row: number): number {
+  /** The response value of a field's text (NaN when missing); names the row and line when it is not a number. */
+  parseResponse(raw: string, row: number, line: number): number {
     const text = clean(raw)
     if (text === '') return NaN
     const value = Number(this.decimalComma ? text.replace(',', '.') : text)
     if (!Number.isFinite(value)) {
       if (MISSING_TOKENS.has(text)) return NaN
-      // Data row r sits on file line r + 2 when no field spans lines (header is line 1).
       const hint =
         !this.decimalComma && /^-?\d+,\d+$/.test(text) ? ' (for a decimal comma use --decimal ",")' : ''
       throw new CliInputError(
-        `Row ${row + 1} (line ${row + 2}): the response column "${this.selection.response}" holds "${text}", which is not a number${hint}.`,
+        `Row ${row + 1} (line ${line}): the response column "${this.selection.response}" holds "${text}", which is not a number${hint}.`,
       )
     }
     return value

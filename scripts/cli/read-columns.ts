@@ -1,56 +1,156 @@
 import { closeSync, createReadStream, openSync, readSync, statSync } from 'node:fs'
-import type { Readable } from 'node:stream'
-import Papa from 'papaparse'
+import { extname } from 'node:path'
+import { guessDelimiter } from '../../server/ingest/guess-delimiter'
 import type { NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
 import { ColumnCollector, type ColumnSelection } from './column-collector'
+import { CsvByteScanner, fieldText, type CsvRecord } from './csv-byte-scanner'
+import { parseDecimalBytes } from './parse-decimal-bytes'
 
 export interface ReadColumnsOptions extends ColumnSelection {
-  /** Field separator; undefined = detect comma, tab or semicolon from the first rows. */
+  /** Field separator; undefined = detected from the first rows (comma, semicolon, tab or bar). */
   delimiter?: string
 }
 
-/** A decimal comma rules out the comma as separator, which makes detection reliable. */
-function parseConfig(options: ReadColumnsOptions) {
-  return {
-    delimiter: options.delimiter ?? '',
-    delimitersToGuess: options.decimal === ',' ? ['\t', ';'] : [',', '\t', ';'],
-    // Rows of only separators (spreadsheet leftovers) are skipped by the collector.
-    skipEmptyLines: true,
+/** Enough rows to tell the separator with confidence (a few hundred on a typical export). */
+const GUESS_BYTES = 16 * 1024
+const READ_BYTES = 1 << 20
+
+/**
+ * Feeds the byte scanner's records into a column collector. Labels are decoded only when they differ
+ * from the previous row's bytes in the same column (tables are usually sorted by unit), and responses
+ * are parsed from the bytes unless they are unusual, so most rows make no string at all.
+ */
+class ColumnReader {
+  private readonly collector: ColumnCollector
+  private scanner: CsvByteScanner | null = null
+  private pending: Buffer[] = []
+  private pendingBytes = 0
+  private previousBytes: Buffer[] = []
+  private previousLength: number[] = []
+  private previousText: string[] = []
+
+  constructor(
+    private readonly options: ReadColumnsOptions,
+    private readonly extension: string,
+    /** Size of the whole input, when known: the first rows then tell how many rows to make room for. */
+    private readonly totalBytes = 0,
+  ) {
+    this.collector = new ColumnCollector(options)
   }
+
+  push(chunk: Buffer): void {
+    if (this.scanner) return this.scanner.push(chunk)
+    this.pending.push(Buffer.from(chunk))
+    this.pendingBytes += chunk.length
+    if (this.pendingBytes >= GUESS_BYTES) this.startScanning()
+  }
+
+  finish(): NestedColumns {
+    if (!this.scanner) this.startScanning()
+    this.scanner!.end()
+    return this.collector.finish()
+  }
+
+  private startScanning(): void {
+    const head = Buffer.concat(this.pending)
+    const delimiter = this.options.delimiter ?? guessDelimiter(head.toString('utf8'), this.extension)
+    this.scanner = new CsvByteScanner(delimiter.charCodeAt(0), (record) => this.onRecord(record))
+    this.pending = []
+    this.scanner.push(head)
+    const rows = this.collector.rowCount
+    if (rows > 0 && this.totalBytes > head.length)
+      this.collector.reserve((1.05 * this.totalBytes * rows) / head.length)
+  }
+
+  private onRecord(record: CsvRecord): void {
+    // Empty lines are not rows.
+    if (record.count === 1 && record.starts[0] === record.ends[0]) return
+    const collector = this.collector
+    if (!collector.hasHeader) {
+      const header = Array.from({ length: record.count }, (_, field) => fieldText(record, field))
+      collector.addHeader(header)
+      this.previousBytes = collector.factorColumns.map(() => Buffer.alloc(64))
+      this.previousLength = collector.factorColumns.map(() => -1)
+      this.previousText = collector.factorColumns.map(() => '')
+      return
+    }
+    const row = collector.startRow()
+    const columns = collector.factorColumns
+    let missing = false
+    for (let f = 0; f < columns.length; f++) {
+      const label = columns[f] < record.count ? this.label(record, f, columns[f]) : ''
+      if (!collector.setLabel(f, row, label)) missing = true
+    }
+    // A row of separators only (spreadsheet leftovers) is not data: forget it instead of counting it.
+    if (missing && isBlank(record)) return
+    const column = collector.responseColumn
+    let response = NaN
+    if (!missing && column < record.count) {
+      response = record.escaped[column]
+        ? NaN
+        : parseDecimalBytes(record.bytes, record.starts[column], record.ends[column], collector.decimalComma)
+      if (Number.isNaN(response))
+        response = collector.parseResponse(fieldText(record, column), row, record.line)
+    }
+    collector.commitRow(response)
+  }
+
+  /** The text of factor `f`'s field, reusing the previous row's string when the bytes are the same. */
+  private label(record: CsvRecord, f: number, field: number): string {
+    if (record.escaped[field]) {
+      this.previousLength[f] = -1
+      return fieldText(record, field)
+    }
+    const start = record.starts[field]
+    const length = record.ends[field] - start
+    const bytes = record.bytes
+    let previous = this.previousBytes[f]
+    if (length === this.previousLength[f]) {
+      let same = true
+      for (let k = 0; k < length; k++)
+        if (bytes[start + k] !== previous[k]) {
+          same = false
+          break
+        }
+      if (same) return this.previousText[f]
+    }
+    if (length > previous.length) previous = this.previousBytes[f] = Buffer.alloc(2 * length)
+    bytes.copy(previous, 0, start, start + length)
+    this.previousLength[f] = length
+    return (this.previousText[f] = bytes.toString('utf8', start, start + length))
+  }
+}
+
+function isBlank(record: CsvRecord): boolean {
+  for (let field = 0; field < record.count; field++) if (fieldText(record, field).trim() !== '') return false
+  return true
 }
 
 /** Reads a CSV/TSV text held in memory (small inputs, tests). */
 export function readColumnsFromText(text: string, options: ReadColumnsOptions): NestedColumns {
-  const collector = new ColumnCollector(options)
-  const result = Papa.parse<string[]>(text, parseConfig(options))
-  collector.addRows(result.data)
-  return collector.finish()
+  const reader = new ColumnReader(options, '.csv')
+  reader.push(Buffer.from(text.replace(/^\uFEFF/, ''), 'utf8'))
+  return reader.finish()
 }
 
 type Encoding = 'utf8' | 'utf8-bom' | 'utf16le' | 'utf16be'
 
 /** Byte-order marks tell UTF-16 exports (spreadsheet "Unicode text") apart from UTF-8. */
-function sniffEncoding(path: string): Encoding {
-  const fd = openSync(path, 'r')
-  try {
-    const head = Buffer.alloc(4)
-    const n = readSync(fd, head, 0, 4, 0)
-    if (n >= 2 && head[0] === 0xff && head[1] === 0xfe) return 'utf16le'
-    if (n >= 2 && head[0] === 0xfe && head[1] === 0xff) return 'utf16be'
-    if (n >= 3 && head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf) return 'utf8-bom'
-    return 'utf8'
-  } finally {
-    closeSync(fd)
-  }
+function sniffEncoding(fd: number): Encoding {
+  const head = Buffer.alloc(4)
+  const n = readSync(fd, head, 0, 4, 0)
+  if (n >= 2 && head[0] === 0xff && head[1] === 0xfe) return 'utf16le'
+  if (n >= 2 && head[0] === 0xfe && head[1] === 0xff) return 'utf16be'
+  if (n >= 3 && head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf) return 'utf8-bom'
+  return 'utf8'
 }
 
-async function openText(path: string): Promise<Readable> {
-  let encoding: Encoding
+function openFile(path: string): number {
   try {
-    const stats = statSync(path)
-    if (stats.isDirectory()) throw new CliInputError(`Cannot read "${path}": it is a folder, not a file.`)
-    encoding = sniffEncoding(path)
+    if (statSync(path).isDirectory())
+      throw new CliInputError(`Cannot read "${path}": it is a folder, not a file.`)
+    return openSync(path, 'r')
   } catch (error) {
     if (error instanceof CliInputError) throw error
     const code = (error as NodeJS.ErrnoException).code
@@ -58,53 +158,36 @@ async function openText(path: string): Promise<Readable> {
       code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : (error as Error).message
     throw new CliInputError(`Cannot read "${path}": ${reason}.`)
   }
-  // Default 64 KiB reads: papaparse's chunk handling slows down markedly with much larger chunks.
-  if (encoding === 'utf8') return createReadStream(path, { encoding: 'utf8' })
-  // Skipping the mark's bytes (papaparse strips it only from whole strings) keeps a quoted first header intact.
-  if (encoding === 'utf8-bom') return createReadStream(path, { encoding: 'utf8', start: 3 })
-  // Decoding through iconv keeps characters split across chunk borders intact; it drops the mark.
-  // Loaded only for such files, to keep the start-up of the common case short.
-  const { default: iconv } = await import('iconv-lite')
-  return createReadStream(path).pipe(iconv.decodeStream(encoding)) as unknown as Readable
 }
 
 /**
- * Streams a CSV/TSV file into engine columns: comma, tab or semicolon (detected unless given),
- * quoted fields, CRLF or LF line ends, a UTF-8 byte-order mark, UTF-16 with a byte-order mark,
- * and a decimal comma on request. Memory stays proportional to the columns kept, not the file.
+ * Reads a CSV/TSV file into engine columns: comma, semicolon, tab or bar (detected unless given),
+ * quoted fields, CRLF or LF line ends, a UTF-8 byte-order mark, UTF-16 with a byte-order mark, and a
+ * decimal comma on request. Memory stays proportional to the columns kept, not the file.
  */
 export async function readColumnsFromFile(path: string, options: ReadColumnsOptions): Promise<NestedColumns> {
-  const collector = new ColumnCollector(options)
-  const input = await openText(path)
-  const fileSize = statSync(path).size
-  return new Promise((resolve, reject) => {
-    let failure: unknown = null
-    let first = true
-    Papa.parse<string[]>(input as unknown as File, {
-      ...parseConfig(options),
-      chunk: (results, parser) => {
-        if (failure) return
-        if (first && results.data.length > 0 && results.meta.cursor > 0) {
-          // Rows in the whole file ≈ its size / the first chunk's characters per row (+5 %).
-          first = false
-          collector.reserve((1.05 * fileSize * results.data.length) / results.meta.cursor)
-        }
-        try {
-          collector.addRows(results.data)
-        } catch (error) {
-          failure = error
-          parser.abort()
-        }
-      },
-      complete: () => {
-        if (failure) return reject(failure)
-        try {
-          resolve(collector.finish())
-        } catch (error) {
-          reject(error)
-        }
-      },
-      error: (error: Error) => reject(new CliInputError(`Cannot read "${path}": ${error.message}.`)),
-    })
-  })
+  const fd = openFile(path)
+  const reader = new ColumnReader(options, extname(path).toLowerCase(), statSync(path).size)
+  try {
+    const encoding = sniffEncoding(fd)
+    if (encoding === 'utf16le' || encoding === 'utf16be') {
+      // Transcoded to UTF-8 on the way in; iconv keeps characters split across chunks intact and drops the mark.
+      // Loaded only for such files, to keep the start-up of the common case short.
+      const { default: iconv } = await import('iconv-lite')
+      const text = createReadStream('', { fd, autoClose: false }).pipe(iconv.decodeStream(encoding))
+      for await (const chunk of text) reader.push(Buffer.from(chunk as string, 'utf8'))
+      return reader.finish()
+    }
+    const chunk = Buffer.allocUnsafe(READ_BYTES)
+    let position = encoding === 'utf8-bom' ? 3 : 0
+    for (;;) {
+      const n = readSync(fd, chunk, 0, READ_BYTES, position)
+      if (n === 0) break
+      position += n
+      reader.push(chunk.subarray(0, n))
+    }
+    return reader.finish()
+  } finally {
+    closeSync(fd)
+  }
 }
