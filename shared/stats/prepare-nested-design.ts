@@ -78,15 +78,19 @@ export function prepareNestedDesign(
     )
   }
   const rowOfObs = kept.slice(0, nObs)
-  const y = new Float64Array(nObs)
-  for (let i = 0; i < nObs; i++) y[i] = response[rowOfObs[i]]
+  // With nothing dropped (the usual case) whole-column copies replace the row-by-row gathers.
+  const gather = <T extends Float64Array | Int32Array>(column: T, into: T): T => {
+    if (nDropped === 0) into.set(column)
+    else for (let i = 0; i < nObs; i++) into[i] = column[rowOfObs[i]]
+    return into
+  }
+  const y = gather(response, new Float64Array(nObs))
 
   const randomLevels: RandomLevel[] = []
   const implicitNesting: { level: string; labels: string[] }[] = []
   let parent: RandomLevel | null = null
   for (const factor of levels) {
-    const codes = new Int32Array(nObs)
-    for (let i = 0; i < nObs; i++) codes[i] = factor.codes[rowOfObs[i]]
+    const codes = gather(factor.codes, new Int32Array(nObs))
     const level = nestLevel(factor.name, codes, factor.labels, parent, false)
     checkLevelSize(level, parent, nObs)
     const repeated = labelsUnderSeveralParents(level, codes, factor.labels)
