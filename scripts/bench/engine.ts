@@ -4,8 +4,8 @@
  * Generates a seeded, invented data set (full: 12 labs × 40 mice × 1,000–3,000 neurons ≈ 1M rows;
  * --quick: 12 × 10 × 100–300), writes it as CSV to a temporary folder, and times:
  *  1. `nestwise analyze` as a child process (parse + fit + Satterthwaite + summaries, bootstrap off),
- *     three runs, with its wall time, CPU time and peak memory (maxRSS and CPU reported by the child
- *     itself, see report-usage.ts);
+ *     five runs, with its wall time, CPU time and peak memory (maxRSS and CPU reported by the child
+ *     itself, see report-usage.mjs);
  *  2. the same steps in this process, to show where the time goes;
  *  3. lmerTest::lmer on the same file (Rscript, lme4 defaults), when Rscript is installed, and the
  *     largest relative difference between the estimates; the R fit is then polished with a tight
@@ -61,7 +61,7 @@ const analyzeArgs = [
   '--reference',
   columns.reference,
 ]
-const nodeArgs = ['--import', 'tsx', '--import', './scripts/bench/report-usage.ts', 'scripts/nestwise.ts']
+const nodeArgs = ['--import', './scripts/bench/report-usage.mjs', 'scripts/run-nestwise.mjs']
 
 const fmt = (x: number, digits = 2) => x.toFixed(digits)
 const sci = (x: number | null) => (x === null ? '—' : x.toExponential(1))
@@ -137,10 +137,14 @@ async function main() {
       `treatment between mice; CSV ${fmt(size / 1e6, 1)} MB written in ${fmt((performance.now() - started) / 1000)} s (seed "${spec.seed}")`,
   )
 
+  // The first run after an edit rebuilds the command line's bundle (see run-nestwise.mjs); not timed.
+  const warmUp = spawnSync(process.execPath, ['scripts/run-nestwise.mjs', '--help'], { cwd: root })
+  if (warmUp.status !== 0) throw new Error(`nestwise --help failed: ${warmUp.stderr}`)
+
   section(
     'nestwise analyze (child process: start-up + parse + REML fit + Satterthwaite + summaries; bootstrap off)',
   )
-  const analyzer = await analyzerRuns([], 3)
+  const analyzer = await analyzerRuns([], 5)
   console.log(
     `  wall: ${analyzer.times.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.median)} s`,
   )
@@ -167,7 +171,7 @@ async function main() {
     `  read CSV ${show(read)}; analyzeNested ${show(whole)}, of which path-keyed design ${show(prepared)}, REML fit ${show(fitted)},`,
   )
   console.log(
-    `  Satterthwaite, means, tests and warnings the rest; start-up of node + tsx + modules ≈ the child's CPU minus these`,
+    `  Satterthwaite, means, tests and warnings the rest; start-up of node + the bundled command line ≈ the child's CPU minus these`,
   )
 
   let speedup: number | null = null

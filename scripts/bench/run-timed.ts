@@ -6,7 +6,7 @@ export interface TimedRun {
   code: number | null
   stdout: string
   stderr: string
-  /** Peak resident memory in kB when the child reported it (see report-usage.ts), else null. */
+  /** Peak resident memory in kB when the child reported it (see report-usage.mjs), else null. */
   maxRssKb: number | null
   /** CPU time of the child (user + system, all threads) when it reported it, else null. */
   cpuSeconds: number | null

@@ -14,7 +14,7 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
 const fixture = (name: string) => join('tests', 'fixtures', 'cli', name)
 
 function nestwise(...args: string[]) {
-  const run = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/nestwise.ts', ...args], {
+  const run = spawnSync(process.execPath, ['scripts/run-nestwise.mjs', ...args], {
     cwd: root,
     encoding: 'utf8',
   })
@@ -23,7 +23,8 @@ function nestwise(...args: string[]) {
 
 const analyzeCells = ['--response', 'neurite_length_um', '--levels', 'lab,mouse', '--condition', 'treatment']
 
-// Each test spawns node + tsx one to three times; a busy machine makes that slow, hence the long timeout.
+// Each test spawns the command line one to three times (the first may rebuild its bundle); a busy
+// machine makes that slow, hence the long timeout.
 const SPAWNING = { timeout: 180_000 }
 
 describe('nestwise analyze', SPAWNING, () => {
