@@ -3,7 +3,8 @@
 # polishes the same fit with a much tighter optimiser tolerance, because on a million rows the
 # default fit can stop short of the optimum, and recomputes lmerTest's Satterthwaite df on the
 # polished fit. Given the other engine's variance components (JSON, R path names), it also
-# evaluates lme4's own REML criterion there. Prints one JSON line.
+# evaluates lme4's own REML criterion there, and lmerTest's SEs and Satterthwaite df at exactly
+# those components. Prints one JSON line.
 # Usage: Rscript lmer-bench.R FILE RESPONSE LEVELS CONDITION REFERENCE [polish|no-polish] [COMPONENTS_JSON]
 suppressPackageStartupMessages({
   library(lmerTest)
@@ -108,6 +109,27 @@ if (!is.null(other)) {
   at <- sqrt(unlist(other[terms_of_theta]) / other[["residual"]])
   devfun <- lme4::lmer(form, data = d, REML = TRUE, devFunOnly = TRUE)
   out$criterionAtOther <- devfun(unname(at))
+  # lmerTest's own SEs and Satterthwaite df evaluated at the other engine's variance components: a
+  # model object assembled with lme4's modular functions at that theta, without optimising. This
+  # separates how df are computed from where each optimiser stopped on a flat criterion.
+  lf <- lme4::lFormula(form, data = d, REML = TRUE)
+  dfun <- do.call(lme4::mkLmerDevfun, lf)
+  opt <- list(par = unname(at), fval = dfun(unname(at)), conv = 0, message = "evaluated at given estimates")
+  given <- lme4::mkMerMod(environment(dfun), opt, lf$reTrms, fr = lf$fr,
+    mc = quote(lme4::lmer(formula = form, data = d, REML = TRUE)))
+  givenT <- lmerTest:::as_lmerModLmerTest(given)
+  givenCoefs <- summary(givenT)$coefficients
+  out$atOther <- list(
+    components = components_of(given),
+    contrasts = lapply(seq_along(labels)[-1], function(k) {
+      row <- givenCoefs[k, ]
+      list(a = labels[k], b = labels[1], estimate = row[["Estimate"]], se = row[["Std. Error"]], df = row[["df"]])
+    }),
+    means = lapply(seq_along(labels), function(k) {
+      r <- lmerTest::contest1D(givenT, mean_vector(k))
+      list(condition = labels[k], estimate = r[["Estimate"]], se = r[["Std. Error"]], df = r[["df"]])
+    })
+  )
 }
 
 cat(toJSON(out, auto_unbox = TRUE, digits = NA))
