@@ -1,0 +1,80 @@
+import type { PlanSummary } from '../../../shared/schemas/plans'
+import { formatNumber } from '../../../shared/report/number-format'
+import { pluralOf } from './unit-words'
+
+/** One saved plan as lines of text for the summary table (share page and printed report). */
+export interface PlanSummaryRow {
+  key: string
+  name: string
+  createdAt: string
+  /** The numbers the plan started from, each a short phrase. */
+  assumptions: string[]
+  /** Costs and limits the plan was held to. */
+  constraints: string[]
+  unitsPerArm: string
+  /** "224 in all" */
+  totalUnits: string
+  obsPerUnit: string
+  totalObs: string
+  power: string
+  cost: string
+  /** Set when no design within the limits reached the target power. */
+  shortfall: string | null
+}
+
+export const percent = (v: number): string => `${(v * 100).toFixed(v > 0.995 && v < 1 ? 1 : 0)} %`
+/** Whole numbers with thousands separators: costs and totals ("100,352"). */
+export const money = (v: number): string =>
+  new Intl.NumberFormat('en-US', { maximumFractionDigits: 0 }).format(v)
+
+function spreadWords(inputs: PlanSummary['inputs'], unitWord: string): { icc: number; sd: string } {
+  if (inputs.spread.kind === 'total')
+    return { icc: inputs.icc, sd: `SD ${formatNumber(inputs.spread.sdTotal)}` }
+  // As the engine does (resolveSpread): given components, the ICC follows from them.
+  const between = inputs.spread.sdBetween ** 2
+  const within = inputs.spread.sdWithin ** 2
+  return {
+    icc: between / (between + within),
+    sd: `SD between ${pluralOf(unitWord)} ${formatNumber(inputs.spread.sdBetween)}, within a ${unitWord} ${formatNumber(inputs.spread.sdWithin)}`,
+  }
+}
+
+export function planSummaryRow(plan: PlanSummary, unitWord: string, index = 0): PlanSummaryRow {
+  const { inputs, result } = plan
+  const spread = spreadWords(inputs, unitWord)
+  const constraints = [
+    `cost ${money(inputs.costPerUnit)} per ${unitWord} + ${money(inputs.costPerObs)} per observation`,
+  ]
+  if (inputs.maxUnitsPerArm !== null)
+    constraints.push(`at most ${inputs.maxUnitsPerArm} ${pluralOf(unitWord)} per arm`)
+  if (inputs.maxObsPerUnit !== null)
+    constraints.push(`at most ${inputs.maxObsPerUnit} observations per ${unitWord}`)
+  return {
+    key: `${index}-${plan.createdAt}`,
+    name: plan.name,
+    createdAt: plan.createdAt,
+    assumptions: [
+      `ICC ${spread.icc.toFixed(2)}`,
+      spread.sd,
+      `difference worth detecting ${formatNumber(inputs.difference)}`,
+      `${inputs.arms} arms, α ${inputs.alpha}, target power ${percent(inputs.targetPower)}`,
+    ],
+    constraints,
+    unitsPerArm: String(result.unitsPerArm),
+    totalUnits: `${money(result.totalUnits)} in all`,
+    obsPerUnit: String(result.obsPerUnit),
+    totalObs: `${money(result.totalObs)} in all`,
+    power: percent(result.power),
+    cost: money(result.cost),
+    shortfall: result.feasible
+      ? null
+      : `No design within the limits reaches ${percent(inputs.targetPower)}; this is the most powerful one.`,
+  }
+}
+
+/** Oldest plan first, so the list reads in the order the plans were made. */
+export function planSummaryRows(plans: PlanSummary[], unitWord: string): PlanSummaryRow[] {
+  return [...plans]
+    .sort((a, b) => a.createdAt.localeCompare(b.createdAt))
+    .map((plan, index) => planSummaryRow(plan, unitWord, index))
+}
