@@ -27,6 +27,19 @@ describe('audit wording', () => {
     )
   })
 
+  it('names the plan and what a rename or move changed', () => {
+    expect(auditSummary({ action: 'plan.created', details: { name: 'Next run', unitsPerArm: 9 } })).toBe(
+      '“Next run”',
+    )
+    expect(
+      auditSummary({
+        action: 'plan.updated',
+        details: { name: { from: 'Next run', to: 'Run B' }, projectId: { from: null, to: 4 } },
+      }),
+    ).toBe('renamed “Next run” → “Run B”, moved to another project')
+    expect(auditSummary({ action: 'plan.updated', details: {} })).toBe('saved unchanged')
+  })
+
   it('falls back to key: value pairs for entries it has no sentence for', () => {
     expect(
       auditSummary({ action: 'dataset.uploaded', details: { name: 'cells', rows: 40, columns: ['a'] } }),

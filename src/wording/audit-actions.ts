@@ -52,6 +52,14 @@ function roleName(value: unknown): string {
   return typeof value === 'string' && value in roleWording ? roleWording[value as Role].label : String(value)
 }
 
+function planChanges(d: Record<string, unknown>): string {
+  const name = d.name as { from?: unknown; to?: unknown } | undefined
+  const parts = []
+  if (name) parts.push(`renamed “${String(name.from)}” → “${String(name.to)}”`)
+  if (d.projectId) parts.push('moved to another project')
+  return parts.join(', ') || 'saved unchanged'
+}
+
 /** One line of what changed, from the entry's details. Unknown shapes fall back to key: value pairs. */
 export function auditSummary(event: Pick<AuditEvent, 'action' | 'details'>): string {
   const d = event.details
@@ -69,6 +77,11 @@ export function auditSummary(event: Pick<AuditEvent, 'action' | 'details'>): str
       return `${String(d.email ?? 'member')} (was ${roleName(d.role)})`
     case 'lab.created':
       return String(d.name ?? '')
+    case 'plan.created':
+    case 'plan.deleted':
+      return `“${String(d.name ?? '')}”`
+    case 'plan.updated':
+      return planChanges(d)
   }
   return Object.entries(d)
     .map(([key, value]) => `${key}: ${typeof value === 'object' ? JSON.stringify(value) : String(value)}`)
