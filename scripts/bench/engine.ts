@@ -170,6 +170,7 @@ async function main() {
   let worstDefault: { quantity: string; value: number } | null = null
   let worstPolished: { quantity: string; value: number } | null = null
   let worstAtOurs: { quantity: string; value: number } | null = null
+  let worstSteady: { quantity: string; value: number } | null = null
   if (flags.has('--no-r')) {
     section('lmerTest::lmer: skipped (--no-r)')
   } else if (!rscriptAvailable()) {
@@ -211,6 +212,7 @@ async function main() {
       versions: { lme4: string; lmerTest: string }
       polished?: ReferenceEstimates & { seconds: number; satterthwaiteSeconds: number; remlCriterion: number }
       atOther: ReferenceEstimates
+      steadySteps: ReferenceEstimates
     }
     console.log(
       `  lme4 ${reference.versions.lme4}, lmerTest ${reference.versions.lmerTest}: read.csv ${fmt(reference.readSeconds)} s (not counted); ` +
@@ -239,17 +241,24 @@ async function main() {
     const rowsDefault = compareEstimates(analyzer.result, reference)
     const rowsPolished = reference.polished ? compareEstimates(analyzer.result, reference.polished) : null
     const rowsAtOurs = compareEstimates(analyzer.result, reference.atOther)
+    const rowsSteady = compareEstimates(analyzer.result, reference.steadySteps)
     printComparison(rowsDefault, [
       { title: 'lmerTest', rows: rowsDefault },
       ...(rowsPolished ? [{ title: 'polished', rows: rowsPolished }] : []),
       { title: 'at ours', rows: rowsAtOurs },
+      { title: 'steady steps', rows: rowsSteady },
     ])
     console.log(
-      "  (at ours: lmerTest's SEs and Satterthwaite df evaluated at nestwise's variance components, no optimising)",
+      "  at ours: lmerTest's SEs and Satterthwaite df evaluated at nestwise's variance components, no optimising;",
+    )
+    console.log(
+      "  steady steps: the same formula from lmerTest's own pieces with numDeriv steps from 10 % of each parameter\n" +
+        "  (its default Jacobian step is below the deviance's rounding noise on large data; see lmer-bench.R)",
     )
     worstDefault = largestDifference(rowsDefault)
     worstPolished = rowsPolished ? largestDifference(rowsPolished) : null
     worstAtOurs = largestDifference(rowsAtOurs)
+    worstSteady = largestDifference(rowsSteady)
     const tolerance = (name: string) =>
       name.startsWith('variance ' + columns.levels[0])
         ? ' ← the outermost level: only ' + spec.labs + ' labs inform it, so the criterion is flat there'
@@ -263,6 +272,9 @@ async function main() {
       )
     console.log(
       `  largest vs lmerTest at nestwise's variance components: ${sci(worstAtOurs?.value ?? null)} (${worstAtOurs?.quantity})`,
+    )
+    console.log(
+      `  largest vs the same with steady derivative steps: ${sci(worstSteady?.value ?? null)} (${worstSteady?.quantity})`,
     )
     const atOurs = reference.criterionAtOther
     const versus = (value: number) =>
@@ -307,6 +319,10 @@ async function main() {
   if (worstAtOurs)
     console.log(
       `  SEs and df vs lmerTest at the same variance components: ${sci(worstAtOurs.value)} (target ≤ 1e-4: ${mark(worstAtOurs.value <= 1e-4)})`,
+    )
+  if (worstSteady)
+    console.log(
+      `  SEs and df vs lmerTest's formula at the same components, steady steps: ${sci(worstSteady.value)} (target ≤ 1e-4: ${mark(worstSteady.value <= 1e-4)})`,
     )
   console.log(`  peak memory: ${mb(peakKb)} (target < 1 GB: ${mark(peakKb < 1024 * 1024)})`)
   console.log(

@@ -4,7 +4,8 @@
 # default fit can stop short of the optimum, and recomputes lmerTest's Satterthwaite df on the
 # polished fit. Given the other engine's variance components (JSON, R path names), it also
 # evaluates lme4's own REML criterion there, and lmerTest's SEs and Satterthwaite df at exactly
-# those components. Prints one JSON line.
+# those components, both with lmerTest's default derivative steps and with steadier ones.
+# Prints one JSON line.
 # Usage: Rscript lmer-bench.R FILE RESPONSE LEVELS CONDITION REFERENCE [polish|no-polish] [COMPONENTS_JSON]
 suppressPackageStartupMessages({
   library(lmerTest)
@@ -129,6 +130,29 @@ if (!is.null(other)) {
       r <- lmerTest::contest1D(givenT, mean_vector(k))
       list(condition = labels[k], estimate = r[["Estimate"]], se = r[["Std. Error"]], df = r[["df"]])
     })
+  )
+  # The same Satterthwaite formula from lmerTest's own pieces (devfun_vp, get_covbeta), but with
+  # numDeriv's Richardson steps starting at 10 % of each parameter for both derivatives. lmerTest's
+  # default Jacobian step (1e-4 relative) falls below the rounding noise of the deviance on a million
+  # rows, which moves its df of a condition mean in the fourth digit from one step size to the next.
+  beta <- lme4::fixef(given)
+  varpar <- c(unname(at), sqrt(other[["residual"]]))
+  steady <- list(eps = 1e-4, d = 0.1, zero.tol = sqrt(.Machine$double.eps / 7e-7), r = 4, v = 2)
+  A <- 2 * solve(numDeriv::hessian(lmerTest:::devfun_vp, varpar, devfun = dfun, reml = TRUE, method.args = steady))
+  satterthwaite <- function(L) {
+    v_of <- function(p) drop(t(L) %*% lmerTest:::get_covbeta(p, dfun) %*% L)
+    g <- numDeriv::grad(v_of, varpar, method.args = steady)
+    list(estimate = sum(L * beta), se = sqrt(v_of(varpar)), df = 2 * v_of(varpar)^2 / drop(t(g) %*% A %*% g))
+  }
+  out$steadySteps <- list(
+    # Taken before: the derivatives below move the deviance function's shared state.
+    components = out$atOther$components,
+    contrasts = lapply(seq_along(labels)[-1], function(k) {
+      L <- numeric(length(labels))
+      L[k] <- 1
+      c(list(a = labels[k], b = labels[1]), satterthwaite(L))
+    }),
+    means = lapply(seq_along(labels), function(k) c(list(condition = labels[k]), satterthwaite(mean_vector(k))))
   )
 }
 
