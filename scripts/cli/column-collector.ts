@@ -26,9 +26,6 @@ class FactorBuilder {
   readonly codeOf = new Map<string, number>()
   readonly labels: string[] = []
   codes: Int32Array
-  // Tables are usually sorted by unit, so most rows repeat the previous row's label.
-  private lastLabel = ''
-  private lastCode = -1
 
   constructor(
     readonly name: string,
@@ -39,15 +36,12 @@ class FactorBuilder {
 
   /** Code of a (trimmed, non-empty) label, adding it on first sight. */
   code(label: string): number {
-    if (label === this.lastLabel && this.lastCode >= 0) return this.lastCode
     let code = this.codeOf.get(label)
     if (code === undefined) {
       code = this.labels.length
       this.labels.push(label)
       this.codeOf.set(label, code)
     }
-    this.lastLabel = label
-    this.lastCode = code
     return code
   }
 
@@ -61,7 +55,7 @@ class FactorBuilder {
  * Turns table rows into engine columns without keeping any per-row object: labels become integer
  * codes through Map lookups, the response goes straight into a Float64Array. A row with a missing
  * label or a missing response gets NaN as its response so the engine leaves it out and counts it.
- * The reader calls, per data row: `startRow`, `setLabel` for each factor, then `commitRow`.
+ * The reader looks up label codes only when a label changes from one row to the next.
  */
 export class ColumnCollector {
   private responseIndex = -1
@@ -101,28 +95,27 @@ export class ColumnCollector {
     return this.responseIndex
   }
 
-  /** Index of the next data row, with room made for it. */
-  startRow(): number {
-    if (this.rows === this.response.length) this.grow()
-    return this.rows
-  }
-
-  /** Codes factor `factor` of row `row`; false when the label is missing (the row is then left out). */
-  setLabel(factor: number, row: number, raw: string): boolean {
+  /** Code of factor `factor`'s label, or -1 when the label is missing. */
+  labelCode(factor: number, raw: string): number {
     const label = clean(raw)
-    const builder = this.factors[factor]
-    if (label === '') {
-      // A row with a missing label still needs a code; it is left out through its NaN response.
-      builder.codes[row] = 0
-      return false
-    }
-    builder.codes[row] = builder.code(label)
-    return true
+    return label === '' ? -1 : this.factors[factor].code(label)
   }
 
-  /** Keeps the row started last, with its response (NaN = missing). */
-  commitRow(response: number): void {
-    this.response[this.rows++] = response
+  /**
+   * Adds a data row: one label code per factor, in factor order. A row with a missing label (-1)
+   * still needs a code; it is left out through a NaN response.
+   */
+  addRow(codes: Int32Array, response: number): void {
+    if (this.rows === this.response.length) this.grow()
+    const row = this.rows++
+    const factors = this.factors
+    let missing = false
+    for (let f = 0; f < factors.length; f++) {
+      const code = codes[f]
+      if (code < 0) missing = true
+      factors[f].codes[row] = code < 0 ? 0 : code
+    }
+    this.response[row] = missing ? NaN : response
   }
 
   finish(): NestedColumns {

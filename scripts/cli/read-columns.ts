@@ -12,8 +12,9 @@ export interface ReadColumnsOptions extends ColumnSelection {
   delimiter?: string
 }
 
-/** Enough rows to tell the separator with confidence (a few hundred on a typical export). */
+/** Bytes gathered before guessing the separator, and the lines of them the guess looks at. */
 const GUESS_BYTES = 16 * 1024
+const GUESS_LINES = 50
 const READ_BYTES = 1 << 20
 
 /**
@@ -28,7 +29,8 @@ class ColumnReader {
   private pendingBytes = 0
   private previousBytes: Buffer[] = []
   private previousLength: number[] = []
-  private previousText: string[] = []
+  /** Label code of each factor in the current row (-1 = missing). */
+  private codes = new Int32Array(0)
 
   constructor(
     private readonly options: ReadColumnsOptions,
@@ -54,7 +56,7 @@ class ColumnReader {
 
   private startScanning(): void {
     const head = Buffer.concat(this.pending)
-    const delimiter = this.options.delimiter ?? guessDelimiter(head.toString('utf8'), this.extension)
+    const delimiter = this.options.delimiter ?? guessDelimiter(firstLines(head, GUESS_LINES), this.extension)
     this.scanner = new CsvByteScanner(delimiter.charCodeAt(0), (record) => this.onRecord(record))
     this.pending = []
     this.scanner.push(head)
@@ -72,15 +74,20 @@ class ColumnReader {
       collector.addHeader(header)
       this.previousBytes = collector.factorColumns.map(() => Buffer.alloc(64))
       this.previousLength = collector.factorColumns.map(() => -1)
-      this.previousText = collector.factorColumns.map(() => '')
+      this.codes = new Int32Array(collector.factorColumns.length)
       return
     }
-    const row = collector.startRow()
     const columns = collector.factorColumns
+    const codes = this.codes
     let missing = false
     for (let f = 0; f < columns.length; f++) {
-      const label = columns[f] < record.count ? this.label(record, f, columns[f]) : ''
-      if (!collector.setLabel(f, row, label)) missing = true
+      const field = columns[f]
+      if (field >= record.count) {
+        codes[f] = -1
+        this.previousLength[f] = -1
+      } else if (!this.sameLabel(record, f, field))
+        codes[f] = collector.labelCode(f, fieldText(record, field))
+      if (codes[f] < 0) missing = true
     }
     // A row of separators only (spreadsheet leftovers) is not data: forget it instead of counting it.
     if (missing && isBlank(record)) return
@@ -91,35 +98,45 @@ class ColumnReader {
         ? NaN
         : parseDecimalBytes(record.bytes, record.starts[column], record.ends[column], collector.decimalComma)
       if (Number.isNaN(response))
-        response = collector.parseResponse(fieldText(record, column), row, record.line)
+        response = collector.parseResponse(fieldText(record, column), collector.rowCount, record.line)
     }
-    collector.commitRow(response)
+    collector.addRow(codes, response)
   }
 
-  /** The text of factor `f`'s field, reusing the previous row's string when the bytes are the same. */
-  private label(record: CsvRecord, f: number, field: number): string {
-    if (record.escaped[field]) {
-      this.previousLength[f] = -1
-      return fieldText(record, field)
-    }
+  /**
+   * True when factor `f`'s field holds the same bytes as in the previous row (its code still holds);
+   * otherwise remembers the new bytes. Quoted fields with doubled quotes are always looked up.
+   */
+  private sameLabel(record: CsvRecord, f: number, field: number): boolean {
     const start = record.starts[field]
     const length = record.ends[field] - start
     const bytes = record.bytes
     let previous = this.previousBytes[f]
+    if (record.escaped[field]) {
+      this.previousLength[f] = -1
+      return false
+    }
     if (length === this.previousLength[f]) {
-      let same = true
-      for (let k = 0; k < length; k++)
-        if (bytes[start + k] !== previous[k]) {
-          same = false
-          break
-        }
-      if (same) return this.previousText[f]
+      let k = 0
+      while (k < length && bytes[start + k] === previous[k]) k++
+      if (k === length) return true
     }
     if (length > previous.length) previous = this.previousBytes[f] = Buffer.alloc(2 * length)
     bytes.copy(previous, 0, start, start + length)
     this.previousLength[f] = length
-    return (this.previousText[f] = bytes.toString('utf8', start, start + length))
+    return false
   }
+}
+
+/** The text of the first `count` lines (fewer when the bytes end first): plenty for a guess, quick to score. */
+function firstLines(bytes: Buffer, count: number): string {
+  let end = 0
+  for (let line = 0; line < count; line++) {
+    const next = bytes.indexOf(10, end)
+    if (next < 0) return bytes.toString('utf8')
+    end = next + 1
+  }
+  return bytes.toString('utf8', 0, end)
 }
 
 function isBlank(record: CsvRecord): boolean {
