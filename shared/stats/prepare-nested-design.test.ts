@@ -32,7 +32,7 @@ describe('prepareNestedDesign', () => {
     const d = prepareNestedDesign(cols)
     expect(d.nObs).toBe(8)
     expect(d.nDropped).toBe(1)
-    expect([...d.rowOfObs]).toEqual([0, 1, 3, 4, 5, 6, 7, 8])
+    expect([...d.randomLevels[1].unitOfObs]).toEqual([0, 0, 1, 2, 2, 3, 3, 3])
     expect([...d.y]).toEqual([1, 2, 4, 5, 6, 7, 8, 9])
   })
 

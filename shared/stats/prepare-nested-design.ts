@@ -57,7 +57,6 @@ export function prepareNestedDesign(
   checkNames(levels, condition)
   for (const f of condition ? [...levels, condition] : levels) checkFactor(f, nRows)
 
-  const kept = new Int32Array(nRows)
   let nObs = 0
   for (let r = 0; r < nRows; r++) {
     const v = response[r]
@@ -68,7 +67,7 @@ export function prepareNestedDesign(
         columns.responseName,
       )
     }
-    kept[nObs++] = r
+    nObs++
   }
   const nDropped = nRows - nObs
   if (nObs < 2) {
@@ -77,20 +76,26 @@ export function prepareNestedDesign(
       columns.responseName,
     )
   }
-  const rowOfObs = kept.slice(0, nObs)
-  // With nothing dropped (the usual case) whole-column copies replace the row-by-row gathers.
-  const gather = <T extends Float64Array | Int32Array>(column: T, into: T): T => {
-    if (nDropped === 0) into.set(column)
-    else for (let i = 0; i < nObs; i++) into[i] = column[rowOfObs[i]]
-    return into
+  // With nothing dropped (the usual case) the design shares the input's columns instead of copying
+  // them: fresh memory is slow to touch, and on a million rows the copies cost more than the fit.
+  let rowOfObs: Int32Array | null = null
+  if (nDropped > 0) {
+    rowOfObs = new Int32Array(nObs)
+    for (let r = 0, i = 0; r < nRows; r++) if (response[r] === response[r]) rowOfObs[i++] = r
   }
-  const y = gather(response, new Float64Array(nObs))
+  const keep = <T extends Float64Array | Int32Array>(column: T, make: (n: number) => T): T => {
+    if (!rowOfObs) return column
+    const kept = make(nObs)
+    for (let i = 0; i < nObs; i++) kept[i] = column[rowOfObs[i]]
+    return kept
+  }
+  const y = keep(response, (n) => new Float64Array(n))
 
   const randomLevels: RandomLevel[] = []
   const implicitNesting: { level: string; labels: string[] }[] = []
   let parent: RandomLevel | null = null
   for (const factor of levels) {
-    const codes = gather(factor.codes, new Int32Array(nObs))
+    const codes = keep(factor.codes, (n) => new Int32Array(n))
     const level = nestLevel(factor.name, codes, factor.labels, parent, false)
     checkLevelSize(level, parent, nObs)
     const repeated = labelsUnderSeveralParents(level, codes, factor.labels)
@@ -102,7 +107,11 @@ export function prepareNestedDesign(
   let coding: ConditionCoding | null = null
   let conditionLevel: string | null = null
   if (condition) {
-    coding = codeCondition(condition, rowOfObs, opts.reference)
+    coding = codeCondition(
+      condition,
+      keep(condition.codes, (n) => new Int32Array(n)),
+      opts.reference,
+    )
     const mixing = randomLevels.map((level) => unitsMixConditions(level, coding!.codes))
     const carrying = mixing.indexOf(false)
     conditionLevel = carrying === -1 ? null : randomLevels[carrying].name
@@ -117,7 +126,6 @@ export function prepareNestedDesign(
     responseName: columns.responseName,
     nObs,
     y,
-    rowOfObs,
     levelNames: levels.map((f) => f.name),
     randomLevels,
     condition: coding,
@@ -175,15 +183,29 @@ function nestLevel(
   const slots = nParents * nLabels
   if (slots > Number.MAX_SAFE_INTEGER)
     throw new EngineInputError(`The level "${name}" has too many units.`, name)
-  const parentOf = parent ? parent.unitOfObs : new Int32Array(nObs)
+  const parentOf = parent ? parent.unitOfObs : null
 
-  const unitOfObs = new Int32Array(nObs)
+  let unitOfObs: Int32Array
   let keys: number[]
-  if (slots <= MAX_TABLE_SLOTS) {
+  if (!parentOf && nLabels <= MAX_TABLE_SLOTS) {
+    // Outermost level: a unit per label in use. When every label is in use (the usual case) the
+    // codes already are the unit numbers and are shared rather than copied.
+    const used = new Uint8Array(nLabels)
+    for (let i = 0; i < nObs; i++) used[codes[i]] = 1
+    keys = []
+    const unitOfCode = new Int32Array(nLabels)
+    for (let k = 0; k < nLabels; k++) if (used[k]) unitOfCode[k] = keys.push(k) - 1
+    if (keys.length === nLabels) unitOfObs = codes
+    else {
+      unitOfObs = new Int32Array(nObs)
+      for (let i = 0; i < nObs; i++) unitOfObs[i] = unitOfCode[codes[i]]
+    }
+  } else if (slots <= MAX_TABLE_SLOTS) {
     // unitOfObs first holds each row's slot, then is overwritten with the slot's unit number.
+    unitOfObs = new Int32Array(nObs)
     const table = new Int32Array(slots).fill(-1)
     for (let i = 0; i < nObs; i++) {
-      const slot = parentOf[i] * nLabels + codes[i]
+      const slot = parentOf ? parentOf[i] * nLabels + codes[i] : codes[i]
       unitOfObs[i] = slot
       table[slot] = 0
     }
@@ -191,11 +213,13 @@ function nestLevel(
     for (let k = 0; k < slots; k++) if (table[k] === 0) table[k] = keys.push(k) - 1
     for (let i = 0; i < nObs; i++) unitOfObs[i] = table[unitOfObs[i]]
   } else {
+    unitOfObs = new Int32Array(nObs)
     const index = new Map<number, number>()
-    for (let i = 0; i < nObs; i++) index.set(parentOf[i] * nLabels + codes[i], 0)
+    const slotOf = (i: number) => (parentOf ? parentOf[i] * nLabels + codes[i] : codes[i])
+    for (let i = 0; i < nObs; i++) index.set(slotOf(i), 0)
     keys = [...index.keys()].sort((a, b) => a - b)
     keys.forEach((k, u) => index.set(k, u))
-    for (let i = 0; i < nObs; i++) unitOfObs[i] = index.get(parentOf[i] * nLabels + codes[i])!
+    for (let i = 0; i < nObs; i++) unitOfObs[i] = index.get(slotOf(i))!
   }
 
   const nUnits = keys.length
@@ -242,11 +266,8 @@ function labelsUnderSeveralParents(level: RandomLevel, codes: Int32Array, labels
   return repeated
 }
 
-function codeCondition(
-  condition: Factor,
-  rowOfObs: Int32Array,
-  reference: string | undefined,
-): ConditionCoding {
+/** `kept` holds the condition's codes of the kept observations; it is returned as is when already in reference order. */
+function codeCondition(condition: Factor, kept: Int32Array, reference: string | undefined): ConditionCoding {
   const { name, labels } = condition
   const refLabel = reference ?? labels[0]
   const refIndex = labels.indexOf(refLabel)
@@ -262,11 +283,11 @@ function codeCondition(
   const order = [refIndex, ...labels.map((_, i) => i).filter((i) => i !== refIndex)]
   const newCode = new Int32Array(labels.length)
   order.forEach((old, k) => (newCode[old] = k))
-  const codes = new Int32Array(rowOfObs.length)
+  const codes = refIndex === 0 ? kept : new Int32Array(kept.length)
   const counts = new Int32Array(labels.length)
-  for (let i = 0; i < rowOfObs.length; i++) {
-    const k = newCode[condition.codes[rowOfObs[i]]]
-    codes[i] = k
+  for (let i = 0; i < kept.length; i++) {
+    const k = newCode[kept[i]]
+    if (refIndex !== 0) codes[i] = k
     counts[k]++
   }
   const ordered = order.map((i) => labels[i])

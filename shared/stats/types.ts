@@ -57,10 +57,8 @@ export interface ConditionCoding {
 export interface NestedDesign {
   responseName: string
   nObs: number
-  /** Response of each kept observation. */
+  /** Response of each kept observation (the input's own column when no row was dropped; never modified). */
   y: Float64Array
-  /** For each kept observation, its row index in the input columns. */
-  rowOfObs: Int32Array
   /** The given level names, outermost first. */
   levelNames: string[]
   /** Random levels outermost first, including an inserted "<level>:condition" level. */
