@@ -4,7 +4,7 @@
  * Generates a seeded, invented data set (full: 12 labs × 40 mice × 1,000–3,000 neurons ≈ 1M rows;
  * --quick: 12 × 10 × 100–300), writes it as CSV to a temporary folder, and times:
  *  1. `nestwise analyze` as a child process (parse + fit + Satterthwaite + summaries, bootstrap off),
- *     five runs, with its wall time, CPU time and peak memory (maxRSS and CPU reported by the child
+ *     seven runs, with its wall time, CPU time and peak memory (maxRSS and CPU reported by the child
  *     itself, see report-usage.mjs);
  *  2. the same steps in this process, to show where the time goes;
  *  3. lmerTest::lmer on the same file (Rscript, lme4 defaults), when Rscript is installed, and the
@@ -135,7 +135,7 @@ async function main() {
   section(
     'nestwise analyze (child process: start-up + parse + REML fit + Satterthwaite + summaries; bootstrap off)',
   )
-  const analyzer = await analyzerRuns([], 5)
+  const analyzer = await analyzerRuns([], 7)
   console.log(
     `  wall: ${analyzer.times.map((t) => `${fmt(t)} s`).join(', ')} → median ${fmt(analyzer.median)} s`,
   )
