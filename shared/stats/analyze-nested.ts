@@ -1,15 +1,10 @@
-import type {
-  AnalysisResult,
-  BalancedAnovaCheck,
-  BootstrapResult,
-  LevelIcc,
-} from '../schemas/analysis-result'
+import type { AnalysisResult, BalancedAnovaCheck, LevelIcc } from '../schemas/analysis-result'
 import { anovaNestedBalanced } from './anova-nested-balanced'
+import { bootstrapForResult } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
 import { compareUnitMeans } from './compare-unit-means'
 import { ENGINE_VERSION } from './engine-version'
 import { fitNestedReml } from './fit-nested-reml'
-import { hierarchicalBootstrap } from './hierarchical-bootstrap'
 import { naiveComparison } from './naive-comparison'
 import { nestedDesignEffect } from './nested-design-effect'
 import { observationsPerUnit } from './observations-per-unit'
@@ -133,7 +128,9 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
       mixedModel: design.condition ? { omnibus: omnibusF(design, fit), contrasts } : null,
       unitMeans: unitMeans.test,
       naive,
-      bootstrap: options.bootstrap ? runBootstrap(design, contrasts, options.bootstrap) : null,
+      bootstrap: options.bootstrap
+        ? bootstrapForResult(design, contrasts, { ...options.bootstrap, confidence: CONFIDENCE })
+        : null,
     },
     balancedAnova: balancedCheck(design, fit, total),
     warnings: [],
@@ -209,43 +206,5 @@ function balancedCheck(design: NestedDesign, fit: NestedFit, total: number): Bal
     components: anova.components,
     anyNegative: anova.anyNegative,
     maxDifferenceToReml,
-  }
-}
-
-function runBootstrap(
-  design: NestedDesign,
-  contrasts: { a: string; b: string }[],
-  settings: { resamples: number; seed: string },
-): BootstrapResult {
-  const labels = design.condition?.labels ?? ['all']
-  const boot = hierarchicalBootstrap(design, {
-    resamples: settings.resamples,
-    seed: settings.seed,
-    confidence: CONFIDENCE,
-    pairs: contrasts.map(({ a, b }) => [labels.indexOf(a), labels.indexOf(b)] as [number, number]),
-  })
-  return {
-    resamples: boot.resamples,
-    seed: boot.seed,
-    confidence: boot.confidence,
-    exactBelow: boot.exactBelow,
-    approximatedGroups: boot.approximatedGroups,
-    innermostGroups: boot.innermostGroups,
-    groups: boot.conditions.map((c) => ({
-      condition: c.label,
-      estimate: c.observed,
-      se: c.se,
-      ciLow: c.ci[0],
-      ciHigh: c.ci[1],
-    })),
-    contrasts: boot.differences.map((d) => ({
-      a: d.a,
-      b: d.b,
-      estimate: d.observed,
-      se: d.se,
-      ciLow: d.ci[0],
-      ciHigh: d.ci[1],
-      p: d.pBootstrap,
-    })),
   }
 }
