@@ -1,7 +1,8 @@
 import type { Express } from 'express'
 import seedrandom from 'seedrandom'
 import { expect } from 'vitest'
-import { getAs, putAs, uploadDataset } from './datasets-support'
+import { finishQueuedVersion } from '../support/finished-version'
+import { getAs, postAs, putAs, uploadDataset } from './datasets-support'
 
 export interface NeuriteSpec {
   seed?: string
@@ -99,4 +100,12 @@ export async function pollUntilFinished(
       )
     await new Promise((resolve) => setTimeout(resolve, 15))
   }
+}
+
+/** Creates an analysis of a tagged dataset and finishes its first version in the test process. */
+export async function finishedAnalysis(app: Express, cookie: string, datasetId: number, name: string) {
+  const res = await postAs(app, cookie, '/api/v1/analyses', { datasetId, name })
+  expect(res.status, JSON.stringify(res.body)).toBe(201)
+  await finishQueuedVersion(res.body.data.id)
+  return res.body.data.id as number
 }

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
 import { closeConnections, createTestApp } from '../support/api'
 import { finishQueuedVersion } from '../support/finished-version'
-import { neuriteCsv, taggedDataset } from './analyses-support'
+import { finishedAnalysis, neuriteCsv, taggedDataset } from './analyses-support'
 import { getAs, postAs, signedInTeam } from './datasets-support'
 
 const app = createTestApp()
@@ -32,12 +32,8 @@ const board = async (query = '') => {
 }
 const row = (rows: Row[], id: number) => rows.find((r) => r.analysisId === id)!
 
-async function analysis(cookie: string, datasetId: number, name: string): Promise<number> {
-  const res = await postAs(app, cookie, '/api/v1/analyses', { datasetId, name })
-  expect(res.status, JSON.stringify(res.body)).toBe(201)
-  await finishQueuedVersion(res.body.data.id)
-  return res.body.data.id
-}
+const analysis = (cookie: string, datasetId: number, name: string) =>
+  finishedAnalysis(app, cookie, datasetId, name)
 
 beforeAll(async () => {
   ;[team, outsider] = await Promise.all([signedInTeam(app), signedInTeam(app)])

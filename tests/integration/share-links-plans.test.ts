@@ -5,7 +5,7 @@ import { PlanRecommendation, type Plan } from '../../shared/schemas/plans'
 import { SharedAnalysis } from '../../shared/schemas/share-links'
 import { closeConnections, createTestApp } from '../support/api'
 import { finishQueuedVersion } from '../support/finished-version'
-import { neuriteCsv, taggedDataset } from './analyses-support'
+import { finishedAnalysis, neuriteCsv, taggedDataset } from './analyses-support'
 import { deleteAs, getAs, postAs, signedInTeam } from './datasets-support'
 
 /**
@@ -65,13 +65,8 @@ beforeAll(async () => {
     team.lab.id,
     neuriteCsv({ seed: 'shared-plans', mice: 8 }),
   )
-  for (const name of ['Shared with plans', 'Other analysis']) {
-    const res = await postAs(app, team.cookies.scientist, '/api/v1/analyses', { datasetId: dataset.id, name })
-    expect(res.status).toBe(201)
-    await finishQueuedVersion(res.body.data.id)
-    if (name === 'Shared with plans') sharedId = res.body.data.id
-    else otherId = res.body.data.id
-  }
+  sharedId = await finishedAnalysis(app, team.cookies.scientist, dataset.id, 'Shared with plans')
+  otherId = await finishedAnalysis(app, team.cookies.scientist, dataset.id, 'Other analysis')
   const second = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${sharedId}/versions`, {
     settings: { reference: 'NW-117' },
   })

@@ -3,10 +3,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
 import { hashInvitationToken } from '../../server/services/invitation-tokens'
 import { appWriteHeaders, closeConnections, createTestApp } from '../support/api'
-import { finishQueuedVersion } from '../support/finished-version'
 import { uniqueEmail } from '../support/factories'
 import { latestOutboxRowTo } from '../support/mail'
-import { neuriteCsv, taggedDataset } from './analyses-support'
+import { finishedAnalysis, neuriteCsv, taggedDataset } from './analyses-support'
 import { deleteAs, getAs, postAs, signedInTeam } from './datasets-support'
 
 const app = createTestApp()
@@ -32,13 +31,8 @@ beforeAll(async () => {
     team.lab.id,
     neuriteCsv({ seed: 'share', mice: 8 }),
   )
-  for (const name of ['Shared one', 'Never shared']) {
-    const res = await postAs(app, team.cookies.scientist, '/api/v1/analyses', { datasetId: dataset.id, name })
-    expect(res.status).toBe(201)
-    await finishQueuedVersion(res.body.data.id)
-    if (name === 'Shared one') analysisId = res.body.data.id
-    else otherAnalysisId = res.body.data.id
-  }
+  analysisId = await finishedAnalysis(app, team.cookies.scientist, dataset.id, 'Shared one')
+  otherAnalysisId = await finishedAnalysis(app, team.cookies.scientist, dataset.id, 'Never shared')
 }, 120_000)
 
 afterAll(closeConnections)
