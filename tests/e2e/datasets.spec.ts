@@ -278,6 +278,9 @@ test('the uploader renames and deletes a dataset, the instance admin restores it
   await page.getByTestId('nav-datasets').click()
   await page.getByTestId('dataset-link').filter({ hasText: newName }).click()
   await expect(page.getByTestId('dataset-name')).toHaveText(newName)
+  // The drawer keeps "Datasets" lit on a dataset's own page.
+  await expect(page.getByTestId('nav-datasets')).toHaveClass(/v-list-item--active/)
+  await expect(page.getByTestId('nav-overview')).not.toHaveClass(/v-list-item--active/)
   // A biostatistician reads the nesting but does not change it.
   await expect(page.getByTestId('nesting-form')).toContainText(
     'Scientists and PIs of the lab set the nesting',

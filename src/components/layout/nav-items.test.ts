@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { decideAccess } from '@/router/access'
 import { routes } from '@/router/routes'
 import { allTestUsers, orlaAdmin, petraPi } from '@/testing/users'
-import { navItems, navItemsFor, visibleFor, type NavItem } from './nav-items'
+import { activeNavItem, navItems, navItemsFor, visibleFor, type NavItem } from './nav-items'
 
 describe('navItemsFor', () => {
   it('shows nothing to an anonymous visitor', () => {
@@ -55,5 +55,31 @@ describe('navItems', () => {
         expect(item.visibleFor(user), `${item.id} for ${user.email}`).toBe(allowed)
       }
     }
+  })
+})
+
+describe('activeNavItem', () => {
+  const paths: Record<string, string> = {
+    overview: '/',
+    datasets: '/datasets',
+    analyses: '/analyses',
+    planner: '/planner',
+    'admin-people': '/admin/people',
+  }
+  const items = navItems.filter((item) => item.id in paths)
+  const active = (path: string) => activeNavItem(items, path, (to) => paths[to.name])
+
+  it('keeps the list entry lit on the pages below it', () => {
+    expect(active('/datasets')).toBe('datasets')
+    expect(active('/datasets/12')).toBe('datasets')
+    expect(active('/analyses/3/versions/2/agreement')).toBe('analyses')
+    expect(active('/plans/7')).toBe('planner')
+    expect(active('/admin/labs/2')).toBe('admin-people')
+  })
+
+  it('lights the overview only on itself, and nothing on unrelated pages', () => {
+    expect(active('/')).toBe('overview')
+    expect(active('/datasets-old')).toBeNull()
+    expect(active('/s/abc')).toBeNull()
   })
 })

@@ -22,6 +22,8 @@ export interface NavItem {
   to: RouteLocationRaw & { name: string }
   section: 'work' | 'instance'
   visibleFor: NavRule
+  /** Other path prefixes whose pages belong to this entry (a plan's page to the planner). */
+  alsoUnder?: string[]
 }
 
 /**
@@ -61,6 +63,7 @@ export const navItems: NavItem[] = [
     to: { name: 'planner' },
     section: 'work',
     visibleFor: visibleFor.everyone(),
+    alsoUnder: ['/plans'],
   },
   {
     id: 'lab-board',
@@ -101,6 +104,7 @@ export const navItems: NavItem[] = [
     to: { name: 'admin-people' },
     section: 'instance',
     visibleFor: visibleFor.admin(),
+    alsoUnder: ['/admin/labs'],
   },
   {
     id: 'admin-outbox',
@@ -128,4 +132,24 @@ export const sectionTitles: Record<NavItem['section'], string | null> = {
 export function navItemsFor(user: CurrentUser | null, items: NavItem[] = navItems): NavItem[] {
   if (!user) return []
   return items.filter((item) => item.visibleFor(user))
+}
+
+/**
+ * The entry to highlight for the page at `path`: the one whose own path (or one of `alsoUnder`) is
+ * the longest prefix of it, so a dataset's page keeps "Datasets" lit. The overview ("/") only
+ * matches itself. `pathOf` turns an entry's route into its path.
+ */
+export function activeNavItem(
+  items: NavItem[],
+  path: string,
+  pathOf: (to: NavItem['to']) => string,
+): string | null {
+  let best: { id: string; length: number } | null = null
+  for (const item of items) {
+    for (const prefix of [pathOf(item.to), ...(item.alsoUnder ?? [])]) {
+      const matches = prefix === '/' ? path === '/' : path === prefix || path.startsWith(`${prefix}/`)
+      if (matches && (!best || prefix.length > best.length)) best = { id: item.id, length: prefix.length }
+    }
+  }
+  return best?.id ?? null
 }
