@@ -37,3 +37,24 @@ export async function prepareDatabase(name: string, { fresh = false, seed = fals
     await db.destroy()
   }
 }
+
+/** Drops a database if it exists, closing the connections still open on it. */
+export async function dropDatabase(name: string): Promise<void> {
+  const admin = connectTo('postgres')
+  try {
+    await admin.raw('drop database if exists ?? with (force)', [name])
+  } finally {
+    await admin.destroy()
+  }
+}
+
+/** Names of the databases that start with `prefix`. */
+export async function databasesNamed(prefix: string): Promise<string[]> {
+  const admin = connectTo('postgres')
+  try {
+    const result = await admin.raw('select datname from pg_database where starts_with(datname, ?)', [prefix])
+    return (result.rows as { datname: string }[]).map((r) => r.datname)
+  } finally {
+    await admin.destroy()
+  }
+}
