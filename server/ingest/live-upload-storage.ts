@@ -5,6 +5,8 @@ import type { Request } from 'express'
 import type { StorageEngine } from 'multer'
 import type { ChunkChannel } from './chunk-channel'
 
+const DISK_BUFFER_BYTES = 1024 * 1024
+
 /** Called when the file part of an upload begins: a channel to ingest it live, or null to only store it. */
 export type StartLiveIngest = (
   req: Request,
@@ -31,7 +33,9 @@ export function liveDiskStorage(
         done(error as Error)
         return
       }
-      const out = createWriteStream(path)
+      // Room for several chunks: with the default 16 KB every chunk would wait for its disk write
+      // before the next one is read from the socket, pacing the whole transfer by the disk.
+      const out = createWriteStream(path, { highWaterMark: DISK_BUFFER_BYTES })
       const stream = file.stream
       let size = 0
       let waits = 0
