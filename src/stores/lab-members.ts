@@ -1,5 +1,5 @@
 import { defineStore } from 'pinia'
-import { ref } from 'vue'
+import { ref, type Ref } from 'vue'
 import type { Role } from '../../shared/schemas/auth'
 import type { InvitationCreate, InvitationSummary } from '../../shared/schemas/invitations'
 import type { LabMember } from '../../shared/schemas/labs'
@@ -65,52 +65,48 @@ export const useLabMembersStore = defineStore('lab-members', () => {
     }
   }
 
-  async function changeRole(userId: number, role: Role): Promise<boolean> {
+  /**
+   * Runs a change on one row: that row shows the spinner, and a failure lands in the error of the
+   * table it concerns. Answers whether the change went through.
+   */
+  async function rowChange(
+    rowId: number,
+    error: Ref<ApiError | null>,
+    change: (labId: number) => Promise<void>,
+  ): Promise<boolean> {
     if (labId.value === null) return false
-    busyId.value = userId
-    memberError.value = null
+    busyId.value = rowId
+    error.value = null
     try {
-      const updated = await labsApi.changeMemberRole(labId.value, userId, role)
+      await change(labId.value)
+      return true
+    } catch (caught) {
+      error.value = asApiError(caught)
+      return false
+    } finally {
+      busyId.value = null
+    }
+  }
+
+  function changeRole(userId: number, role: Role): Promise<boolean> {
+    return rowChange(userId, memberError, async (lab) => {
+      const updated = await labsApi.changeMemberRole(lab, userId, role)
       members.value = members.value.map((m) => (m.userId === userId ? updated : m))
-      return true
-    } catch (error) {
-      memberError.value = asApiError(error)
-      return false
-    } finally {
-      busyId.value = null
-    }
+    })
   }
 
-  async function remove(userId: number): Promise<boolean> {
-    if (labId.value === null) return false
-    busyId.value = userId
-    memberError.value = null
-    try {
-      await labsApi.removeMember(labId.value, userId)
+  function remove(userId: number): Promise<boolean> {
+    return rowChange(userId, memberError, async (lab) => {
+      await labsApi.removeMember(lab, userId)
       members.value = members.value.filter((m) => m.userId !== userId)
-      return true
-    } catch (error) {
-      memberError.value = asApiError(error)
-      return false
-    } finally {
-      busyId.value = null
-    }
+    })
   }
 
-  async function revoke(invitationId: number): Promise<boolean> {
-    if (labId.value === null) return false
-    busyId.value = invitationId
-    invitationError.value = null
-    try {
-      const revoked = await labsApi.revokeInvitation(labId.value, invitationId)
+  function revoke(invitationId: number): Promise<boolean> {
+    return rowChange(invitationId, invitationError, async (lab) => {
+      const revoked = await labsApi.revokeInvitation(lab, invitationId)
       invitations.value = invitations.value.map((i) => (i.id === invitationId ? revoked : i))
-      return true
-    } catch (error) {
-      invitationError.value = asApiError(error)
-      return false
-    } finally {
-      busyId.value = null
-    }
+    })
   }
 
   return {
