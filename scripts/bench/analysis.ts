@@ -15,10 +15,11 @@
  *    shows up there).
  * Targets: stored result drawn < 2 s; fresh run < 5 s.
  */
-import { spawn, spawnSync } from 'node:child_process'
+import { spawnSync } from 'node:child_process'
 import { existsSync, mkdirSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import { chromium } from '@playwright/test'
+import { demoScientistEmail, signInAsDemoScientist, startBenchServer, waitForHealth } from './bench-server'
 import { BENCH_SPEC, writeNestedCsv } from './generate-nested-csv'
 import { postMultipart } from './post-multipart'
 
@@ -40,18 +41,6 @@ const { demoPassword } = await import('../../seeds/data/demo-accounts')
 const seconds = (ms: number) => `${(ms / 1000).toFixed(2)} s`
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]
 
-async function waitForHealth(base: string): Promise<void> {
-  for (let k = 0; k < 600; k++) {
-    try {
-      if ((await fetch(`${base}/api/health`)).ok) return
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  throw new Error('the server did not come up')
-}
-
 // ---------------------------------------------------------------- data and server
 const dir = resolve('.bench/analysis')
 mkdirSync(dir, { recursive: true })
@@ -69,25 +58,11 @@ if (!existsSync('dist/client/index.html')) {
 ensurePostgres()
 await prepareDatabase(DATABASE, { fresh: true, seed: true })
 
-const base = `http://127.0.0.1:${PORT}`
-const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-  env: {
-    ...process.env,
-    PGDATABASE: DATABASE,
-    PORT: String(PORT),
-    SMTP_PORT: String(PORT + 1),
-    HOST: '127.0.0.1',
-    PUBLIC_URL: base,
-    NODE_ENV: 'test',
-    UPLOAD_MAX_MB: '250',
-    LOGIN_RATE_LIMIT: '1000',
-  },
-  stdio: ['ignore', 'inherit', 'inherit'],
+const { base, stop: stopServer } = startBenchServer({
+  database: DATABASE,
+  port: PORT,
+  env: { LOGIN_RATE_LIMIT: '1000' },
 })
-const stopServer = () => {
-  if (server.exitCode === null) server.kill('SIGTERM')
-}
-process.on('exit', stopServer)
 
 async function api<T>(
   cookie: string,
@@ -109,22 +84,15 @@ async function api<T>(
 }
 
 try {
-  await waitForHealth(base)
-  const login = await fetch(`${base}/api/v1/auth/login`, {
-    method: 'POST',
-    headers: { Origin: base, 'X-Requested-With': 'nestwise', 'Content-Type': 'application/json' },
-    body: JSON.stringify({ email: 'sami@example.org', password: demoPassword }),
-  })
-  if (!login.ok) throw new Error(`sign-in failed: ${login.status}`)
-  const cookie = (login.headers.get('set-cookie') ?? '').split(';')[0]
-  const me = ((await login.json()) as { data: { memberships: { labId: number }[] } }).data
+  await waitForHealth(base, 600)
+  const { cookie, labId, headers } = await signInAsDemoScientist(base)
 
   let started = performance.now()
   const upload = await postMultipart(
     `${base}/api/v1/datasets`,
-    { Origin: base, 'X-Requested-With': 'nestwise', Cookie: cookie },
+    headers,
     {
-      labId: String(me.memberships[0].labId),
+      labId: String(labId),
       projectName: 'Analysis benchmark',
       name: 'Benchmark consortium',
     },
@@ -177,7 +145,7 @@ try {
   })
   const page = await context.newPage()
   await page.goto(`${base}/sign-in`)
-  await page.getByLabel('Email address').fill('sami@example.org')
+  await page.getByLabel('Email address').fill(demoScientistEmail)
   await page.getByLabel('Password', { exact: true }).fill(demoPassword)
   await page.getByRole('button', { name: 'Sign in' }).click()
   await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'))

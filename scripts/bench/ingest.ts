@@ -13,10 +13,11 @@
  * 5. Tags the dataset through the API and times loadNestedColumns for the whole file.
  * Targets: upload-to-ready ≤ 1.5 × psql COPY; server peak RSS < 600 MB.
  */
-import { spawn, spawnSync } from 'node:child_process'
+import { spawnSync } from 'node:child_process'
 import { closeSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import seedrandom from 'seedrandom'
+import { signInAsDemoScientist, startBenchServer, waitForHealth } from './bench-server'
 import { postMultipart } from './post-multipart'
 
 const args = process.argv.slice(2)
@@ -34,7 +35,6 @@ process.env.NODE_ENV = 'test'
 const { config } = await import('../../server/config')
 const { ensurePostgres } = await import('../lib/postgres')
 const { prepareDatabase } = await import('../lib/database')
-const { demoPassword } = await import('../../seeds/data/demo-accounts')
 
 /** Invented consortium: 12 labs × 40 mice (labels reused across labs), vehicle or NW-117 per mouse. */
 function writeBenchCsv(path: string, rows: number): number {
@@ -75,19 +75,6 @@ function writeBenchCsv(path: string, rows: number): number {
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]
 const seconds = (ms: number) => `${(ms / 1000).toFixed(2)} s`
 
-async function waitForHealth(base: string): Promise<void> {
-  for (let k = 0; k < 200; k++) {
-    try {
-      const res = await fetch(`${base}/api/health`)
-      if (res.ok) return
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  throw new Error('the server did not come up')
-}
-
 function peakRssMb(pid: number): number {
   const status = readFileSync(`/proc/${pid}/status`, 'utf8')
   const match = /VmHWM:\s+(\d+) kB/.exec(status)
@@ -107,38 +94,11 @@ console.log(
 ensurePostgres()
 await prepareDatabase(DATABASE, { fresh: true, seed: true })
 
-const base = `http://127.0.0.1:${PORT}`
-const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-  // Own SMTP port too, so a development server running alongside does not clash with this one.
-  env: {
-    ...process.env,
-    PGDATABASE: DATABASE,
-    PORT: String(PORT),
-    SMTP_PORT: String(PORT + 1),
-    HOST: '127.0.0.1',
-    PUBLIC_URL: base,
-    NODE_ENV: 'test',
-    UPLOAD_MAX_MB: '250',
-  },
-  stdio: ['ignore', 'inherit', 'inherit'],
-})
-const stopServer = () => {
-  if (server.exitCode === null) server.kill('SIGTERM')
-}
-process.on('exit', stopServer)
+const { base, process: server, stop: stopServer } = startBenchServer({ database: DATABASE, port: PORT })
 
 try {
-  await waitForHealth(base)
-  const headers = { Origin: base, 'X-Requested-With': 'nestwise' }
-  const login = await fetch(`${base}/api/v1/auth/login`, {
-    method: 'POST',
-    headers: { ...headers, 'Content-Type': 'application/json' },
-    body: JSON.stringify({ email: 'sami@example.org', password: demoPassword }),
-  })
-  if (!login.ok) throw new Error(`sign-in failed: ${login.status} ${await login.text()}`)
-  const cookie = (login.headers.get('set-cookie') ?? '').split(';')[0]
-  const me = ((await login.json()) as { data: { memberships: { labId: number }[] } }).data
-  const labId = me.memberships[0].labId
+  await waitForHealth(base, 200)
+  const { labId, headers } = await signInAsDemoScientist(base)
 
   const psqlEnv = { ...process.env, PGPASSWORD: config.PGPASSWORD }
   const psql = (command: string) => {
@@ -182,7 +142,7 @@ try {
   for (let run = 0; run <= RUNS; run++) {
     const fields = { labId: String(labId), projectName: 'Ingest benchmark', name: `Benchmark run ${run}` }
     started = performance.now()
-    const res = await postMultipart(`${base}/api/v1/datasets`, { ...headers, Cookie: cookie }, fields, {
+    const res = await postMultipart(`${base}/api/v1/datasets`, headers, fields, {
       path: csvPath,
       name: 'cells.csv',
     })
@@ -209,7 +169,7 @@ try {
   const tagStart = performance.now()
   const tag = await fetch(`${base}/api/v1/datasets/${datasetId}/versions/1/tagging`, {
     method: 'PUT',
-    headers: { ...headers, Cookie: cookie, 'Content-Type': 'application/json' },
+    headers: { ...headers, 'Content-Type': 'application/json' },
     body: JSON.stringify({
       responseColumns: ['neurite_length_um'],
       conditionColumn: 'condition',
