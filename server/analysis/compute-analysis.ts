@@ -4,7 +4,6 @@ import type { Exclusion } from '../../shared/schemas/datasets'
 import { analyzeNested } from '../../shared/stats/analyze-nested'
 import type { Conn } from '../repositories/connection'
 import { loadNestedColumns } from '../services/datasets-readback.service'
-import { bootstrapSection } from './bootstrap-section'
 import { buildChartData } from './chart-data'
 
 export interface AnalysisJobInput {
@@ -33,8 +32,8 @@ const STAGE_START: Record<'reading' | 'fitting' | 'bootstrap' | 'charts', number
 }
 
 /**
- * One analysis run: read the version's kept rows, run the engine, add the bootstrap (its own
- * stage), build the chart data. Throws EngineInputError for data too thin for the model and
+ * One analysis run: read the version's kept rows, run the engine (its bootstrap reported as a
+ * stage of its own), build the chart data. Throws EngineInputError for data too thin for the model and
  * UnprocessableError (from the read-back) for rows the engine cannot take; callers classify.
  * Runs in the analysis worker thread, and in the demo seed directly.
  */
@@ -53,11 +52,13 @@ export async function computeAnalysis(
     conn,
   )
   report({ stage: 'fitting', fraction: STAGE_START.fitting })
-  const result = analyzeNested(columns, settings.reference === null ? {} : { reference: settings.reference })
-  if (settings.bootstrap.enabled) {
-    report({ stage: 'bootstrap', fraction: STAGE_START.bootstrap })
-    result.comparisons.bootstrap = bootstrapSection(columns, result, settings.bootstrap)
-  }
+  const result = analyzeNested(columns, {
+    ...(settings.reference === null ? {} : { reference: settings.reference }),
+    bootstrap: settings.bootstrap.enabled
+      ? { resamples: settings.bootstrap.resamples, seed: settings.bootstrap.seed }
+      : null,
+    beforeBootstrap: () => report({ stage: 'bootstrap', fraction: STAGE_START.bootstrap }),
+  })
   report({ stage: 'charts', fraction: STAGE_START.charts })
   const chart = buildChartData(columns, result)
   return { result, chart, runMs: Math.round(performance.now() - started) }

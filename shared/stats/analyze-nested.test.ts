@@ -384,3 +384,18 @@ describe('analyzeNested warnings and guards', () => {
     ).toThrow(/saline/)
   })
 })
+
+describe('analyzeNested beforeBootstrap (common practice, no source)', () => {
+  it('announces the bootstrap only when one is asked for', () => {
+    const columns = nestedColumnsFromTable(dyestuff, 'Yield', ['Batch'])
+    let calls = 0
+    analyzeNested(columns, { beforeBootstrap: () => calls++ })
+    expect(calls).toBe(0)
+    const result = analyzeNested(columns, {
+      bootstrap: { resamples: 100, seed: 's' },
+      beforeBootstrap: () => calls++,
+    })
+    expect(calls).toBe(1)
+    expect(result.comparisons.bootstrap?.resamples).toBe(100)
+  })
+})

@@ -21,6 +21,8 @@ export interface AnalyzeNestedOptions {
   reference?: string
   /** Adds a seeded hierarchical bootstrap (at least 100 resamples). */
   bootstrap?: { resamples: number; seed: string } | null
+  /** Called just before the bootstrap starts, so a caller can show it as a stage of its own. */
+  beforeBootstrap?: () => void
 }
 
 /** Level of every confidence interval in the result. */
@@ -85,6 +87,11 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
   const firstPair = contrasts.length > 0 ? { a: contrasts[0].a, b: contrasts[0].b } : null
   const unitMeans = compareUnitMeans(design, firstPair)
   const naive = naiveComparison(design, firstPair)
+  let bootstrap = null
+  if (options.bootstrap) {
+    options.beforeBootstrap?.()
+    bootstrap = bootstrapForResult(design, contrasts, { ...options.bootstrap, confidence: CONFIDENCE })
+  }
 
   const givenLevels = design.randomLevels.filter((level) => !level.inserted)
   const result: AnalysisResult = {
@@ -128,9 +135,7 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
       mixedModel: design.condition ? { omnibus: omnibusF(design, fit), contrasts } : null,
       unitMeans: unitMeans.test,
       naive,
-      bootstrap: options.bootstrap
-        ? bootstrapForResult(design, contrasts, { ...options.bootstrap, confidence: CONFIDENCE })
-        : null,
+      bootstrap,
     },
     balancedAnova: balancedCheck(design, fit, total),
     warnings: [],
