@@ -98,6 +98,26 @@ function errorBarRenderer(color: string, width: number, label: string) {
   }
 }
 
+/** One kind of error bar across the conditions; the nested kind is drawn thicker and on top. */
+function errorBarSeries(
+  kind: 'naive' | 'nested',
+  data: BarDatum[],
+  colors: ChartColors,
+  lineWidth: number,
+  words: string,
+  z: number,
+) {
+  return {
+    type: 'custom',
+    name: SERIES_NAMES[kind],
+    data,
+    renderItem: errorBarRenderer(colors[kind], lineWidth, `${kind} ${words}`),
+    encode: { x: 0, y: [1, 2] },
+    z,
+    itemStyle: { color: colors[kind] },
+  }
+}
+
 /**
  * The main chart: every sampled observation coloured by its unit, each unit's mean as a larger
  * marker, and per condition the naive bar beside the nested one. Pure: data in, option out.
@@ -230,24 +250,8 @@ export function mainChartOption(
     series: [
       ...observationSeries,
       unitMeanSeries,
-      {
-        type: 'custom',
-        name: SERIES_NAMES.naive,
-        data: naive,
-        renderItem: errorBarRenderer(colors.naive, 1.5, `naive ${words}`),
-        encode: { x: 0, y: [1, 2] },
-        z: 5,
-        itemStyle: { color: colors.naive },
-      },
-      {
-        type: 'custom',
-        name: SERIES_NAMES.nested,
-        data: nested,
-        renderItem: errorBarRenderer(colors.nested, 3, `nested ${words}`),
-        encode: { x: 0, y: [1, 2] },
-        z: 6,
-        itemStyle: { color: colors.nested },
-      },
+      errorBarSeries('naive', naive, colors, 1.5, words, 5),
+      errorBarSeries('nested', nested, colors, 3, words, 6),
     ],
   }
 }
