@@ -1,19 +1,16 @@
-import { afterAll, expect, it } from 'vitest'
+import { expect, it } from 'vitest'
 import { db } from '../../server/db'
-import { closeConnections, createTestApp } from '../support/api'
 import {
+  datasetsTestApp,
   deleteAs,
   postAs,
   putAs,
   signedInTeam,
-  smallCellTable,
   uploadDataset,
   uploadVersion,
 } from './datasets-support'
 
-afterAll(closeConnections)
-
-const app = createTestApp()
+const { app, csv } = datasetsTestApp()
 
 async function actionsFor(datasetId: number): Promise<string[]> {
   const rows = await db('audit_events')
@@ -25,15 +22,9 @@ async function actionsFor(datasetId: number): Promise<string[]> {
 
 it('records upload, new version, tagging and exclusion changes in the audit log, in the lab', async () => {
   const team = await signedInTeam(app)
-  const upload = await uploadDataset(
-    app,
-    team.cookies.scientist,
-    Buffer.from(smallCellTable()),
-    'cells.csv',
-    {
-      labId: team.lab.id,
-    },
-  )
+  const upload = await uploadDataset(app, team.cookies.scientist, csv, 'cells.csv', {
+    labId: team.lab.id,
+  })
   expect(upload.status).toBe(201)
   const datasetId = upload.body.data.id
   const base = `/api/v1/datasets/${datasetId}/versions/1`
@@ -51,13 +42,7 @@ it('records upload, new version, tagging and exclusion changes in the audit log,
   expect(excluded.status).toBe(201)
   const withdrawn = await deleteAs(app, team.cookies.scientist, `${base}/exclusions/${excluded.body.data.id}`)
   expect(withdrawn.status).toBe(200)
-  const second = await uploadVersion(
-    app,
-    team.cookies.scientist,
-    datasetId,
-    Buffer.from(smallCellTable()),
-    'v2.csv',
-  )
+  const second = await uploadVersion(app, team.cookies.scientist, datasetId, csv, 'v2.csv')
   expect(second.status).toBe(201)
 
   expect(await actionsFor(datasetId)).toEqual([

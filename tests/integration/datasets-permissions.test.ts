@@ -1,25 +1,23 @@
 import request from 'supertest'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { closeConnections, createTestApp, signIn } from '../support/api'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { signIn } from '../support/api'
 import { createLab, createUser } from '../support/factories'
 import {
+  datasetsTestApp,
   deleteAs,
   getAs,
   patchAs,
   postAs,
   putAs,
   signedInTeam,
-  smallCellTable,
   uploadDataset,
   uploadVersion,
+  type SignedInTeam,
 } from './datasets-support'
 
-afterAll(closeConnections)
+const { app, csv } = datasetsTestApp()
 
-const app = createTestApp()
-const csv = Buffer.from(smallCellTable())
-
-let team: Awaited<ReturnType<typeof signedInTeam>>
+let team: SignedInTeam
 let outsider: string
 let admin: string
 let datasetId: number

@@ -1,7 +1,17 @@
 import request from 'supertest'
 import type { Express } from 'express'
-import { appWriteHeaders, signIn } from '../support/api'
+import { afterAll } from 'vitest'
+import { appWriteHeaders, closeConnections, createTestApp, signIn } from '../support/api'
 import { createLabWithTeam } from '../support/factories'
+
+/**
+ * The start of a dataset test file: one app for the whole file, the database pools closed after
+ * it, and the small cell table ready to upload. Call it at the top level of the file.
+ */
+export function datasetsTestApp(): { app: Express; csv: Buffer } {
+  afterAll(closeConnections)
+  return { app: createTestApp(), csv: Buffer.from(smallCellTable()) }
+}
 
 /** A fresh lab with a PI, a scientist and a biostatistician, each signed in. */
 export async function signedInTeam(app: Express) {
@@ -13,6 +23,8 @@ export async function signedInTeam(app: Express) {
   ])
   return { ...team, cookies: { pi, scientist, biostatistician } }
 }
+
+export type SignedInTeam = Awaited<ReturnType<typeof signedInTeam>>
 
 export interface UploadSpec {
   labId?: number

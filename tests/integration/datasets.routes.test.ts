@@ -3,14 +3,15 @@ import { request as httpRequest } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import { existsSync, readdirSync } from 'node:fs'
 import request from 'supertest'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
 import { ingestConfig } from '../../server/ingest/ingest-config'
 import { originalPath } from '../../server/ingest/original-store'
 import { sweepDatasetLeftovers } from '../../server/services/datasets-upload.service'
 import { loadNestedColumns } from '../../server/services/datasets-readback.service'
-import { appWriteHeaders, closeConnections, createTestApp } from '../support/api'
+import { appWriteHeaders } from '../support/api'
 import {
+  datasetsTestApp,
   getAs,
   patchAs,
   putAs,
@@ -18,14 +19,12 @@ import {
   smallCellTable,
   uploadDataset,
   uploadVersion,
+  type SignedInTeam,
 } from './datasets-support'
 
-afterAll(closeConnections)
+const { app, csv } = datasetsTestApp()
 
-const app = createTestApp()
-const csv = Buffer.from(smallCellTable())
-
-let team: Awaited<ReturnType<typeof signedInTeam>>
+let team: SignedInTeam
 beforeAll(async () => {
   team = await signedInTeam(app)
 })
