@@ -1,8 +1,8 @@
 // @vitest-environment happy-dom
-import { flushPromises } from '@vue/test-utils'
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import { mountWithApp } from '@/testing/mount-with-app'
+import { settle } from '@/testing/settle'
 import { samiScientist } from '@/testing/users'
 import JoinLabView from './JoinLabView.vue'
 
@@ -41,12 +41,6 @@ function scriptedFetch(answer: (method: string, path: string, body: unknown) => 
     })
   }
   return { fetch: fn, calls }
-}
-
-async function settle() {
-  await flushPromises()
-  await new Promise((resolve) => setTimeout(resolve, 0))
-  await flushPromises()
 }
 
 afterEach(() => {

@@ -1,8 +1,9 @@
 // @vitest-environment happy-dom
-import { DOMWrapper, flushPromises } from '@vue/test-utils'
+import { DOMWrapper } from '@vue/test-utils'
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { fakeFetch } from '@/testing/fake-fetch'
 import { mountWithApp } from '@/testing/mount-with-app'
+import { settle } from '@/testing/settle'
 import { petraPi } from '@/testing/users'
 import LabMembersView from './LabMembersView.vue'
 
@@ -19,12 +20,6 @@ const invitation = {
   createdAt: '2026-12-01T09:00:00.000Z',
   expiresAt: '2026-12-08T09:00:00.000Z',
   invitedBy: { id: 2, name: 'Petra Nimbus' },
-}
-
-async function settle() {
-  await flushPromises()
-  await new Promise((resolve) => setTimeout(resolve, 0))
-  await flushPromises()
 }
 
 afterEach(() => {

@@ -1,8 +1,9 @@
 // @vitest-environment happy-dom
-import { DOMWrapper, flushPromises } from '@vue/test-utils'
+import { DOMWrapper } from '@vue/test-utils'
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { fakeFetch } from '@/testing/fake-fetch'
 import { mountWithApp } from '@/testing/mount-with-app'
+import { settle } from '@/testing/settle'
 import { orlaAdmin } from '@/testing/users'
 import OutboxView from './OutboxView.vue'
 
@@ -31,12 +32,6 @@ const failed = {
   sentAt: null,
 }
 const link = `http://127.0.0.1:3000/join#${'Q'.repeat(43)}`
-
-async function settle() {
-  await flushPromises()
-  await new Promise((resolve) => setTimeout(resolve, 0))
-  await flushPromises()
-}
 
 afterEach(() => {
   vi.unstubAllGlobals()
