@@ -1,6 +1,6 @@
 import { recordAudit } from './audit.service'
 import type { CurrentUser } from '../../shared/schemas/auth'
-import type { DesignSummary, Tagging, TaggingInput } from '../../shared/schemas/datasets'
+import type { DesignSummary, Exclusion, Tagging, TaggingInput } from '../../shared/schemas/datasets'
 import { describeDesign, type DesignFacts } from '../../shared/nesting/describe-design'
 import { db } from '../db'
 import { InvalidPayloadError, NotFoundError, UnprocessableError } from '../errors/app-error'
@@ -26,10 +26,10 @@ export interface TaggingResult {
 async function designOf(
   version: VersionRecord,
   shape: RowTableShape,
+  exclusions: readonly Exclusion[],
   levels: readonly string[],
   condition: string | null,
 ) {
-  const exclusions = await activeExclusions(version.id)
   const read = await readColumns(
     version,
     shape,
@@ -92,7 +92,7 @@ async function validate(
       }
     }
   }
-  const { facts, read } = await designOf(version, shape, input.levels, input.conditionColumn)
+  const { facts, read } = await designOf(version, shape, exclusions, input.levels, input.conditionColumn)
   if (facts.observationCount === 0) throw new UnprocessableError('No rows are left after the exclusions.')
   if (facts.missingLabel) {
     const row = fileRow(version, read.rowNos[facts.missingLabel.rowIndex])
@@ -209,6 +209,7 @@ export async function getDesign(
   const tagging = await currentTagging(version.id)
   if (!tagging) throw new NotFoundError('This version has no tagging yet.')
   const shape = await shapeOf(version)
-  const { facts } = await designOf(version, shape, tagging.levels, tagging.conditionColumn)
+  const exclusions = await activeExclusions(version.id)
+  const { facts } = await designOf(version, shape, exclusions, tagging.levels, tagging.conditionColumn)
   return publicDesign(facts)
 }
