@@ -1,3 +1,5 @@
+import type { ChartData } from '../../shared/schemas/analyses'
+import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import { defaultConn, type Conn } from './connection'
 
 export interface ShareLinkRecord {
@@ -148,20 +150,24 @@ export async function countShareLinkOpened(id: number, conn: Conn): Promise<void
     .update({ open_count: conn.raw('open_count + 1'), last_opened_at: conn.fn.now() })
 }
 
-/** The facts a shared page shows beside the result. */
+/** What a shared page shows: the stored result and chart, and the facts beside them, in one read. */
 export async function findSharedVersionFacts(versionId: number, conn: Conn = defaultConn) {
   const row: {
     finished_at: Date | null
     engine_version: string
     dataset_sha256: string
     settings: Record<string, unknown>
+    result: AnalysisResult | null
+    chart: ChartData | null
   } = await conn('analysis_versions')
     .where({ id: versionId })
-    .first('finished_at', 'engine_version', 'dataset_sha256', 'settings')
+    .first('finished_at', 'engine_version', 'dataset_sha256', 'settings', 'result', 'chart')
   return {
     finishedAt: row.finished_at,
     engineVersion: row.engine_version,
     datasetSha256: row.dataset_sha256,
     settings: row.settings,
+    result: row.result,
+    chart: row.chart,
   }
 }

@@ -11,7 +11,7 @@ import { publicUrl } from '../config'
 import { db } from '../db'
 import { ConflictError, ForbiddenError, NotFoundError } from '../errors/app-error'
 import { shareLinkMail } from '../mail/templates/review-mails'
-import { findAnalysis, findAnalysisVersionResult } from '../repositories/analyses.repo'
+import { findAnalysis, findAnalysisVersionChart } from '../repositories/analyses.repo'
 import { listPlansOfVersion, type PlanRecord } from '../repositories/plans.repo'
 import { findReviewableVersion, findReviewableVersionById } from '../repositories/reviews.repo'
 import {
@@ -204,9 +204,10 @@ function toSharedPlan(plan: PlanRecord): PlanSummary {
 export async function openSharedAnalysis(token: string): Promise<SharedAnalysis> {
   const link = await usableLink(token)
   const version = await findReviewableVersionById(link.analysisVersionId)
-  const { result, chart } = await findAnalysisVersionResult(link.analysisVersionId)
-  if (!version || version.status !== 'done' || !result || !chart) throw new NotFoundError(GONE)
+  if (!version || version.status !== 'done') throw new NotFoundError(GONE)
   const stored = await findSharedVersionFacts(version.id)
+  const { result, chart } = stored
+  if (!result || !chart) throw new NotFoundError(GONE)
   const signOff = await signOffStateOf(version.analysisId, version.versionNo)
   const plans = await listPlansOfVersion(version.id)
   await db.transaction(async (trx) => {
@@ -242,7 +243,7 @@ export async function sharedUnitsCsv(token: string): Promise<{ filename: string;
   const link = await usableLink(token)
   if (!link.allowUnitTable) throw new NotFoundError('The unit table is not shared through this link.')
   const version = await findReviewableVersionById(link.analysisVersionId)
-  const { chart } = await findAnalysisVersionResult(link.analysisVersionId)
+  const chart = await findAnalysisVersionChart(link.analysisVersionId)
   if (!version || !chart) throw new NotFoundError(GONE)
   return { filename: csvFilename(version.analysisName, version.versionNo), body: unitsCsv(chart) }
 }
