@@ -117,7 +117,12 @@ export async function storeWorkbook(
           target = pickSheet(sheetNames, sheet)
         }
         const name = (worksheet as unknown as { name: string }).name
-        if (name !== sheetNames[target]) continue
+        if (name !== sheetNames[target]) {
+          // Read through a sheet we skip: exceljs may be serving it from a temporary file that it
+          // deletes as soon as we move on, and its stream, still opening, then fails uncaught.
+          for await (const _row of worksheet as unknown as AsyncIterable<unknown>);
+          continue
+        }
         sheetName = name
         for await (const row of worksheet as unknown as AsyncIterable<ExcelJS.Row>) {
           const raw = row.values as ExcelJS.CellValue[]
