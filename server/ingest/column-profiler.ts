@@ -1,5 +1,6 @@
 import type { ColumnProfile, ColumnType } from '../../shared/schemas/datasets'
-import { isIntegerText, isNumberText, parseNumberText, trimCell, type DecimalMark } from './number-text'
+import { ByteKeyTable } from './byte-key-table'
+import { isIntegerText, isNumberText, parseNumberText, type DecimalMark } from './number-text'
 
 /** Code stored for a missing cell in the per-row codes (as the nesting functions expect). */
 export const MISSING_CODE = -1
@@ -7,6 +8,8 @@ export const MISSING_CODE = -1
 export interface ProfilerOptions {
   decimalMark: DecimalMark
   naValues: ReadonlySet<string>
+  /** The same values as UTF-8 bytes, to recognise a missing cell without making a string of it. */
+  naBytes: readonly Buffer[]
   /** Most distinct values tracked per column. */
   distinctCap: number
 }
@@ -22,6 +25,14 @@ const NA_CODE = -1
 const UNCODED = -2
 
 const SAMPLE_SIZE = 5
+
+const isSpaceByte = (b: number) => b === 32 || b === 9 || b === 10 || b === 13
+// U+00A0, the no-break space, in UTF-8.
+const NBSP_LEAD = 0xc2
+const NBSP_TAIL = 0xa0
+
+/** Reused by add() for the bytes of one spreadsheet cell. */
+let scratch = Buffer.allocUnsafe(1024)
 const TOP_VALUES = 20
 
 /**
@@ -35,7 +46,8 @@ export class ColumnProfiler {
   private maybeNumeric = true
   private allInteger = true
   private sawValue = false
-  private distinct: Map<string, number> | null = new Map()
+  /** Trimmed cell bytes → label code (or NA_CODE); null once the column passed the distinct cap. */
+  private distinct: ByteKeyTable | null = new ByteKeyTable()
   private labels: string[] = []
   private valueOfCode: Float64Array | null = new Float64Array(256)
   private counts: Uint32Array | null = new Uint32Array(256)
@@ -47,8 +59,8 @@ export class ColumnProfiler {
   private min = Infinity
   private max = -Infinity
   private samples: string[] = []
-  private lastText: string | undefined = undefined
-  private lastCode = UNCODED
+  /** Entry of the previous cell's value in `distinct`, or -1. */
+  private lastEntry = -1
   /** First cell written as a number too large for a double (row index, text). */
   overflow: { rowIndex: number; text: string } | null = null
 
@@ -58,17 +70,32 @@ export class ColumnProfiler {
     private readonly options: ProfilerOptions,
   ) {}
 
+  /** One cell given as text (spreadsheets); null is an empty cell. Profiled exactly as addBytes would. */
   add(raw: string | null): void {
-    const rowIndex = this.rows++
-    const text = raw === null ? '' : trimCell(raw)
-    // Grouping columns repeat the same value for many rows in a row: skip the lookup then.
-    let code: number
-    if (text === this.lastText) code = this.lastCode
-    else {
-      code = this.lookup(text, rowIndex)
-      this.lastText = text
-      this.lastCode = code
+    const text = raw ?? ''
+    if (scratch.length < 3 * text.length) scratch = Buffer.allocUnsafe(3 * text.length)
+    this.addBytes(scratch, 0, scratch.write(text, 0, 'utf8'))
+  }
+
+  /** One cell as UTF-8 bytes `bytes[start, end)`, trimmed here as trimCell trims text. */
+  addBytes(bytes: Buffer, start: number, end: number): void {
+    for (;;) {
+      if (start < end && isSpaceByte(bytes[start])) start++
+      else if (end - start >= 2 && bytes[start] === NBSP_LEAD && bytes[start + 1] === NBSP_TAIL) start += 2
+      else break
     }
+    for (;;) {
+      if (end > start && isSpaceByte(bytes[end - 1])) end--
+      else if (end - start >= 2 && bytes[end - 1] === NBSP_TAIL && bytes[end - 2] === NBSP_LEAD) end -= 2
+      else break
+    }
+    const rowIndex = this.rows++
+    // Grouping columns repeat the same value for many rows in a row: compare with the last one first.
+    const last = this.lastEntry
+    const code =
+      last >= 0 && this.distinct!.equals(last, bytes, start, end)
+        ? this.distinct!.value(last)
+        : this.lookup(bytes, start, end, rowIndex)
     if (code === NA_CODE) {
       this.missing++
       this.setCode(rowIndex, MISSING_CODE)
@@ -83,7 +110,7 @@ export class ColumnProfiler {
       value = this.valueOfCode![code]
     } else {
       if (!this.maybeNumeric) return
-      value = this.classify(text, rowIndex)
+      value = this.classify(bytes.toString('utf8', start, end), rowIndex)
     }
     if (!this.maybeNumeric || !Number.isFinite(value)) return
     // Welford's running mean and sum of squares: stable for a million values.
@@ -96,21 +123,33 @@ export class ColumnProfiler {
   }
 
   /** NA_CODE for a missing value, the value's code, or UNCODED once the column has too many distinct values. */
-  private lookup(text: string, rowIndex: number): number {
+  private lookup(bytes: Buffer, start: number, end: number, rowIndex: number): number {
+    this.lastEntry = -1
     const distinct = this.distinct
-    if (!distinct) return this.options.naValues.has(text) ? NA_CODE : UNCODED
-    const known = distinct.get(text)
-    if (known !== undefined) return known
-    if (this.options.naValues.has(text)) {
-      distinct.set(text, NA_CODE)
-      return NA_CODE
+    if (!distinct) return this.isMissing(bytes, start, end) ? NA_CODE : UNCODED
+    const hash = ByteKeyTable.hash(bytes, start, end)
+    const known = distinct.find(bytes, start, end, hash)
+    if (known >= 0) {
+      this.lastEntry = known
+      return distinct.value(known)
     }
-    return this.addDistinct(text, rowIndex) ?? UNCODED
+    const text = bytes.toString('utf8', start, end)
+    const code = this.options.naValues.has(text) ? NA_CODE : this.addDistinct(text, rowIndex)
+    if (code === undefined) return UNCODED
+    this.lastEntry = distinct.insert(bytes, start, end, hash, code)
+    return code
+  }
+
+  private isMissing(bytes: Buffer, start: number, end: number): boolean {
+    const length = end - start
+    for (const na of this.options.naBytes) {
+      if (na.length === length && na.equals(bytes.subarray(start, end))) return true
+    }
+    return false
   }
 
   /** Registers a new distinct value; returns its code, or undefined when the cap was just passed. */
   private addDistinct(text: string, rowIndex: number): number | undefined {
-    const distinct = this.distinct!
     if (this.labels.length >= this.options.distinctCap) {
       this.distinct = null
       this.codes = null
@@ -119,7 +158,6 @@ export class ColumnProfiler {
       return undefined
     }
     const code = this.labels.length
-    distinct.set(text, code)
     this.labels.push(text)
     if (this.samples.length < SAMPLE_SIZE) this.samples.push(text)
     if (code >= this.valueOfCode!.length) {

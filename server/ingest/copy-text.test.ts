@@ -1,11 +1,40 @@
 import { describe, expect, it } from 'vitest'
-import { CopyTextLines, decodeCopyTextField, encodeCopyTextRow, fieldEnd } from './copy-text'
+import { CopyTextBuilder, CopyTextLines, decodeCopyTextField, encodeCopyTextRow, fieldEnd } from './copy-text'
+import { CsvTokenizer } from './csv-tokenizer'
 
 describe('COPY text format', () => {
   it('escapes backslashes, tabs and line breaks and writes NULL for empty cells', () => {
     expect(encodeCopyTextRow(['a', '', null, 'x\ty', 'line\r\nnext', 'C:\\data', '\\.'])).toBe(
       'a\t\\N\t\\N\tx\\ty\tline\\r\\nnext\tC:\\\\data\t\\\\.\n',
     )
+  })
+
+  it('builds the same lines from CSV byte rows as from text, and points at a NUL byte', () => {
+    const csv = 'a,b,c\r\n"x\ty","line\r\nnext",C:\\data\r\n,µm,"\\."\r\n'
+    const builder = new CopyTextBuilder()
+    const tokenizer = new CsvTokenizer({
+      delimiter: ',',
+      maxFieldChars: 100,
+      maxFieldsPerRow: 10,
+      onRow: (row) => expect(builder.addRow(row)).toBe(-1),
+    })
+    tokenizer.push(Buffer.from(csv))
+    tokenizer.end()
+    const expected = [
+      ['a', 'b', 'c'],
+      ['x\ty', 'line\r\nnext', 'C:\\data'],
+      ['', 'µm', '\\.'],
+    ]
+    expect(builder.take().toString('utf8')).toBe(expected.map((r) => encodeCopyTextRow(r)).join(''))
+    expect(builder.length).toBe(0)
+    const withNul = new CsvTokenizer({
+      delimiter: ',',
+      maxFieldChars: 100,
+      maxFieldsPerRow: 10,
+      onRow: (row) => expect(builder.addRow(row)).toBe(1),
+    })
+    withNul.push(Buffer.from('a,b\u0000c\n'))
+    withNul.end()
   })
 
   it('round-trips through the reader at any chunk boundary, multi-byte characters included', () => {

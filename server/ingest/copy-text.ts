@@ -4,6 +4,7 @@
  * Format: fields split by tab, rows by newline, \N for NULL, backslash escapes for \ tab LF CR.
  * https://www.postgresql.org/docs/current/sql-copy.html#id-1.9.3.55.9.2
  */
+import type { CsvRow } from './csv-tokenizer'
 
 const NEEDS_ESCAPE = /[\\\t\n\r]/
 const ESCAPES: Record<string, string> = { '\\': '\\\\', '\t': '\\t', '\n': '\\n', '\r': '\\r' }
@@ -18,6 +19,69 @@ export function encodeCopyTextRow(values: readonly (string | null)[]): string {
     else line += NEEDS_ESCAPE.test(value) ? value.replace(/[\\\t\n\r]/g, (c) => ESCAPES[c]) : value
   }
   return line + '\n'
+}
+
+const TAB = 9
+const LF = 10
+const CR = 13
+const BACKSLASH = 92
+const NUL = 0
+const NULL_MARK = [BACKSLASH, 78] // \N
+
+/**
+ * Builds COPY text lines from the CSV reader's byte rows, as encodeCopyTextRow does from strings,
+ * without making a string of any field on the way.
+ */
+export class CopyTextBuilder {
+  private out = Buffer.allocUnsafe(256 * 1024)
+  private used = 0
+
+  /** Appends one row; returns the index of a field holding a NUL byte (COPY cannot store it), or -1. */
+  addRow(row: CsvRow): number {
+    const { bytes, starts, ends, count } = row
+    let size = count + 2
+    for (let k = 0; k < count; k++) size += 2 * (ends[k] - starts[k])
+    this.reserve(size)
+    const out = this.out
+    let at = this.used
+    for (let k = 0; k < count; k++) {
+      if (k > 0) out[at++] = TAB
+      if (ends[k] === starts[k]) {
+        out[at++] = NULL_MARK[0]
+        out[at++] = NULL_MARK[1]
+        continue
+      }
+      for (let i = starts[k]; i < ends[k]; i++) {
+        const b = bytes[i]
+        if (b === NUL) return k
+        if (b === BACKSLASH || b === TAB || b === LF || b === CR) {
+          out[at++] = BACKSLASH
+          out[at++] = b === BACKSLASH ? BACKSLASH : b === TAB ? 116 : b === LF ? 110 : 114 // t n r
+        } else out[at++] = b
+      }
+    }
+    out[at++] = LF
+    this.used = at
+    return -1
+  }
+
+  /** The lines built so far (a copy), leaving the builder empty. */
+  take(): Buffer {
+    const lines = Buffer.from(this.out.subarray(0, this.used))
+    this.used = 0
+    return lines
+  }
+
+  get length(): number {
+    return this.used
+  }
+
+  private reserve(size: number): void {
+    if (this.used + size <= this.out.length) return
+    const bigger = Buffer.allocUnsafe(Math.max(2 * this.out.length, this.used + size))
+    this.out.copy(bigger, 0, 0, this.used)
+    this.out = bigger
+  }
 }
 
 const UNESCAPES: Record<string, string> = { b: '\b', f: '\f', n: '\n', r: '\r', t: '\t', v: '\v', '\\': '\\' }

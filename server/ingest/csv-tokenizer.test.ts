@@ -1,26 +1,29 @@
 import Papa from 'papaparse'
 import seedrandom from 'seedrandom'
 import { describe, expect, it } from 'vitest'
-import { CsvSyntaxError, CsvTokenizer } from './csv-tokenizer'
+import { CsvSyntaxError, CsvTokenizer, rowFields } from './csv-tokenizer'
 
-function tokenize(chunks: string[], delimiter = ',', limits = { maxFieldChars: 1000, maxFieldsPerRow: 100 }) {
+type Chunk = string | Buffer
+
+function tokenize(chunks: Chunk[], delimiter = ',', limits = { maxFieldChars: 1000, maxFieldsPerRow: 100 }) {
   const rows: { fields: string[]; recordNo: number }[] = []
   const tokenizer = new CsvTokenizer({
     delimiter,
     ...limits,
-    onRow: (fields, recordNo) => rows.push({ fields: [...fields], recordNo }),
+    onRow: (row, recordNo) => rows.push({ fields: rowFields(row), recordNo }),
   })
-  for (const chunk of chunks) tokenizer.push(chunk)
+  for (const chunk of chunks) tokenizer.push(typeof chunk === 'string' ? Buffer.from(chunk, 'utf8') : chunk)
   tokenizer.end()
   return { rows, tokenizer }
 }
 
-const fieldsOf = (chunks: string[], delimiter = ',') => tokenize(chunks, delimiter).rows.map((r) => r.fields)
+const fieldsOf = (chunks: Chunk[], delimiter = ',') => tokenize(chunks, delimiter).rows.map((r) => r.fields)
 
-/** Every way to cut `text` into two chunks, plus one-character chunks: boundaries must not matter. */
-function splits(text: string): string[][] {
-  const out: string[][] = [[text], text.split('')]
-  for (let k = 1; k < text.length; k++) out.push([text.slice(0, k), text.slice(k)])
+/** Every way to cut `text`'s bytes into two chunks, plus one-byte chunks: boundaries must not matter. */
+function splits(text: string): Buffer[][] {
+  const bytes = Buffer.from(text, 'utf8')
+  const out: Buffer[][] = [[bytes], [...bytes].map((b) => Buffer.from([b]))]
+  for (let k = 1; k < bytes.length; k++) out.push([bytes.subarray(0, k), bytes.subarray(k)])
   return out
 }
 
@@ -39,11 +42,11 @@ describe('CsvTokenizer', () => {
   })
 
   it('handles quoted delimiters, doubled quotes and newlines inside quotes at any chunk boundary', () => {
-    const text = 'name,note\r\n"Smith, J.","said ""hi""\r\nthen left"\r\nx,""\r\n'
+    const text = 'name,note\r\n"Smith, J.","said ""hi"" in µm\r\nthen left"\r\nx,""\r\n'
     for (const chunks of splits(text)) {
       expect(fieldsOf(chunks)).toEqual([
         ['name', 'note'],
-        ['Smith, J.', 'said "hi"\r\nthen left'],
+        ['Smith, J.', 'said "hi" in µm\r\nthen left'],
         ['x', ''],
       ])
     }
@@ -93,7 +96,7 @@ describe('CsvTokenizer', () => {
   })
 
   it('throws with row and field for an unterminated quote, text after a quote, and over-long fields', () => {
-    const error = (chunks: string[], limits?: { maxFieldChars: number; maxFieldsPerRow: number }) => {
+    const error = (chunks: Chunk[], limits?: { maxFieldChars: number; maxFieldsPerRow: number }) => {
       try {
         tokenize(chunks, ',', limits)
       } catch (e) {
@@ -113,6 +116,13 @@ describe('CsvTokenizer', () => {
       recordNo: 2,
       fieldIndex: 1,
       length: 11,
+    })
+    // The limit counts characters as String.length does, not bytes: 10 × "µ" is 20 bytes but fits.
+    const limits = { maxFieldChars: 10, maxFieldsPerRow: 5 }
+    expect(tokenize([`a,b\n1,"${'µ'.repeat(10)}"\n`], ',', limits).rows[1].fields[1]).toBe('µ'.repeat(10))
+    expect(error([`a,b\n1,${'😀'.repeat(6)}\n`], limits)).toMatchObject({
+      kind: 'field-too-long',
+      length: 12,
     })
     // A never-closed quote stops at the field limit instead of reading the whole file into memory.
     const chunks = ['a,b\n1,"', ...Array.from({ length: 50 }, () => 'yyyyyyyyyy')]
@@ -150,10 +160,12 @@ describe('CsvTokenizer', () => {
       const encode = (v: string) => (needsQuotes(v) ? `"${v.replaceAll('"', '""')}"` : v)
       const text = rows.map((row) => row.map(encode).join(',')).join(eol) + eol
       const expected = Papa.parse<string[]>(text, { delimiter: ',', newline: eol, skipEmptyLines: true }).data
-      const chunks: string[] = []
-      for (let at = 0; at < text.length;) {
+      // Cut anywhere, also inside a character: only ASCII bytes have a meaning to the reader.
+      const bytes = Buffer.from(text, 'utf8')
+      const chunks: Buffer[] = []
+      for (let at = 0; at < bytes.length;) {
         const size = 1 + Math.floor(random() * 7)
-        chunks.push(text.slice(at, at + size))
+        chunks.push(bytes.subarray(at, at + size))
         at += size
       }
       expect(fieldsOf(chunks)).toEqual(expected)

@@ -1,4 +1,4 @@
-import { CsvTokenizer } from './csv-tokenizer'
+import { CsvTokenizer, fieldText } from './csv-tokenizer'
 import type { DecimalMark } from './number-text'
 
 /*
@@ -20,12 +20,12 @@ function scoreDelimiter(text: string, delimiter: string): DelimiterScore | null 
     delimiter,
     maxFieldChars: Number.MAX_SAFE_INTEGER,
     maxFieldsPerRow: Number.MAX_SAFE_INTEGER,
-    onRow: (fields) => {
-      if (counts.length < 200) counts.push(fields.length)
+    onRow: (row) => {
+      if (counts.length < 200) counts.push(row.count)
     },
   })
   try {
-    tokenizer.push(text)
+    tokenizer.push(Buffer.from(text, 'utf8'))
     tokenizer.end()
   } catch {
     return null
@@ -62,17 +62,17 @@ export function guessDecimalMark(text: string, delimiter: string): DecimalMark {
     delimiter,
     maxFieldChars: Number.MAX_SAFE_INTEGER,
     maxFieldsPerRow: Number.MAX_SAFE_INTEGER,
-    onRow: (fields, recordNo) => {
+    onRow: (row, recordNo) => {
       if (recordNo === 1) return
-      for (const field of fields) {
-        const value = field.trim()
+      for (let k = 0; k < row.count; k++) {
+        const value = fieldText(row, k).trim()
         if (/^[+-]?\d*,\d+$/.test(value)) commas++
         else if (/^[+-]?\d*\.\d+$/.test(value)) points++
       }
     },
   })
   try {
-    tokenizer.push(text)
+    tokenizer.push(Buffer.from(text, 'utf8'))
     tokenizer.end()
   } catch {
     return '.'

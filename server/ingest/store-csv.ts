@@ -3,7 +3,7 @@ import { finished } from 'node:stream/promises'
 import iconv from 'iconv-lite'
 import type { Knex } from 'knex'
 import { createRowsTable, openCopyIn } from '../repositories/datasets-rows.repo'
-import { encodeCopyTextRow } from './copy-text'
+import { CopyTextBuilder } from './copy-text'
 import { CsvSyntaxError, CsvTokenizer } from './csv-tokenizer'
 import { badFile, describeColumn } from './ingest-errors'
 import type { TextSniff } from './sniff'
@@ -28,27 +28,40 @@ export interface ByteSource {
   expectedBytes: number
 }
 
-interface TextDecoderLike {
-  write(bytes: Buffer): string
-  end(): string
+/** Turns the file's bytes into UTF-8 bytes (the CSV reader's input and what COPY is told to expect). */
+interface ToUtf8 {
+  write(bytes: Buffer): Buffer
+  end(): Buffer
 }
 
-function decoderFor(encoding: string): TextDecoderLike {
+// Transcoded in small pieces: V8 keeps strings under ~128 KB in its young generation, whose memory
+// is reused, while each larger string takes fresh pages (several times slower on this machine).
+const DECODE_BYTES = 64 * 1024
+
+function toUtf8(encoding: string): ToUtf8 {
   if (encoding === 'utf-8') {
-    const decoder = new Utf8Chunks()
-    const valid = (text: string | null) => {
-      if (text === null) throw new NotUtf8()
-      return text
+    // Already UTF-8: only checked, never copied (a chunk may be joined with a character cut short before it).
+    const checker = new Utf8Chunks()
+    const valid = (bytes: Buffer | null) => {
+      if (bytes === null) throw new NotUtf8()
+      return bytes
     }
-    return { write: (bytes) => valid(decoder.write(bytes)), end: () => valid(decoder.end()) }
+    return { write: (bytes) => valid(checker.write(bytes)), end: () => valid(checker.end()) }
   }
   const decoder = iconv.getDecoder(encoding)
-  return { write: (bytes) => decoder.write(bytes), end: () => decoder.end() ?? '' }
+  return {
+    write: (bytes) => {
+      const pieces: Buffer[] = []
+      for (let at = 0; at < bytes.length; at += DECODE_BYTES)
+        pieces.push(Buffer.from(decoder.write(bytes.subarray(at, at + DECODE_BYTES)), 'utf8'))
+      return Buffer.concat(pieces)
+    },
+    end: () => Buffer.from(decoder.end() ?? '', 'utf8'),
+  }
 }
 
 const CR = 0x0d
 const LF = 0x0a
-const DECODE_BYTES = 64 * 1024
 
 /**
  * Holds back line breaks at the end of each chunk and releases them only when more data follows,
@@ -124,7 +137,7 @@ export interface StoreCsvResult {
 }
 
 /**
- * One pass over a delimited text file: hashes the original bytes, decodes, tokenizes, checks and
+ * One pass over a delimited text file: hashes the original bytes, checks or transcodes them to UTF-8, tokenizes, checks and
  * profiles every row, and streams the rows into COPY inside `trx`.
  *
  * 'original-bytes' hands PostgreSQL the file's own bytes (re-encoded to UTF-8 when needed) and lets
@@ -143,28 +156,23 @@ export async function storeCsv(
 ): Promise<StoreCsvResult> {
   const intake = new TableIntake(limits, sniff.decimalMark)
   const hash = createHash('sha256')
-  let encoded: string[] = []
+  const copyText = new CopyTextBuilder()
   const tokenizer = new CsvTokenizer({
     delimiter: sniff.delimiter,
     maxFieldChars: limits.maxFieldChars,
     maxFieldsPerRow: limits.maxColumns + 1,
-    onRow: (fields, recordNo) => {
+    onRow: (row, recordNo) => {
       const isHeader = intake.columnNames === null
-      intake.addRow(fields, recordNo)
-      if (mode === 'parsed-rows' && !isHeader) {
-        for (const field of fields) {
-          if (field.includes('\u0000'))
-            throw badFile(
-              'BINARY_FILE',
-              `Row ${recordNo} contains a NUL character: the file holds binary data, not only text.`,
-              { row: recordNo },
-            )
-        }
-        encoded.push(encodeCopyTextRow(fields))
-      }
+      intake.addCsvRow(row, recordNo)
+      if (mode === 'parsed-rows' && !isHeader && copyText.addRow(row) >= 0)
+        throw badFile(
+          'BINARY_FILE',
+          `Row ${recordNo} contains a NUL character: the file holds binary data, not only text.`,
+          { row: recordNo },
+        )
     },
   })
-  const decoder = decoderFor(sniff.encoding)
+  const utf8 = toUtf8(sniff.encoding)
   const trailing = new TrailingBreaks()
   // Held in an object: the closures below assign them, which plain locals would hide from type narrowing.
   const state: { copy: CopyIn | null; copyError: Error | null } = { copy: null, copyError: null }
@@ -174,9 +182,9 @@ export async function storeCsv(
   let reserved = false
   const fileSize = source.expectedBytes
 
-  const feed = (text: string) => {
+  const feed = (bytes: Buffer) => {
     try {
-      tokenizer.push(text)
+      tokenizer.push(bytes)
     } catch (error) {
       throw error instanceof CsvSyntaxError ? syntaxToBadFile(error, intake, limits) : error
     }
@@ -222,15 +230,8 @@ export async function storeCsv(
         bytes = chunk.subarray(skipBom)
         skipBom = 0
       }
-      // Decoded in small pieces: V8 keeps strings under ~128 KB in its young generation, whose memory
-      // is reused, while each larger string takes fresh pages; on this machine that made decoding a
-      // 30 MB file cost ~165 ms instead of ~5 ms.
-      const texts: string[] = []
-      for (let at = 0; at < bytes.length; at += DECODE_BYTES) {
-        const text = decoder.write(bytes.subarray(at, at + DECODE_BYTES))
-        feed(text)
-        if (mode === 'original-bytes' && sniff.encoding !== 'utf-8') texts.push(text)
-      }
+      const utf8Bytes = utf8.write(bytes)
+      feed(utf8Bytes)
       if (!reserved && intake.dataRows >= 100) {
         // Rows so far per byte so far, with a little slack, predicts the whole file closely.
         intake.reserveRows(Math.ceil(((intake.dataRows * fileSize) / bytesRead) * 1.02))
@@ -238,18 +239,13 @@ export async function storeCsv(
       }
       if (mode === 'original-bytes') {
         if (tokenizer.fastPathBlocker) throw new FastPathBlocked(tokenizer.fastPathBlocker)
-        pending.push(
-          ...trailing.take(sniff.encoding === 'utf-8' ? bytes : Buffer.from(texts.join(''), 'utf8')),
-        )
-      } else if (encoded.length) {
-        pending.push(Buffer.from(encoded.join(''), 'utf8'))
-        encoded = []
-      }
+        pending.push(...trailing.take(utf8Bytes))
+      } else if (copyText.length) pending.push(copyText.take())
       await flush()
       progress.update({ phase: 'storing', bytesRead, rowsStored: intake.dataRows })
       progress.signal?.throwIfAborted()
     }
-    feed(decoder.end())
+    feed(utf8.end())
     try {
       tokenizer.end()
     } catch (error) {
@@ -257,15 +253,15 @@ export async function storeCsv(
     }
     if (mode === 'original-bytes' && tokenizer.fastPathBlocker)
       throw new FastPathBlocked(tokenizer.fastPathBlocker)
-    const result = intake.finish()
-    if (mode === 'parsed-rows' && encoded.length) pending.push(Buffer.from(encoded.join(''), 'utf8'))
-    encoded = []
+    if (mode === 'parsed-rows' && copyText.length) pending.push(copyText.take())
     await flush()
     if (draining) await draining
     const stream = state.copy
+    if (stream && !state.copyError) stream.end()
+    // Profiles and the suggestion are worked out while PostgreSQL stores the last rows.
+    const result = intake.finish()
     if (!stream) throw new Error('no rows table was created')
     if (!state.copyError) {
-      stream.end()
       await finished(stream).catch((error: Error) => {
         state.copyError ??= error
       })
@@ -284,9 +280,14 @@ export async function storeCsv(
   } catch (error) {
     const open = state.copy
     if (open && !open.writableFinished) {
-      // Abandon the COPY (pg-copy-streams sends CopyFail); the caller's rollback follows on the same connection.
-      open.destroy()
-      await new Promise((resolve) => setImmediate(resolve))
+      if (open.writableEnded) {
+        // Already ended (a check on the whole file failed): let the COPY finish; the rollback undoes it.
+        await finished(open).catch(() => {})
+      } else {
+        // Abandon the COPY (pg-copy-streams sends CopyFail); the caller's rollback follows on the same connection.
+        open.destroy()
+        await new Promise((resolve) => setImmediate(resolve))
+      }
     }
     throw error
   }

@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { AppError } from '../errors/app-error'
+import seedrandom from 'seedrandom'
+import { CsvTokenizer } from './csv-tokenizer'
+import { trimCell } from './number-text'
 import { TableIntake } from './table-intake'
 
 const limits = {
@@ -134,5 +137,54 @@ describe('TableIntake', () => {
         ['1e400', 'z'],
       ]).profiles[0].type,
     ).toBe('text')
+  })
+
+  it('profiles CSV bytes exactly as the same cells given as text, trimming and coding as trimCell says', () => {
+    // Independent oracle (common practice, no source): labels are the distinct trimCell() texts in
+    // first-seen order, NA values excluded; missing cells are those whose trimmed text is an NA value.
+    const random = seedrandom('intake-bytes-vs-text')
+    const pieces = [' ', '\t', '\u00a0', 'µ', 'é', '😀', 'NA', 'NaN', '1', '2', '.', '-', 'x', '"', ',', '\n']
+    const generous = { ...limits, distinctCap: 1000 }
+    for (let trial = 0; trial < 200; trial++) {
+      const rows: string[][] = [['a', 'b', 'c']]
+      for (let r = 0; r < 2 + Math.floor(random() * 12); r++) {
+        const row: string[] = []
+        for (let c = 0; c < 3; c++) {
+          let cell = ''
+          for (let k = Math.floor(random() * 4); k > 0; k--)
+            cell += pieces[Math.floor(random() * pieces.length)]
+          row.push(cell)
+        }
+        rows.push(row)
+      }
+      const fromText = new TableIntake(generous, '.')
+      rows.forEach((row, k) => fromText.addRow(row, k + 1))
+      const textResult = fromText.finish()
+
+      const csv = rows.map((row) => row.map((v) => `"${v.replaceAll('"', '""')}"`).join(',')).join('\r\n')
+      const fromBytes = new TableIntake(generous, '.')
+      const tokenizer = new CsvTokenizer({
+        delimiter: ',',
+        maxFieldChars: generous.maxFieldChars,
+        maxFieldsPerRow: 10,
+        onRow: (row, recordNo) => fromBytes.addCsvRow(row, recordNo),
+      })
+      const bytes = Buffer.from(csv, 'utf8')
+      const cut = Math.floor(random() * bytes.length)
+      tokenizer.push(bytes.subarray(0, cut))
+      tokenizer.push(bytes.subarray(cut))
+      tokenizer.end()
+      const byteResult = fromBytes.finish()
+      expect(byteResult.profiles).toEqual(textResult.profiles)
+      expect(byteResult.codes).toEqual(textResult.codes)
+
+      for (let c = 0; c < 3; c++) {
+        const trimmed = rows.slice(1).map((row) => trimCell(row[c]))
+        const present = trimmed.filter((t) => !limits.naValues.includes(t))
+        expect(textResult.profiles[c].missingCount).toBe(trimmed.length - present.length)
+        const codes = textResult.codes[c]
+        if (codes) expect(codes.labels).toEqual([...new Set(present)])
+      }
+    }
   })
 })

@@ -1,5 +1,7 @@
-import type { ColumnProfile } from '../../shared/schemas/datasets'
+import { suggestNesting } from '../../shared/nesting/suggest-nesting'
+import type { ColumnProfile, NestingSuggestion } from '../../shared/schemas/datasets'
 import { ColumnProfiler, type ColumnCodes, type ProfilerOptions } from './column-profiler'
+import { rowFields, type CsvRow } from './csv-tokenizer'
 import { badFile, describeColumn, thinFile } from './ingest-errors'
 import type { DecimalMark } from './number-text'
 
@@ -17,6 +19,8 @@ export interface IntakeResult {
   rowCount: number
   profiles: ColumnProfile[]
   codes: (ColumnCodes | null)[]
+  /** The nesting suggested from the codes kept during the pass (no second pass over the rows). */
+  suggestion: NestingSuggestion
 }
 
 const formatCount = (n: number) => n.toLocaleString('en-US')
@@ -41,6 +45,7 @@ export class TableIntake {
     this.profilerOptions = {
       decimalMark,
       naValues: new Set(limits.naValues),
+      naBytes: limits.naValues.map((value) => Buffer.from(value, 'utf8')),
       distinctCap: limits.distinctCap,
     }
   }
@@ -60,6 +65,21 @@ export class TableIntake {
       if (value !== null && value.length > maxChars) this.fieldTooLong(row, k, value.length)
       this.profilers[k].add(value)
     }
+    this.dataRows++
+  }
+
+  /**
+   * A row from the CSV reader, as bytes. The reader has already refused fields over the length
+   * limit (it is given the same limit), so only the shape is checked here.
+   */
+  addCsvRow(row: CsvRow, recordNo: number): void {
+    const names = this.columnNames
+    if (names === null || row.count !== names.length) {
+      this.addRow(rowFields(row), recordNo)
+      return
+    }
+    const { bytes, starts, ends } = row
+    for (let k = 0; k < row.count; k++) this.profilers[k].addBytes(bytes, starts[k], ends[k])
     this.dataRows++
   }
 
@@ -139,7 +159,10 @@ export class TableIntake {
     for (const profiler of this.profilers) profiler.reserve(rows)
   }
 
-  /** The checks that need the whole file: empty, header only, one row, numbers out of range. */
+  /**
+   * The checks that need the whole file (empty, header only, one row, numbers out of range), then
+   * the profiles and the suggested nesting. Ingest calls it while PostgreSQL finishes the COPY.
+   */
   finish(): IntakeResult {
     if (this.columnNames === null) throw badFile('EMPTY_FILE', 'The file is empty.')
     if (this.dataRows === 0) {
@@ -166,12 +189,29 @@ export class TableIntake {
         )
       }
     }
+    const profiles = this.profilers.map((p) => p.profile())
+    const codes = this.profilers.map((p) => p.columnCodes())
+    const suggestion = suggestNesting(
+      this.dataRows,
+      profiles.map((profile, k) => ({
+        name: profile.name,
+        type: profile.type,
+        distinctCount: profile.distinctCount,
+        missingCount: profile.missingCount,
+        // Only text and integer columns can group rows; converting the others would only cost memory.
+        coded:
+          codes[k] && (profile.type === 'text' || profile.type === 'integer')
+            ? { name: profile.name, codes: codes[k].codes, labels: codes[k].labels }
+            : null,
+      })),
+    )
     return {
       headerRow: this.headerRow,
       columnNames: this.columnNames,
       rowCount: this.dataRows,
-      profiles: this.profilers.map((p) => p.profile()),
-      codes: this.profilers.map((p) => p.columnCodes()),
+      profiles,
+      codes,
+      suggestion,
     }
   }
 }

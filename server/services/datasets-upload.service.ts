@@ -3,13 +3,7 @@ import { basename, extname, join } from 'node:path'
 import { rm } from 'node:fs/promises'
 import type { Knex } from 'knex'
 import type { CurrentUser } from '../../shared/schemas/auth'
-import type {
-  DatasetDetail,
-  DatasetUploadFields,
-  DatasetVersionDetail,
-  NestingSuggestion,
-} from '../../shared/schemas/datasets'
-import { suggestNesting, type SuggestionColumn } from '../../shared/nesting/suggest-nesting'
+import type { DatasetDetail, DatasetUploadFields, DatasetVersionDetail } from '../../shared/schemas/datasets'
 import { db } from '../db'
 import { NotFoundError } from '../errors/app-error'
 import { ingestConfig } from '../ingest/ingest-config'
@@ -41,25 +35,6 @@ import {
 import { findOrInsertProject, findProject } from '../repositories/projects.repo'
 import { assertCanWriteInLab, datasetFor } from './datasets-access.service'
 import { getDatasetDetail, getVersionDetail } from './datasets.service'
-
-/** The nesting suggestion from the codes the profiler kept during ingest (no second pass over the rows). */
-export function suggestionFromIntake(intake: IntakeResult): NestingSuggestion {
-  const columns: SuggestionColumn[] = intake.profiles.map((profile, k) => {
-    const codes = intake.codes[k]
-    return {
-      name: profile.name,
-      type: profile.type,
-      distinctCount: profile.distinctCount,
-      missingCount: profile.missingCount,
-      // Only text and integer columns can group rows; converting the others would only cost memory.
-      coded:
-        codes && (profile.type === 'text' || profile.type === 'integer')
-          ? { name: profile.name, codes: codes.codes, labels: codes.labels }
-          : null,
-    }
-  })
-  return suggestNesting(intake.rowCount, columns)
-}
 
 interface StoredVersion {
   versionId: number
@@ -99,7 +74,6 @@ async function storeVersion(
   const byteSize = file.live ? await file.live.accepted : file.size
   progress.update({ phase: 'profiling', bytesRead: file.size, rowsStored: outcome.intake.rowCount })
   await insertColumns(versionId, outcome.intake.profiles, trx)
-  const suggestion = suggestionFromIntake(outcome.intake)
   await completeVersion(
     versionId,
     {
@@ -114,7 +88,7 @@ async function storeVersion(
       headerRow: outcome.intake.headerRow,
       rowCount: outcome.intake.rowCount,
       columnCount: outcome.intake.columnNames.length,
-      suggestion,
+      suggestion: outcome.intake.suggestion,
       ingestMs: Math.round(performance.now() - started),
     },
     trx,
