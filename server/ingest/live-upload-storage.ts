@@ -5,7 +5,7 @@ import type { Request } from 'express'
 import type { StorageEngine } from 'multer'
 import type { ChunkChannel } from './chunk-channel'
 
-const DISK_BUFFER_BYTES = 1024 * 1024
+const DISK_BUFFER_BYTES = 8 * 1024 * 1024
 
 /** Called when the file part of an upload begins: a channel to ingest it live, or null to only store it. */
 export type StartLiveIngest = (
@@ -33,8 +33,9 @@ export function liveDiskStorage(
         done(error as Error)
         return
       }
-      // Room for several chunks: with the default 16 KB every chunk would wait for its disk write
-      // before the next one is read from the socket, pacing the whole transfer by the disk.
+      // Room for many chunks (as much as the ingest channel holds): with a small queue the transfer
+      // paused every few chunks until the disk write came back, and under load (PostgreSQL and the
+      // ingest busy on both cores) those round trips held the ingest up for ~0.1 s per upload.
       const out = createWriteStream(path, { highWaterMark: DISK_BUFFER_BYTES })
       const stream = file.stream
       let size = 0
