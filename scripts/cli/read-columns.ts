@@ -1,10 +1,10 @@
 import { closeSync, createReadStream, openSync, readSync, statSync } from 'node:fs'
 import { extname } from 'node:path'
+import { CsvSyntaxError, CsvTokenizer, fieldText, type CsvRow } from '../../server/ingest/csv-tokenizer'
 import { guessDelimiter } from '../../server/ingest/guess-delimiter'
 import type { NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
 import { ColumnCollector, type ColumnSelection } from './column-collector'
-import { CsvByteScanner, fieldText, type CsvRecord } from './csv-byte-scanner'
 import { parseDecimalBytes } from './parse-decimal-bytes'
 
 export interface ReadColumnsOptions extends ColumnSelection {
@@ -17,14 +17,26 @@ const GUESS_BYTES = 16 * 1024
 const GUESS_LINES = 50
 const READ_BYTES = 1 << 20
 
+/** What the ingest's CSV reader found wrong, in the command line's words (it counts lines, not rows). */
+function syntaxMessage(error: CsvSyntaxError): string {
+  switch (error.kind) {
+    case 'unterminated-quote':
+      return `Line ${error.line}: a quoted field is never closed.`
+    case 'text-after-quote':
+      return `Line ${error.line}: text follows the closing quote of field ${error.fieldIndex + 1}.`
+    default:
+      return `Line ${error.line}: the row is too long to read.`
+  }
+}
+
 /**
- * Feeds the byte scanner's records into a column collector. Labels are decoded only when they differ
+ * Feeds the CSV reader's rows into a column collector. Labels are decoded only when they differ
  * from the previous row's bytes in the same column (tables are usually sorted by unit), and responses
  * are parsed from the bytes unless they are unusual, so most rows make no string at all.
  */
 class ColumnReader {
   private readonly collector: ColumnCollector
-  private scanner: CsvByteScanner | null = null
+  private tokenizer: CsvTokenizer | null = null
   private pending: Buffer[] = []
   private pendingBytes = 0
   private previousBytes: Buffer[] = []
@@ -42,30 +54,45 @@ class ColumnReader {
   }
 
   push(chunk: Buffer): void {
-    if (this.scanner) return this.scanner.push(chunk)
+    if (this.tokenizer) return this.read(() => this.tokenizer!.push(chunk))
     this.pending.push(Buffer.from(chunk))
     this.pendingBytes += chunk.length
     if (this.pendingBytes >= GUESS_BYTES) this.startScanning()
   }
 
   finish(): NestedColumns {
-    if (!this.scanner) this.startScanning()
-    this.scanner!.end()
+    if (!this.tokenizer) this.startScanning()
+    this.read(() => this.tokenizer!.end())
     return this.collector.finish()
+  }
+
+  private read(step: () => void): void {
+    try {
+      step()
+    } catch (error) {
+      throw error instanceof CsvSyntaxError ? new CliInputError(syntaxMessage(error)) : error
+    }
   }
 
   private startScanning(): void {
     const head = Buffer.concat(this.pending)
     const delimiter = this.options.delimiter ?? guessDelimiter(firstLines(head, GUESS_LINES), this.extension)
-    this.scanner = new CsvByteScanner(delimiter.charCodeAt(0), (record) => this.onRecord(record))
+    // No length limits: the command line reads the user's own file, as long as it fits in memory.
+    const tokenizer = new CsvTokenizer({
+      delimiter,
+      maxFieldChars: Number.MAX_SAFE_INTEGER,
+      maxFieldsPerRow: Number.MAX_SAFE_INTEGER,
+      onRow: (row) => this.onRecord(row),
+    })
+    this.tokenizer = tokenizer
     this.pending = []
-    this.scanner.push(head)
+    this.read(() => tokenizer.push(head))
     const rows = this.collector.rowCount
     if (rows > 0 && this.totalBytes > head.length)
       this.collector.reserve((1.05 * this.totalBytes * rows) / head.length)
   }
 
-  private onRecord(record: CsvRecord): void {
+  private onRecord(record: CsvRow): void {
     // Empty lines are not rows.
     if (record.count === 1 && record.starts[0] === record.ends[0]) return
     const collector = this.collector
@@ -94,9 +121,12 @@ class ColumnReader {
     const column = collector.responseColumn
     let response = NaN
     if (!missing && column < record.count) {
-      response = record.escaped[column]
-        ? NaN
-        : parseDecimalBytes(record.bytes, record.starts[column], record.ends[column], collector.decimalComma)
+      response = parseDecimalBytes(
+        record.bytes,
+        record.starts[column],
+        record.ends[column],
+        collector.decimalComma,
+      )
       if (Number.isNaN(response))
         response = collector.parseResponse(fieldText(record, column), collector.rowCount, record.line)
     }
@@ -105,17 +135,13 @@ class ColumnReader {
 
   /**
    * True when factor `f`'s field holds the same bytes as in the previous row (its code still holds);
-   * otherwise remembers the new bytes. Quoted fields with doubled quotes are always looked up.
+   * otherwise remembers the new bytes.
    */
-  private sameLabel(record: CsvRecord, f: number, field: number): boolean {
+  private sameLabel(record: CsvRow, f: number, field: number): boolean {
     const start = record.starts[field]
     const length = record.ends[field] - start
     const bytes = record.bytes
     let previous = this.previousBytes[f]
-    if (record.escaped[field]) {
-      this.previousLength[f] = -1
-      return false
-    }
     if (length === this.previousLength[f]) {
       let k = 0
       while (k < length && bytes[start + k] === previous[k]) k++
@@ -139,7 +165,7 @@ function firstLines(bytes: Buffer, count: number): string {
   return bytes.toString('utf8', 0, end)
 }
 
-function isBlank(record: CsvRecord): boolean {
+function isBlank(record: CsvRow): boolean {
   for (let field = 0; field < record.count; field++) if (fieldText(record, field).trim() !== '') return false
   return true
 }

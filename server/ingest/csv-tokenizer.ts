@@ -19,12 +19,16 @@ const DOT = 46
 
 export type CsvSyntaxKind = 'unterminated-quote' | 'text-after-quote' | 'field-too-long' | 'too-many-fields'
 
-/** A problem in the file's structure, with the 1-based record (row) number and 0-based field index. */
+/**
+ * A problem in the file's structure, with the 1-based record (row) number, the 1-based line the
+ * record starts on, and the 0-based field index.
+ */
 export class CsvSyntaxError extends Error {
   constructor(
     readonly kind: CsvSyntaxKind,
     readonly recordNo: number,
     readonly fieldIndex: number,
+    readonly line: number,
     readonly length = 0,
   ) {
     super(`${kind} at record ${recordNo}, field ${fieldIndex + 1}`)
@@ -39,6 +43,8 @@ export interface CsvRow {
   starts: Int32Array
   ends: Int32Array
   count: number
+  /** 1-based line of the file on which the row starts (line breaks inside quotes count). */
+  line: number
 }
 
 /** The text of field `k` of `row`. */
@@ -93,14 +99,23 @@ export class CsvTokenizer {
   private pendingCR = false
   private rowHasQuote = false
   private eolStyle: string | null = null
+  /** Record number and first line of each blank line held back (see endRow). */
   private pendingBlankRecords: number[] = []
+  /** Line breaks inside quoted fields so far: with the records done, they give the line a row starts on. */
+  private quotedLineBreaks = 0
 
   constructor(private readonly options: CsvTokenizerOptions) {
     if (options.delimiter.length !== 1 || options.delimiter.charCodeAt(0) > 0x7f)
       throw new Error('delimiter must be one ASCII character')
     this.delimiter = options.delimiter.charCodeAt(0)
-    this.row = { bytes: this.buffer, starts: new Int32Array(64), ends: new Int32Array(64), count: 0 }
-    this.blankRow = { bytes: this.buffer, starts: new Int32Array(1), ends: new Int32Array(1), count: 1 }
+    this.row = { bytes: this.buffer, starts: new Int32Array(64), ends: new Int32Array(64), count: 0, line: 1 }
+    this.blankRow = {
+      bytes: this.buffer,
+      starts: new Int32Array(1),
+      ends: new Int32Array(1),
+      count: 1,
+      line: 1,
+    }
   }
 
   /** `chunk` must end on a character boundary (a UTF-8 sequence is never split between chunks). */
@@ -140,6 +155,10 @@ export class CsvTokenizer {
     this.rowStart = 0
   }
 
+  private syntaxError(kind: CsvSyntaxKind, length = 0): CsvSyntaxError {
+    return new CsvSyntaxError(kind, this.recordsDone + 1, this.row.count, this.row.line, length)
+  }
+
   private noteEol(style: string): void {
     if (this.eolStyle === null) this.eolStyle = style
     else if (this.eolStyle !== style) this.fastPathBlocker ??= 'mixed line endings'
@@ -150,11 +169,9 @@ export class CsvTokenizer {
     const { maxFieldChars, maxFieldsPerRow } = this.options
     if (end - start > maxFieldChars) {
       const length = utf16Length(this.buffer, start, end)
-      if (length > maxFieldChars)
-        throw new CsvSyntaxError('field-too-long', this.recordsDone + 1, row.count, length)
+      if (length > maxFieldChars) throw this.syntaxError('field-too-long', length)
     }
-    if (row.count >= maxFieldsPerRow)
-      throw new CsvSyntaxError('too-many-fields', this.recordsDone + 1, row.count)
+    if (row.count >= maxFieldsPerRow) throw this.syntaxError('too-many-fields')
     if (row.count === row.starts.length) {
       const starts = new Int32Array(2 * row.count)
       const ends = new Int32Array(2 * row.count)
@@ -173,8 +190,7 @@ export class CsvTokenizer {
     const limit = this.options.maxFieldChars + slack
     if (this.length - valueStart > limit) {
       const length = utf16Length(this.buffer, valueStart, this.length)
-      if (length > limit)
-        throw new CsvSyntaxError('field-too-long', this.recordsDone + 1, this.row.count, length)
+      if (length > limit) throw this.syntaxError('field-too-long', length)
     }
     this.resumeAt = fieldStart
   }
@@ -230,13 +246,13 @@ export class CsvTokenizer {
           break
         }
         if (closedAt === -1) {
-          if (last) throw new CsvSyntaxError('unterminated-quote', this.recordsDone + 1, this.row.count)
+          if (last) throw this.syntaxError('unterminated-quote')
           return this.holdUnfinished(fieldStart, fieldStart + 1, 1)
         }
         if (closedAt + 1 >= n && !last) return this.holdUnfinished(fieldStart, fieldStart + 1, 1)
         c = closedAt + 1 < n ? bytes[closedAt + 1] : -1
-        if (c !== -1 && c !== delimiter && c !== LF && c !== CR)
-          throw new CsvSyntaxError('text-after-quote', this.recordsDone + 1, this.row.count)
+        if (c !== -1 && c !== delimiter && c !== LF && c !== CR) throw this.syntaxError('text-after-quote')
+        for (let k = fieldStart + 1; k < closedAt; k++) if (bytes[k] === LF) this.quotedLineBreaks++
         this.rowHasQuote = true
         this.addField(fieldStart + 1, doubled ? this.unescapeQuotes(fieldStart + 1, closedAt) : closedAt)
         i = closedAt + 1
@@ -294,23 +310,27 @@ export class CsvTokenizer {
     this.rowHasQuote = false
     if (blank) {
       // Held back: blank lines are only an error (or a missing value) when more rows follow.
-      this.pendingBlankRecords.push(this.recordsDone)
-      row.count = 0
-      return
-    }
-    if (this.pendingBlankRecords.length) {
-      this.blankRow.bytes = this.buffer
-      for (const recordNo of this.pendingBlankRecords) this.options.onRow(this.blankRow, recordNo)
+      this.pendingBlankRecords.push(this.recordsDone, row.line)
+    } else {
+      const pending = this.pendingBlankRecords
+      const blankRow = this.blankRow
+      blankRow.bytes = this.buffer
+      for (let k = 0; k < pending.length; k += 2) {
+        blankRow.line = pending[k + 1]
+        this.options.onRow(blankRow, pending[k])
+      }
       this.pendingBlankRecords = []
+      if (
+        row.count === 1 &&
+        row.ends[0] - row.starts[0] === 2 &&
+        this.buffer[row.starts[0]] === BACKSLASH &&
+        this.buffer[row.starts[0] + 1] === DOT
+      )
+        this.fastPathBlocker ??= 'a line holding only \\.'
+      this.options.onRow(row, this.recordsDone)
     }
-    if (
-      row.count === 1 &&
-      row.ends[0] - row.starts[0] === 2 &&
-      this.buffer[row.starts[0]] === BACKSLASH &&
-      this.buffer[row.starts[0] + 1] === DOT
-    )
-      this.fastPathBlocker ??= 'a line holding only \\.'
-    this.options.onRow(row, this.recordsDone)
     row.count = 0
+    // The next row starts after this one's line break and those inside its quotes.
+    row.line = this.recordsDone + this.quotedLineBreaks + 1
   }
 }
