@@ -5,7 +5,7 @@ import { guessDelimiter } from '../../server/ingest/guess-delimiter'
 import type { NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
 import { ColumnCollector, type ColumnSelection } from './column-collector'
-import { parseDecimalBytes } from './parse-decimal-bytes'
+import { parseDecimalBytes } from '../../server/ingest/parse-decimal-bytes'
 
 export interface ReadColumnsOptions extends ColumnSelection {
   /** Field separator; undefined = detected from the first rows (comma, semicolon, tab or bar). */

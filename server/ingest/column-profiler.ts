@@ -1,6 +1,7 @@
 import type { ColumnProfile, ColumnType } from '../../shared/schemas/datasets'
 import { ByteKeyTable } from './byte-key-table'
-import { isIntegerText, isNumberText, parseNumberText, type DecimalMark } from './number-text'
+import { NumberShape, numberShapeOfBytes, type DecimalMark } from './number-text'
+import { parseDecimalBytes } from './parse-decimal-bytes'
 
 /** Code stored for a missing cell in the per-row codes (as the nesting functions expect). */
 export const MISSING_CODE = -1
@@ -25,6 +26,14 @@ const NA_CODE = -1
 const UNCODED = -2
 
 const SAMPLE_SIZE = 5
+
+/**
+ * Most distinct values tracked in a column once it holds decimals. Such a column never groups rows
+ * (it keeps no per-row codes), and measurements with several decimals are nearly all distinct: a
+ * table of 65,000 values cost more than reading the rest of the file (cache misses on every cell),
+ * while beyond a few thousand values the count only says "many".
+ */
+const DECIMAL_DISTINCT_CAP = 4096
 
 const isSpaceByte = (b: number) => b === 32 || b === 9 || b === 10 || b === 13
 // U+00A0, the no-break space, in UTF-8.
@@ -110,7 +119,7 @@ export class ColumnProfiler {
       value = this.valueOfCode![code]
     } else {
       if (!this.maybeNumeric) return
-      value = this.classify(bytes.toString('utf8', start, end), rowIndex)
+      value = this.classify(bytes, start, end, rowIndex)
     }
     if (!this.maybeNumeric || !Number.isFinite(value)) return
     // Welford's running mean and sum of squares: stable for a million values.
@@ -134,7 +143,9 @@ export class ColumnProfiler {
       return distinct.value(known)
     }
     const text = bytes.toString('utf8', start, end)
-    const code = this.options.naValues.has(text) ? NA_CODE : this.addDistinct(text, rowIndex)
+    const code = this.options.naValues.has(text)
+      ? NA_CODE
+      : this.addDistinct(text, this.maybeNumeric ? this.classify(bytes, start, end, rowIndex) : NaN)
     if (code === undefined) return UNCODED
     this.lastEntry = distinct.insert(bytes, start, end, hash, code)
     return code
@@ -148,9 +159,12 @@ export class ColumnProfiler {
     return false
   }
 
-  /** Registers a new distinct value; returns its code, or undefined when the cap was just passed. */
-  private addDistinct(text: string, rowIndex: number): number | undefined {
-    if (this.labels.length >= this.options.distinctCap) {
+  /** Registers a new distinct value and its number; returns its code, or undefined when the cap was just passed. */
+  private addDistinct(text: string, value: number): number | undefined {
+    const cap = this.allInteger
+      ? this.options.distinctCap
+      : Math.min(this.options.distinctCap, DECIMAL_DISTINCT_CAP)
+    if (this.labels.length >= cap) {
       this.distinct = null
       this.codes = null
       this.counts = null
@@ -164,23 +178,30 @@ export class ColumnProfiler {
       this.valueOfCode = grow(this.valueOfCode!, code + 1) as Float64Array
       this.counts = grow(this.counts!, code + 1) as Uint32Array
     }
-    this.valueOfCode![code] = this.maybeNumeric ? this.classify(text, rowIndex) : NaN
+    this.valueOfCode![code] = this.maybeNumeric ? value : NaN
     return code
   }
 
-  /** Numeric value of a cell, or NaN after marking the column as text. */
-  private classify(text: string, rowIndex: number): number {
-    if (isIntegerText(text)) return Number(text)
-    if (isNumberText(text, this.options.decimalMark)) {
-      // Measurements with decimals never group rows into units: their per-row codes are not needed.
-      this.allInteger = false
-      this.codes = null
-      const value = parseNumberText(text, this.options.decimalMark)
-      if (!Number.isFinite(value) && this.overflow === null) this.overflow = { rowIndex, text }
-      return value
+  /**
+   * Numeric value of a trimmed cell, or NaN after marking the column as text. Read from the bytes
+   * (exactly as Number() reads the text, see parseDecimalBytes); only unusual numbers make a string.
+   */
+  private classify(bytes: Buffer, start: number, end: number, rowIndex: number): number {
+    const { decimalMark } = this.options
+    const shape = numberShapeOfBytes(bytes, start, end, decimalMark)
+    if (shape === NumberShape.None) {
+      this.maybeNumeric = false
+      return NaN
     }
-    this.maybeNumeric = false
-    return NaN
+    let value = parseDecimalBytes(bytes, start, end, decimalMark === ',')
+    if (Number.isNaN(value)) value = Number(bytes.toString('latin1', start, end).replace(',', '.'))
+    if (shape === NumberShape.Integer) return value
+    // Measurements with decimals never group rows into units: their per-row codes are not needed.
+    this.allInteger = false
+    this.codes = null
+    if (!Number.isFinite(value) && this.overflow === null)
+      this.overflow = { rowIndex, text: bytes.toString('latin1', start, end) }
+    return value
   }
 
   /** Makes room for `rows` codes at once, sparing repeated growth on large files. */
@@ -228,7 +249,8 @@ export class ColumnProfiler {
       name: this.name,
       type: this.type,
       missingCount: this.missing,
-      distinctCount: this.distinct ? this.labels.length : this.options.distinctCap,
+      // Once capped, the labels seen before the cap stay counted: "at least" that many.
+      distinctCount: this.labels.length,
       distinctCapped: this.distinct === null,
       min: hasNumbers ? this.min : null,
       max: hasNumbers ? this.max : null,

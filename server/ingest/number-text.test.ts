@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest'
-import { isIntegerText, parseNumberText, trimCell } from './number-text'
+import seedrandom from 'seedrandom'
+import {
+  isIntegerText,
+  isNumberText,
+  NumberShape,
+  numberShapeOfBytes,
+  parseNumberText,
+  trimCell,
+} from './number-text'
 
 describe('number text', () => {
   it('reads decimal points, exponents and signs; refuses words, hex and Infinity', () => {
@@ -29,5 +37,25 @@ describe('number text', () => {
     expect(isIntegerText('7.0')).toBe(false)
     expect(trimCell('\u00a0 12 ')).toBe('12')
     expect(trimCell('m 3')).toBe('m 3')
+  })
+
+  it('tells the shape of a number from its bytes as the regular expressions do from its text', () => {
+    // Oracle: isIntegerText and isNumberText above (common practice, no source).
+    const random = seedrandom('number-shape-bytes')
+    const alphabet = ['0', '1', '9', '+', '-', '.', ',', 'e', 'E', ' ', 'x', 'µ']
+    for (let trial = 0; trial < 20_000; trial++) {
+      let text = ''
+      for (let k = Math.floor(random() * 7); k > 0; k--)
+        text += alphabet[Math.floor(random() * alphabet.length)]
+      const bytes = Buffer.from(`[${text}]`)
+      for (const mark of ['.', ','] as const) {
+        const expected = isIntegerText(text)
+          ? NumberShape.Integer
+          : isNumberText(text, mark)
+            ? NumberShape.Decimal
+            : NumberShape.None
+        expect(numberShapeOfBytes(bytes, 1, bytes.length - 1, mark), `${text} (${mark})`).toBe(expected)
+      }
+    }
   })
 })

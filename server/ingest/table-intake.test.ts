@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { AppError } from '../errors/app-error'
 import seedrandom from 'seedrandom'
 import { CsvTokenizer } from './csv-tokenizer'
-import { trimCell } from './number-text'
+import { isIntegerText, parseNumberText, trimCell } from './number-text'
 import { TableIntake } from './table-intake'
 
 const limits = {
@@ -143,16 +143,38 @@ describe('TableIntake', () => {
     // Independent oracle (common practice, no source): labels are the distinct trimCell() texts in
     // first-seen order, NA values excluded; missing cells are those whose trimmed text is an NA value.
     const random = seedrandom('intake-bytes-vs-text')
-    const pieces = [' ', '\t', '\u00a0', 'µ', 'é', '😀', 'NA', 'NaN', '1', '2', '.', '-', 'x', '"', ',', '\n']
+    const pieces = [
+      ' ',
+      '\t',
+      '\u00a0',
+      'µ',
+      'é',
+      '😀',
+      'NA',
+      'NaN',
+      '1',
+      '2',
+      '.',
+      '-',
+      'x',
+      '"',
+      ',',
+      '\n',
+      'e',
+      '7',
+      '0',
+    ]
+    const numeric = ['1', '2', '7', '0', '.', '-', 'e', ' ', '12.5', '3', '-0.25', 'NA']
     const generous = { ...limits, distinctCap: 1000 }
     for (let trial = 0; trial < 200; trial++) {
       const rows: string[][] = [['a', 'b', 'c']]
       for (let r = 0; r < 2 + Math.floor(random() * 12); r++) {
         const row: string[] = []
         for (let c = 0; c < 3; c++) {
+          // The last column mostly holds numbers, so numeric profiles are compared too.
+          const from = c === 2 ? numeric : pieces
           let cell = ''
-          for (let k = Math.floor(random() * 4); k > 0; k--)
-            cell += pieces[Math.floor(random() * pieces.length)]
+          for (let k = Math.floor(random() * 4); k > 0; k--) cell += from[Math.floor(random() * from.length)]
           row.push(cell)
         }
         rows.push(row)
@@ -184,6 +206,22 @@ describe('TableIntake', () => {
         expect(textResult.profiles[c].missingCount).toBe(trimmed.length - present.length)
         const codes = textResult.codes[c]
         if (codes) expect(codes.labels).toEqual([...new Set(present)])
+        // Types and ranges against the regular expressions and Number() of number-text.ts.
+        const values = present.map((t) => parseNumberText(t, '.'))
+        const profile = textResult.profiles[c]
+        const expectedType =
+          present.length === 0
+            ? 'empty'
+            : values.some(Number.isNaN)
+              ? 'text'
+              : present.every(isIntegerText)
+                ? 'integer'
+                : 'numeric'
+        expect(profile.type).toBe(expectedType)
+        if (expectedType === 'integer' || expectedType === 'numeric') {
+          expect(profile.min).toBe(Math.min(...values))
+          expect(profile.max).toBe(Math.max(...values))
+        }
       }
     }
   })
