@@ -1,14 +1,19 @@
 /**
- * Ingest benchmark (`npm run bench:ingest [-- --runs 3] [-- --rows 1000000] [-- --port 3197]`).
+ * Ingest benchmark (`npm run bench:ingest [-- --runs 3] [-- --rows 1000000] [-- --decimals 1] [-- --port 3197]`).
  *
  * 1. Writes a seeded, invented per-cell CSV (≈ 1,000,000 rows: lab, animal, condition, cell,
- *    neurite_length_um, soma_area_um2) into .bench/ingest/.
+ *    neurite_length_um, soma_area_um2, measurements with `--decimals` digits after the point; with
+ *    3 or more nearly every measurement is distinct, as in many instrument exports) into .bench/ingest/.
  * 2. Prepares its own database (nestwise_bench, fresh, migrated, demo people seeded), starts the
  *    server on its own port, signs in as a demo scientist and uploads the file through the real
  *    HTTP route (multipart, as the browser does) — timed from the first byte sent until the 201
- *    that says the rows are stored and profiled.
+ *    that says the rows are stored and profiled. The upload is sent by curl when it is installed:
+ *    like psql it is a small C program, while a Node client spent ~0.3 s of CPU per upload on the
+ *    same two cores the server and PostgreSQL share (see post-multipart.ts).
  * 3. Times `psql \copy` of the same file into a plain table of text columns (the floor), after
  *    each upload, so both meet the same machine; the first of each pair is reported apart.
+ *    For each it prints the CPU time the whole machine spent (from /proc/stat): on a machine with
+ *    few cores the upload's time follows the CPU that server, PostgreSQL and client need together.
  * 4. Reads the server's peak resident memory (VmHWM in /proc/<pid>/status) after the uploads.
  * 5. Tags the dataset through the API and times loadNestedColumns for the whole file.
  * Targets: upload-to-ready ≤ 1.5 × psql COPY; server peak RSS < 600 MB.
@@ -17,8 +22,9 @@ import { spawnSync } from 'node:child_process'
 import { closeSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import seedrandom from 'seedrandom'
+import { availableParallelism } from 'node:os'
 import { signInAsDemoScientist, startBenchServer, waitForHealth } from './bench-server'
-import { postMultipart } from './post-multipart'
+import { postMultipart, uploadClient } from './post-multipart'
 
 const args = process.argv.slice(2)
 const option = (name: string, fallback: number) => {
@@ -28,6 +34,7 @@ const option = (name: string, fallback: number) => {
 const RUNS = option('runs', 3)
 const ROWS = option('rows', 1_000_000)
 const PORT = option('port', 3197)
+const DECIMALS = option('decimals', 1)
 const DATABASE = 'nestwise_bench'
 
 process.env.PGDATABASE = DATABASE
@@ -37,7 +44,7 @@ const { ensurePostgres } = await import('../lib/postgres')
 const { prepareDatabase } = await import('../lib/database')
 
 /** Invented consortium: 12 labs × 40 mice (labels reused across labs), vehicle or NW-117 per mouse. */
-function writeBenchCsv(path: string, rows: number): number {
+function writeBenchCsv(path: string, rows: number, decimals: number): number {
   const random = seedrandom('nestwise-ingest-bench')
   const normal = () => {
     let u = 0
@@ -58,7 +65,7 @@ function writeBenchCsv(path: string, rows: number): number {
         if (written === rows) break outer
         const length = 120 + labShift + mouseShift + normal() * 25
         const soma = 85 + normal() * 9
-        text += `L${lab},m${mouse},${condition},${cell},${length.toFixed(1)},${soma.toFixed(1)}\n`
+        text += `L${lab},m${mouse},${condition},${cell},${length.toFixed(decimals)},${soma.toFixed(decimals)}\n`
         written++
         if (text.length > 1 << 20) {
           writeSync(fd, text)
@@ -72,6 +79,13 @@ function writeBenchCsv(path: string, rows: number): number {
   return written
 }
 
+/** CPU time the whole machine has spent so far, in ms (user, nice, system, irq, softirq of /proc/stat). */
+function machineCpuMs(): number {
+  const fields = readFileSync('/proc/stat', 'utf8').split('\n')[0].trim().split(/\s+/).slice(1).map(Number)
+  const ticks = fields[0] + fields[1] + fields[2] + fields[5] + fields[6]
+  return ticks * 10 // USER_HZ is 100 on Linux
+}
+
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]
 const seconds = (ms: number) => `${(ms / 1000).toFixed(2)} s`
 
@@ -83,9 +97,9 @@ function peakRssMb(pid: number): number {
 
 const dir = resolve('.bench/ingest')
 mkdirSync(dir, { recursive: true })
-const csvPath = join(dir, `cells-${ROWS}.csv`)
+const csvPath = join(dir, DECIMALS === 1 ? `cells-${ROWS}.csv` : `cells-${ROWS}-${DECIMALS}dp.csv`)
 let started = performance.now()
-const written = writeBenchCsv(csvPath, ROWS)
+const written = writeBenchCsv(csvPath, ROWS, DECIMALS)
 const bytes = statSync(csvPath).size
 console.log(
   `[bench] wrote ${written.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB in ${seconds(performance.now() - started)} → ${csvPath}`,
@@ -137,26 +151,34 @@ try {
   // both sides meet the same state of the machine and of PostgreSQL (checkpoints, caches).
   const uploadMs: number[] = []
   const copyMs: number[] = []
+  const uploadCpuMs: number[] = []
+  const copyCpuMs: number[] = []
   let firstUploadMs = 0
   let datasetId = 0
   for (let run = 0; run <= RUNS; run++) {
     const fields = { labId: String(labId), projectName: 'Ingest benchmark', name: `Benchmark run ${run}` }
+    const cpuBefore = machineCpuMs()
     started = performance.now()
     const res = await postMultipart(`${base}/api/v1/datasets`, headers, fields, {
       path: csvPath,
       name: 'cells.csv',
     })
     const elapsed = performance.now() - started
+    const cpuUpload = machineCpuMs() - cpuBefore
     const body = JSON.parse(res.body)
     if (res.status !== 201) throw new Error(`upload failed: ${res.status} ${res.body}`)
     const version = body.data.latestVersion
     if (version.rowCount !== written) throw new Error(`stored ${version.rowCount} rows, expected ${written}`)
     datasetId = body.data.id
+    const cpuBeforeCopy = machineCpuMs()
     const copy = timedCopy()
+    const cpuCopy = machineCpuMs() - cpuBeforeCopy
     if (run === 0) firstUploadMs = elapsed
     else {
       uploadMs.push(elapsed)
       copyMs.push(copy)
+      uploadCpuMs.push(cpuUpload)
+      copyCpuMs.push(cpuCopy)
     }
     console.log(
       `[bench] ${run === 0 ? 'first upload after start' : `upload ${run}`}: ${seconds(elapsed)} to ready (server ingest ${seconds(version.ingestMs)}, ${version.rowCount.toLocaleString('en-US')} rows); psql \\copy ${seconds(copy)}`,
@@ -210,6 +232,9 @@ try {
     `  psql \\copy into a plain table:            ${seconds(copy)}   [${copyMs.map(seconds).join(', ')}]`,
   )
   console.log(`  ratio upload / psql:                       ${(upload / copy).toFixed(2)}   (target ≤ 1.5)`)
+  console.log(
+    `  machine CPU per upload / per psql \\copy:    ${seconds(median(uploadCpuMs))} / ${seconds(median(copyCpuMs))}   (${availableParallelism()} cores; upload sent by ${uploadClient})`,
+  )
   console.log(
     `  first upload after the server started:     ${seconds(firstUploadMs)}   (ratio ${(firstUploadMs / copy).toFixed(2)}; left out of the median)`,
   )
