@@ -118,7 +118,7 @@ export class CsvTokenizer {
     }
   }
 
-  /** `chunk` must end on a character boundary (a UTF-8 sequence is never split between chunks). */
+  /** Chunks may be cut anywhere, even inside a character: only ASCII bytes have a meaning here. */
   push(chunk: Uint8Array): void {
     this.append(chunk)
     this.scan(false)
