@@ -1,7 +1,8 @@
 import { randomBytes } from 'node:crypto'
-import { spawn, spawnSync } from 'node:child_process'
+import { spawnSync } from 'node:child_process'
 import { createReadStream, statSync } from 'node:fs'
 import { request } from 'node:http'
+import { runTimed } from './run-timed'
 
 type Response = { status: number; body: string }
 type FileField = { path: string; name: string }
@@ -25,7 +26,7 @@ export function postMultipart(
   return curlInstalled ? postWithCurl(url, headers, fields, file) : postWithNode(url, headers, fields, file)
 }
 
-function postWithCurl(
+async function postWithCurl(
   url: string,
   headers: Record<string, string>,
   fields: Record<string, string>,
@@ -38,21 +39,10 @@ function postWithCurl(
   // --form-string: values are sent as they are (-F would read "@…" or "<…" as a file).
   for (const [name, value] of Object.entries(fields)) args.push('--form-string', `${name}=${value}`)
   args.push('--form', `file=@${file.path};filename=${file.name};type=text/csv`)
-  return new Promise((resolve, reject) => {
-    const child = spawn('curl', args, { stdio: ['ignore', 'pipe', 'pipe'] })
-    const out: Buffer[] = []
-    const err: Buffer[] = []
-    child.stdout.on('data', (chunk: Buffer) => out.push(chunk))
-    child.stderr.on('data', (chunk: Buffer) => err.push(chunk))
-    child.on('error', reject)
-    child.on('close', (code) => {
-      const text = Buffer.concat(out).toString('utf8')
-      if (code !== 0)
-        return reject(new Error(`curl failed (${code}): ${Buffer.concat(err).toString('utf8')}`))
-      const cut = text.lastIndexOf('\n')
-      resolve({ status: Number(text.slice(cut + 1)), body: text.slice(0, cut) })
-    })
-  })
+  const run = await runTimed('curl', args, { cwd: process.cwd() })
+  if (run.code !== 0) throw new Error(`curl failed (${run.code}): ${run.stderr}`)
+  const cut = run.stdout.lastIndexOf('\n')
+  return { status: Number(run.stdout.slice(cut + 1)), body: run.stdout.slice(0, cut) }
 }
 
 function postWithNode(
