@@ -154,15 +154,15 @@ class ColumnReader {
   }
 }
 
-/** The text of the first `count` lines (fewer when the bytes end first): plenty for a guess, quick to score. */
-function firstLines(bytes: Buffer, count: number): string {
+/** The first `count` lines (fewer when the bytes end first): plenty for a guess, quick to score. */
+function firstLines(bytes: Buffer, count: number): Buffer {
   let end = 0
   for (let line = 0; line < count; line++) {
     const next = bytes.indexOf(10, end)
-    if (next < 0) return bytes.toString('utf8')
+    if (next < 0) return bytes
     end = next + 1
   }
-  return bytes.toString('utf8', 0, end)
+  return bytes.subarray(0, end)
 }
 
 function isBlank(record: CsvRow): boolean {

@@ -14,7 +14,7 @@ interface DelimiterScore {
   consistent: number
 }
 
-function scoreDelimiter(text: string, delimiter: string): DelimiterScore | null {
+function scoreDelimiter(sample: Buffer, delimiter: string): DelimiterScore | null {
   const counts: number[] = []
   const tokenizer = new CsvTokenizer({
     delimiter,
@@ -25,7 +25,7 @@ function scoreDelimiter(text: string, delimiter: string): DelimiterScore | null 
     },
   })
   try {
-    tokenizer.push(Buffer.from(text, 'utf8'))
+    tokenizer.push(sample)
     tokenizer.end()
   } catch {
     return null
@@ -37,10 +37,13 @@ function scoreDelimiter(text: string, delimiter: string): DelimiterScore | null 
   return { delimiter, headerFields, consistent }
 }
 
-/** The delimiter that gives the header more than one column and the most rows of the same width. */
-export function guessDelimiter(text: string, ext: string): string {
+/**
+ * The delimiter that gives the header more than one column and the most rows of the same width.
+ * `sample` is the start of the file as UTF-8.
+ */
+export function guessDelimiter(sample: Buffer, ext: string): string {
   const preferred = ext === '.tsv' || ext === '.tab' ? '\t' : ','
-  const scores = DELIMITERS.map((d) => scoreDelimiter(text, d)).filter(
+  const scores = DELIMITERS.map((d) => scoreDelimiter(sample, d)).filter(
     (s): s is DelimiterScore => s !== null && s.headerFields > 1,
   )
   if (scores.length === 0) return preferred
@@ -54,7 +57,7 @@ export function guessDelimiter(text: string, ext: string): string {
 }
 
 /** A decimal comma is only possible when the delimiter is not a comma; it wins when no cell uses a point. */
-export function guessDecimalMark(text: string, delimiter: string): DecimalMark {
+export function guessDecimalMark(sample: Buffer, delimiter: string): DecimalMark {
   if (delimiter === ',') return '.'
   let commas = 0
   let points = 0
@@ -72,7 +75,7 @@ export function guessDecimalMark(text: string, delimiter: string): DecimalMark {
     },
   })
   try {
-    tokenizer.push(Buffer.from(text, 'utf8'))
+    tokenizer.push(sample)
     tokenizer.end()
   } catch {
     return '.'

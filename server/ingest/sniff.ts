@@ -88,8 +88,9 @@ export function sniffFile(head: Buffer, filename: string, totalBytes: number): S
       `"${filename}" does not contain text: it looks like a binary file (an image, PDF or program data). Export the table as CSV or .xlsx.`,
     )
   }
-  const delimiter = guessDelimiter(text, ext)
-  return { fileType: 'csv', encoding, bomBytes, delimiter, decimalMark: guessDecimalMark(text, delimiter) }
+  const sample = Buffer.from(text, 'utf8')
+  const delimiter = guessDelimiter(sample, ext)
+  return { fileType: 'csv', encoding, bomBytes, delimiter, decimalMark: guessDecimalMark(sample, delimiter) }
 }
 
 export function detectEncoding(head: Buffer): { encoding: string; bomBytes: number } {

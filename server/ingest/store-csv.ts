@@ -182,9 +182,10 @@ export async function storeCsv(
   let reserved = false
   const fileSize = source.expectedBytes
 
-  const feed = (bytes: Buffer) => {
+  /** Runs a tokenizer step, turning a syntax error into a message that names row and column. */
+  const tokenize = (step: () => void) => {
     try {
-      tokenizer.push(bytes)
+      step()
     } catch (error) {
       throw error instanceof CsvSyntaxError ? syntaxToBadFile(error, intake, limits) : error
     }
@@ -231,7 +232,7 @@ export async function storeCsv(
         skipBom = 0
       }
       const utf8Bytes = utf8.write(bytes)
-      feed(utf8Bytes)
+      tokenize(() => tokenizer.push(utf8Bytes))
       if (!reserved && intake.dataRows >= 100) {
         // Rows so far per byte so far, with a little slack, predicts the whole file closely.
         intake.reserveRows(Math.ceil(((intake.dataRows * fileSize) / bytesRead) * 1.02))
@@ -245,12 +246,10 @@ export async function storeCsv(
       progress.update({ phase: 'storing', bytesRead, rowsStored: intake.dataRows })
       progress.signal?.throwIfAborted()
     }
-    feed(utf8.end())
-    try {
+    tokenize(() => {
+      tokenizer.push(utf8.end())
       tokenizer.end()
-    } catch (error) {
-      throw error instanceof CsvSyntaxError ? syntaxToBadFile(error, intake, limits) : error
-    }
+    })
     if (mode === 'original-bytes' && tokenizer.fastPathBlocker)
       throw new FastPathBlocked(tokenizer.fastPathBlocker)
     if (mode === 'parsed-rows' && copyText.length) pending.push(copyText.take())
