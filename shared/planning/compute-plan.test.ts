@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { PlanInputs } from '../schemas/plans'
-import { computePlan, resolveSpread } from './compute-plan'
+import { computePlan } from './compute-plan'
+import { resolveSpread } from './resolve-spread'
 
 describe('computePlan', () => {
   it('reproduces the clusterPower worked example when observations per unit are capped at 10', () => {

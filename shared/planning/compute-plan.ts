@@ -3,14 +3,7 @@ import { clusterPower } from '../stats/cluster-power'
 import { ENGINE_VERSION } from '../stats/engine-version'
 import { planDesign } from '../stats/plan-design'
 import { powerCurve } from '../stats/power-curve'
-
-/** ICC and total SD a plan's inputs stand for: components win over the typed ICC when given. */
-export function resolveSpread(inputs: PlanInputs): { icc: number; sdTotal: number } {
-  if (inputs.spread.kind === 'total') return { icc: inputs.icc, sdTotal: inputs.spread.sdTotal }
-  const between = inputs.spread.sdBetween ** 2
-  const within = inputs.spread.sdWithin ** 2
-  return { icc: between / (between + within), sdTotal: Math.sqrt(between + within) }
-}
+import { resolveSpread } from './resolve-spread'
 
 /** Observations-per-unit values drawn as separate power curves: 1, the recommendation, and a spread around it. */
 function curveObsValues(recommended: number): number[] {

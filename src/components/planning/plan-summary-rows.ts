@@ -1,4 +1,5 @@
 import type { PlanSummary } from '../../../shared/schemas/plans'
+import { resolveSpread } from '../../../shared/planning/resolve-spread'
 import { formatNumber } from '../../../shared/report/number-format'
 import { pluralOf } from './unit-words'
 
@@ -28,15 +29,13 @@ export const money = (v: number): string =>
   new Intl.NumberFormat('en-US', { maximumFractionDigits: 0 }).format(v)
 
 function spreadWords(inputs: PlanSummary['inputs'], unitWord: string): { icc: number; sd: string } {
-  if (inputs.spread.kind === 'total')
-    return { icc: inputs.icc, sd: `SD ${formatNumber(inputs.spread.sdTotal)}` }
-  // As the engine does (resolveSpread): given components, the ICC follows from them.
-  const between = inputs.spread.sdBetween ** 2
-  const within = inputs.spread.sdWithin ** 2
-  return {
-    icc: between / (between + within),
-    sd: `SD between ${pluralOf(unitWord)} ${formatNumber(inputs.spread.sdBetween)}, within a ${unitWord} ${formatNumber(inputs.spread.sdWithin)}`,
-  }
+  const { icc } = resolveSpread(inputs)
+  const { spread } = inputs
+  const sd =
+    spread.kind === 'total'
+      ? `SD ${formatNumber(spread.sdTotal)}`
+      : `SD between ${pluralOf(unitWord)} ${formatNumber(spread.sdBetween)}, within a ${unitWord} ${formatNumber(spread.sdWithin)}`
+  return { icc, sd }
 }
 
 export function planSummaryRow(plan: PlanSummary, unitWord: string, index = 0): PlanSummaryRow {
