@@ -3,6 +3,7 @@ import { flushPromises } from '@vue/test-utils'
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { fakeFetch } from '@/testing/fake-fetch'
 import { mountWithApp } from '@/testing/mount-with-app'
+import { settle } from '@/testing/settle'
 import { samiScientist } from '@/testing/users'
 import SignInView from './SignInView.vue'
 
@@ -21,10 +22,8 @@ async function fillAndSubmit(
   await wrapper.find('input[type="email"]').setValue(email)
   await wrapper.find('input[autocomplete="current-password"]').setValue(password)
   await wrapper.find('form').trigger('submit')
-  await flushPromises()
   // Vuetify validates asynchronously before the submit handler continues.
-  await new Promise((resolve) => setTimeout(resolve, 0))
-  await flushPromises()
+  await settle()
 }
 
 describe('SignInView', () => {
