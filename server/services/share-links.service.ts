@@ -1,5 +1,5 @@
 import type { CurrentUser } from '../../shared/schemas/auth'
-import type { PlanSummary } from '../../shared/schemas/plans'
+import { PlanRecommendation, type PlanSummary } from '../../shared/schemas/plans'
 import type {
   CreatedShareLink,
   ShareLink,
@@ -182,21 +182,12 @@ async function usableLink(token: string): Promise<ShareLinkRecord> {
 
 /** A plan as the link holder sees it: numbers and name, nothing about who made it or where it is filed. */
 function toSharedPlan(plan: PlanRecord): PlanSummary {
-  const r = plan.result
+  // The schema's pick decides which numbers leave; parsing drops the curves and tables.
   return {
     name: plan.name,
     createdAt: plan.createdAt,
     inputs: plan.inputs,
-    result: {
-      feasible: r.feasible,
-      unitsPerArm: r.unitsPerArm,
-      obsPerUnit: r.obsPerUnit,
-      totalUnits: r.totalUnits,
-      totalObs: r.totalObs,
-      power: r.power,
-      cost: r.cost,
-      designEffect: r.designEffect,
-    },
+    result: PlanRecommendation.parse(plan.result),
   }
 }
 
@@ -205,11 +196,13 @@ export async function openSharedAnalysis(token: string): Promise<SharedAnalysis>
   const link = await usableLink(token)
   const version = await findReviewableVersionById(link.analysisVersionId)
   if (!version || version.status !== 'done') throw new NotFoundError(GONE)
-  const stored = await findSharedVersionFacts(version.id)
+  const [stored, signOff, plans] = await Promise.all([
+    findSharedVersionFacts(version.id),
+    signOffStateOf(version.analysisId, version.versionNo),
+    listPlansOfVersion(version.id),
+  ])
   const { result, chart } = stored
   if (!result || !chart) throw new NotFoundError(GONE)
-  const signOff = await signOffStateOf(version.analysisId, version.versionNo)
-  const plans = await listPlansOfVersion(version.id)
   await db.transaction(async (trx) => {
     await countShareLinkOpened(link.id, trx)
     await recordAudit(trx, {
