@@ -6,7 +6,7 @@ import { hierarchicalBootstrap, type BootstrapInput } from './hierarchical-boots
  * and reports each condition and each given contrast in the result's field names. Contrasts are
  * named by condition label (a − b), as the mixed-model contrasts are, so the bootstrap is
  * oriented like them; without a condition the one group is called "all". The analysis engine
- * and the server's stage-by-stage run both call this, so their bootstrap sections cannot differ.
+ * (analyzeNested) calls it; it is kept apart so its reporting can be tested on small designs.
  *
  * Guard errors: those of hierarchicalBootstrap (fewer than 100 resamples, a confidence outside
  * (0, 1), …); a contrast label the design does not have is an invalid pair there.

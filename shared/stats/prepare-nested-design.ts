@@ -202,10 +202,12 @@ function nestLevel(
     }
   } else if (slots <= MAX_TABLE_SLOTS) {
     // unitOfObs first holds each row's slot, then is overwritten with the slot's unit number.
+    // Only nested levels come here: an outermost level this small took the branch above.
+    const parents = parentOf!
     unitOfObs = new Int32Array(nObs)
     const table = new Int32Array(slots).fill(-1)
     for (let i = 0; i < nObs; i++) {
-      const slot = parentOf ? parentOf[i] * nLabels + codes[i] : codes[i]
+      const slot = parents[i] * nLabels + codes[i]
       unitOfObs[i] = slot
       table[slot] = 0
     }
