@@ -1,5 +1,6 @@
 import type { Knex } from 'knex'
 import { computePlan } from '../shared/planning/compute-plan'
+import { roundInputs } from '../shared/planning/round-inputs'
 import { suggestPlanInputs } from '../shared/planning/suggest-plan-inputs'
 import type { AnalysisResult } from '../shared/schemas/analysis-result'
 import { PlanInputs } from '../shared/schemas/plans'
@@ -15,9 +16,6 @@ const DEMO_PLAN = {
   costPerUnit: 400,
   costPerObs: 3,
 }
-
-// An estimate carries no more than three meaningful digits (the planner form rounds the same way).
-const rounded = (value: number) => Number(value.toPrecision(3))
 
 /**
  * One plan from version 1 of the single-lab demo analysis, with the inputs the planner suggests from
@@ -36,15 +34,9 @@ export async function seed(knex: Knex): Promise<void> {
 
   const suggested = suggestPlanInputs(version.result as AnalysisResult)
   if (!suggested) return
-  const { spread } = suggested.inputs
+  // Rounded as the planner form rounds the numbers it suggests.
   const inputs = PlanInputs.parse({
-    ...suggested.inputs,
-    icc: rounded(suggested.inputs.icc),
-    spread:
-      spread.kind === 'components'
-        ? { kind: 'components', sdBetween: rounded(spread.sdBetween), sdWithin: rounded(spread.sdWithin) }
-        : { kind: 'total', sdTotal: rounded(spread.sdTotal) },
-    difference: rounded(suggested.inputs.difference),
+    ...roundInputs(suggested.inputs),
     costPerUnit: DEMO_PLAN.costPerUnit,
     costPerObs: DEMO_PLAN.costPerObs,
   })

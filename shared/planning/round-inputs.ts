@@ -1,4 +1,4 @@
-import type { PlanInputsInput } from '../../../shared/schemas/plans'
+import type { PlanInputsInput } from '../schemas/plans'
 
 const significant = (v: number, digits = 4) => Number(v.toPrecision(digits))
 
