@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test'
-import { attachScreenshot, signIn } from './support/demo'
+import { attachScreenshot, demoAnalysis, signIn } from './support/demo'
 
 // This machine is shared with other test runs: give the bundle and the server time.
 test.setTimeout(180_000)
@@ -8,15 +8,12 @@ test('the consortium lead sees which lab disagrees, in spread or effect', async 
   await page.goto('/')
   await signIn(page, 'petra@example.org')
   await expect(page.getByTestId('nav-overview')).toBeVisible({ timeout: 30_000 })
-  const res = await page.request.get('/api/v1/analyses')
-  const list = (await res.json()).data as { id: number; name: string }[]
-  const analysis = list.find((a) => a.name === 'Neurite length across three labs')
-  expect(analysis).toBeTruthy()
+  const analysis = await demoAnalysis(page, 'Neurite length across three labs')
 
   // The result page offers the agreement page because the outermost level has 3 units.
-  await page.goto(`/analyses/${analysis!.id}`)
+  await page.goto(`/analyses/${analysis.id}`)
   await page.getByTestId('agreement-link').click({ timeout: 30_000 })
-  await expect(page).toHaveURL(new RegExp(`/analyses/${analysis!.id}/versions/1/agreement$`))
+  await expect(page).toHaveURL(new RegExp(`/analyses/${analysis.id}/versions/1/agreement$`))
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Agreement between labs', {
     timeout: 30_000,
   })
@@ -46,11 +43,7 @@ test('a single-lab analysis says plainly why there is no agreement view', async 
   await page.goto('/')
   await signIn(page, 'sami@example.org')
   await expect(page.getByTestId('nav-overview')).toBeVisible({ timeout: 30_000 })
-  const list = (await (await page.request.get('/api/v1/analyses')).json()).data as {
-    id: number
-    name: string
-  }[]
-  const single = list.find((a) => a.name === 'Neurite length, NW-117 vs vehicle')!
+  const single = await demoAnalysis(page, 'Neurite length, NW-117 vs vehicle')
   await page.goto(`/analyses/${single.id}/versions/1/agreement`)
   await expect(page.getByTestId('error-notice')).toContainText('level inside the outermost one')
   await attachScreenshot(page, testInfo, 'agreement-not-available')

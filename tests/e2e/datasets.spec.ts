@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs'
 import { expect, test, type Page, type TestInfo } from '@playwright/test'
-import { attachScreenshot, openAccountMenu, signIn } from './support/demo'
+import { attachScreenshot, openAccountMenu, signIn, writeHeaders } from './support/demo'
 
 /**
  * A scientist's first dataset: upload an invented three-lab neurite table, watch both progress bars,
@@ -232,7 +232,7 @@ test('the uploader renames and deletes a dataset, the instance admin restores it
 
   // Uploaded through the API with the browser's session: this test is about what comes after.
   const created = await page.request.post('/api/v1/datasets', {
-    headers: { 'X-Requested-With': 'nestwise', Origin: new URL(page.url()).origin },
+    headers: writeHeaders(page),
     multipart: {
       labId: '1',
       projectName: 'Neurite pilot',

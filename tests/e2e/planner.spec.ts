@@ -1,17 +1,8 @@
-import { expect, test, type Page } from '@playwright/test'
-import { attachScreenshot, signIn } from './support/demo'
+import { expect, test } from '@playwright/test'
+import { attachScreenshot, demoAnalysis, signIn } from './support/demo'
 
 // This machine is shared with other test runs: give the bundle and the server time.
 test.setTimeout(180_000)
-
-async function analysisId(page: Page, name: string): Promise<number> {
-  const res = await page.request.get('/api/v1/analyses')
-  expect(res.ok()).toBe(true)
-  const list = (await res.json()).data as { id: number; name: string }[]
-  const found = list.find((a) => a.name === name)
-  expect(found, `demo analysis "${name}"`).toBeTruthy()
-  return found!.id
-}
 
 test('a PI plans the next experiment from the single-lab demo analysis and saves the plan', async ({
   page,
@@ -19,7 +10,7 @@ test('a PI plans the next experiment from the single-lab demo analysis and saves
   await page.goto('/')
   await signIn(page, 'petra@example.org')
   await expect(page.getByTestId('nav-planner')).toBeVisible({ timeout: 30_000 })
-  const id = await analysisId(page, 'Neurite length, NW-117 vs vehicle')
+  const { id } = await demoAnalysis(page, 'Neurite length, NW-117 vs vehicle')
 
   // From the result page: its "Plan the next experiment" button opens the planner on this version.
   await page.goto(`/analyses/${id}`)

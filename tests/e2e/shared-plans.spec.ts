@@ -1,5 +1,5 @@
 import { expect, test, type Page } from '@playwright/test'
-import { attachScreenshot, signIn } from './support/demo'
+import { attachScreenshot, demoAnalysis, signIn, writeHeaders } from './support/demo'
 
 // This machine is shared with other test runs: give the bundle and the server time.
 test.setTimeout(180_000)
@@ -10,7 +10,7 @@ const PLAN = 'Plan on the shared link (e2e)'
 /** Writes through the API with the browser's session, as the app does (same origin, marker header). */
 async function post<T>(page: Page, path: string, body: object): Promise<T> {
   const res = await page.request.post(path, {
-    headers: { 'X-Requested-With': 'nestwise', Origin: new URL(page.url()).origin },
+    headers: writeHeaders(page),
     data: body,
   })
   expect(res.status(), await res.text()).toBe(201)
@@ -24,13 +24,7 @@ test('a saved plan shows on the read-only link and in the printed report', async
   await page.goto('/sign-in')
   await signIn(page, 'petra@example.org')
   await expect(page.getByTestId('nav-planner')).toBeVisible({ timeout: 30_000 })
-  const analyses = (await (await page.request.get('/api/v1/analyses')).json()).data as {
-    id: number
-    name: string
-    labId: number
-  }[]
-  const analysis = analyses.find((a) => a.name === ANALYSIS)!
-  expect(analysis, `demo analysis "${ANALYSIS}"`).toBeTruthy()
+  const analysis = await demoAnalysis(page, ANALYSIS)
 
   // A plan from version 1 with the numbers the planner suggests, then a link to that version.
   const defaults = await page.request.get(`/api/v1/plans/defaults?analysisId=${analysis.id}&versionNo=1`)
@@ -85,12 +79,7 @@ test('a link to a version without plans says so', async ({ page, browser }, test
   await page.goto('/sign-in')
   await signIn(page, 'hugo@example.org')
   await expect(page.getByTestId('nav-planner')).toBeVisible({ timeout: 30_000 })
-  const analyses = (await (await page.request.get('/api/v1/analyses')).json()).data as {
-    id: number
-    name: string
-  }[]
-  const analysis = analyses.find((a) => a.name === 'Viability by dose')!
-  expect(analysis).toBeTruthy()
+  const analysis = await demoAnalysis(page, 'Viability by dose')
   const link = await post<{ url: string }>(page, `/api/v1/analyses/${analysis.id}/share-links`, {
     versionNo: 1,
   })

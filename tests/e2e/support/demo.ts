@@ -20,3 +20,18 @@ export async function openAccountMenu(page: Page) {
 export async function attachScreenshot(page: Page, testInfo: TestInfo, name: string): Promise<void> {
   await testInfo.attach(name, { body: await page.screenshot({ fullPage: true }), contentType: 'image/png' })
 }
+
+/** Headers of a write through the API with the browser's session, as the app sends them. */
+export function writeHeaders(page: Page): Record<string, string> {
+  return { 'X-Requested-With': 'nestwise', Origin: new URL(page.url()).origin }
+}
+
+/** A demo analysis the signed-in person can see, found by name; the test fails when it is missing. */
+export async function demoAnalysis(page: Page, name: string): Promise<{ id: number; labId: number }> {
+  const res = await page.request.get('/api/v1/analyses')
+  expect(res.ok()).toBe(true)
+  const list = (await res.json()).data as { id: number; name: string; labId: number }[]
+  const found = list.find((a) => a.name === name)
+  expect(found, `demo analysis "${name}"`).toBeTruthy()
+  return found!
+}
