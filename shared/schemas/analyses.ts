@@ -15,12 +15,16 @@ const Person = z.object({ id: z.number().int(), name: z.string() })
 
 // ---------------------------------------------------------------- settings
 
-/** Which error bar the page shows first; all three are always in the chart data. */
+/** Which error bar a page shows first: a display preference of the viewer, not part of the computation. */
 export const ErrorBarType = z.enum(['sem', 'sd', 'ci95'])
 export type ErrorBarType = z.infer<typeof ErrorBarType>
 
 export const BOOTSTRAP_MIN_RESAMPLES = 100
 export const BOOTSTRAP_MAX_RESAMPLES = 10_000
+/** At most this many condition factors (A, or A × B). */
+export const MAX_CONDITIONS = 2
+/** At most this many numeric covariates. */
+export const MAX_COVARIATES = 4
 
 export const BootstrapSettings = z.object({
   enabled: z.boolean().default(false),
@@ -35,24 +39,46 @@ export const BootstrapSettings = z.object({
 })
 export type BootstrapSettings = z.infer<typeof BootstrapSettings>
 
+const Label = z.string().max(10_000)
+
 /**
- * What one analysis version computes. Column names are the dataset's header names.
- * The server checks that every column exists in the dataset version (400 naming the column).
+ * Settings stored by the first engine (0.1): one condition, one reference label, and the error
+ * bar shown first. Still read, never written: a stored version keeps its original JSON, so
+ * sign-offs made over it stay valid.
  */
-export const AnalysisSettings = z
+function upgradeFirstSettings(raw: unknown): unknown {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw) || !('condition' in raw)) return raw
+  const { condition, reference, errorBar: _shownFirst, ...rest } = raw as Record<string, unknown>
+  const named = typeof condition === 'string' ? condition : null
+  return {
+    ...rest,
+    conditions: named ? [named] : [],
+    covariates: [],
+    reference: named && typeof reference === 'string' ? { [named]: reference } : {},
+  }
+}
+
+const SettingsFields = z
   .object({
     response: ColumnName,
-    /** Fixed-effect condition column; null for a design without conditions. */
-    condition: ColumnName.nullable().default(null),
+    /** Condition factors (fixed effects): none, one, or two (fitted as A * B). */
+    conditions: z
+      .array(ColumnName)
+      .max(MAX_CONDITIONS, { error: `Pick at most ${MAX_CONDITIONS} condition columns` })
+      .default([]),
+    /** Numeric covariates, measured per observation or per unit; comparisons are adjusted for them. */
+    covariates: z
+      .array(ColumnName)
+      .max(MAX_COVARIATES, { error: `Pick at most ${MAX_COVARIATES} covariates` })
+      .default([]),
     /** Nesting levels, outermost first (lab, animal, …); observations are the rows. */
     levels: z.array(ColumnName).min(1, { error: 'Pick at least one nesting level' }).max(8),
-    /** Reference condition of the model coding; null: the first condition in file order. */
-    reference: z.string().max(10_000).nullable().default(null),
-    errorBar: ErrorBarType.default('sem'),
+    /** Reference level per condition column; a condition left out uses its first label in file order. */
+    reference: z.record(ColumnName, Label).default({}),
     bootstrap: BootstrapSettings.default({ enabled: false, resamples: 2000, seed: '1' }),
   })
   .superRefine((s, ctx) => {
-    const all = [s.response, ...(s.condition ? [s.condition] : []), ...s.levels]
+    const all = [s.response, ...s.conditions, ...s.covariates, ...s.levels]
     const seen = new Set<string>()
     for (const name of all) {
       if (seen.has(name))
@@ -63,23 +89,33 @@ export const AnalysisSettings = z
         })
       seen.add(name)
     }
-    if (!s.condition && s.reference !== null) {
-      ctx.addIssue({
-        code: 'custom',
-        message: 'A reference condition needs a condition column',
-        path: ['reference'],
-      })
+    for (const factor of Object.keys(s.reference)) {
+      if (!s.conditions.includes(factor)) {
+        ctx.addIssue({
+          code: 'custom',
+          message: `A reference level for "${factor}" needs "${factor}" as a condition column`,
+          path: ['reference', factor],
+        })
+      }
     }
   })
-export type AnalysisSettings = z.infer<typeof AnalysisSettings>
+
+/**
+ * What one analysis version computes. Column names are the dataset's header names. The server
+ * checks that every column exists in the dataset version (400 naming the column). Settings
+ * stored by engine 0.1 ({ condition, reference: label, errorBar }) are read in this form.
+ */
+export const AnalysisSettings = z.preprocess(upgradeFirstSettings, SettingsFields)
+export type AnalysisSettings = z.infer<typeof SettingsFields>
 
 /** Settings as sent by a client: any field left out is taken from the defaults (or the previous version). */
 export const AnalysisSettingsPatch = z.object({
   response: ColumnName.optional(),
-  condition: ColumnName.nullable().optional(),
+  conditions: z.array(ColumnName).max(MAX_CONDITIONS).optional(),
+  covariates: z.array(ColumnName).max(MAX_COVARIATES).optional(),
   levels: z.array(ColumnName).min(1, { error: 'Pick at least one nesting level' }).max(8).optional(),
-  reference: z.string().max(10_000).nullable().optional(),
-  errorBar: ErrorBarType.optional(),
+  /** Replaces the reference levels; factors no longer among the conditions are dropped. */
+  reference: z.record(ColumnName, Label).optional(),
   bootstrap: z
     .object({
       enabled: z.boolean().optional(),

@@ -53,12 +53,26 @@ export const DesignEffectTerm = z.object({
 })
 export type DesignEffectTerm = z.infer<typeof DesignEffectTerm>
 
-const Interval = {
+/** The fields of the older interval form kept in `groups` (the command-line contract). */
+const LegacyInterval = {
   se: z.number().nonnegative(),
   df: z.number().positive(),
   ciLow: z.number(),
   ciHigh: z.number(),
 }
+
+/**
+ * The one interval shape of the engine, the stored result and the charts: an estimate, its
+ * standard error, the df of its t distribution (Satterthwaite for model quantities) and the
+ * 95 % interval [low, high].
+ */
+export const Interval = z.object({
+  estimate: z.number(),
+  se: z.number().nonnegative(),
+  df: z.number().positive(),
+  ci: z.tuple([z.number(), z.number()]),
+})
+export type Interval = z.infer<typeof Interval>
 
 export const GroupSummary = z.object({
   /** Condition label, or "all" when there is no condition. */
@@ -66,15 +80,24 @@ export const GroupSummary = z.object({
   nObs: count,
   /** Units carrying this condition at the condition level (null without a condition level). */
   nUnits: count.nullable(),
-  /** Observations / this condition's design effect. */
+  /**
+   * For the arm's mean (engine ≥ 0.2): observations / designEffect, where designEffect is the
+   * variance of this arm's model mean divided by its variance if its observations were independent.
+   * Per-arm values do not add up to the comparison's effective n: each is for one mean alone.
+   */
   effectiveN: z.number().positive(),
   designEffect: z.number().positive(),
   /** Plain mean of the observations. */
   mean: z.number(),
   /** Treats every observation as independent: SD/√n, t with n − 1 df. Shown as the wrong answer. */
-  naive: z.object(Interval),
+  naive: z.object(LegacyInterval),
   /** From the mixed model (its mean estimate can differ from the plain mean when units are unbalanced); Satterthwaite df. */
-  clustered: z.object({ estimate: z.number(), ...Interval }),
+  clustered: z.object({ estimate: z.number(), ...LegacyInterval }),
+  /**
+   * Two condition factors: this group is one design cell, and here are its level of each factor
+   * (`condition` is then "a:b"). Absent for one factor or none.
+   */
+  factorLevels: z.record(z.string(), z.string()).optional(),
 })
 export type GroupSummary = z.infer<typeof GroupSummary>
 
@@ -97,8 +120,118 @@ export const MixedModelContrast = z.object({
   p: probability,
   /** Holm-adjusted over all pairwise contrasts. */
   pHolm: probability,
+  /** 95 % interval from the t distribution with `df` (engine ≥ 0.2). */
+  ci: z.tuple([z.number(), z.number()]).optional(),
+  /** Variance of this difference under the model / its variance if every observation were independent (Kish 1965). */
+  designEffect: z.number().positive().optional(),
+  /** Observations of the two arms / designEffect. */
+  effectiveN: z.number().positive().optional(),
 })
 export type MixedModelContrast = z.infer<typeof MixedModelContrast>
+
+/**
+ * One fixed-effect coefficient in treatment coding against the reference levels (the
+ * command-line contract): the intercept is term "(intercept)" with level null; a factor's
+ * coefficient is term = the column and level = the non-reference level; a covariate's slope is
+ * term = the column and level null; an interaction is term "A:B" with level "a:b".
+ */
+export const Coefficient = z.object({
+  term: z.string(),
+  level: z.string().nullable(),
+  estimate: z.number(),
+  se: z.number().nonnegative(),
+  df: z.number().positive(),
+  t: z.number(),
+  p: probability,
+})
+export type Coefficient = z.infer<typeof Coefficient>
+
+/** A type III F test of one fixed term ("A", "B", "A:B" or a covariate), Satterthwaite df2 as lmerTest's anova(type = 3). */
+export const TermTest = z.object({
+  term: z.string(),
+  df1: z.number().positive(),
+  df2: z.number().positive(),
+  f: z.number().nonnegative(),
+  p: probability,
+})
+export type TermTest = z.infer<typeof TermTest>
+
+/** The effect of one factor within one level of the other (two factors only). */
+export const SimpleEffect = z.object({
+  factor: z.string(),
+  at: z.object({ factor: z.string(), level: z.string() }),
+  /** F test of "all levels of `factor` equal at this level" (Satterthwaite). */
+  test: TermTest.omit({ term: true }),
+  /** Each level of `factor` against its reference, at this level: a − b. */
+  contrasts: z.array(
+    z.object({ a: z.string(), b: z.string(), t: z.number(), p: probability }).extend(Interval.shape),
+  ),
+})
+export type SimpleEffect = z.infer<typeof SimpleEffect>
+
+/** A condition factor of the model. */
+export const FactorSummary = z.object({
+  name: z.string(),
+  /** Reference first, then the others in file order. */
+  labels: z.array(z.string()),
+  reference: z.string(),
+  /** Outermost given level whose units each carry a single level of this factor; null when none does. */
+  level: z.string().nullable(),
+})
+export type FactorSummary = z.infer<typeof FactorSummary>
+
+/** A numeric covariate; condition means and contrasts are adjusted to its mean. */
+export const CovariateSummary = z.object({
+  name: z.string(),
+  mean: z.number(),
+  sd: z.number().nonnegative(),
+  /** Outermost given level within whose units it is constant (measured per unit); null: it varies per observation. */
+  level: z.string().nullable(),
+})
+export type CovariateSummary = z.infer<typeof CovariateSummary>
+
+/** One random intercept of the fitted model. */
+export const RandomTerm = z.object({
+  /** "lab", or "lab:treatment" for a level × condition term (lme4's name for the grouping). */
+  name: z.string(),
+  level: z.string(),
+  /** The factor (or "A:B") crossed with the level; null for the level itself. */
+  factor: z.string().nullable(),
+  nGroups: count,
+})
+export type RandomTerm = z.infer<typeof RandomTerm>
+
+export const ModelDescription = z.object({
+  /** The fitted model in lme4 notation, e.g. "length ~ treatment + (1|lab) + (1|lab:treatment) + (1|lab:animal)". */
+  formula: z.string(),
+  random: z.array(RandomTerm),
+  /** Level × condition terms left out because their groups are those of another term or of the observations. */
+  skipped: z.array(z.object({ name: z.string(), sameAs: z.string() })),
+})
+export type ModelDescription = z.infer<typeof ModelDescription>
+
+/** How much a condition's effect differs between the units of a level (from a level × condition variance). */
+export const EffectVariation = z.object({
+  /** The random term, e.g. "lab:treatment". */
+  term: z.string(),
+  level: z.string(),
+  factor: z.string(),
+  variance: z.number().nonnegative(),
+  /** SD of the difference between two levels of the factor from one unit to the next: √(2 · variance). */
+  effectSd: z.number().nonnegative(),
+  /** Units of `level` the variance is estimated from. */
+  nUnits: count,
+})
+export type EffectVariation = z.infer<typeof EffectVariation>
+
+/** The quantity the headline design effect and effective n belong to. */
+export const HeadlineQuantity = z.object({
+  /** "mean" (no condition), or a contrast "a − b" (the first comparison of the first factor). */
+  label: z.string(),
+  designEffect: z.number().positive(),
+  effectiveN: z.number().positive(),
+})
+export type HeadlineQuantity = z.infer<typeof HeadlineQuantity>
 
 export const UnitMeansTest = z.discriminatedUnion('method', [
   z.object({
@@ -126,6 +259,13 @@ export const UnitMeansTest = z.discriminatedUnion('method', [
     df2: z.number().positive(),
     p: probability,
   }),
+  z.object({
+    /** Two factors: a two-way ANOVA (type III, as the model's terms) on the means of the units carrying one design cell. */
+    method: z.literal('two-way-anova'),
+    level: z.string(),
+    nUnits: count,
+    terms: z.array(TermTest),
+  }),
 ])
 export type UnitMeansTest = z.infer<typeof UnitMeansTest>
 
@@ -149,6 +289,11 @@ export const NaiveTest = z.discriminatedUnion('method', [
     df1: z.number().positive(),
     df2: z.number().positive(),
     p: probability,
+  }),
+  z.object({
+    /** Two factors or covariates: the same fixed terms fitted by least squares on all observations, as if independent. */
+    method: z.literal('linear-model'),
+    terms: z.array(TermTest),
   }),
 ])
 export type NaiveTest = z.infer<typeof NaiveTest>
@@ -214,39 +359,62 @@ export const AnalysisResult = z.object({
   /** Rows left out because a value was missing. */
   nDropped: count,
   response: z.string(),
+  /** The condition column; for two factors "A:B" (the groups are then the design cells "a:b"). */
   condition: z.string().nullable(),
-  /** Reference condition of the model's treatment coding. */
+  /** Reference condition of the model's treatment coding ("a:b" of the reference levels for two factors). */
   reference: z.string().nullable(),
-  /** Outermost given level whose units each carry one condition; null when none does or without a condition. */
+  /** Outermost given level whose units each carry one condition (one design cell for two factors); null when none does or without a condition. */
   conditionLevel: z.string().nullable(),
+  /** Engine ≥ 0.2: the condition factors (zero, one or two). */
+  factors: z.array(FactorSummary).optional(),
+  /** Engine ≥ 0.2: numeric covariates the comparisons are adjusted for. */
+  covariates: z.array(CovariateSummary).optional(),
+  /** Engine ≥ 0.2: the fitted model, in lme4 notation and term by term. */
+  model: ModelDescription.optional(),
   levels: z.array(LevelSummary),
   /** Levels whose unit labels repeat under different parents; units are keyed by full path anyway. */
   implicitNesting: z.array(
     z.object({ level: z.string(), nRepeatedLabels: count, examples: z.array(z.string()) }),
   ),
-  /** Random levels outer → inner (including "<level>:condition"), then "residual". */
+  /** Random terms outer → inner (including "<level>:<factor>" terms), then "residual". */
   varianceComponents: z.array(VarianceComponentShare),
+  /** Engine ≥ 0.2: one per level × condition term: how much the effect differs between that level's units. */
+  effectVariation: z.array(EffectVariation).optional(),
   /** One per random level, outer → inner. */
   icc: z.array(LevelIcc),
   /** True when a variance component is estimated as 0 (a boundary fit, not a failure). */
   singular: z.boolean(),
   converged: z.boolean(),
   remlCriterion: z.number(),
-  /** 1 + Σ per-level terms, allowing for unequal unit sizes. */
+  /**
+   * Engine ≥ 0.2: the design effect of the headline quantity (see `headline`): its variance under
+   * the fitted model divided by its variance if all observations were independent (Kish 1965).
+   * Engine 0.1: 1 + Σ per-level terms for the table as a whole.
+   */
   designEffect: z.number().positive(),
-  /** The same with every unit at its level's mean size (Kish). */
+  /** For the mean of all observations, with every unit at its level's mean size: 1 + Σ (m̄_l − 1) share_l (Kish). */
   designEffectKish: z.number().positive(),
+  /** For the mean of all observations: each level's term ((cv² + 1) m̄ − 1) · share (Eldridge, Ashby & Kerry 2006). */
   designEffectTerms: z.array(DesignEffectTerm),
   /** nObs / designEffect. */
   effectiveN: z.number().positive(),
+  /** Engine ≥ 0.2: which quantity designEffect and effectiveN belong to. */
+  headline: HeadlineQuantity.optional(),
   groups: z.array(GroupSummary),
   comparisons: z.object({
-    /** null without a condition. */
+    /** null without a condition or covariate. */
     mixedModel: z
       .object({
-        /** F test of all conditions equal (Satterthwaite); null for fewer than 3 conditions. */
+        /** F test of all conditions equal (Satterthwaite); null for fewer than 3 conditions and for two factors. */
         omnibus: FTest.nullable(),
+        /** Pairwise differences of the condition means (design cells for two factors), Holm across all pairs. */
         contrasts: z.array(MixedModelContrast),
+        /** Engine ≥ 0.2: every fixed-effect coefficient with Satterthwaite df. */
+        coefficients: z.array(Coefficient).optional(),
+        /** Engine ≥ 0.2: type III F test per fixed term. */
+        terms: z.array(TermTest).optional(),
+        /** Engine ≥ 0.2, two factors: each factor within each level of the other. */
+        simpleEffects: z.array(SimpleEffect).optional(),
       })
       .nullable(),
     /** "Summarise first" test at conditionLevel; null without a condition or when no level carries a single condition. */

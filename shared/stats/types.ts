@@ -17,8 +17,16 @@ export interface NestedColumns {
   response: Float64Array
   /** Nesting levels, outermost first (e.g. lab, animal). Labels may repeat under different parents. */
   levels: Factor[]
-  /** Optional fixed-effect condition (treatment, genotype, dose). */
-  condition?: Factor | null
+  /** Fixed-effect condition factors (treatment, genotype, dose): none, one, or two (fitted as A * B). */
+  factors?: Factor[]
+  /** Numeric covariates (NaN marks a missing value: the row is left out and counted). */
+  covariates?: NumericColumn[]
+}
+
+/** A numeric column, one value per row. */
+export interface NumericColumn {
+  name: string
+  values: Float64Array
 }
 
 export interface Warning {
