@@ -125,7 +125,7 @@ export class ColumnCollector {
       responseName: this.selection.response,
       response: this.response.subarray(0, this.rows),
       levels: this.levels.map((level) => level.toFactor(this.rows)),
-      condition: this.condition ? this.condition.toFactor(this.rows) : null,
+      factors: this.condition ? [this.condition.toFactor(this.rows)] : [],
     }
   }
 

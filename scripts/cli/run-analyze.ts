@@ -1,5 +1,5 @@
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
-import { analyzeNested } from '../../shared/stats/analyze-nested'
+import { analyzeNested } from '../../shared/analysis/analyze-nested'
 import type { AnalyzeArgs } from './analyze-args'
 import { readColumnsFromFile } from './read-columns'
 

@@ -1,10 +1,10 @@
 import type { AnalysisProgress, AnalysisSettings, ChartData } from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import type { Exclusion } from '../../shared/schemas/datasets'
-import { analyzeNested } from '../../shared/stats/analyze-nested'
+import { analyzeNested } from '../../shared/analysis/analyze-nested'
 import type { Conn } from '../repositories/connection'
 import { loadNestedColumns } from '../services/datasets-readback.service'
-import { buildChartData } from './chart-data'
+import { buildChartData } from '../../shared/analysis/chart-data'
 
 export interface AnalysisJobInput {
   datasetVersionId: number

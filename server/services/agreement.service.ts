@@ -1,7 +1,7 @@
 import type { AgreementResult } from '../../shared/schemas/agreement'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import { EngineInputError } from '../../shared/stats/engine-input-error'
-import { labAgreement } from '../analysis/lab-agreement'
+import { labAgreement } from '../../shared/analysis/lab-agreement'
 import { NotFoundError, UnprocessableError } from '../errors/app-error'
 import { findAnalysis, findAnalysisVersion } from '../repositories/analyses.repo'
 import { membershipIn } from './datasets-access.service'

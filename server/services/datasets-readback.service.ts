@@ -253,6 +253,6 @@ export async function loadNestedColumns(
     responseName: tagging.response,
     response: read.numbers.get(tagging.response)!,
     levels: tagging.levels.map(toFactor),
-    condition: tagging.condition ? toFactor(tagging.condition) : null,
+    factors: tagging.condition ? [toFactor(tagging.condition)] : [],
   }
 }

@@ -51,7 +51,9 @@ export function prepareNestedDesign(
   opts: PrepareNestedDesignOptions = {},
 ): NestedDesign {
   const { response, levels } = columns
-  const condition = columns.condition ?? null
+  if ((columns.factors?.length ?? 0) > 1 || (columns.covariates?.length ?? 0) > 0)
+    throw new EngineInputError('Two condition factors and covariates are not supported yet.')
+  const condition = columns.factors?.[0] ?? null
   const nRows = response.length
   if (levels.length === 0) throw new EngineInputError('At least one nesting level (e.g. animal) is needed.')
   checkNames(levels, condition)

@@ -1,5 +1,5 @@
 import type { BootstrapResult } from '../schemas/analysis-result'
-import { hierarchicalBootstrap, type BootstrapInput } from './hierarchical-bootstrap'
+import { hierarchicalBootstrap, type BootstrapInput } from '../stats/hierarchical-bootstrap'
 
 /**
  * The bootstrap section of the result document: runs the hierarchical bootstrap on the design

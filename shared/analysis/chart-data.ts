@@ -5,9 +5,9 @@ import type {
   ConditionBars,
   UnitLevelSummary,
   UnitSummary,
-} from '../../shared/schemas/analyses'
-import type { AnalysisResult } from '../../shared/schemas/analysis-result'
-import type { NestedColumns } from '../../shared/stats/types'
+} from '../schemas/analyses'
+import type { AnalysisResult } from '../schemas/analysis-result'
+import type { NestedColumns } from '../stats/types'
 
 /** Points in the scatter at most (every unit cell gets at least one, so many cells can exceed it). */
 export const POINT_LIMIT = 5000
@@ -117,7 +117,7 @@ function keptRows(response: Float64Array): Int32Array {
 /** For each kept row, the index of its condition in the result's group order (0 without a condition). */
 function conditionOfRows(columns: NestedColumns, result: AnalysisResult, kept: Int32Array): Int32Array {
   const out = new Int32Array(kept.length)
-  const condition = columns.condition
+  const condition = columns.factors?.[0]
   if (!condition) return out
   const order = new Map(result.groups.map((g, i) => [g.condition, i]))
   const byCode = condition.labels.map((label) => order.get(label) ?? -1)

@@ -1,8 +1,8 @@
 import type { NaiveTest } from '../schemas/analysis-result'
-import { EngineInputError } from './engine-input-error'
-import { oneWayAnova } from './one-way-anova'
-import type { NestedDesign } from './types'
-import { welchTest } from './welch-test'
+import { EngineInputError } from '../stats/engine-input-error'
+import { oneWayAnova } from '../stats/one-way-anova'
+import type { NestedDesign } from '../stats/types'
+import { welchTest } from '../stats/welch-test'
 
 /**
  * The comparison that ignores the nesting, kept to show how wrong it is: Welch's t-test on all

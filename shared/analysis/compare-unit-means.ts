@@ -1,7 +1,7 @@
 import type { UnitMeansTest } from '../schemas/analysis-result'
-import { EngineInputError } from './engine-input-error'
-import { unitMeansTest } from './unit-means-test'
-import type { NestedDesign } from './types'
+import { EngineInputError } from '../stats/engine-input-error'
+import { unitMeansTest } from '../stats/unit-means-test'
+import type { NestedDesign } from '../stats/types'
 
 export interface UnitMeansComparison {
   test: UnitMeansTest | null

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { bootstrapForResult } from './bootstrap-for-result'
-import { EngineInputError } from './engine-input-error'
-import { hierarchicalBootstrap, type BootstrapInput } from './hierarchical-bootstrap'
+import { EngineInputError } from '../stats/engine-input-error'
+import { hierarchicalBootstrap, type BootstrapInput } from '../stats/hierarchical-bootstrap'
 
 // Invented: 4 mice (2 on vehicle, 2 on NW-117), 3 neurons each, neurite length in µm.
 const y = [10, 12, 14, 11, 13, 15, 20, 22, 24, 21, 23, 25]

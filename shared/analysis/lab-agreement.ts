@@ -5,15 +5,15 @@ import type {
   AgreementResult,
   AgreementTest,
   LabEffect,
-} from '../../shared/schemas/agreement'
-import { cochranTest } from '../../shared/stats/cochran-test'
-import { EngineInputError } from '../../shared/stats/engine-input-error'
-import { grubbsTest } from '../../shared/stats/grubbs-test'
-import { labPrecision } from '../../shared/stats/lab-precision'
-import type { LabSummary } from '../../shared/stats/lab-summaries'
-import { mandelH } from '../../shared/stats/mandel-h'
-import { mandelK } from '../../shared/stats/mandel-k'
-import type { NestedColumns } from '../../shared/stats/types'
+} from '../schemas/agreement'
+import { cochranTest } from '../stats/cochran-test'
+import { EngineInputError } from '../stats/engine-input-error'
+import { grubbsTest } from '../stats/grubbs-test'
+import { labPrecision } from '../stats/lab-precision'
+import type { LabSummary } from '../stats/lab-summaries'
+import { mandelH } from '../stats/mandel-h'
+import { mandelK } from '../stats/mandel-k'
+import type { NestedColumns } from '../stats/types'
 
 /**
  * Agreement between the units of the outermost level ("labs"), computed on the nested data:
@@ -95,7 +95,7 @@ export function labAgreement(
   }
   const [labFactor, unitFactor] = columns.levels
   const inner = columns.levels.slice(1)
-  const condition = columns.condition ?? null
+  const condition = columns.factors?.[0] ?? null
   const conditionLabels = condition ? condition.labels : ['all']
   const cells = new Map<string, Cell>()
   const { response } = columns

@@ -1,4 +1,4 @@
-import type { Warning } from './types'
+import type { Warning } from '../stats/types'
 
 /** Facts about one analysis that the warnings are decided on; plain data so they can be tested alone. */
 export interface WarningFacts {

@@ -1,8 +1,8 @@
 import { sampleStandardDeviation } from 'simple-statistics'
 import { describe, expect, it } from 'vitest'
-import { ChartData } from '../../shared/schemas/analyses'
-import { analyzeNested } from '../../shared/stats/analyze-nested'
-import type { NestedColumns } from '../../shared/stats/types'
+import { ChartData } from '../schemas/analyses'
+import { analyzeNested } from './analyze-nested'
+import type { NestedColumns } from '../stats/types'
 import { buildChartData } from './chart-data'
 
 /** Invented: mice nested in labs (labels reused across labs), treatment per mouse, a few neurons each. */

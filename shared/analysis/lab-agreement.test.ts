@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { dyestuffGroups } from '../../shared/stats/fixtures/dyestuff-groups'
-import type { Factor, NestedColumns } from '../../shared/stats/types'
+import { dyestuffGroups } from '../stats/fixtures/dyestuff-groups'
+import type { Factor, NestedColumns } from '../stats/types'
 import { labAgreement } from './lab-agreement'
 
 function factor(name: string, values: string[]): Factor {

@@ -1,24 +1,24 @@
 import type { AnalysisResult, BalancedAnovaCheck, LevelIcc } from '../schemas/analysis-result'
-import { anovaNestedBalanced } from './anova-nested-balanced'
+import { anovaNestedBalanced } from '../stats/anova-nested-balanced'
 import { bootstrapForResult } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
 import { compareUnitMeans } from './compare-unit-means'
-import { ENGINE_VERSION } from './engine-version'
-import { fitNestedReml } from './fit-nested-reml'
+import { ENGINE_VERSION } from '../stats/engine-version'
+import { fitNestedReml } from '../stats/fit-nested-reml'
 import { naiveComparison } from './naive-comparison'
-import { nestedDesignEffect } from './nested-design-effect'
-import { observationsPerUnit } from './observations-per-unit'
-import { omnibusF } from './omnibus-f'
-import { oneWayAnova } from './one-way-anova'
-import { pairwiseContrasts } from './pairwise-contrasts'
-import { prepareNestedDesign } from './prepare-nested-design'
+import { nestedDesignEffect } from '../stats/nested-design-effect'
+import { observationsPerUnit } from '../stats/observations-per-unit'
+import { omnibusF } from '../stats/omnibus-f'
+import { oneWayAnova } from '../stats/one-way-anova'
+import { pairwiseContrasts } from '../stats/pairwise-contrasts'
+import { prepareNestedDesign } from '../stats/prepare-nested-design'
 import { summariseConditions } from './summarise-conditions'
-import type { NestedColumns, NestedDesign, NestedFit } from './types'
-import { unitSizeSummary } from './unit-size-summary'
+import type { NestedColumns, NestedDesign, NestedFit } from '../stats/types'
+import { unitSizeSummary } from '../stats/unit-size-summary'
 
 export interface AnalyzeNestedOptions {
   /** Reference condition of the model coding; default the first condition label. */
-  reference?: string
+  reference?: Record<string, string>
   /** Adds a seeded hierarchical bootstrap (at least 100 resamples). */
   bootstrap?: { resamples: number; seed: string } | null
   /** Called just before the bootstrap starts, so a caller can show it as a stage of its own. */
@@ -54,14 +54,16 @@ const MAX_LABEL_EXAMPLES = 5
  * or with fewer than 2 observations, an unknown reference, fewer than 100 bootstrap resamples.
  *
  * @example
- * analyzeNested(columns, { reference: 'vehicle' })
+ * analyzeNested(columns, { reference: { treatment: 'vehicle' } })
  * // → { nObs: 960, varianceComponents: [{ level: 'lab', variance: 48.1, share: 0.07 }, …],
  * //     designEffect: 5.2, effectiveN: 184.6, groups: [...], comparisons: {...}, warnings: [...] }
  */
 export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOptions = {}): AnalysisResult {
   const design = prepareNestedDesign(
     columns,
-    options.reference === undefined ? {} : { reference: options.reference },
+    columns.factors?.[0] && options.reference?.[columns.factors[0].name] !== undefined
+      ? { reference: options.reference[columns.factors[0].name] }
+      : {},
   )
   const fit = fitNestedReml(design)
 

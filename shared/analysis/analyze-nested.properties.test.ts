@@ -7,7 +7,7 @@ import seedrandom from 'seedrandom'
 import { describe, expect, it } from 'vitest'
 import type { AnalysisResult } from '../schemas/analysis-result'
 import { analyzeNested } from './analyze-nested'
-import type { Factor, NestedColumns } from './types'
+import type { Factor, NestedColumns } from '../stats/types'
 
 interface Scenario {
   name: string

@@ -1,10 +1,10 @@
 import jStat from 'jstat'
 import type { GroupSummary } from '../schemas/analysis-result'
-import { conditionMeans } from './condition-means'
-import { EngineInputError } from './engine-input-error'
-import { nestedDesignEffect } from './nested-design-effect'
-import { observationsPerUnitByCondition } from './observations-per-unit-by-condition'
-import type { NestedDesign, NestedFit } from './types'
+import { conditionMeans } from '../stats/condition-means'
+import { EngineInputError } from '../stats/engine-input-error'
+import { nestedDesignEffect } from '../stats/nested-design-effect'
+import { observationsPerUnitByCondition } from '../stats/observations-per-unit-by-condition'
+import type { NestedDesign, NestedFit } from '../stats/types'
 
 /**
  * Per condition (or "all" without a condition): the plain mean; the naive SE and CI that treat
