@@ -2,6 +2,9 @@ import { defineConfig, devices } from '@playwright/test'
 
 // Browser tests run against Debian's Chromium (Playwright downloads no browser here) and a server
 // on its own port with a freshly seeded database (scripts/serve-e2e.ts serves the built client).
+// E2E_PORT and E2E_DATABASE let two checkouts on one machine run their browser tests side by side.
+const port = process.env.E2E_PORT ?? '3100'
+
 export default defineConfig({
   testDir: 'tests/e2e',
   outputDir: 'test-results/artifacts',
@@ -18,7 +21,7 @@ export default defineConfig({
     ...(process.env.PLAYWRIGHT_JSON_OUTPUT_NAME ? [['json'] as ['json']] : []),
   ],
   use: {
-    baseURL: 'http://127.0.0.1:3100',
+    baseURL: `http://127.0.0.1:${port}`,
     trace: 'retain-on-failure',
     screenshot: 'only-on-failure',
     launchOptions: {
@@ -38,7 +41,7 @@ export default defineConfig({
   projects: [{ name: 'chromium', use: { ...devices['Desktop Chrome'] } }],
   webServer: {
     command: 'node --import tsx scripts/serve-e2e.ts',
-    url: 'http://127.0.0.1:3100/api/health',
+    url: `http://127.0.0.1:${port}/api/health`,
     reuseExistingServer: !process.env.CI,
     timeout: 120_000,
     stderr: 'pipe',
