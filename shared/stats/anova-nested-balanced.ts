@@ -41,7 +41,7 @@ export interface NestedAnovaBalanced {
  * // → [{ level: 'batch', variance: 1.6573 }, { level: 'cask', variance: 8.4337 }, { level: 'residual', variance: 0.678 }]
  */
 export function anovaNestedBalanced(design: NestedDesign): NestedAnovaBalanced | null {
-  if (design.condition) {
+  if (design.factors.length > 0 || design.covariates.length > 0) {
     throw new EngineInputError('The balanced nested ANOVA check takes a design without condition.')
   }
   const levels = design.randomLevels

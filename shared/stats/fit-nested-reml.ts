@@ -8,24 +8,25 @@ import type { NestedDesign, NestedFit } from './types'
 const SNAP_T = 1e-4
 
 /**
- * Fits the linear mixed model y = Xβ + Σ_l Z_l u_l + e with one random intercept per nested level
- * (u_l ~ N(0, σ_l² I), e ~ N(0, σ² I)) and fixed effects intercept + condition (treatment coding
- * against the reference), by restricted maximum likelihood (REML).
+ * Fits the linear mixed model y = Xβ + Σ_t Z_t u_t + e with the random intercepts of the maximal
+ * nested design (each given level and each level × condition term; u_t ~ N(0, σ_t² I),
+ * e ~ N(0, σ² I)) and the fixed effects A * B + covariates in treatment coding, by restricted
+ * maximum likelihood (REML).
  *
  * The rows are read once into per-unit sums; each evaluation of the profiled REML criterion
- * d(θ) = log |H| + log |Xᵀ H⁻¹ X| + (n − p)(1 + log(2π r² / (n − p))), H = I + Σ θ_l Z_l Z_lᵀ,
- * then costs O(units · p²) (nested Sherman–Morrison updates, see evaluateNestedReml). d is
- * minimised over t_l = √θ_l (unconstrained, so θ_l ≥ 0 holds by construction) with damped
+ * d(θ) = log |H| + log |Xᵀ H⁻¹ X| + (n − p)(1 + log(2π r² / (n − p))), H = I + Σ θ_t Z_t Z_tᵀ,
+ * then costs O(cells · p²) (nested Woodbury updates, see evaluateNestedReml). d is
+ * minimised over t = √θ (unconstrained, so θ_l ≥ 0 holds by construction) with damped
  * Newton steps from the best point of a small grid; components whose √θ ends below 1e-4 are
  * tried at exactly 0 and kept there when that does not raise d, so boundary fits are exact.
- * Then σ² = r² / (n − p), σ_l² = θ_l σ², Cov(β̂) = σ² (Xᵀ H⁻¹ X)⁻¹.
+ * Then σ² = r² / (n − p), σ_t² = θ_t σ², Cov(β̂) = σ² (Xᵀ H⁻¹ X)⁻¹.
  *
  * Sources: Patterson & Thompson (1971), Biometrika 58:545 (REML); Bates, Mächler, Bolker &
  * Walker (2015), J Stat Softw 67(1) (the profiled criterion, same scale as lme4's
  * "REML criterion at convergence"); Searle, Casella & McCulloch (1992), Variance Components.
  *
- * Guard errors (EngineInputError): a response with no variation left after the condition means
- * (r² = 0), or fewer observations than fixed effects + 1.
+ * Guard errors (EngineInputError): a response with no variation left after the fixed effects
+ * (r² = 0), fewer observations than fixed effects + 1, or covariates the conditions determine.
  *
  * @example
  * fitNestedReml(prepareNestedDesign(dyestuffColumns)).components
@@ -33,13 +34,14 @@ const SNAP_T = 1e-4
  */
 export function fitNestedReml(design: NestedDesign): NestedFit {
   const stats = nestedSufficientStats(design)
-  const { p, nObs, nLevels: K } = stats
+  const { p, nObs, nTheta: K } = stats
   if (nObs - p < 1) {
     throw new EngineInputError(
-      `${nObs} observations cannot estimate ${p} condition means and a residual variance.`,
+      `${nObs} observations cannot estimate ${p} fixed effects and a residual variance.`,
     )
   }
   const flat = evaluateNestedReml(stats, new Array(K).fill(0))
+  if (flat.collinear) throw collinearFixedEffects(design)
   if (!(flat.r2 > 1e-12 * totalSumOfSquares(design.y))) {
     throw new EngineInputError(
       `The response "${design.responseName}" does not vary within conditions; variances cannot be estimated.`,
@@ -80,8 +82,25 @@ function totalSumOfSquares(y: Float64Array): number {
   return ss
 }
 
+/** A covariate that the factors (or the other covariates) determine exactly: X has no full rank. */
+function collinearFixedEffects(design: NestedDesign): EngineInputError {
+  const names = design.covariates.map((c) => c.name)
+  return new EngineInputError(
+    names.length > 0
+      ? `The covariate${names.length > 1 ? 's' : ''} ${names.map((n) => `"${n}"`).join(', ')} ${names.length > 1 ? 'are' : 'is'} fully determined by the conditions or by each other, so ${names.length > 1 ? 'their' : 'its'} slope cannot be estimated.`
+      : 'The fixed effects cannot be estimated: the conditions are confounded.',
+    names[0] ?? null,
+  )
+}
+
+/**
+ * The best of a small grid of starting points: the full grid over √θ for up to four terms, and
+ * beyond that (the grid would grow as 4^K) the common scalings of all terms plus each term
+ * alone scaled up or down.
+ */
 function bestGridStart(criterion: (t: number[]) => number, K: number): number[] {
-  const values = K <= 4 ? [0.1, 0.4, 1.6, 6.4] : [0.3, 1, 3]
+  if (K > 4) return bestOfPoints(criterion, wideStarts(K))
+  const values = [0.1, 0.4, 1.6, 6.4]
   let best = new Array(K).fill(1)
   let bestF = criterion(best)
   const point = new Array(K).fill(0)
@@ -101,6 +120,32 @@ function bestGridStart(criterion: (t: number[]) => number, K: number): number[] 
   return best
 }
 
+function wideStarts(K: number): number[][] {
+  const points: number[][] = []
+  for (const v of [0.1, 0.4, 1, 1.6, 6.4]) points.push(new Array(K).fill(v))
+  for (let i = 0; i < K; i++) {
+    for (const v of [0.05, 4]) {
+      const point = new Array(K).fill(0.7)
+      point[i] = v
+      points.push(point)
+    }
+  }
+  return points
+}
+
+function bestOfPoints(criterion: (t: number[]) => number, points: number[][]): number[] {
+  let best = points[0]
+  let bestF = criterion(best)
+  for (const point of points.slice(1)) {
+    const f = criterion(point)
+    if (f < bestF) {
+      bestF = f
+      best = point
+    }
+  }
+  return [...best]
+}
+
 function assembleFit(
   design: NestedDesign,
   stats: NestedSufficientStats,
@@ -111,15 +156,12 @@ function assembleFit(
   const { p, nObs } = stats
   const ev = evaluateNestedReml(stats, theta, true)
   const sigma2 = ev.r2 / (nObs - p)
-  const labels = design.condition?.labels ?? []
-  const condName = design.condition?.name ?? ''
   return {
     beta: ev.beta!,
-    betaNames: ['intercept', ...labels.slice(1).map((l) => `${condName}=${l}`)],
     vcovBeta: ev.xtHxInverse!.map((row) => row.map((v) => v * sigma2)),
     sigma2,
     components: [
-      ...design.randomLevels.map((level, i) => ({ level: level.name, variance: theta[i] * sigma2 })),
+      ...design.terms.map((term, i) => ({ level: term.name, variance: theta[i] * sigma2 })),
       { level: 'residual', variance: sigma2 },
     ],
     theta,

@@ -1,49 +1,62 @@
+import { cellMeanRow } from './cell-means'
 import { holmAdjust } from './holm-adjust'
 import { satterthwaiteContrast } from './satterthwaite-contrast'
-import type { NestedDesign, NestedFit } from './types'
+import { studentTQuantile } from './student-t-quantile'
+import type { Interval, NestedDesign, NestedFit } from './types'
 
-export interface PairwiseContrast {
-  /** The later condition (in the design's label order). */
+export interface PairwiseContrast extends Interval {
+  /** The later cell (in the design's order). */
   a: string
-  /** The earlier condition; with the reference first, every comparison with it reads "x − reference". */
+  /** The earlier cell; with the reference first, every comparison with it reads "x − reference". */
   b: string
-  /** mean(a) − mean(b) from the mixed model. */
-  estimate: number
-  se: number
-  /** Satterthwaite degrees of freedom. */
-  df: number
   t: number
   p: number
   /** Holm-adjusted p over all pairs. */
   pHolm: number
+  /** The contrast as coefficients of β (for its design effect). */
+  weights: number[]
 }
 
 /**
- * All pairwise differences between condition means from the mixed model, each a Satterthwaite
- * t test, with Holm-adjusted p-values across the pairs. Pairs run in label order (reference
- * first): for labels [r, x, z] the pairs are x − r, z − r, z − x.
+ * All pairwise differences between design-cell means from the mixed model (between conditions,
+ * or between A × B combinations), each a Satterthwaite t test with a 95 % interval, with
+ * Holm-adjusted p-values across the pairs. Pairs run in cell order (reference first): for cells
+ * [r, x, z] the pairs are x − r, z − r, z − x. Covariates cancel out of every difference.
  *
- *   estimate = β_a − β_b (β_ref = 0),  t = estimate / √(lᵀCl),  df by Satterthwaite
+ *   estimate = (x_a − x_b)ᵀ β̂,  t = estimate / √(lᵀCl),  df by Satterthwaite
  *
  * Source: Kuznetsova, Brockhoff & Christensen (2017), J Stat Softw 82(13) (lmerTest contest);
  * Holm (1979), Scand J Statist 6:65.
  *
- * Guard errors: none; a design without condition has no pairs (empty list).
+ * Guard errors: none; a design with one cell has no pairs (empty list).
  *
  * @example
  * pairwiseContrasts(machinesDesign, machinesFit)[0]
- * // → { a: 'B', b: 'A', estimate: 7.967, se: 2.177, df: 10.0, t: 3.660, p: 0.00439, pHolm: 0.00878 }
+ * // → { a: 'B', b: 'A', estimate: 7.967, se: 2.177, df: 10.0, t: 3.660, p: 0.00439, pHolm: 0.00878, … }
  */
-export function pairwiseContrasts(design: NestedDesign, fit: NestedFit): PairwiseContrast[] {
-  const labels = design.condition?.labels ?? []
+export function pairwiseContrasts(design: NestedDesign, fit: NestedFit, confidence = 0.95): PairwiseContrast[] {
+  const labels = design.cells.labels
+  if (labels.length < 2) return []
+  const rows = labels.map((_, c) => cellMeanRow(design, c))
   const pairs: Omit<PairwiseContrast, 'pHolm'>[] = []
-  for (let j = 1; j < labels.length; j++) {
-    for (let i = 0; i < j; i++) {
-      const L = fit.beta.map((_, k) => (k === j ? 1 : 0) - (k === i && i > 0 ? 1 : 0))
-      pairs.push({ a: labels[j], b: labels[i], ...satterthwaiteContrast(design, fit, L) })
+  for (let i = 0; i < labels.length; i++) {
+    for (let j = i + 1; j < labels.length; j++) {
+      const weights = rows[j].map((v, k) => v - rows[i][k])
+      const t = satterthwaiteContrast(design, fit, weights)
+      const half = studentTQuantile(1 - (1 - confidence) / 2, t.df) * t.se
+      pairs.push({
+        a: labels[j],
+        b: labels[i],
+        estimate: t.estimate,
+        se: t.se,
+        df: t.df,
+        ci: [t.estimate - half, t.estimate + half],
+        t: t.t,
+        p: t.p,
+        weights,
+      })
     }
   }
-  pairs.sort((x, y) => labels.indexOf(x.b) - labels.indexOf(y.b) || labels.indexOf(x.a) - labels.indexOf(y.a))
   const adjusted = holmAdjust(pairs.map((c) => c.p))
   return pairs.map((c, i) => ({ ...c, pHolm: adjusted[i] }))
 }

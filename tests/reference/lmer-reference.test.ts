@@ -1,10 +1,12 @@
 /**
  * Live cross-check of the nested mixed-model engine against lme4 1.1-31 + lmerTest 3.1-3 (R):
- * variance components, fixed effects and their SEs, the REML criterion, condition means and all
- * pairwise contrasts with Satterthwaite df / t / p (lmerTest contest), Holm p (R p.adjust) and the
- * omnibus F (lmerTest anova, Satterthwaite). Data: the public nested data sets shipped with lme4
- * and nlme, plus seeded simulated designs. Agreement required: 1e-4 relative, or 1e-6 absolute
- * near zero. Skips, loudly, only when Rscript is not installed.
+ * the engine's own model formula is refitted in R, and variance components, fixed effects and
+ * their SEs, the REML criterion, cell means and all pairwise contrasts with Satterthwaite df / t /
+ * p (lmerTest contest), Holm p (R p.adjust), every coefficient, and the type III F tests
+ * (lmerTest anova(type = 3), Satterthwaite) are compared. Data: the public data sets shipped with
+ * lme4 and nlme, plus seeded simulated designs (multi-lab with a lab × condition variance, two
+ * factors, a covariate). Agreement required: 1e-4 relative (1e-6 absolute near zero) on
+ * variances, estimates and SEs, 1e-3 on df and p. Skips, loudly, only when Rscript is not installed.
  */
 import { execFileSync, spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
@@ -12,17 +14,20 @@ import { tmpdir } from 'node:os'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { conditionMeans } from '../../shared/stats/condition-means'
+import { cellMeans, cellMeanRow } from '../../shared/stats/cell-means'
 import { fitNestedReml } from '../../shared/stats/fit-nested-reml'
+import { fixedCoefficients } from '../../shared/stats/fixed-coefficients'
+import { fixedTermTests } from '../../shared/stats/fixed-term-tests'
 import { dyestuff } from '../../shared/stats/fixtures/dyestuff'
 import { dyestuff2 } from '../../shared/stats/fixtures/dyestuff2'
 import { machines } from '../../shared/stats/fixtures/machines'
 import { nestedColumnsFromTable } from '../../shared/stats/fixtures/nested-columns-from-table'
 import { oats } from '../../shared/stats/fixtures/oats'
+import { orthodont } from '../../shared/stats/fixtures/orthodont'
 import { oxide } from '../../shared/stats/fixtures/oxide'
 import { pastes } from '../../shared/stats/fixtures/pastes'
 import { rail } from '../../shared/stats/fixtures/rail'
-import { omnibusF } from '../../shared/stats/omnibus-f'
+import { modelFormula } from '../../shared/stats/model-formula'
 import { pairwiseContrasts } from '../../shared/stats/pairwise-contrasts'
 import { prepareNestedDesign } from '../../shared/stats/prepare-nested-design'
 import { studentTTwoSidedP } from '../../shared/stats/reml/student-t-two-sided-p'
@@ -36,13 +41,14 @@ interface Case {
   table: Table
   response: string
   levels: string[]
-  condition?: string
-  reference?: string
+  conditions?: string[]
+  covariates?: string[]
+  reference?: Record<string, string>
   /** What the case must exercise, checked against both fits. */
   expectSingular?: boolean
-  expectInserted?: boolean
+  /** Random terms the maximal model must hold (by name). */
+  expectTerms?: string[]
 }
-
 const sim = (s: Omit<NestedSimulation, 'cells' | 'sd'> & Partial<NestedSimulation>): Table =>
   simulateNestedTable({
     cells: [2, 12],
@@ -56,23 +62,23 @@ const cases: Case[] = [
   { id: 'Dyestuff2', table: dyestuff2, response: 'Yield', levels: ['Batch'], expectSingular: true },
   { id: 'Pastes', table: pastes, response: 'strength', levels: ['batch', 'cask'] },
   { id: 'Rail', table: rail, response: 'travel', levels: ['Rail'] },
-  { id: 'Oxide', table: oxide, response: 'Thickness', levels: ['Lot', 'Wafer'], condition: 'Source' },
+  { id: 'Oxide', table: oxide, response: 'Thickness', levels: ['Lot', 'Wafer'], conditions: ['Source'] },
   {
     id: 'Machines',
     table: machines,
     response: 'score',
     levels: ['Worker'],
-    condition: 'Machine',
-    expectInserted: true,
+    conditions: ['Machine'],
+    expectTerms: ['Worker', 'Worker:Machine'],
   },
   {
     id: 'Oats',
     table: oats,
     response: 'yield',
     levels: ['Block'],
-    condition: 'Variety',
-    reference: 'Victory',
-    expectInserted: true,
+    conditions: ['Variety'],
+    reference: { Variety: 'Victory' },
+    expectTerms: ['Block', 'Block:Variety'],
   },
   // Simulated (seeded, invented): unbalanced, with missing responses and repeating animal labels.
   {
@@ -88,7 +94,7 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal'],
-    condition: 'condition',
+    conditions: ['condition'],
   },
   {
     id: 'sim-3level-between-3cond',
@@ -103,7 +109,7 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal', 'slice'],
-    condition: 'condition',
+    conditions: ['condition'],
   },
   {
     id: 'sim-within-animal-2cond',
@@ -118,8 +124,8 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal'],
-    condition: 'condition',
-    expectInserted: true,
+    conditions: ['condition'],
+    expectTerms: ['lab', 'lab:condition', 'animal', 'animal:condition'],
   },
   {
     id: 'sim-within-animal-3cond',
@@ -133,9 +139,9 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal'],
-    condition: 'condition',
-    reference: 'low',
-    expectInserted: true,
+    conditions: ['condition'],
+    reference: { condition: 'low' },
+    expectTerms: ['lab', 'lab:condition', 'animal', 'animal:condition'],
   },
   {
     id: 'sim-within-slice-3level',
@@ -150,8 +156,8 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal', 'slice'],
-    condition: 'condition',
-    expectInserted: true,
+    conditions: ['condition'],
+    expectTerms: ['lab', 'lab:condition', 'animal', 'animal:condition', 'slice', 'slice:condition'],
   },
   {
     id: 'sim-boundary-no-lab-variance',
@@ -166,7 +172,7 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal'],
-    condition: 'condition',
+    conditions: ['condition'],
     expectSingular: true,
   },
   {
@@ -181,7 +187,7 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal'],
-    condition: 'condition',
+    conditions: ['condition'],
   },
   {
     id: 'sim-large-offset',
@@ -196,25 +202,109 @@ const cases: Case[] = [
     }),
     response: 'length',
     levels: ['lab', 'animal'],
-    condition: 'condition',
+    conditions: ['condition'],
+  },
+  // Two factors and covariates on public data (nlme).
+  {
+    id: 'Oats-two-factors',
+    table: oats,
+    response: 'yield',
+    levels: ['Block'],
+    conditions: ['Variety', 'nitro'],
+    expectTerms: ['Block', 'Block:Variety', 'Block:nitro'],
+  },
+  {
+    id: 'Orthodont-covariate',
+    table: orthodont,
+    response: 'distance',
+    levels: ['Subject'],
+    conditions: ['Sex'],
+    covariates: ['age'],
+    expectTerms: ['Subject'],
+  },
+  // Simulated multi-lab tables with a real lab × condition variance (invented, seeded).
+  {
+    id: 'sim-multilab-condition-between-animals',
+    table: sim({
+      seed: 'multi-lab-between',
+      labs: 6,
+      animals: [4, 8],
+      sd: { lab: 1, labCondition: 0.9, animal: 0.6, residual: 1.5 },
+      conditions: ['vehicle', 'KX-9'],
+      means: [20, 21.2],
+      conditionAt: 'animal',
+    }),
+    response: 'length',
+    levels: ['lab', 'animal'],
+    conditions: ['condition'],
+    expectTerms: ['lab', 'lab:condition', 'animal'],
+  },
+  {
+    id: 'sim-multilab-within-animals-3cond',
+    table: sim({
+      seed: 'multi-lab-within',
+      labs: 5,
+      animals: [3, 5],
+      sd: { lab: 1, labCondition: 0.7, animal: 0.8, animalCondition: 0.5, residual: 1.5 },
+      conditions: ['vehicle', 'low', 'high'],
+      means: [20, 20.5, 21.5],
+      conditionAt: 'within',
+    }),
+    response: 'length',
+    levels: ['lab', 'animal'],
+    conditions: ['condition'],
+    expectTerms: ['lab', 'lab:condition', 'animal', 'animal:condition'],
+  },
+  {
+    id: 'sim-multilab-two-factors-covariate',
+    table: sim({
+      seed: 'genotype-by-treatment',
+      labs: 5,
+      animals: [4, 6],
+      sd: { lab: 1, labCondition: 0.6, animal: 0.7, animalCondition: 0.4, residual: 1.5 },
+      conditions: ['vehicle', 'KX-9'],
+      means: [20, 21],
+      conditionAt: 'within',
+      genotype: { labels: ['WT', 'KO'], effects: [0, -1.2], interaction: 0.8 },
+      somaSlope: 0.05,
+    }),
+    response: 'length',
+    levels: ['lab', 'animal'],
+    conditions: ['genotype', 'condition'],
+    covariates: ['soma'],
+    reference: { genotype: 'WT' },
+    expectTerms: [
+      'lab',
+      'lab:genotype',
+      'lab:condition',
+      'lab:genotype:condition',
+      'animal',
+      'animal:condition',
+    ],
   },
 ]
 
 const REL_TOL = 1e-4
+const LOOSE_TOL = 1e-3
 const ABS_TOL = 1e-6
 /** Largest relative difference seen per quantity, reported after the run. */
 const worst = new Map<string, { rel: number; where: string }>()
 
-function agree(quantity: string, where: string, ours: number, theirs: number): void {
+function agree(quantity: string, where: string, ours: number, theirs: number, tolerance = REL_TOL): void {
   const diff = Math.abs(ours - theirs)
   const rel = diff / Math.max(Math.abs(theirs), Math.abs(ours), 1e-300)
   const shown = diff <= ABS_TOL ? Math.min(rel, diff) : rel
   const prev = worst.get(quantity)
   if (!prev || shown > prev.rel) worst.set(quantity, { rel: shown, where })
   expect(
-    diff <= ABS_TOL || rel <= REL_TOL,
+    diff <= ABS_TOL || rel <= tolerance,
     `${where} ${quantity}: ours ${ours}, lme4/lmerTest ${theirs} (relative difference ${rel.toExponential(2)})`,
   ).toBe(true)
+}
+
+/** df and p: 1e-3 relative, as issue 12 asks (lmerTest's own numerical derivatives are not finer). */
+function agreeLoosely(quantity: string, where: string, ours: number, theirs: number): void {
+  agree(quantity, where, ours, theirs, LOOSE_TOL)
 }
 
 const rscript = spawnSync('Rscript', ['--version'], { encoding: 'utf8' })
@@ -231,19 +321,22 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
 
   beforeAll(() => {
     const specs = cases.map((c) => {
-      const design = prepareNestedDesign(nestedColumnsFromTable(c.table, c.response, c.levels, c.condition), {
-        reference: c.reference,
-      })
+      const design = prepareNestedDesign(
+        nestedColumnsFromTable(c.table, c.response, c.levels, c.conditions, c.covariates),
+        { reference: c.reference },
+      )
       designs.set(c.id, design)
       const csv = join(dir, `${c.id}.csv`)
-      writeFileSync(csv, referenceCsv(c, design))
+      writeFileSync(csv, referenceCsv(c))
+      const { rows, holm } = contrastRows(design)
       return {
         id: c.id,
         csv,
-        response: c.response,
-        units: design.randomLevels.map((_, l) => `u${l + 1}`),
-        condition: c.condition ?? null,
-        conditionLabels: design.condition?.labels ?? null,
+        formula: modelFormula(design),
+        factors: design.factors.map((f) => ({ name: f.name, labels: f.labels })),
+        covariates: design.covariates.map((cv) => cv.name),
+        contrasts: rows,
+        holm,
       }
     })
     const specPath = join(dir, 'spec.json')
@@ -251,11 +344,11 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
     const script = join(dirname(fileURLToPath(import.meta.url)), 'lmer-reference.R')
     const out = execFileSync('Rscript', [script, specPath], {
       encoding: 'utf8',
-      timeout: 120_000,
+      timeout: 180_000,
       maxBuffer: 1 << 26,
     })
     reference = JSON.parse(out)
-  }, 120_000)
+  }, 180_000)
 
   afterAll(() => {
     rmSync(dir, { recursive: true, force: true })
@@ -265,9 +358,10 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
     if (lines.length) console.log(`lmer-reference: largest differences per quantity\n${lines.join('\n')}`)
   })
 
-  it('covers at least 8 data sets, including boundary and within-unit designs', () => {
-    expect(cases.length).toBeGreaterThanOrEqual(8)
+  it('covers the public data sets, boundary fits, level × condition terms, two factors and covariates', () => {
+    expect(cases.length).toBeGreaterThanOrEqual(12)
     expect(cases.some((c) => c.expectSingular && c.id.startsWith('sim'))).toBe(true)
+    expect(cases.some((c) => (c.conditions?.length ?? 0) === 2 && (c.covariates?.length ?? 0) > 0)).toBe(true)
   })
 
   for (const c of cases) {
@@ -279,79 +373,83 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
       expect(fit.converged).toBe(true)
       expect(fit.singular).toBe(ref.singular)
       if (c.expectSingular !== undefined) expect(fit.singular).toBe(c.expectSingular)
-      if (c.expectInserted !== undefined) expect(design.randomLevels.at(-1)!.inserted).toBe(c.expectInserted)
+      if (c.expectTerms) expect(design.terms.map((t) => t.name)).toEqual(c.expectTerms)
 
-      // Variance components: lme4 VarCorr groups u1, u2, … are our random levels in order.
+      // Variance components: lme4 names each group by its formula grouping ("lab:animal").
       const refVar = new Map<string, number>(
         ref.components.map((x: { group: string; variance: number }) => [x.group, x.variance]),
       )
-      design.randomLevels.forEach((level, l) =>
-        agree('variance', `${c.id}/${level.name}`, fit.components[l].variance, refVar.get(`u${l + 1}`)!),
+      design.terms.forEach((term, t) =>
+        agree('variance', `${c.id}/${term.name}`, fit.components[t].variance, refVar.get(term.grouping.join(':'))!),
       )
       agree('variance', `${c.id}/residual`, fit.sigma2, refVar.get('Residual')!)
       agree('REML criterion', c.id, fit.remlCriterion, ref.remlCriterion)
-      fit.beta.forEach((b, i) => agree('fixed effect', `${c.id}/${fit.betaNames[i]}`, b, ref.beta[i]))
+      const names = design.fixed.columns.map((col) => `${col.term}${col.level ? `=${col.level}` : ''}`)
+      fit.beta.forEach((b, i) => agree('fixed effect', `${c.id}/${names[i]}`, b, ref.beta[i]))
       fit.vcovBeta.forEach((row, i) =>
-        agree('fixed-effect SE', `${c.id}/${fit.betaNames[i]}`, Math.sqrt(row[i]), ref.se[i]),
+        agree('fixed-effect SE', `${c.id}/${names[i]}`, Math.sqrt(row[i]), ref.se[i]),
       )
 
-      conditionMeans(design, fit).forEach((m, j) => {
-        const r = ref.means[j]
-        const where = `${c.id}/mean ${m.condition ?? 'all'}`
-        agree('mean', where, m.mean, r.estimate)
-        agree('mean SE', where, m.se, r.se)
-        agree('Satterthwaite df', where, m.df, r.df)
-        // Means carry intervals, not p: test mean = 0 from the same t and df as lmerTest does.
-        agree('p-value', where, studentTTwoSidedP(m.mean / m.se, m.df), r.p)
-      })
-
+      const coefficients = fixedCoefficients(design, fit)
+      const means = cellMeans(design, fit)
       const pairs = pairwiseContrasts(design, fit)
-      expect(pairs.length).toBe(ref.pairwise?.length ?? 0)
-      pairs.forEach((pc, i) => {
-        const r = ref.pairwise[i]
-        const where = `${c.id}/${pc.a}-${pc.b}`
-        expect(`${pc.a}-${pc.b}`).toBe(`${r.a}-${r.b}`)
-        agree('contrast', where, pc.estimate, r.estimate)
-        agree('contrast SE', where, pc.se, r.se)
-        agree('Satterthwaite df', where, pc.df, r.df)
-        agree('t', where, pc.t, r.t)
-        agree('p-value', where, pc.p, r.p)
-        agree('Holm p-value', where, pc.pHolm, r.pHolm)
+      const ours = [
+        ...coefficients.map((k, i) => ({ where: `coef ${names[i]}`, estimate: k.estimate, se: k.se, df: k.df, t: k.t, p: k.p })),
+        ...means.map((m) => ({ where: `mean ${m.cell}`, ...m, t: m.estimate / m.se, p: studentTTwoSidedP(m.estimate / m.se, m.df) })),
+        ...pairs.map((pc) => ({ where: `${pc.a} − ${pc.b}`, ...pc })),
+      ]
+      expect(ref.contrasts.length).toBe(ours.length)
+      ours.forEach((o, i) => {
+        const r = ref.contrasts[i]
+        const where = `${c.id}/${o.where}`
+        agree('estimate', where, o.estimate, r.estimate)
+        agree('SE', where, o.se, r.se)
+        agreeLoosely('Satterthwaite df', where, o.df, r.df)
+        agree('t', where, o.t, r.t)
+        agreeLoosely('p-value', where, o.p, r.p)
       })
+      pairs.forEach((pc, i) => agreeLoosely('Holm p-value', `${c.id}/${pc.a} − ${pc.b}`, pc.pHolm, ref.holm[i]))
 
-      const f = omnibusF(design, fit)
-      if (f) {
-        agree('F', c.id, f.f, ref.anova.f)
-        expect(f.df1).toBe(ref.anova.df1)
-        agree('F denominator df', c.id, f.df2, ref.anova.df2)
-        agree('F p-value', c.id, f.p, ref.anova.p)
-      }
+      const terms = fixedTermTests(design, fit)
+      expect(terms.length).toBe(ref.anova?.length ?? 0)
+      terms.forEach((term, i) => {
+        const r = ref.anova[i]
+        const where = `${c.id}/${term.term}`
+        expect(unquote(r.term)).toBe(term.term)
+        agree('F', where, term.f, r.f)
+        expect(term.df1).toBe(r.df1)
+        agreeLoosely('F denominator df', where, term.df2, r.df2)
+        agreeLoosely('F p-value', where, term.p, r.p)
+      })
     })
   }
 })
 
-/** The CSV for R: response, condition and one path-keyed unit id column per random level. */
-function referenceCsv(c: Case, design: NestedDesign): string {
+/** Coefficients, cell means, then pairwise cell contrasts (Holm-adjusted together in R). */
+function contrastRows(design: NestedDesign): { rows: number[][]; holm: number[] } {
+  const p = design.fixed.columns.length
+  const unit = design.fixed.columns.map((_, j) => Array.from({ length: p }, (__, k) => (k === j ? 1 : 0)))
+  const means = design.cells.labels.map((_, c) => cellMeanRow(design, c))
+  const pairs: number[][] = []
+  for (let i = 0; i < means.length; i++)
+    for (let j = i + 1; j < means.length; j++) pairs.push(means[j].map((v, k) => v - means[i][k]))
+  const first = unit.length + means.length
+  return { rows: [...unit, ...means, ...pairs], holm: pairs.map((_, i) => first + i + 1) }
+}
+
+/** The case's own columns, as the file a user would refit the formula on. */
+function referenceCsv(c: Case): string {
+  const columns = [c.response, ...(c.conditions ?? []), ...(c.covariates ?? []), ...c.levels]
   const n = c.table[c.response].length
-  const header = [
-    c.response,
-    ...(c.condition ? [c.condition] : []),
-    ...design.randomLevels.map((_, l) => `u${l + 1}`),
-  ]
-  const rows = [header.join(',')]
+  const rows = [columns.map(quote).join(',')]
   for (let r = 0; r < n; r++) {
-    const y = Number(c.table[c.response][r])
-    const path: string[] = []
-    const ids = design.randomLevels.map((level) => {
-      path.push(String(level.inserted ? c.table[c.condition!][r] : c.table[level.name][r]))
-      return quote(path.join('/'))
-    })
     rows.push(
-      [
-        Number.isNaN(y) ? 'NA' : String(y),
-        ...(c.condition ? [quote(String(c.table[c.condition][r]))] : []),
-        ...ids,
-      ].join(','),
+      columns
+        .map((name) => {
+          const v = c.table[name][r]
+          return typeof v === 'number' ? (Number.isNaN(v) ? 'NA' : String(v)) : quote(v)
+        })
+        .join(','),
     )
   }
   return rows.join('\n') + '\n'
@@ -359,4 +457,8 @@ function referenceCsv(c: Case, design: NestedDesign): string {
 
 function quote(s: string): string {
   return `"${s.replace(/"/g, '""')}"`
+}
+
+function unquote(name: string): string {
+  return name.replace(/`/g, '')
 }

@@ -1,6 +1,7 @@
+import { cholesky, solveCholesky } from './small-cholesky'
 import type { NestedSufficientStats } from './sufficient-stats'
 
-/** The pieces of the REML criterion at one θ, with H = V / σ² = I + Σ_l θ_l Z_l Z_lᵀ. */
+/** The pieces of the REML criterion at one θ, with H = V / σ² = I + Σ_t θ_t Z_t Z_tᵀ. */
 export interface NestedRemlEvaluation {
   /** log |H|. */
   logDetH: number
@@ -10,7 +11,9 @@ export interface NestedRemlEvaluation {
   r2: number
   /** Profiled REML criterion (σ² = r² / (n − p) plugged in), lme4's REML deviance. */
   deviance: number
-  /** Present when asked for: β̂ (intercept on the original y scale) and (Xᵀ H⁻¹ X)⁻¹. */
+  /** True when a fixed column is (within rounding) a combination of the others: X has no full rank. */
+  collinear: boolean
+  /** Present when asked for: β̂ (on the original scale of every column) and (Xᵀ H⁻¹ X)⁻¹. */
   beta?: number[]
   xtHxInverse?: number[][]
 }
@@ -18,22 +21,30 @@ export interface NestedRemlEvaluation {
 const LOG_2PI = Math.log(2 * Math.PI)
 
 /**
- * Evaluates the REML criterion of a nested random-intercept model at variance ratios θ
- * (θ_l = σ_l² / σ², outermost level first), working from the innermost units outwards.
+ * Evaluates the REML criterion of the maximal nested random-intercept model at variance ratios θ
+ * (θ_t = σ_t² / σ², one per random term), working from the innermost units outwards.
  *
- * Each unit is summarised by (a, μ, scatter) such that its block of Mᵀ H⁻¹ M, with M the model
- * columns [1, X, y], equals W + a μ μᵀ (μ₀ = 1). For an innermost unit a = n / (1 + θ n) and μ
- * is the unit mean. A parent sums its children (A = Σ a_c, μ̄ = Σ a_c μ_c / A, and the
- * scatter Σ a_c (μ_c − μ̄)(μ_c − μ̄)ᵀ joins W), then the Sherman–Morrison update of its own
- * random intercept turns A into A / (1 + θ A) and adds log(1 + θ A) to log |H|. No step
- * subtracts large numbers, so precision holds on a million rows. At the top
- * Xᵀ H⁻¹ X = [[A, A μ̄ₓᵀ], [A μ̄ₓ, Wₓₓ + A μ̄ₓ μ̄ₓᵀ]], whence
+ * A unit U of a given level is split into cells by design cell. Its summary is (μ, B): with M the
+ * model columns [1, X, y] of U's rows and T the indicators of U's cells, U's block of
+ * Mᵀ H_U⁻¹ M equals W_U + μ B μᵀ, where B = Tᵀ Mᵀ H_U⁻¹ M T (q × q) and the columns of μ are the
+ * cells' generalised means (intercept entry 1); the rest W_U is a scatter that only ever adds up,
+ * so it is kept in one matrix W for the whole data. U's own random intercepts — the level's term
+ * and its level × factor terms — are sums of cell indicators, Z_U Ψ Z_Uᵀ with
+ * Ψ[κ][κ'] = θ_level + Σ_F θ_F [κ, κ' share F's labels]; Woodbury's identity turns B into
+ * B' = (B⁻¹ + Ψ)⁻¹ = L (I + Lᵀ Ψ L)⁻¹ Lᵀ (B = L Lᵀ) and adds log |I + Lᵀ Ψ L| to log |H|. A parent
+ * merges its children cell by cell (each child cell lies in one parent cell π):
+ * B_P = Σ Qᵀ B' Q, μ_P = (Σ μ B' Q) B_P⁻¹, and W gains Σ D B' Dᵀ with D = μ − μ_P Qᵀ — a sum of
+ * positive terms, so no step subtracts large numbers and precision holds on a million rows. With
+ * one cell per unit this is the scalar nested Sherman–Morrison recursion. At the top all units
+ * merge into one cell: Xᵀ H⁻¹ X = [[A, A μ̄ₓᵀ], [A μ̄ₓ, Wₓₓ + A μ̄ₓ μ̄ₓᵀ]], whence
  * log |Xᵀ H⁻¹ X| = log A + log |Wₓₓ| and r² = W_yy − W_yx Wₓₓ⁻¹ Wₓy.
  *
  * Criterion (Bates et al. 2015, J Stat Softw 67(1), eq. 42):
  *   d(θ) = log |H| + log |Xᵀ H⁻¹ X| + (n − p) (1 + log(2π r² / (n − p))).
+ * Woodbury: Henderson & Searle (1981), SIAM Review 23:53.
  *
- * Guard errors: none; a response with no residual variation gives r² = 0 and an infinite criterion.
+ * Guard errors: none; a response with no residual variation gives r² = 0 and an infinite
+ * criterion, and collinear fixed columns give a NaN log |Xᵀ H⁻¹ X|.
  *
  * @example
  * evaluateNestedReml(stats, [1.2]).deviance // Dyestuff at θ = 1.2 → a number near 319.7
@@ -43,74 +54,42 @@ export function evaluateNestedReml(
   theta: ArrayLike<number>,
   full = false,
 ): NestedRemlEvaluation {
-  const { m, p, nLevels: K, nObs } = stats
+  const { m, p, nObs, levels } = stats
+  const K = levels.length
   const W = Float64Array.from(stats.within)
-  let logDetH = 0
 
-  const nInner = stats.innerN.length
-  let a = new Float64Array(nInner)
-  let mu = stats.innerMean
-  const thInner = theta[K - 1]
-  for (let u = 0; u < nInner; u++) {
-    const n = stats.innerN[u]
-    a[u] = n / (1 + thInner * n)
-    logDetH += Math.log1p(thInner * n)
-  }
+  // Innermost level: B = diag(n) per unit, μ = cell means.
+  const inner = levels[K - 1]
+  let mu: Float64Array = stats.innerMean
+  let weights = diagonalBlocks(inner.cellStart, stats.innerN)
+  let logDetH = applyOwnTerms(inner, weights, theta)
 
-  const mean = new Float64Array(m)
-  let topA = 0
-  const topMean = new Float64Array(m)
   for (let l = K - 2; l >= -1; l--) {
-    const nParents = l >= 0 ? stats.nUnits[l] : 1
-    const start = l >= 0 ? stats.childStart[l] : null
-    const th = l >= 0 ? theta[l] : 0
-    const nextA = new Float64Array(nParents)
-    const nextMu = new Float64Array(nParents * m)
-    for (let q = 0; q < nParents; q++) {
-      const c0 = start ? start[q] : 0
-      const c1 = start ? start[q + 1] : a.length
-      let A = 0
-      mean.fill(0)
-      for (let c = c0; c < c1; c++) {
-        const ac = a[c]
-        A += ac
-        for (let j = 0; j < m; j++) mean[j] += ac * mu[c * m + j]
-      }
-      for (let j = 0; j < m; j++) mean[j] /= A
-      for (let c = c0; c < c1; c++) {
-        const ac = a[c]
-        for (let j = 0; j < m; j++) {
-          const dj = ac * (mu[c * m + j] - mean[j])
-          for (let k = 0; k <= j; k++) W[j * m + k] += dj * (mu[c * m + k] - mean[k])
-        }
-      }
-      if (l >= 0) {
-        nextA[q] = A / (1 + th * A)
-        logDetH += Math.log1p(th * A)
-        nextMu.set(mean, q * m)
-      } else {
-        topA = A
-        topMean.set(mean)
-      }
-    }
-    a = nextA
-    mu = nextMu
+    const child = levels[l + 1]
+    const parent = l >= 0 ? levels[l] : null
+    const merged = mergeChildren(child, parent, mu, weights, m, W)
+    mu = merged.mu
+    weights = merged.weights
+    if (parent) logDetH += applyOwnTerms(parent, weights, theta)
   }
-  // The loop filled the lower triangle only (the within matrix is symmetric from the start).
+  // Only the lower triangle of W was added to: mirror it.
   for (let j = 0; j < m; j++) for (let k = 0; k < j; k++) W[k * m + j] = W[j * m + k]
 
+  const topA = weights.blocks[0]
+  const topMean = mu.subarray(0, m)
   // Cholesky of W; its last pivot squared is the Schur complement r².
   const L = new Float64Array(m * m)
   let logDetWxx = 0
   let r2 = NaN
+  let collinear = false
   for (let j = 0; j < m; j++) {
     let s = W[j * m + j]
     for (let k = 0; k < j; k++) s -= L[j * m + k] * L[j * m + k]
     if (j === m - 1) {
       r2 = s
-      L[j * m + j] = Math.sqrt(Math.max(s, 0))
       break
     }
+    if (!(s > 1e-10 * W[j * m + j])) collinear = true
     const d = Math.sqrt(s)
     L[j * m + j] = d
     logDetWxx += 2 * Math.log(d)
@@ -123,18 +102,192 @@ export function evaluateNestedReml(
   const logDetXtHX = Math.log(topA) + logDetWxx
   const dfRes = nObs - p
   const deviance = logDetH + logDetXtHX + dfRes * (1 + LOG_2PI + Math.log(r2 / dfRes))
-  const result: NestedRemlEvaluation = { logDetH, logDetXtHX, r2, deviance }
+  const result: NestedRemlEvaluation = { logDetH, logDetXtHX, r2, deviance, collinear }
   if (full) Object.assign(result, fixedEffects(W, m, topA, topMean, stats.shift))
   return result
 }
 
+/** The B matrices of every unit of a level, q_u × q_u each, stored one after another. */
+interface Blocks {
+  /** blocks[offset[u] …] holds unit u's matrix, row-major. */
+  offset: Int32Array
+  blocks: Float64Array
+}
+
+function diagonalBlocks(cellStart: Int32Array, n: Float64Array): Blocks {
+  const nUnits = cellStart.length - 1
+  const offset = new Int32Array(nUnits + 1)
+  for (let u = 0; u < nUnits; u++) {
+    const q = cellStart[u + 1] - cellStart[u]
+    offset[u + 1] = offset[u] + q * q
+  }
+  const blocks = new Float64Array(offset[nUnits])
+  for (let u = 0; u < nUnits; u++) {
+    const c0 = cellStart[u]
+    const q = cellStart[u + 1] - c0
+    for (let a = 0; a < q; a++) blocks[offset[u] + a * q + a] = n[c0 + a]
+  }
+  return { offset, blocks }
+}
+
+/**
+ * Replaces each unit's B by (B⁻¹ + Ψ)⁻¹ for the level's own random terms and returns the sum of
+ * log |I + Lᵀ Ψ L| over the units.
+ */
+function applyOwnTerms(level: { cellStart: Int32Array; cellDesign: Int32Array; terms: { theta: number; groupOfCell: Int32Array }[] }, weights: Blocks, theta: ArrayLike<number>): number {
+  const { cellStart, cellDesign, terms } = level
+  const nUnits = cellStart.length - 1
+  let logDet = 0
+  for (let u = 0; u < nUnits; u++) {
+    const c0 = cellStart[u]
+    const q = cellStart[u + 1] - c0
+    const at = weights.offset[u]
+    if (q === 1) {
+      let psi = 0
+      for (const t of terms) psi += theta[t.theta]
+      const b = weights.blocks[at]
+      weights.blocks[at] = b / (1 + psi * b)
+      logDet += Math.log1p(psi * b)
+      continue
+    }
+    const psi = new Float64Array(q * q)
+    for (const t of terms) {
+      const th = theta[t.theta]
+      if (th === 0) continue
+      for (let a = 0; a < q; a++) {
+        const ga = t.groupOfCell[cellDesign[c0 + a]]
+        for (let b = 0; b < q; b++) if (t.groupOfCell[cellDesign[c0 + b]] === ga) psi[a * q + b] += th
+      }
+    }
+    const B = weights.blocks.subarray(at, at + q * q)
+    const Lb = cholesky(B, q)
+    // M = I + Lᵀ Ψ L
+    const PL = new Float64Array(q * q)
+    for (let a = 0; a < q; a++)
+      for (let b = 0; b < q; b++) {
+        let s = 0
+        for (let k = b; k < q; k++) s += psi[a * q + k] * Lb[k * q + b]
+        PL[a * q + b] = s
+      }
+    const M = new Float64Array(q * q)
+    for (let a = 0; a < q; a++)
+      for (let b = 0; b <= a; b++) {
+        let s = a === b ? 1 : 0
+        for (let k = a; k < q; k++) s += Lb[k * q + a] * PL[k * q + b]
+        M[a * q + b] = s
+        M[b * q + a] = s
+      }
+    const R = cholesky(M, q)
+    for (let a = 0; a < q; a++) logDet += 2 * Math.log(R[a * q + a])
+    // B' = L M⁻¹ Lᵀ: solve M X = Lᵀ, then B' = L X.
+    const Lt = new Float64Array(q * q)
+    for (let a = 0; a < q; a++) for (let b = 0; b < q; b++) Lt[a * q + b] = Lb[b * q + a]
+    const X = solveCholesky(R, q, Lt, q)
+    for (let a = 0; a < q; a++)
+      for (let b = 0; b < q; b++) {
+        let s = 0
+        for (let k = 0; k <= a; k++) s += Lb[a * q + k] * X[k * q + b]
+        B[a * q + b] = s
+      }
+    for (let a = 0; a < q; a++)
+      for (let b = 0; b < a; b++) {
+        const s = 0.5 * (B[a * q + b] + B[b * q + a])
+        B[a * q + b] = s
+        B[b * q + a] = s
+      }
+  }
+  return logDet
+}
+
+/**
+ * Merges the cells of every child unit into its parent unit's cells (or, at the top, all
+ * outermost units into one cell): the parents' B and μ, and the children's spread around them
+ * added to W (lower triangle).
+ */
+function mergeChildren(
+  child: { nUnits: number; cellStart: Int32Array; parentCell: Int32Array },
+  parent: { nUnits: number; cellStart: Int32Array; childStart: Int32Array | null } | null,
+  mu: Float64Array,
+  weights: Blocks,
+  m: number,
+  W: Float64Array,
+): { mu: Float64Array; weights: Blocks } {
+  const nParents = parent ? parent.nUnits : 1
+  const pCellStart = parent ? parent.cellStart : Int32Array.from([0, 1])
+  const nParentCells = pCellStart[nParents]
+  const offset = new Int32Array(nParents + 1)
+  for (let u = 0; u < nParents; u++) {
+    const q = pCellStart[u + 1] - pCellStart[u]
+    offset[u + 1] = offset[u] + q * q
+  }
+  const blocks = new Float64Array(offset[nParents])
+  const muP = new Float64Array(nParentCells * m)
+  const d = new Float64Array(m)
+  const e = new Float64Array(m)
+
+  for (let u = 0; u < nParents; u++) {
+    const u0 = parent ? parent.childStart![u] : 0
+    const u1 = parent ? parent.childStart![u + 1] : child.nUnits
+    const p0 = pCellStart[u]
+    const qP = pCellStart[u + 1] - p0
+    const BP = blocks.subarray(offset[u], offset[u] + qP * qP)
+    const G = new Float64Array(qP * m)
+    for (let c = u0; c < u1; c++) {
+      const k0 = child.cellStart[c]
+      const q = child.cellStart[c + 1] - k0
+      const at = weights.offset[c]
+      for (let a = 0; a < q; a++) {
+        const pa = child.parentCell[k0 + a] - (parent ? p0 : 0)
+        for (let b = 0; b < q; b++) {
+          const w = weights.blocks[at + a * q + b]
+          const pb = child.parentCell[k0 + b] - (parent ? p0 : 0)
+          BP[pa * qP + pb] += w
+          const src = (k0 + a) * m
+          for (let j = 0; j < m; j++) G[pb * m + j] += w * mu[src + j]
+        }
+      }
+    }
+    // μ_P = G B_P⁻¹ (row per parent cell here, as G is stored transposed).
+    const means = qP === 1 ? G.map((g) => g / BP[0]) : solveCholesky(cholesky(BP, qP), qP, G, m)
+    muP.set(means, p0 * m)
+    for (let c = u0; c < u1; c++) {
+      const k0 = child.cellStart[c]
+      const q = child.cellStart[c + 1] - k0
+      const at = weights.offset[c]
+      for (let a = 0; a < q; a++) {
+        const pa = child.parentCell[k0 + a] - (parent ? p0 : 0)
+        for (let j = 0; j < m; j++) d[j] = mu[(k0 + a) * m + j] - means[pa * m + j]
+        for (let b = 0; b < q; b++) {
+          const w = weights.blocks[at + a * q + b]
+          if (w === 0) continue
+          if (b === a) {
+            for (let j = 0; j < m; j++) {
+              const dj = w * d[j]
+              for (let k = 0; k <= j; k++) W[j * m + k] += dj * d[k]
+            }
+          } else {
+            const pb = child.parentCell[k0 + b] - (parent ? p0 : 0)
+            for (let j = 0; j < m; j++) e[j] = mu[(k0 + b) * m + j] - means[pb * m + j]
+            for (let j = 0; j < m; j++) {
+              const dj = w * d[j]
+              for (let k = 0; k <= j; k++) W[j * m + k] += dj * e[k]
+            }
+          }
+        }
+      }
+    }
+  }
+  return { mu: muP, weights: { offset, blocks } }
+}
+
 /** β̂ and (XᵀH⁻¹X)⁻¹ from the top-level summaries, by the block inverse around the intercept. */
-function fixedEffects(W: Float64Array, m: number, A: number, topMean: Float64Array, shift: number) {
+function fixedEffects(W: Float64Array, m: number, A: number, centredMean: Float64Array, shift: Float64Array) {
   const px = m - 1
+  const topMean = Array.from({ length: m }, (_, j) => centredMean[j] + shift[j])
   const Winv = invertSpd(W, m, px)
   const b = new Array<number>(px).fill(0)
   for (let j = 0; j < px; j++) for (let k = 0; k < px; k++) b[j] += Winv[j][k] * W[k * m + px]
-  let b0 = topMean[px] + shift
+  let b0 = topMean[px]
   for (let j = 0; j < px; j++) b0 -= topMean[j] * b[j]
 
   const wm = new Array<number>(px).fill(0)

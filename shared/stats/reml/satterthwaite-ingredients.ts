@@ -40,7 +40,7 @@ export function satterthwaiteIngredients(design: NestedDesign, fit: NestedFit): 
   const hit = cache.get(fit)
   if (hit) return hit
   const stats = nestedSufficientStats(design)
-  const K = stats.nLevels
+  const K = stats.nTheta
   const dfRes = stats.nObs - stats.p
   const free = fit.theta.flatMap((t, l) => (t > 0 ? [l] : []))
   const x0 = [...free.map((l) => Math.log(fit.theta[l] * fit.sigma2)), Math.log(fit.sigma2)]
@@ -75,7 +75,7 @@ export function satterthwaiteIngredients(design: NestedDesign, fit: NestedFit): 
   })
   const p = stats.p
   const result: SatterthwaiteIngredients = {
-    parameters: [...free.map((l) => design.randomLevels[l].name), 'residual'],
+    parameters: [...free.map((t) => design.terms[t].name), 'residual'],
     covariance,
     jacobians: jacobian!.map((flat) => Array.from({ length: p }, (_, r) => flat.slice(r * p, (r + 1) * p))),
   }

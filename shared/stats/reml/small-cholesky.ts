@@ -1,0 +1,47 @@
+/**
+ * Cholesky factor L (lower triangular, row-major) of a small symmetric positive definite n × n
+ * matrix given row-major. A non-positive pivot gives NaN entries (callers check the result).
+ *
+ * Source: Golub & Van Loan (2013), Matrix Computations, 4th ed., algorithm 4.2.1.
+ *
+ * @example
+ * cholesky(Float64Array.from([4, 2, 2, 5]), 2) // → [2, 0, 1, 2]
+ */
+export function cholesky(A: ArrayLike<number>, n: number): Float64Array {
+  const L = new Float64Array(n * n)
+  for (let j = 0; j < n; j++) {
+    let s = A[j * n + j]
+    for (let k = 0; k < j; k++) s -= L[j * n + k] * L[j * n + k]
+    const d = Math.sqrt(s)
+    L[j * n + j] = d
+    for (let i = j + 1; i < n; i++) {
+      let t = A[i * n + j]
+      for (let k = 0; k < j; k++) t -= L[i * n + k] * L[j * n + k]
+      L[i * n + j] = t / d
+    }
+  }
+  return L
+}
+
+/**
+ * Solves (L Lᵀ) X = R for X, with L from `cholesky` and R an n × r row-major right-hand side.
+ *
+ * @example
+ * solveCholesky(cholesky(Float64Array.from([4, 2, 2, 5]), 2), 2, Float64Array.from([2, 3]), 1) // → [0.25, 0.5]
+ */
+export function solveCholesky(L: Float64Array, n: number, R: ArrayLike<number>, r: number): Float64Array {
+  const X = Float64Array.from(R as ArrayLike<number>)
+  for (let c = 0; c < r; c++) {
+    for (let i = 0; i < n; i++) {
+      let t = X[i * r + c]
+      for (let k = 0; k < i; k++) t -= L[i * n + k] * X[k * r + c]
+      X[i * r + c] = t / L[i * n + i]
+    }
+    for (let i = n - 1; i >= 0; i--) {
+      let t = X[i * r + c]
+      for (let k = i + 1; k < n; k++) t -= L[k * n + i] * X[k * r + c]
+      X[i * r + c] = t / L[i * n + i]
+    }
+  }
+  return X
+}
