@@ -9,6 +9,7 @@ import { machines } from '../stats/fixtures/machines'
 import { nestedColumnsFromTable } from '../stats/fixtures/nested-columns-from-table'
 import { oxide } from '../stats/fixtures/oxide'
 import { pastes } from '../stats/fixtures/pastes'
+import { simulateNestedTable } from '../stats/fixtures/simulate-nested-table'
 
 const codes = (result: AnalysisResult) => result.warnings.map((w) => w.code)
 
@@ -186,14 +187,20 @@ describe('analyzeNested on public data sets', () => {
     expect(result.balancedAnova?.maxDifferenceToReml).toBeLessThan(1e-6)
   })
 
-  it('Machines: condition within workers adds the worker × condition level; no unit-means test', () => {
+  it('Machines: condition within workers adds the worker × machine term; no unit-means test', () => {
     // Machines (Milliken & Johnson 1992): lmerTest anova (Satterthwaite) F = 20.576 on 2 and 10 df (see omnibus-f.ts).
     const result = analyzeNested(nestedColumnsFromTable(machines, 'score', ['Worker'], 'Machine'))
     expect(() => AnalysisResult.parse(result)).not.toThrow()
-    expect(result.varianceComponents.map((c) => c.level)).toEqual(['Worker', 'Worker:condition', 'residual'])
+    expect(result.varianceComponents.map((c) => c.level)).toEqual(['Worker', 'Worker:Machine', 'residual'])
+    expect(result.model!.formula).toBe('score ~ Machine + (1|Worker) + (1|Worker:Machine)')
     expect(result.conditionLevel).toBeNull()
     expect(result.levels.map((l) => l.name)).toEqual(['Worker'])
-    expect(result.icc.map((i) => i.level)).toEqual(['Worker', 'Worker:condition'])
+    expect(result.icc.map((i) => i.level)).toEqual(['Worker', 'Worker:Machine'])
+    // lme4 VarCorr: Worker:Machine 13.909 → the machine effect differs between workers by √(2 · 13.909) = 5.27.
+    expect(result.effectVariation).toEqual([
+      expect.objectContaining({ term: 'Worker:Machine', level: 'Worker', factor: 'Machine', nUnits: 6 }),
+    ])
+    expect(result.effectVariation![0].effectSd).toBeCloseTo(Math.sqrt(2 * 13.909), 2)
     const omnibus = result.comparisons.mixedModel!.omnibus!
     expect(omnibus.f).toBeCloseTo(20.576, 3)
     expect(omnibus.df1).toBe(2)
@@ -293,7 +300,7 @@ describe('analyzeNested with three conditions between animals (invented data)', 
 
   it('honours the reference condition', () => {
     const other = analyzeNested(nestedColumnsFromTable(table, 'length', ['animal'], 'dose'), {
-      reference: '10 µM',
+      reference: { dose: '10 µM' },
     })
     expect(other.reference).toBe('10 µM')
     expect(other.comparisons.mixedModel!.contrasts[0]).toMatchObject({ a: '0 µM', b: '10 µM' })
@@ -379,7 +386,7 @@ describe('analyzeNested warnings and guards', () => {
     expect(() => analyzeNested(nestedColumnsFromTable(flat, 'length', ['animal']))).toThrow(EngineInputError)
     expect(() =>
       analyzeNested(nestedColumnsFromTable(sixAnimals, 'length', ['animal'], 'treatment'), {
-        reference: 'saline',
+        reference: { treatment: 'saline' },
       }),
     ).toThrow(/saline/)
   })
@@ -397,5 +404,138 @@ describe('analyzeNested beforeBootstrap (common practice, no source)', () => {
     })
     expect(calls).toBe(1)
     expect(result.comparisons.bootstrap?.resamples).toBe(100)
+  })
+})
+
+describe('analyzeNested with two factors and a covariate (invented data)', () => {
+  // Invented: 5 labs; genotype carried by the mice, treatment on two coverslips of each mouse,
+  // soma size per neuron. Checked against lmerTest live in tests/reference; here: the shape.
+  const table = simulateNestedTable({
+    seed: 'analysis-two-factors',
+    labs: 5,
+    animals: [4, 6],
+    cells: [3, 8],
+    sd: { lab: 1, labCondition: 0.6, animal: 0.7, animalCondition: 0.4, residual: 1.5 },
+    conditions: ['vehicle', 'KX-9'],
+    means: [20, 21],
+    conditionAt: 'within',
+    genotype: { labels: ['WT', 'KO'], effects: [0, -1.2], interaction: 0.8 },
+    somaSlope: 0.05,
+  })
+  const result = analyzeNested(
+    nestedColumnsFromTable(table, 'length', ['lab', 'animal'], ['genotype', 'condition'], ['soma']),
+  )
+  const mixed = result.comparisons.mixedModel!
+
+  it('matches the result schema and names the model in lme4 notation', () => {
+    expect(() => AnalysisResult.parse(result)).not.toThrow()
+    expect(result.model!.formula).toBe(
+      'length ~ genotype * condition + soma + (1|lab) + (1|lab:genotype) + (1|lab:condition) + (1|lab:genotype:condition) + (1|lab:animal) + (1|lab:animal:condition)',
+    )
+    expect(result.condition).toBe('genotype:condition')
+    expect(result.reference).toBe('WT:vehicle')
+    expect(result.factors!.map((f) => [f.name, f.level])).toEqual([
+      ['genotype', 'animal'],
+      ['condition', null],
+    ])
+    expect(result.covariates).toEqual([expect.objectContaining({ name: 'soma', level: null })])
+  })
+
+  it('names the coefficients as the contract says', () => {
+    expect(mixed.coefficients!.map((c) => [c.term, c.level])).toEqual([
+      ['(intercept)', null],
+      ['genotype', 'KO'],
+      ['condition', 'KX-9'],
+      ['soma', null],
+      ['genotype:condition', 'KO:KX-9'],
+    ])
+    expect(mixed.terms!.map((t) => [t.term, t.df1])).toEqual([
+      ['genotype', 1],
+      ['condition', 1],
+      ['soma', 1],
+      ['genotype:condition', 1],
+    ])
+    // A one-df term's F is the square of its coefficient's t (the interaction and the slope).
+    for (const name of ['soma', 'genotype:condition']) {
+      const term = mixed.terms!.find((t) => t.term === name)!
+      const coefficient = mixed.coefficients!.find((c) => c.term === name)!
+      expect(term.f / coefficient.t ** 2).toBeCloseTo(1, 8)
+    }
+  })
+
+  it('reports design cells, their pairwise contrasts and the simple effects', () => {
+    expect(result.groups.map((g) => g.condition)).toEqual(['WT:vehicle', 'WT:KX-9', 'KO:vehicle', 'KO:KX-9'])
+    expect(result.groups[3].factorLevels).toEqual({ genotype: 'KO', condition: 'KX-9' })
+    expect(mixed.contrasts).toHaveLength(6)
+    expect(mixed.omnibus).toBeNull()
+    expect(mixed.simpleEffects!.map((e) => `${e.factor}@${e.at.level}`)).toEqual([
+      'genotype@vehicle',
+      'genotype@KX-9',
+      'condition@WT',
+      'condition@KO',
+    ])
+    const inWt = mixed.simpleEffects!.find((e) => e.factor === 'condition' && e.at.level === 'WT')!
+    const cell = mixed.contrasts.find((c) => c.a === 'WT:KX-9' && c.b === 'WT:vehicle')!
+    expect(inWt.contrasts[0].estimate).toBeCloseTo(cell.estimate, 10)
+    expect(inWt.test.f).toBeCloseTo(inWt.contrasts[0].t ** 2, 8)
+  })
+
+  it('has no unit level carrying one cell, and a naive least-squares fit', () => {
+    expect(result.conditionLevel).toBeNull()
+    expect(result.comparisons.unitMeans).toBeNull()
+    expect(codes(result)).toContain('UNIT_MEANS_UNAVAILABLE')
+    expect(result.comparisons.naive).toMatchObject({ method: 'linear-model' })
+    expect(result.headline!.label).toBe('KO − WT (averaged over condition)')
+  })
+})
+
+describe('analyzeNested: design effect per comparison (Kish 1965, the ratio definition)', () => {
+  it('equals 1 + (m − 1)·ICC for the mean of balanced two-level data (Dyestuff, 6 batches × 5)', () => {
+    const result = analyzeNested(nestedColumnsFromTable(dyestuff, 'Yield', ['Batch']))
+    expect(result.headline!.label).toBe('mean')
+    expect(result.designEffect).toBeCloseTo(1 + 4 * result.icc[0].icc, 10)
+    expect(result.designEffect).toBeCloseTo(result.designEffectKish, 10)
+    expect(result.effectiveN).toBeCloseTo(30 / result.designEffect, 10)
+  })
+
+  it('leaves a lab variance that cancels out of a within-lab comparison out of its design effect', () => {
+    // Invented: large lab differences, treatment between mice inside each lab.
+    const table = simulateNestedTable({
+      seed: 'cancelling-lab',
+      labs: 6,
+      animals: [6, 6],
+      cells: [20, 20],
+      sd: { lab: 8, labCondition: 0, animal: 0.5, residual: 1 },
+      conditions: ['vehicle', 'KX-9'],
+      means: [20, 21],
+      conditionAt: 'animal',
+    })
+    const result = analyzeNested(nestedColumnsFromTable(table, 'length', ['lab', 'animal'], 'condition'))
+    const contrast = result.comparisons.mixedModel!.contrasts[0]
+    expect(result.designEffect).toBe(contrast.designEffect)
+    // The table's design effect for the plain mean carries the lab variance; the comparison's does not.
+    expect(result.designEffectKish).toBeGreaterThan(50)
+    expect(contrast.designEffect!).toBeLessThan(10)
+    expect(contrast.effectiveN!).toBeCloseTo(result.nObs / contrast.designEffect!, 8)
+  })
+
+  it('warns when a lab × condition variance rests on fewer than 5 labs', () => {
+    const table = simulateNestedTable({
+      seed: 'four-labs',
+      labs: 4,
+      animals: [6, 8],
+      cells: [10, 20],
+      sd: { lab: 1, labCondition: 1.5, animal: 0.5, residual: 1 },
+      conditions: ['vehicle', 'KX-9'],
+      means: [20, 21],
+      conditionAt: 'animal',
+    })
+    const result = analyzeNested(nestedColumnsFromTable(table, 'length', ['lab', 'animal'], 'condition'))
+    expect(result.model!.random.map((t) => t.name)).toEqual(['lab', 'lab:condition', 'animal'])
+    expect(codes(result)).toContain('LEVEL_EFFECT_FEW_UNITS')
+    const warning = result.warnings.find((w) => w.code === 'LEVEL_EFFECT_FEW_UNITS')!
+    expect(warning.message).toMatch(/only 4 lab units/)
+    // With the lab × condition variance in the model the comparison has about labs − 1 df, not mice − labs.
+    expect(result.comparisons.mixedModel!.contrasts[0].df).toBeLessThan(6)
   })
 })

@@ -1,23 +1,35 @@
-import type { AnalysisResult, BalancedAnovaCheck, LevelIcc } from '../schemas/analysis-result'
+import type {
+  AnalysisResult,
+  BalancedAnovaCheck,
+  HeadlineQuantity,
+  MixedModelContrast,
+} from '../schemas/analysis-result'
 import { anovaNestedBalanced } from '../stats/anova-nested-balanced'
+import { cellMeanRow, cellMeans } from '../stats/cell-means'
+import { contrastDesignEffect } from '../stats/contrast-design-effect'
+import { ENGINE_VERSION } from '../stats/engine-version'
+import { fitNestedReml } from '../stats/fit-nested-reml'
+import { fixedCoefficients } from '../stats/fixed-coefficients'
+import { fixedTermTests } from '../stats/fixed-term-tests'
+import { modelFormula } from '../stats/model-formula'
+import { nestedDesignEffect } from '../stats/nested-design-effect'
+import { observationsPerUnit } from '../stats/observations-per-unit'
+import { oneWayAnova } from '../stats/one-way-anova'
+import { pairwiseContrasts, type PairwiseContrast } from '../stats/pairwise-contrasts'
+import { prepareNestedDesign } from '../stats/prepare-nested-design'
+import { simpleEffects } from '../stats/simple-effects'
+import { typeThreeHypotheses } from '../stats/type-three-hypotheses'
+import type { NestedColumns, NestedDesign, NestedFit } from '../stats/types'
+import { unitSizeSummary } from '../stats/unit-size-summary'
 import { bootstrapForResult } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
 import { compareUnitMeans } from './compare-unit-means'
-import { ENGINE_VERSION } from '../stats/engine-version'
-import { fitNestedReml } from '../stats/fit-nested-reml'
 import { naiveComparison } from './naive-comparison'
-import { nestedDesignEffect } from '../stats/nested-design-effect'
-import { observationsPerUnit } from '../stats/observations-per-unit'
-import { omnibusF } from '../stats/omnibus-f'
-import { oneWayAnova } from '../stats/one-way-anova'
-import { pairwiseContrasts } from '../stats/pairwise-contrasts'
-import { prepareNestedDesign } from '../stats/prepare-nested-design'
 import { summariseConditions } from './summarise-conditions'
-import type { NestedColumns, NestedDesign, NestedFit } from '../stats/types'
-import { unitSizeSummary } from '../stats/unit-size-summary'
+import { effectVariation, termGroupSizes, termIccs } from './term-summaries'
 
 export interface AnalyzeNestedOptions {
-  /** Reference condition of the model coding; default the first condition label. */
+  /** Reference level per condition column; a column left out uses its first label. */
   reference?: Record<string, string>
   /** Adds a seeded hierarchical bootstrap (at least 100 resamples). */
   bootstrap?: { resamples: number; seed: string } | null
@@ -32,85 +44,114 @@ const MAX_LABEL_EXAMPLES = 5
 
 /**
  * The whole analysis of one nested data set, as the result document the app and the command
- * line show: the REML fit of the nested random-intercept model, variance components with their
- * shares, ICC per level, design effect and effective n, naive and cluster-correct means per
- * condition, the comparisons (mixed-model contrasts with Satterthwaite df and Holm-adjusted p,
- * omnibus F, the test on unit means, the naive test, optionally the hierarchical bootstrap),
- * the balanced-ANOVA cross-check, and warnings.
+ * line show: the REML fit of the maximal nested model (every level × condition term the design
+ * calls for, up to two factors as A * B, covariates), variance components with their shares, ICC
+ * per term, the model in lme4 notation, cell means (naive and cluster-correct), coefficients,
+ * type III term tests, pairwise contrasts with Holm-adjusted p and their design effects, simple
+ * effects, how much each effect differs between units of a level, the test on unit means, the
+ * naive test, optionally the hierarchical bootstrap, the balanced-ANOVA cross-check, and warnings.
  *
  * Definitions (see the functions called for sources):
- * - share_l = σ_l² / (Σ_l σ_l² + σ²); ICC at level l = Σ of the shares at level l and above
- *   (correlation of two observations sharing the unit at level l).
- * - design effect = 1 + Σ_l ((cv_l² + 1) m̄_l − 1) share_l over the random levels (Eldridge,
- *   Ashby & Kerry 2006, summed per level); Kish's version sets cv_l = 0. Effective n = N / deff.
- * - ICC interval: F-based one-way interval (Searle 1971; Lessells & Boag 1987) when the design
- *   has a single random level and no condition; otherwise null.
- * - Unit-means test at the condition level (null, with a warning, when no level carries a
- *   single condition); the naive test is Welch for two conditions, a one-way ANOVA on all
- *   observations for three or more. Without a condition: one group "all", no comparisons.
+ * - share_t = σ_t² / total; ICC of a term = Σ of the shares of the terms whose groups contain
+ *   its groups (correlation of two observations that share its group).
+ * - design effect of a quantity lᵀβ = its variance under the model / its variance if all
+ *   observations were independent (Kish 1965); effective n = its observations / that ratio.
+ *   The headline (designEffect, effectiveN) is that of the first comparison of the first factor
+ *   (averaged over the second factor's labels), or of the mean without a condition.
+ *   designEffectKish and designEffectTerms describe the mean of all observations.
+ * - Unit-means test at the outermost level whose units each hold one design cell (null, with a
+ *   warning, when none does); the naive test is Welch / one-way ANOVA for one factor, least
+ *   squares with the model's terms for two factors or covariates.
  *
- * Guard errors (EngineInputError, from the parts): no level, fewer than 2 outermost units,
- * levels that cannot be told apart, a response with no variation, a condition with one label
- * or with fewer than 2 observations, an unknown reference, fewer than 100 bootstrap resamples.
+ * Guard errors (EngineInputError): those of prepareNestedDesign and fitNestedReml (thin, confounded
+ * or constant input, an unknown reference), a cell with fewer than 2 observations, fewer than 100
+ * bootstrap resamples.
  *
  * @example
  * analyzeNested(columns, { reference: { treatment: 'vehicle' } })
- * // → { nObs: 960, varianceComponents: [{ level: 'lab', variance: 48.1, share: 0.07 }, …],
- * //     designEffect: 5.2, effectiveN: 184.6, groups: [...], comparisons: {...}, warnings: [...] }
+ * // → { nObs: 960, model: { formula: 'length ~ treatment + (1|lab) + (1|lab:treatment) + (1|lab:animal)', … },
+ * //     designEffect: 3.1, effectiveN: 309.7, headline: { label: 'KX-9 − vehicle', … }, groups: [...], … }
  */
 export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOptions = {}): AnalysisResult {
-  const design = prepareNestedDesign(
-    columns,
-    columns.factors?.[0] && options.reference?.[columns.factors[0].name] !== undefined
-      ? { reference: options.reference[columns.factors[0].name] }
-      : {},
-  )
+  const design = prepareNestedDesign(columns, options.reference ? { reference: options.reference } : {})
   const fit = fitNestedReml(design)
 
   const total = fit.components.reduce((sum, c) => sum + c.variance, 0)
   const shares = fit.components.map((c) => clamp01(c.variance / total))
   const randomShares = shares.slice(0, -1)
-  const unitSizes = design.randomLevels.map((level) => observationsPerUnit(level))
-
-  const deff = nestedDesignEffect(
-    design.randomLevels.map((_, l) => ({ unitSizes: unitSizes[l], share: randomShares[l] })),
+  const termSizes = design.terms.map((term) => termGroupSizes(design, term))
+  const tableDeff = nestedDesignEffect(
+    termSizes.map((unitSizes, t) => ({ unitSizes, share: randomShares[t] })),
   )
-  const designEffectTerms = design.randomLevels.map((level, l) => ({
-    level: level.name,
-    meanUnitSize: deff.terms[l].meanSize,
-    unitSizeCv: deff.terms[l].cv,
-    share: randomShares[l],
-    term: deff.terms[l].term,
-  }))
-  const designEffectKish = 1 + deff.terms.reduce((sum, t, l) => sum + (t.meanSize - 1) * randomShares[l], 0)
 
-  const groups = summariseConditions(design, fit, randomShares, CONFIDENCE)
-  const contrasts = pairwiseContrasts(design, fit)
+  const means = cellMeans(design, fit, CONFIDENCE)
+  const groups = summariseConditions(design, fit, means, CONFIDENCE)
+  const pairs = pairwiseContrasts(design, fit, CONFIDENCE)
+  const contrasts = pairs.map((pair) => withDesignEffect(design, fit, pair))
   const firstPair = contrasts.length > 0 ? { a: contrasts[0].a, b: contrasts[0].b } : null
+  const terms = fixedTermTests(design, fit)
   const unitMeans = compareUnitMeans(design, firstPair)
-  const naive = naiveComparison(design, firstPair)
+  const naive = naiveComparison(design, firstPair, hypothesesFor(design))
+  const headline = headlineQuantity(design, fit, contrasts)
   let bootstrap = null
   if (options.bootstrap) {
     options.beforeBootstrap?.()
-    bootstrap = bootstrapForResult(design, contrasts, { ...options.bootstrap, confidence: CONFIDENCE })
+    bootstrap = bootstrapForResult(
+      {
+        y: design.y,
+        randomLevels: design.randomLevels,
+        condition:
+          design.factors.length > 0 ? { labels: design.cells.labels, codes: design.cells.codes } : null,
+      },
+      contrasts,
+      { ...options.bootstrap, confidence: CONFIDENCE },
+    )
   }
 
-  const givenLevels = design.randomLevels.filter((level) => !level.inserted)
+  const levelSizes = design.randomLevels.map((level) => observationsPerUnit(level))
+  const cellLevel = design.cellLevel >= 0 ? design.randomLevels[design.cellLevel].name : null
+  const conditionName = design.factors.length > 0 ? design.factors.map((f) => f.name).join(':') : null
+  const variation = effectVariation(
+    design,
+    fit.components.map((c) => c.variance),
+  )
   const result: AnalysisResult = {
     nObs: design.nObs,
     nDropped: design.nDropped,
     response: design.responseName,
-    condition: design.condition?.name ?? null,
-    reference: design.condition?.reference ?? null,
-    conditionLevel: design.conditionLevel,
-    levels: givenLevels.map((level, l) => {
-      const { meanSize, cv } = unitSizeSummary(unitSizes[l], 'analyzeNested')
+    condition: conditionName,
+    reference: design.factors.length > 0 ? design.factors.map((f) => f.reference).join(':') : null,
+    conditionLevel: cellLevel,
+    factors: design.factors.map((f) => ({
+      name: f.name,
+      labels: f.labels,
+      reference: f.reference,
+      level: f.carrier >= 0 ? design.randomLevels[f.carrier].name : null,
+    })),
+    covariates: design.covariates.map((c) => ({
+      name: c.name,
+      mean: c.mean,
+      sd: c.sd,
+      level: c.constantWithin >= 0 ? design.randomLevels[c.constantWithin].name : null,
+    })),
+    model: {
+      formula: modelFormula(design),
+      random: design.terms.map((term) => ({
+        name: term.name,
+        level: design.randomLevels[term.level].name,
+        factor: term.factors.length > 0 ? term.factors.map((f) => design.factors[f].name).join(':') : null,
+        nGroups: term.nGroups,
+      })),
+      skipped: design.skippedTerms,
+    },
+    levels: design.randomLevels.map((level, l) => {
+      const { meanSize, cv } = unitSizeSummary(levelSizes[l], 'analyzeNested')
       return {
         name: level.name,
         nUnits: level.nUnits,
-        minUnitSize: unitSizes[l].reduce((min, size) => Math.min(min, size), Infinity),
+        minUnitSize: levelSizes[l].reduce((min, size) => Math.min(min, size), Infinity),
         meanUnitSize: meanSize,
-        maxUnitSize: unitSizes[l].reduce((max, size) => Math.max(max, size), 0),
+        maxUnitSize: levelSizes[l].reduce((max, size) => Math.max(max, size), 0),
         unitSizeCv: cv,
       }
     }),
@@ -124,17 +165,36 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
       variance: c.variance,
       share: shares[i],
     })),
-    icc: levelIccs(design, randomShares),
+    effectVariation: variation,
+    icc: termIccs(design, randomShares, oneWayIccInterval(design)),
     singular: fit.singular,
     converged: fit.converged,
     remlCriterion: fit.remlCriterion,
-    designEffect: deff.deff,
-    designEffectKish,
-    designEffectTerms,
-    effectiveN: design.nObs / deff.deff,
+    designEffect: headline.designEffect,
+    designEffectKish: 1 + tableDeff.terms.reduce((sum, t, i) => sum + (t.meanSize - 1) * randomShares[i], 0),
+    designEffectTerms: design.terms.map((term, t) => ({
+      level: term.name,
+      meanUnitSize: tableDeff.terms[t].meanSize,
+      unitSizeCv: tableDeff.terms[t].cv,
+      share: randomShares[t],
+      term: tableDeff.terms[t].term,
+    })),
+    effectiveN: headline.effectiveN,
+    headline,
     groups,
     comparisons: {
-      mixedModel: design.condition ? { omnibus: omnibusF(design, fit), contrasts } : null,
+      mixedModel:
+        design.fixed.terms.length > 0
+          ? {
+              omnibus: omnibusOf(design, terms),
+              contrasts,
+              coefficients: fixedCoefficients(design, fit),
+              terms: terms.map(({ term, f, df1, df2, p }) => ({ term, df1, df2, f, p })),
+              ...(design.factors.length === 2
+                ? { simpleEffects: simpleEffects(design, fit, CONFIDENCE) }
+                : {}),
+            }
+          : null,
       unitMeans: unitMeans.test,
       naive,
       bootstrap,
@@ -146,24 +206,29 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
 
   result.warnings = buildWarnings({
     responseName: design.responseName,
-    levels: givenLevels.map((level, l) => ({
+    levels: design.randomLevels.map((level, l) => ({
       name: level.name,
-      unitSizes: unitSizes[l],
+      unitSizes: levelSizes[l],
       childrenPerUnit:
-        l + 1 < givenLevels.length
-          ? observationsPerUnit({ nUnits: level.nUnits, unitOfObs: givenLevels[l + 1].parentOfUnit })
+        l + 1 < design.randomLevels.length
+          ? observationsPerUnit({ nUnits: level.nUnits, unitOfObs: design.randomLevels[l + 1].parentOfUnit })
           : null,
     })),
-    condition: design.condition
+    condition: conditionName
       ? {
-          name: design.condition.name,
-          level: design.conditionLevel,
-          unitsPerCondition: design.conditionLevel
+          name: conditionName,
+          level: cellLevel,
+          unitsPerCondition: cellLevel
             ? groups.map((g) => ({ condition: g.condition, nUnits: g.nUnits ?? 0 }))
             : [],
           constantConditions: groups.filter((g) => g.naive.se === 0).map((g) => g.condition),
         }
       : null,
+    factors: result.factors!.map((f) => ({ name: f.name, carrier: f.level })),
+    levelEffects: variation.map((v) => ({
+      ...v,
+      nLabels: design.factors.find((f) => f.name === v.factor)!.labels.length,
+    })),
     unitMeansProblem: unitMeans.problem,
     zeroVarianceLevels: fit.components
       .filter((c) => c.level !== 'residual' && c.variance === 0)
@@ -180,29 +245,81 @@ function clamp01(x: number): number {
   return Math.min(1, Math.max(0, x))
 }
 
-function levelIccs(design: NestedDesign, randomShares: number[]): LevelIcc[] {
-  let oneWayCi: [number, number] | null = null
-  if (design.randomLevels.length === 1 && !design.condition) {
-    const level = design.randomLevels[0]
-    const groups: number[][] = Array.from({ length: level.nUnits }, () => [])
-    for (let i = 0; i < design.nObs; i++) groups[level.unitOfObs[i]].push(design.y[i])
-    oneWayCi = oneWayAnova(groups, { confidence: CONFIDENCE }).iccCi
+function withDesignEffect(design: NestedDesign, fit: NestedFit, pair: PairwiseContrast): MixedModelContrast {
+  const { weights, ...contrast } = pair
+  const deff = contrastDesignEffect(design, fit, weights)
+  const n =
+    design.cells.counts[design.cells.labels.indexOf(pair.a)] +
+    design.cells.counts[design.cells.labels.indexOf(pair.b)]
+  return { ...contrast, designEffect: deff, effectiveN: n / deff }
+}
+
+/**
+ * The quantity the headline badges describe: the first comparison of the first factor (its
+ * first label against the reference, averaged over the second factor's labels), or the mean
+ * without a condition.
+ */
+function headlineQuantity(
+  design: NestedDesign,
+  fit: NestedFit,
+  contrasts: MixedModelContrast[],
+): HeadlineQuantity {
+  if (design.factors.length === 0) {
+    const deff = contrastDesignEffect(design, fit, cellMeanRow(design, 0))
+    return { label: 'mean', designEffect: deff, effectiveN: design.nObs / deff }
   }
-  let cumulative = 0
-  return design.randomLevels.map((level, l) => {
-    cumulative += randomShares[l]
+  if (design.factors.length === 1) {
+    const first = contrasts[0]
     return {
-      level: level.name,
-      icc: clamp01(cumulative),
-      ciLow: oneWayCi ? oneWayCi[0] : null,
-      ciHigh: oneWayCi ? oneWayCi[1] : null,
-      ciMethod: oneWayCi ? ('one-way-f' as const) : null,
+      label: `${first.a} − ${first.b}`,
+      designEffect: first.designEffect!,
+      effectiveN: first.effectiveN!,
     }
-  })
+  }
+  const [a, b] = design.factors
+  const kB = b.labels.length
+  const weights = new Array<number>(design.fixed.columns.length).fill(0)
+  let n = 0
+  for (let j = 0; j < kB; j++) {
+    const one = cellMeanRow(design, kB + j)
+    const ref = cellMeanRow(design, j)
+    one.forEach((v, k) => (weights[k] += (v - ref[k]) / kB))
+    n += design.cells.counts[kB + j] + design.cells.counts[j]
+  }
+  const deff = contrastDesignEffect(design, fit, weights)
+  return {
+    label: `${a.labels[1]} − ${a.labels[0]} (averaged over ${b.name})`,
+    designEffect: deff,
+    effectiveN: n / deff,
+  }
+}
+
+/** F test of all conditions equal: the factor's term test when there is one factor with 3 or more labels. */
+function omnibusOf(design: NestedDesign, terms: ReturnType<typeof fixedTermTests>) {
+  if (design.factors.length !== 1 || design.factors[0].labels.length < 3) return null
+  const { f, df1, df2, p } = terms.find((t) => t.term === design.factors[0].name)!
+  return { f, df1, df2, p }
+}
+
+/** The hypotheses of the mixed model's term tests, reused for the naive least-squares fit. */
+function hypothesesFor(design: NestedDesign) {
+  return typeThreeHypotheses(
+    design.fixed,
+    design.factors.map((f) => f.labels.length),
+  )
+}
+
+/** F-based interval of the ICC in a one-way layout (one level, no fixed terms), else null. */
+function oneWayIccInterval(design: NestedDesign): [number, number] | null {
+  if (design.randomLevels.length !== 1 || design.fixed.terms.length > 0) return null
+  const level = design.randomLevels[0]
+  const groups: number[][] = Array.from({ length: level.nUnits }, () => [])
+  for (let i = 0; i < design.nObs; i++) groups[level.unitOfObs[i]].push(design.y[i])
+  return oneWayAnova(groups, { confidence: CONFIDENCE }).iccCi
 }
 
 function balancedCheck(design: NestedDesign, fit: NestedFit, total: number): BalancedAnovaCheck | null {
-  if (design.condition) return null
+  if (design.fixed.terms.length > 0) return null
   const anova = anovaNestedBalanced(design)
   if (!anova) return null
   const maxDifferenceToReml = Math.max(

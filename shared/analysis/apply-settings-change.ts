@@ -6,7 +6,8 @@ export interface SettingsProblem {
   message: string
 }
 
-export type SettingsChange = { ok: true; settings: AnalysisSettings } | { ok: false; problems: SettingsProblem[] }
+export type SettingsChange =
+  { ok: true; settings: AnalysisSettings } | { ok: false; problems: SettingsProblem[] }
 
 /**
  * The one way a settings change is applied, by the settings form and by the server alike: the
@@ -25,7 +26,9 @@ export function applySettingsChange(
 ): SettingsChange {
   const conditions = change.conditions ?? base?.conditions ?? []
   const reference = Object.fromEntries(
-    Object.entries(change.reference ?? base?.reference ?? {}).filter(([factor]) => conditions.includes(factor)),
+    Object.entries(change.reference ?? base?.reference ?? {}).filter(([factor]) =>
+      conditions.includes(factor),
+    ),
   )
   const merged = {
     response: change.response ?? base?.response,

@@ -18,6 +18,8 @@ function cleanFacts(): WarningFacts {
       ],
       constantConditions: [],
     },
+    factors: [{ name: 'treatment', carrier: 'animal' }],
+    levelEffects: [],
     unitMeansProblem: null,
     zeroVarianceLevels: [],
     implicitNesting: [],
@@ -49,6 +51,7 @@ describe('buildWarnings', () => {
   it('CONDITION_CONFOUNDED when the outermost level carries the condition', () => {
     const facts = cleanFacts()
     facts.condition!.level = 'lab'
+    facts.factors = [{ name: 'treatment', carrier: 'lab' }]
     facts.condition!.unitsPerCondition = [
       { condition: 'vehicle', nUnits: 3 },
       { condition: 'NW-117', nUnits: 3 },
@@ -60,6 +63,21 @@ describe('buildWarnings', () => {
   it('does not call a single-level design with the condition between its units confounded', () => {
     const facts = cleanFacts()
     facts.levels = [facts.levels[1]]
+    expect(codes(facts)).toEqual([])
+  })
+
+  it('LEVEL_EFFECT_FEW_UNITS says what few labs do to the df of the comparison', () => {
+    const facts = cleanFacts()
+    facts.levelEffects = [
+      { term: 'lab:treatment', level: 'lab', factor: 'treatment', nLabels: 2, nUnits: 4, variance: 2.5 },
+    ]
+    expect(codes(facts)).toEqual(['LEVEL_EFFECT_FEW_UNITS'])
+    expect(buildWarnings(facts)[0].message).toMatch(
+      /only 4 lab units show how much.*about 3 degrees of freedom/,
+    )
+    facts.levelEffects[0].variance = 0
+    expect(buildWarnings(facts)[0].message).toMatch(/estimated as 0 here/)
+    facts.levelEffects[0].nUnits = 5
     expect(codes(facts)).toEqual([])
   })
 

@@ -6,6 +6,7 @@ export interface WarningFacts {
   /** Given nesting levels, outer → inner, with the number of observations in each unit. */
   levels: { name: string; unitSizes: ArrayLike<number>; childrenPerUnit: ArrayLike<number> | null }[]
   condition: {
+    /** The condition column, or "A:B" for two factors (conditions are then the design cells). */
     name: string
     /** Outermost level whose units each carry one condition; null when the condition varies within the innermost units. */
     level: string | null
@@ -14,6 +15,17 @@ export interface WarningFacts {
     /** Conditions whose observations all have the same value. */
     constantConditions: string[]
   } | null
+  /** Each condition factor and the outermost level whose units each carry one of its labels (null: none). */
+  factors: { name: string; carrier: string | null }[]
+  /** Each level × factor term: the level's units the variance of the effect is estimated from. */
+  levelEffects: {
+    term: string
+    level: string
+    factor: string
+    nLabels: number
+    nUnits: number
+    variance: number
+  }[]
   /** Why the test on unit means is missing (null when it is shown or there is no condition). */
   unitMeansProblem: string | null
   /** Random levels (including an added "<level>:condition") whose variance was estimated as 0. */
@@ -43,7 +55,8 @@ const MAX_EXAMPLES = 3
  * The warnings of an analysis, in a fixed order, each with a stable code (ours) and a message a
  * bench scientist can act on. Codes: ROWS_DROPPED, NO_VARIATION, IMPLICIT_NESTING,
  * SINGLE_OBSERVATION_UNITS, SINGLE_CHILD_UNITS, UNBALANCED_UNITS, FEW_OUTER_UNITS, FEW_UNITS,
- * CONDITION_CONFOUNDED, UNIT_MEANS_UNAVAILABLE, BOUNDARY_FIT, NOT_CONVERGED, NAIVE_TEST_INVALID.
+ * CONDITION_CONFOUNDED, LEVEL_EFFECT_FEW_UNITS, UNIT_MEANS_UNAVAILABLE, BOUNDARY_FIT,
+ * NOT_CONVERGED, NAIVE_TEST_INVALID.
  *
  * @example
  * buildWarnings({ ...facts, nDropped: 2 })
@@ -132,17 +145,36 @@ export function buildWarnings(facts: WarningFacts): Warning[] {
           `with fewer than ${MIN_UNITS_PER_CONDITION} per condition the comparison has very little power and its p-value is fragile.`,
       )
     }
-    if (facts.levels.length > 1 && condition.level === facts.levels[0].name) {
+  }
+  const outerName = outer?.name
+  for (const factor of facts.factors) {
+    if (facts.levels.length > 1 && factor.carrier === outerName) {
       add(
         'CONDITION_CONFOUNDED',
-        `Every ${condition.level} ran a single ${condition.name}, so ${condition.name} differences cannot be separated from ` +
-          `${condition.level}-to-${condition.level} differences. The comparison rests on ${outer.unitSizes.length} ${condition.level} units, ` +
+        `Every ${outerName} ran a single ${factor.name}, so ${factor.name} differences cannot be separated from ` +
+          `${outerName}-to-${outerName} differences. The comparison rests on ${outer.unitSizes.length} ${outerName} units, ` +
           `not on the ${facts.levels
             .slice(1)
             .map((l) => l.name)
             .join(' or ')} units inside them.`,
       )
     }
+  }
+
+  for (const effect of facts.levelEffects) {
+    if (effect.nUnits >= MIN_OUTER_UNITS) continue
+    const spread =
+      effect.variance > 0
+        ? `The ${effect.factor} comparison is judged against how much the effect differs between ${effect.level} units, ` +
+          `which leaves it about ${(effect.nUnits - 1) * (effect.nLabels - 1)} degrees of freedom ((${effect.level} units − 1) × (${effect.factor} labels − 1)): ` +
+          'its interval is wide and its p-value fragile.'
+        : `That variance was estimated as 0 here, but with so few ${effect.level} units a real difference between them can go unseen, ` +
+          `and the comparison's degrees of freedom may then be too optimistic.`
+    add(
+      'LEVEL_EFFECT_FEW_UNITS',
+      `The ${effect.factor} effect may differ from one ${effect.level} to the next (the "${effect.term}" variance), and only ` +
+        `${effect.nUnits} ${effect.level} units show how much. ${spread} Fewer than ${MIN_OUTER_UNITS} is commonly considered too few.`,
+    )
   }
 
   if (condition && facts.unitMeansProblem) {

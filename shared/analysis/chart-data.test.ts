@@ -24,10 +24,12 @@ function table(rows: [lab: string, mouse: string, treatment: string, y: number][
         rows.map((r) => r[1]),
       ),
     ],
-    condition: factor(
-      'treatment',
-      rows.map((r) => r[2]),
-    ),
+    factors: [
+      factor(
+        'treatment',
+        rows.map((r) => r[2]),
+      ),
+    ],
   }
 }
 
@@ -52,7 +54,7 @@ const ROWS: [string, string, string, number][] = [
 
 describe('buildChartData', () => {
   const columns = table(ROWS)
-  const result = analyzeNested(columns, { reference: 'vehicle' })
+  const result = analyzeNested(columns, { reference: { treatment: 'vehicle' } })
   const chart = buildChartData(columns, result)
 
   it('matches its schema', () => {
@@ -185,7 +187,7 @@ describe('buildChartData with the condition inside mice', () => {
       for (let c = 0; c < 3; c++) rows.push(['Only', `m${m}`, t, m * 2 + (t === 'NW-117' ? 5 : 0) + c])
   const columns = table(rows)
   columns.levels = [columns.levels[1]]
-  const result = analyzeNested(columns, { reference: 'vehicle' })
+  const result = analyzeNested(columns, { reference: { treatment: 'vehicle' } })
   const chart = buildChartData(columns, result)
 
   it('has no condition level, colours points by mouse, and lists each mouse once per condition', () => {
@@ -204,7 +206,7 @@ describe('buildChartData with the condition inside mice', () => {
 describe('buildChartData without a condition', () => {
   it('has one group "all" and units without a condition', () => {
     const columns = table(ROWS)
-    columns.condition = null
+    columns.factors = []
     const result = analyzeNested(columns)
     const chart = buildChartData(columns, result)
     expect(chart.conditions.map((c) => c.condition)).toEqual(['all'])

@@ -25,8 +25,9 @@ const PATH_SEPARATOR = ' / '
  * - a stratified, seeded sample of observations, every unit cell of the point level represented;
  * - variance shares and ICC per level.
  *
- * Rows with a missing response are skipped, as the engine skips them; units are keyed by their
- * full path, as the engine keys them.
+ * Rows with a missing response or covariate are skipped, as the engine skips them; units are
+ * keyed by their full path, as the engine keys them. With two factors a "condition" is a design
+ * cell ("KO:vehicle").
  */
 export function buildChartData(
   columns: NestedColumns,
@@ -34,7 +35,7 @@ export function buildChartData(
   options: { pointLimit?: number } = {},
 ): ChartData {
   const limit = options.pointLimit ?? POINT_LIMIT
-  const kept = keptRows(columns.response)
+  const kept = keptRows(columns)
   const conditionIndex = conditionOfRows(columns, result, kept)
 
   const unitLevels: UnitLevelSummary[] = []
@@ -105,26 +106,36 @@ function conditionLabel(result: AnalysisResult, c: number): string | null {
   return result.condition === null ? null : result.groups[c].condition
 }
 
-function keptRows(response: Float64Array): Int32Array {
-  let n = 0
-  for (let i = 0; i < response.length; i++) if (!Number.isNaN(response[i])) n++
-  const kept = new Int32Array(n)
-  let k = 0
-  for (let i = 0; i < response.length; i++) if (!Number.isNaN(response[i])) kept[k++] = i
-  return kept
+/** Rows the engine keeps: a response and every covariate present. */
+function keptRows(columns: NestedColumns): Int32Array {
+  const covariates = (columns.covariates ?? []).map((c) => c.values)
+  const present = (i: number) =>
+    !Number.isNaN(columns.response[i]) && covariates.every((v) => !Number.isNaN(v[i]))
+  const kept: number[] = []
+  for (let i = 0; i < columns.response.length; i++) if (present(i)) kept.push(i)
+  return Int32Array.from(kept)
 }
 
-/** For each kept row, the index of its condition in the result's group order (0 without a condition). */
+/**
+ * For each kept row, the index of its design cell in the result's group order (0 without a
+ * condition): its label of each factor, joined by ":" for two factors.
+ */
 function conditionOfRows(columns: NestedColumns, result: AnalysisResult, kept: Int32Array): Int32Array {
   const out = new Int32Array(kept.length)
-  const condition = columns.factors?.[0]
-  if (!condition) return out
+  const factors = columns.factors ?? []
+  if (factors.length === 0) return out
   const order = new Map(result.groups.map((g, i) => [g.condition, i]))
-  const byCode = condition.labels.map((label) => order.get(label) ?? -1)
+  const lookup = new Map<string, number>()
   for (let k = 0; k < kept.length; k++) {
-    const c = byCode[condition.codes[kept[k]]]
-    if (c < 0)
-      throw new Error(`condition label "${condition.labels[condition.codes[kept[k]]]}" is not in the result`)
+    const row = kept[k]
+    const key = factors.map((f) => f.codes[row]).join(',')
+    let c = lookup.get(key)
+    if (c === undefined) {
+      const label = factors.map((f) => f.labels[f.codes[row]]).join(':')
+      c = order.get(label)
+      if (c === undefined) throw new Error(`condition label "${label}" is not in the result`)
+      lookup.set(key, c)
+    }
     out[k] = c
   }
   return out

@@ -63,10 +63,12 @@ describe('labAgreement', () => {
           rows.map((_, i) => `m${i}`),
         ),
       ],
-      condition: factor(
-        'cond',
-        rows.map((r) => r[1]),
-      ),
+      factors: [
+        factor(
+          'cond',
+          rows.map((r) => r[1]),
+        ),
+      ],
     }
     const result = labAgreement(columns, { reference: 'v' })
     const interaction = result.effect!.interaction!

@@ -1,83 +1,89 @@
-import jStat from 'jstat'
 import type { GroupSummary } from '../schemas/analysis-result'
-import { conditionMeans } from '../stats/condition-means'
+import type { CellMean } from '../stats/cell-means'
+import { cellMeanRow } from '../stats/cell-means'
+import { contrastDesignEffect } from '../stats/contrast-design-effect'
 import { EngineInputError } from '../stats/engine-input-error'
-import { nestedDesignEffect } from '../stats/nested-design-effect'
-import { observationsPerUnitByCondition } from '../stats/observations-per-unit-by-condition'
+import { studentTQuantile } from '../stats/student-t-quantile'
 import type { NestedDesign, NestedFit } from '../stats/types'
 
 /**
- * Per condition (or "all" without a condition): the plain mean; the naive SE and CI that treat
- * every observation as independent (SD/√n, t with n − 1 df); the cluster-correct SE and CI from
- * the mixed model (Satterthwaite df); the condition's own design effect and effective n; and the
- * number of units carrying it at the condition level.
+ * Per design cell (each condition, each A × B combination, or "all" without a condition): the
+ * plain mean; the naive SE and CI that treat every observation as independent (SD/√n, t with
+ * n − 1 df); the cluster-correct interval from the mixed model (Satterthwaite df, covariates at
+ * their means); the design effect of the cell's mean and its effective n; and the number of
+ * units carrying it at the level whose units each hold one cell.
  *
- * The condition's design effect uses the same variance shares as the whole analysis and the
- * sizes of the units restricted to that condition's observations:
- * deff_c = 1 + Σ_l ((cv_lc² + 1) m̄_lc − 1) ρ_l (Eldridge, Ashby & Kerry 2006, summed over levels),
- * effective n_c = n_c / deff_c (Kish 1965).
+ * The design effect of a cell's mean is its variance under the model over its variance if its
+ * observations were independent (Kish 1965, the ratio definition); effective n = n_cell / deff.
  *
- * Guard errors (EngineInputError): a condition with fewer than 2 observations.
+ * Guard errors (EngineInputError): a cell with fewer than 2 observations.
  *
  * @example
- * summariseConditions(design, fit, [0.2, 0.1], 0.95)
+ * summariseConditions(design, fit, cellMeans(design, fit))
  * // → [{ condition: 'vehicle', nObs: 240, mean: 101.2, naive: { se: 0.9, … }, clustered: { se: 2.6, … }, … }, …]
  */
 export function summariseConditions(
   design: NestedDesign,
   fit: NestedFit,
-  shares: number[],
+  means: CellMean[],
   confidence: number,
 ): GroupSummary[] {
-  const labels = design.condition?.labels ?? ['all']
-  const codes = design.condition?.codes ?? new Int32Array(design.nObs)
-  const k = labels.length
-  const { y } = design
-
+  const { cells, y } = design
+  const k = cells.labels.length
   const n = new Float64Array(k)
   const sum = new Float64Array(k)
   for (let i = 0; i < y.length; i++) {
-    n[codes[i]]++
-    sum[codes[i]] += y[i]
+    n[cells.codes[i]]++
+    sum[cells.codes[i]] += y[i]
   }
   const mean = Array.from(sum, (s, c) => s / n[c])
   const squares = new Float64Array(k)
-  for (let i = 0; i < y.length; i++) squares[codes[i]] += (y[i] - mean[codes[i]]) ** 2
-
-  const modelMeans = conditionMeans(design, fit, confidence)
-  // sizes[l][c]: observations of condition c in each unit of level l that holds any.
-  const sizes = design.randomLevels.map((level) => observationsPerUnitByCondition(level, codes, k))
-  const carrier = design.randomLevels.findIndex((level) => level.name === design.conditionLevel)
+  for (let i = 0; i < y.length; i++) squares[cells.codes[i]] += (y[i] - mean[cells.codes[i]]) ** 2
+  const unitsPerCell = design.cellLevel >= 0 ? unitsCarrying(design, design.cellLevel) : null
   const tail = 1 - (1 - confidence) / 2
 
-  return labels.map((label, c) => {
+  return cells.labels.map((label, c) => {
     if (n[c] < 2) {
       throw new EngineInputError(
         `The condition "${label}" has ${n[c]} observation; at least 2 per condition are needed.`,
-        design.condition?.name ?? null,
+        design.factors[0]?.name ?? null,
       )
     }
-    const deff = nestedDesignEffect(
-      sizes.map((bySize, l) => ({ unitSizes: bySize[c], share: shares[l] })),
-    ).deff
+    const deff = contrastDesignEffect(design, fit, cellMeanRow(design, c))
     const naiveSe = Math.sqrt(squares[c] / (n[c] - 1) / n[c])
-    const naiveHalf = jStat.studentt.inv(tail, n[c] - 1) * naiveSe
-    const model = modelMeans[c]
-    return {
+    const naiveHalf = studentTQuantile(tail, n[c] - 1) * naiveSe
+    const model = means[c]
+    const summary: GroupSummary = {
       condition: label,
       nObs: n[c],
-      nUnits: carrier >= 0 ? sizes[carrier][c].length : null,
+      nUnits: unitsPerCell ? unitsPerCell[c] : null,
       effectiveN: n[c] / deff,
       designEffect: deff,
       mean: mean[c],
       naive: { se: naiveSe, df: n[c] - 1, ciLow: mean[c] - naiveHalf, ciHigh: mean[c] + naiveHalf },
       clustered: {
-        estimate: model.mean,
+        estimate: model.estimate,
         se: model.se,
         df: model.df,
-        ciLow: model.ciLower,
-        ciHigh: model.ciUpper,
+        ciLow: model.ci[0],
+        ciHigh: model.ci[1],
       },
     }
+    if (design.factors.length === 2) {
+      summary.factorLevels = Object.fromEntries(
+        design.factors.map((f, j) => [f.name, f.labels[cells.levelsOf[c][j]]]),
+      )
+    }
+    return summary
   })
+}
+
+/** Units of the level that hold each cell (each unit holds one). */
+function unitsCarrying(design: NestedDesign, level: number): number[] {
+  const { unitOfObs, nUnits } = design.randomLevels[level]
+  const cellOfUnit = new Int32Array(nUnits)
+  for (let i = 0; i < design.nObs; i++) cellOfUnit[unitOfObs[i]] = design.cells.codes[i]
+  const counts = new Array<number>(design.cells.labels.length).fill(0)
+  for (let u = 0; u < nUnits; u++) counts[cellOfUnit[u]]++
+  return counts
 }

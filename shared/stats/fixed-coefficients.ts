@@ -27,7 +27,13 @@ export interface FixedCoefficient extends FixedColumn {
 export function fixedCoefficients(design: NestedDesign, fit: NestedFit): FixedCoefficient[] {
   const p = fit.beta.length
   return design.fixed.columns.map((column, j) => {
-    const { estimate, se, df, t, p: pValue } = satterthwaiteContrast(
+    const {
+      estimate,
+      se,
+      df,
+      t,
+      p: pValue,
+    } = satterthwaiteContrast(
       design,
       fit,
       Array.from({ length: p }, (_, k) => (k === j ? 1 : 0)),

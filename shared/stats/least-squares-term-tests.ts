@@ -37,7 +37,9 @@ export function leastSquaresTermTests(
       const q = rows.length
       const Lb = rows.map((r) => r.reduce((s, v, k) => s + v * parts.beta[k], 0))
       const LCL = rows.map((a) =>
-        rows.map((b) => a.reduce((s, va, i) => s + va * b.reduce((t, vb, j) => t + parts.xtxInverse[i][j] * vb, 0), 0)),
+        rows.map((b) =>
+          a.reduce((s, va, i) => s + va * b.reduce((t, vb, j) => t + parts.xtxInverse[i][j] * vb, 0), 0),
+        ),
       )
       const f = quadraticInverse(LCL, Lb) / (q * s2)
       return { term, df1: q, df2: parts.dfResidual, f, p: fUpperP(f, q, parts.dfResidual) }

@@ -23,5 +23,7 @@ export function modelFormula(design: NestedDesign): string {
 }
 
 function rName(name: string): string {
-  return /^[A-Za-z.][A-Za-z0-9._]*$/.test(name) && !/^\.\d/.test(name) ? name : `\`${name.replace(/[`\\]/g, '\\$&')}\``
+  return /^[A-Za-z.][A-Za-z0-9._]*$/.test(name) && !/^\.\d/.test(name)
+    ? name
+    : `\`${name.replace(/[`\\]/g, '\\$&')}\``
 }

@@ -28,7 +28,7 @@ describe('pairwiseContrasts', () => {
   it('reads every comparison with a new reference against it', () => {
     // Common practice, no source: the reference moves to the front, differences flip sign.
     const design = prepareNestedDesign(nestedColumnsFromTable(machines, 'score', ['Worker'], 'Machine'), {
-      reference: 'C',
+      reference: { Machine: 'C' },
     })
     const r = pairwiseContrasts(design, fitNestedReml(design))
     expect(r.map((c) => `${c.a}-${c.b}`)).toEqual(['A-C', 'B-C', 'B-A'])

@@ -34,7 +34,11 @@ export interface PairwiseContrast extends Interval {
  * pairwiseContrasts(machinesDesign, machinesFit)[0]
  * // → { a: 'B', b: 'A', estimate: 7.967, se: 2.177, df: 10.0, t: 3.660, p: 0.00439, pHolm: 0.00878, … }
  */
-export function pairwiseContrasts(design: NestedDesign, fit: NestedFit, confidence = 0.95): PairwiseContrast[] {
+export function pairwiseContrasts(
+  design: NestedDesign,
+  fit: NestedFit,
+  confidence = 0.95,
+): PairwiseContrast[] {
   const labels = design.cells.labels
   if (labels.length < 2) return []
   const rows = labels.map((_, c) => cellMeanRow(design, c))

@@ -23,7 +23,7 @@ describe('prepareNestedDesign', () => {
     expect([...animal.unitOfObs]).toEqual([0, 0, 1, 1, 2, 2, 3, 3, 3])
     expect([...d.randomLevels[0].parentOfUnit]).toEqual([-1, -1])
     expect(d.implicitNesting).toEqual([{ level: 'animal', labels: ['1', '2'] }])
-    expect(d.levelNames).toEqual(['lab', 'animal'])
+    expect(d.terms.map((t) => t.name)).toEqual(['lab', 'animal'])
   })
 
   it('drops rows with a missing response and counts them', () => {
@@ -36,54 +36,119 @@ describe('prepareNestedDesign', () => {
     expect([...d.y]).toEqual([1, 2, 4, 5, 6, 7, 8, 9])
   })
 
-  it('finds the level that carries a between-animal condition and inserts nothing', () => {
-    const d = prepareNestedDesign(nestedColumnsFromTable(table, 'y', ['lab', 'animal'], 'dose'))
-    expect(d.conditionLevel).toBe('animal')
-    expect(d.randomLevels.map((l) => l.name)).toEqual(['lab', 'animal'])
-    expect(d.condition!.labels).toEqual(['ctl', 'drug'])
-    expect([...d.condition!.codes]).toEqual([0, 0, 1, 1, 0, 0, 1, 1, 1])
-  })
-
-  it('inserts animal:condition when the condition varies inside animals', () => {
-    // lme4 formula for this design: y ~ mixed + (1|lab) + (1|lab:animal) + (1|lab:animal:mixed)
-    const d = prepareNestedDesign(nestedColumnsFromTable(table, 'y', ['lab', 'animal'], 'mixed'))
-    expect(d.conditionLevel).toBeNull()
-    const cell = d.randomLevels[2]
-    expect(cell.name).toBe('animal:condition')
-    expect(cell.inserted).toBe(true)
-    expect(cell.unitLabels).toEqual([
-      'A/1/ctl',
-      'A/1/drug',
-      'A/2/ctl',
-      'A/2/drug',
-      'B/1/ctl',
-      'B/1/drug',
-      'B/2/ctl',
-      'B/2/drug',
+  it('adds lab × condition when the condition varies between animals inside labs', () => {
+    // The maximal nested model (Barr et al. 2013): y ~ dose + (1|lab) + (1|lab:dose) + (1|lab:animal).
+    const t = {
+      lab: ['A', 'A', 'A', 'A', 'A', 'A', 'A', 'A', 'B', 'B', 'B', 'B', 'B', 'B', 'B', 'B'],
+      animal: ['1', '1', '2', '2', '3', '3', '4', '4', '1', '1', '2', '2', '3', '3', '4', '4'],
+      dose: ['c', 'c', 'c', 'c', 'd', 'd', 'd', 'd', 'c', 'c', 'd', 'd', 'c', 'c', 'd', 'd'],
+      y: [1, 2, 2, 3, 4, 5, 5, 4, 3, 4, 6, 7, 2, 3, 6, 8],
+    }
+    const d = prepareNestedDesign(nestedColumnsFromTable(t, 'y', ['lab', 'animal'], 'dose'))
+    expect(d.cellLevel).toBe(1)
+    expect(d.factors[0].carrier).toBe(1)
+    expect(d.terms.map((term) => [term.name, term.nGroups])).toEqual([
+      ['lab', 2],
+      ['lab:dose', 4],
+      ['animal', 8],
     ])
-    expect([...cell.parentOfUnit]).toEqual([0, 0, 1, 1, 2, 2, 3, 3])
-    expect(cell.unitOfObs[8]).toBe(7)
+    expect(d.skippedTerms).toEqual([])
+    expect(d.factors[0].labels).toEqual(['c', 'd'])
   })
 
-  it('leaves the unit × condition level out when each cell holds one observation', () => {
+  it('adds unit × condition at every level where the condition varies (within animals)', () => {
+    // lme4 formula for this design: y ~ mixed + (1|lab) + (1|lab:mixed) + (1|lab:animal) + (1|lab:animal:mixed)
+    const d = prepareNestedDesign(nestedColumnsFromTable(table, 'y', ['lab', 'animal'], 'mixed'))
+    expect(d.cellLevel).toBe(-1)
+    expect(d.terms.map((t) => [t.name, t.nGroups])).toEqual([
+      ['lab', 2],
+      ['lab:mixed', 4],
+      ['animal', 4],
+      ['animal:mixed', 8],
+    ])
+    expect(d.terms[3].grouping).toEqual(['lab', 'animal', 'mixed'])
+  })
+
+  it('leaves out a level × condition term whose groups are the next level or the observations', () => {
     const t = {
       lab: ['A', 'A', 'B', 'B', 'C', 'C'],
       dose: ['c', 'd', 'c', 'd', 'c', 'd'],
       y: [1, 2, 3, 5, 4, 4],
     }
     const d = prepareNestedDesign(nestedColumnsFromTable(t, 'y', ['lab'], 'dose'))
-    expect(d.randomLevels.map((l) => l.name)).toEqual(['lab'])
-    expect(d.conditionLevel).toBeNull()
+    expect(d.terms.map((term) => term.name)).toEqual(['lab'])
+    expect(d.skippedTerms).toEqual([{ name: 'lab:dose', sameAs: 'the observations (the residual)' }])
+    // One animal per lab and dose: lab:dose would be the animals themselves.
+    const one = {
+      lab: ['A', 'A', 'A', 'A', 'B', 'B', 'B', 'B'],
+      animal: ['1', '1', '2', '2', '1', '1', '2', '2'],
+      dose: ['c', 'c', 'd', 'd', 'c', 'c', 'd', 'd'],
+      y: [1, 2, 3, 4, 5, 6, 7, 9],
+    }
+    const e = prepareNestedDesign(nestedColumnsFromTable(one, 'y', ['lab', 'animal'], 'dose'))
+    expect(e.terms.map((term) => term.name)).toEqual(['lab', 'animal'])
+    expect(e.skippedTerms).toEqual([{ name: 'lab:dose', sameAs: 'animal' }])
+  })
+
+  it('reduces to the earlier model when the condition varies within no level (common practice, no source)', () => {
+    const perLab = { ...table, dose: ['ctl', 'ctl', 'ctl', 'ctl', 'drug', 'drug', 'drug', 'drug', 'drug'] }
+    const three = {
+      lab: [...perLab.lab, 'C', 'C', 'C', 'D', 'D'],
+      animal: [...perLab.animal, '1', '2', '2', '1', '2'],
+      dose: [...perLab.dose, 'ctl', 'ctl', 'ctl', 'drug', 'drug'],
+      y: [...perLab.y, 3, 2, 5, 6, 8],
+    }
+    const d = prepareNestedDesign(nestedColumnsFromTable(three, 'y', ['lab', 'animal'], 'dose'))
+    expect(d.factors[0].carrier).toBe(0)
+    expect(d.terms.map((t) => t.name)).toEqual(['lab', 'animal'])
+    expect(d.skippedTerms).toEqual([])
+  })
+
+  it('crosses two factors and adds a term for each and for their combination', () => {
+    // Oats-like: block > (variety × nitro), one plot per block and variety: lme4 formula
+    // y ~ variety * nitro + (1|block) + (1|block:variety) + (1|block:nitro); block:variety:nitro is the residual.
+    const t = {
+      block: ['I', 'I', 'I', 'I', 'II', 'II', 'II', 'II', 'III', 'III', 'III', 'III'],
+      variety: ['v', 'v', 'w', 'w', 'v', 'v', 'w', 'w', 'v', 'v', 'w', 'w'],
+      nitro: ['0', '1', '0', '1', '0', '1', '0', '1', '0', '1', '0', '1'],
+      y: [1, 3, 2, 5, 2, 4, 2, 6, 1, 4, 3, 6],
+    }
+    const d = prepareNestedDesign(nestedColumnsFromTable(t, 'y', ['block'], ['variety', 'nitro']))
+    expect(d.terms.map((term) => term.name)).toEqual(['block', 'block:variety', 'block:nitro'])
+    expect(d.skippedTerms).toEqual([
+      { name: 'block:variety:nitro', sameAs: 'the observations (the residual)' },
+    ])
+    expect(d.cells.labels).toEqual(['v:0', 'v:1', 'w:0', 'w:1'])
+    expect(d.fixed.columns.map((c) => `${c.term}|${c.level}`)).toEqual([
+      '(intercept)|null',
+      'variety|w',
+      'nitro|1',
+      'variety:nitro|w:1',
+    ])
+  })
+
+  it('takes covariates and finds the level they are measured at', () => {
+    const t = { ...table, weight: [20, 20, 22, 22, 19, 19, 25, 25, 25], soma: [9, 8, 7, 9, 8, 6, 9, NaN, 7] }
+    const d = prepareNestedDesign(
+      nestedColumnsFromTable(t, 'y', ['lab', 'animal'], 'dose', ['weight', 'soma']),
+    )
+    expect(d.nObs).toBe(8)
+    expect(d.nDropped).toBe(1)
+    expect(d.covariates.map((c) => [c.name, c.constantWithin])).toEqual([
+      ['weight', 1],
+      ['soma', -1],
+    ])
+    expect(d.fixed.columns.map((c) => c.term)).toEqual(['(intercept)', 'dose', 'weight', 'soma'])
   })
 
   it('puts the chosen reference first and keeps the factor order for the others', () => {
     const t = { ...table, dose: ['b', 'b', 'c', 'c', 'a', 'a', 'b', 'c', 'a'] }
     const cols = nestedColumnsFromTable(t, 'y', ['lab'], 'dose')
-    expect(prepareNestedDesign(cols).condition!.labels).toEqual(['b', 'c', 'a'])
-    const d = prepareNestedDesign(cols, { reference: 'a' })
-    expect(d.condition!.labels).toEqual(['a', 'b', 'c'])
-    expect(d.condition!.reference).toBe('a')
-    expect([...d.condition!.codes]).toEqual([1, 1, 2, 2, 0, 0, 1, 2, 0])
+    expect(prepareNestedDesign(cols).factors[0].labels).toEqual(['b', 'c', 'a'])
+    const d = prepareNestedDesign(cols, { reference: { dose: 'a' } })
+    expect(d.factors[0].labels).toEqual(['a', 'b', 'c'])
+    expect(d.factors[0].reference).toBe('a')
+    expect([...d.factors[0].codes]).toEqual([1, 1, 2, 2, 0, 0, 1, 2, 0])
   })
 
   it('numbers units by label order, not by row order', () => {
@@ -145,16 +210,53 @@ describe('prepareNestedDesign', () => {
         /Each "cell" unit has a single observation/,
       ))
     it('rejects an unknown reference', () =>
-      fails(() => {}, /reference condition "placebo" does not occur/, { reference: 'placebo' }))
+      fails(() => {}, /reference level "placebo" does not occur/, { reference: { dose: 'placebo' } }))
+    it('rejects a reference for a column that is not a condition', () =>
+      fails(() => {}, /"genotype", which is not a condition column/, { reference: { genotype: 'WT' } }))
     it('needs two condition labels', () =>
       fails(
-        (c) => (c.condition = { name: 'dose', labels: ['ctl'], codes: new Int32Array(9) }),
+        (c) => (c.factors = [{ name: 'dose', labels: ['ctl'], codes: new Int32Array(9) }]),
         /only 1 label/,
       ))
     it('needs observations for every condition label', () =>
       fails(
-        (c) => (c.condition!.labels = [...c.condition!.labels, 'unused']),
+        (c) => (c.factors![0].labels = [...c.factors![0].labels, 'unused']),
         /no observations with a response for: unused/,
+      ))
+    it('rejects a second factor that is constant', () =>
+      fails(
+        (c) => c.factors!.push({ name: 'batch', labels: ['b1'], codes: new Int32Array(9) }),
+        /"batch" has only 1 label/,
+      ))
+    it('rejects a second factor confounded with the first', () =>
+      fails(
+        (c) => c.factors!.push({ ...c.factors![0], name: 'drug', labels: ['no', 'yes'] }),
+        /"drug" is fully confounded with "dose"/,
+      ))
+    it('rejects two factors that are not fully crossed', () =>
+      fails(
+        (c) =>
+          c.factors!.push({
+            name: 'sex',
+            labels: ['f', 'm'],
+            codes: Int32Array.from([0, 0, 0, 0, 1, 1, 0, 0, 0]),
+          }),
+        /No observation has dose = "drug" together with sex = "m"/,
+      ))
+    it('rejects a factor that relabels a level', () =>
+      fails(
+        (c) => (c.factors = [{ name: 'site', labels: ['s1', 's2'], codes: c.levels[0].codes }]),
+        /"site" groups the rows exactly as "lab" does/,
+      ))
+    it('rejects more than two factors', () =>
+      fails(
+        (c) => (c.factors = [c.factors![0], c.factors![0], c.factors![0]]),
+        /At most 2 condition columns/,
+      ))
+    it('rejects a covariate that does not vary', () =>
+      fails(
+        (c) => (c.covariates = [{ name: 'age', values: new Float64Array(9).fill(12) }]),
+        /The covariate "age" has the same value in every row/,
       ))
     it('rejects duplicate and reserved names', () => {
       fails((c) => (c.levels[1] = { ...c.levels[1], name: 'lab' }), /"lab" is used twice/)

@@ -3,7 +3,14 @@ import { fixedLayout } from './design/fixed-layout'
 import { checkLevelSize, labelsUnderSeveralParents, nestLevel } from './design/nest-level'
 import { maximalRandomTerms } from './design/random-terms'
 import { EngineInputError } from './engine-input-error'
-import type { CovariateColumn, Factor, NestedColumns, NestedDesign, NumericColumn, RandomLevel } from './types'
+import type {
+  CovariateColumn,
+  Factor,
+  NestedColumns,
+  NestedDesign,
+  NumericColumn,
+  RandomLevel,
+} from './types'
 
 export interface PrepareNestedDesignOptions {
   /** Reference label per factor name; a factor left out uses its first label. */
@@ -44,7 +51,10 @@ const MAX_FACTORS = 2
  * })
  * // → { nObs: 4, nDropped: 1, randomLevels: [{ name: 'lab', nUnits: 2, unitLabels: ['A', 'B'], … }], … }
  */
-export function prepareNestedDesign(columns: NestedColumns, opts: PrepareNestedDesignOptions = {}): NestedDesign {
+export function prepareNestedDesign(
+  columns: NestedColumns,
+  opts: PrepareNestedDesignOptions = {},
+): NestedDesign {
   const { response, levels } = columns
   const factors = columns.factors ?? []
   const covariates = columns.covariates ?? []
@@ -109,7 +119,10 @@ export function prepareNestedDesign(columns: NestedColumns, opts: PrepareNestedD
   )
   for (const name of Object.keys(opts.reference ?? {})) {
     if (!factors.some((f) => f.name === name)) {
-      throw new EngineInputError(`A reference level is given for "${name}", which is not a condition column.`, name)
+      throw new EngineInputError(
+        `A reference level is given for "${name}", which is not a condition column.`,
+        name,
+      )
     }
   }
   for (const f of coded) {
@@ -155,7 +168,10 @@ function checkNames(response: string, factors: Factor[], covariates: NumericColu
   const seen = new Set<string>([response])
   for (const name of [...factors.map((f) => f.name), ...covariates.map((c) => c.name)]) {
     if (name === 'residual') {
-      throw new EngineInputError('A column named "residual" clashes with the residual variance; rename it.', name)
+      throw new EngineInputError(
+        'A column named "residual" clashes with the residual variance; rename it.',
+        name,
+      )
     }
     if (seen.has(name)) throw new EngineInputError(`The column "${name}" is used twice.`, name)
     seen.add(name)
@@ -164,7 +180,10 @@ function checkNames(response: string, factors: Factor[], covariates: NumericColu
 
 function checkLength(name: string, length: number, nRows: number): void {
   if (length !== nRows) {
-    throw new EngineInputError(`The column "${name}" has ${length} values but the response has ${nRows}.`, name)
+    throw new EngineInputError(
+      `The column "${name}" has ${length} values but the response has ${nRows}.`,
+      name,
+    )
   }
 }
 
@@ -188,7 +207,10 @@ function describeCovariate(name: string, values: Float64Array, levels: RandomLev
   for (let i = 0; i < n; i++) squares += (values[i] - mean) ** 2
   const sd = Math.sqrt(squares / (n - 1))
   if (!(sd > 1e-12 * Math.max(1, Math.abs(mean)))) {
-    throw new EngineInputError(`The covariate "${name}" has the same value in every row, so it cannot adjust anything.`, name)
+    throw new EngineInputError(
+      `The covariate "${name}" has the same value in every row, so it cannot adjust anything.`,
+      name,
+    )
   }
   const constantWithin = levels.findIndex((level) => constantInUnits(level, values))
   return { name, values, mean, sd, constantWithin }

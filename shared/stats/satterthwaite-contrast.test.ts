@@ -68,11 +68,11 @@ describe('satterthwaiteContrast', () => {
     // Labels appear in another order after shuffling: fix the reference so the coding matches.
     const s2 = {
       design: prepareNestedDesign(nestedColumnsFromTable(shuffled, 'score', ['Worker'], 'Machine'), {
-        reference: 'A',
+        reference: { Machine: 'A' },
       }),
     }
     const fit2 = fitNestedReml(s2.design)
-    const iB = s2.design.condition!.labels.indexOf('B')
+    const iB = s2.design.factors[0].labels.indexOf('B')
     const a = satterthwaiteContrast(m.design, m.fit, [1, 1, 0])
     const b = satterthwaiteContrast(
       s2.design,

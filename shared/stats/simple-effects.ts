@@ -60,7 +60,12 @@ export function simpleEffects(design: NestedDesign, fit: NestedFit, confidence =
           p: t.p,
         }
       })
-      results.push({ factor: factor.name, at: { factor: other.name, level }, test: satterthwaiteF(design, fit, rows), contrasts })
+      results.push({
+        factor: factor.name,
+        at: { factor: other.name, level },
+        test: satterthwaiteF(design, fit, rows),
+        contrasts,
+      })
     })
   }
   return results

@@ -1,3 +1,4 @@
+import { invertSpd } from './reml/small-cholesky'
 import type { FixedLayout } from './types'
 
 /**
@@ -91,13 +92,26 @@ function productRow(
   p: number,
 ): number[] {
   const row = new Array<number>(p).fill(0)
-  const aParts: [number, number][] = [[0, a[0]], ...factorTerms[0].columns.map((c, i): [number, number] => [i + 1, a[c]])]
-  const bParts: [number, number][] = [[0, b[0]], ...factorTerms[1].columns.map((c, j): [number, number] => [j + 1, b[c]])]
+  const aParts: [number, number][] = [
+    [0, a[0]],
+    ...factorTerms[0].columns.map((c, i): [number, number] => [i + 1, a[c]]),
+  ]
+  const bParts: [number, number][] = [
+    [0, b[0]],
+    ...factorTerms[1].columns.map((c, j): [number, number] => [j + 1, b[c]]),
+  ]
   for (const [i, va] of aParts) {
     if (va === 0) continue
     for (const [j, vb] of bParts) {
       if (vb === 0) continue
-      const col = i === 0 ? (j === 0 ? 0 : factorTerms[1].columns[j - 1]) : j === 0 ? factorTerms[0].columns[i - 1] : dummy(i, j)
+      const col =
+        i === 0
+          ? j === 0
+            ? 0
+            : factorTerms[1].columns[j - 1]
+          : j === 0
+            ? factorTerms[0].columns[i - 1]
+            : dummy(i, j)
       row[col] += va * vb
     }
   }
@@ -108,7 +122,7 @@ function productRow(
 function residualise(L: number[][], target: number[], on: number[]): void {
   const q = on.length
   const gram = on.map((a) => on.map((b) => L.reduce((s, row) => s + row[a] * row[b], 0)))
-  const inverse = invertSmall(gram)
+  const inverse = invertSpd(gram)
   for (const col of target) {
     const xty = on.map((a) => L.reduce((s, row) => s + row[a] * row[col], 0))
     const coef = inverse.map((r) => r.reduce((s, v, k) => s + v * xty[k], 0))
@@ -118,32 +132,6 @@ function residualise(L: number[][], target: number[], on: number[]): void {
       row[col] -= fitted
     }
   }
-}
-
-function invertSmall(A: number[][]): number[][] {
-  const n = A.length
-  const a = A.map((r) => [...r])
-  const inv = a.map((_, i) => a.map((__, j) => (i === j ? 1 : 0)))
-  for (let c = 0; c < n; c++) {
-    let pivot = c
-    for (let r = c + 1; r < n; r++) if (Math.abs(a[r][c]) > Math.abs(a[pivot][c])) pivot = r
-    ;[a[c], a[pivot]] = [a[pivot], a[c]]
-    ;[inv[c], inv[pivot]] = [inv[pivot], inv[c]]
-    const d = a[c][c]
-    for (let j = 0; j < n; j++) {
-      a[c][j] /= d
-      inv[c][j] /= d
-    }
-    for (let r = 0; r < n; r++) {
-      if (r === c || a[r][c] === 0) continue
-      const f = a[r][c]
-      for (let j = 0; j < n; j++) {
-        a[r][j] -= f * a[c][j]
-        inv[r][j] -= f * inv[c][j]
-      }
-    }
-  }
-  return inv
 }
 
 /** R's zapsmall(x, digits = 7) over the whole matrix: round to 7 − ceil(log10(max |x|)) decimals. */

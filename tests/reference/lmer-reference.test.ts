@@ -32,7 +32,7 @@ import { pairwiseContrasts } from '../../shared/stats/pairwise-contrasts'
 import { prepareNestedDesign } from '../../shared/stats/prepare-nested-design'
 import { studentTTwoSidedP } from '../../shared/stats/reml/student-t-two-sided-p'
 import type { NestedDesign } from '../../shared/stats/types'
-import { simulateNestedTable, type NestedSimulation } from './simulate-nested-table'
+import { simulateNestedTable, type NestedSimulation } from '../../shared/stats/fixtures/simulate-nested-table'
 
 type Table = Record<string, readonly (string | number)[]>
 
@@ -380,7 +380,12 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
         ref.components.map((x: { group: string; variance: number }) => [x.group, x.variance]),
       )
       design.terms.forEach((term, t) =>
-        agree('variance', `${c.id}/${term.name}`, fit.components[t].variance, refVar.get(term.grouping.join(':'))!),
+        agree(
+          'variance',
+          `${c.id}/${term.name}`,
+          fit.components[t].variance,
+          refVar.get(term.grouping.join(':'))!,
+        ),
       )
       agree('variance', `${c.id}/residual`, fit.sigma2, refVar.get('Residual')!)
       agree('REML criterion', c.id, fit.remlCriterion, ref.remlCriterion)
@@ -394,8 +399,20 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
       const means = cellMeans(design, fit)
       const pairs = pairwiseContrasts(design, fit)
       const ours = [
-        ...coefficients.map((k, i) => ({ where: `coef ${names[i]}`, estimate: k.estimate, se: k.se, df: k.df, t: k.t, p: k.p })),
-        ...means.map((m) => ({ where: `mean ${m.cell}`, ...m, t: m.estimate / m.se, p: studentTTwoSidedP(m.estimate / m.se, m.df) })),
+        ...coefficients.map((k, i) => ({
+          where: `coef ${names[i]}`,
+          estimate: k.estimate,
+          se: k.se,
+          df: k.df,
+          t: k.t,
+          p: k.p,
+        })),
+        ...means.map((m) => ({
+          where: `mean ${m.cell}`,
+          ...m,
+          t: m.estimate / m.se,
+          p: studentTTwoSidedP(m.estimate / m.se, m.df),
+        })),
         ...pairs.map((pc) => ({ where: `${pc.a} − ${pc.b}`, ...pc })),
       ]
       expect(ref.contrasts.length).toBe(ours.length)
@@ -408,7 +425,9 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
         agree('t', where, o.t, r.t)
         agreeLoosely('p-value', where, o.p, r.p)
       })
-      pairs.forEach((pc, i) => agreeLoosely('Holm p-value', `${c.id}/${pc.a} − ${pc.b}`, pc.pHolm, ref.holm[i]))
+      pairs.forEach((pc, i) =>
+        agreeLoosely('Holm p-value', `${c.id}/${pc.a} − ${pc.b}`, pc.pHolm, ref.holm[i]),
+      )
 
       const terms = fixedTermTests(design, fit)
       expect(terms.length).toBe(ref.anova?.length ?? 0)

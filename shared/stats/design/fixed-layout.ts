@@ -48,7 +48,8 @@ export function fixedLayout(
     codes.forEach((code, f) => {
       if (code > 0) cellRows[row + dummyColumn[f][code]] = 1
     })
-    if (factors.length === 2 && codes[0] > 0 && codes[1] > 0) cellRows[row + interaction[codes[0]][codes[1]]] = 1
+    if (factors.length === 2 && codes[0] > 0 && codes[1] > 0)
+      cellRows[row + interaction[codes[0]][codes[1]]] = 1
   }
   return { columns, terms, cellRows, covariateColumns }
 }

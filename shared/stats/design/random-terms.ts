@@ -50,7 +50,13 @@ export function maximalRandomTerms(
         return
       }
       kept.push({ set, n, name })
-      terms.push({ name, grouping: [...path(l), ...set.map((f) => factors[f].name)], level: l, factors: set, nGroups: n })
+      terms.push({
+        name,
+        grouping: [...path(l), ...set.map((f) => factors[f].name)],
+        level: l,
+        factors: set,
+        nGroups: n,
+      })
     })
 
     function sameGrouping(l: number, set: number[], n: number): string | null {
@@ -64,7 +70,9 @@ export function maximalRandomTerms(
       if (l + 1 < levels.length) {
         const inner = set.filter((f) => varies(l + 1, f))
         if (inner.length === 0) return n === levels[l + 1].nUnits ? levels[l + 1].name : null
-        const s = sets.findIndex((other) => other.length === inner.length && other.every((f, i) => f === inner[i]))
+        const s = sets.findIndex(
+          (other) => other.length === inner.length && other.every((f, i) => f === inner[i]),
+        )
         if (groups[l + 1][s] === n) return `${levels[l + 1].name}:${factorName(inner)}`
       }
       return null

@@ -1,4 +1,4 @@
-import { cholesky, solveCholesky } from './small-cholesky'
+import { cholesky, invertSpd, solveCholesky } from './small-cholesky'
 import type { NestedSufficientStats } from './sufficient-stats'
 
 /** The pieces of the REML criterion at one θ, with H = V / σ² = I + Σ_t θ_t Z_t Z_tᵀ. */
@@ -134,7 +134,15 @@ function diagonalBlocks(cellStart: Int32Array, n: Float64Array): Blocks {
  * Replaces each unit's B by (B⁻¹ + Ψ)⁻¹ for the level's own random terms and returns the sum of
  * log |I + Lᵀ Ψ L| over the units.
  */
-function applyOwnTerms(level: { cellStart: Int32Array; cellDesign: Int32Array; terms: { theta: number; groupOfCell: Int32Array }[] }, weights: Blocks, theta: ArrayLike<number>): number {
+function applyOwnTerms(
+  level: {
+    cellStart: Int32Array
+    cellDesign: Int32Array
+    terms: { theta: number; groupOfCell: Int32Array }[]
+  },
+  weights: Blocks,
+  theta: ArrayLike<number>,
+): number {
   const { cellStart, cellDesign, terms } = level
   const nUnits = cellStart.length - 1
   let logDet = 0
@@ -284,7 +292,7 @@ function mergeChildren(
 function fixedEffects(W: Float64Array, m: number, A: number, centredMean: Float64Array, shift: Float64Array) {
   const px = m - 1
   const topMean = Array.from({ length: m }, (_, j) => centredMean[j] + shift[j])
-  const Winv = invertSpd(W, m, px)
+  const Winv = invertSpd(Array.from({ length: px }, (_, i) => Array.from(W.subarray(i * m, i * m + px))))
   const b = new Array<number>(px).fill(0)
   for (let j = 0; j < px; j++) for (let k = 0; k < px; k++) b[j] += Winv[j][k] * W[k * m + px]
   let b0 = topMean[px]
@@ -297,32 +305,4 @@ function fixedEffects(W: Float64Array, m: number, A: number, centredMean: Float6
   const inv: number[][] = [[c00, ...wm.map((v) => -v)]]
   for (let j = 0; j < px; j++) inv.push([-wm[j], ...Winv[j]])
   return { beta: [b0, ...b], xtHxInverse: inv }
-}
-
-/** Inverse of the leading size × size block of a symmetric positive definite m × m matrix. */
-function invertSpd(W: Float64Array, m: number, size: number): number[][] {
-  const a: number[][] = []
-  for (let i = 0; i < size; i++) {
-    a.push([])
-    for (let j = 0; j < size; j++) a[i].push(W[i * m + j])
-  }
-  const inv: number[][] = a.map((_, i) => a.map((__, j) => (i === j ? 1 : 0)))
-  // Gauss–Jordan without pivoting is stable for a positive definite matrix.
-  for (let c = 0; c < size; c++) {
-    const piv = a[c][c]
-    for (let j = 0; j < size; j++) {
-      a[c][j] /= piv
-      inv[c][j] /= piv
-    }
-    for (let r = 0; r < size; r++) {
-      if (r === c) continue
-      const f = a[r][c]
-      if (f === 0) continue
-      for (let j = 0; j < size; j++) {
-        a[r][j] -= f * a[c][j]
-        inv[r][j] -= f * inv[c][j]
-      }
-    }
-  }
-  return inv
 }

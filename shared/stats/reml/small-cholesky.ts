@@ -45,3 +45,18 @@ export function solveCholesky(L: Float64Array, n: number, R: ArrayLike<number>, 
   }
   return X
 }
+
+/**
+ * Inverse of a small symmetric positive definite matrix, by its Cholesky factor.
+ *
+ * @example
+ * invertSpd([[4, 2], [2, 5]]) // → [[0.3125, -0.125], [-0.125, 0.25]]
+ */
+export function invertSpd(A: number[][]): number[][] {
+  const n = A.length
+  const L = cholesky(A.flat(), n)
+  const identity = new Float64Array(n * n)
+  for (let i = 0; i < n; i++) identity[i * n + i] = 1
+  const X = solveCholesky(L, n, identity, n)
+  return Array.from({ length: n }, (_, i) => Array.from(X.subarray(i * n, (i + 1) * n)))
+}

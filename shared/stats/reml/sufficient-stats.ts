@@ -108,7 +108,8 @@ function compute(design: NestedDesign): NestedSufficientStats {
   for (let k = 0; k < nInner; k++) {
     for (const col of rowCols) innerMean[k * m + col] /= n[k]
     const row = innerCells.cellDesign[k] * p
-    for (let j = 1; j < p; j++) if (!covCols.includes(j - 1)) innerMean[k * m + j - 1] = fixed.cellRows[row + j]
+    for (let j = 1; j < p; j++)
+      if (!covCols.includes(j - 1)) innerMean[k * m + j - 1] = fixed.cellRows[row + j]
   }
 
   // Pass 2: scatter of the row-varying columns around their cell means.
