@@ -32,8 +32,8 @@ describe('compareEstimates', () => {
       '  SE',
       '  Satterthwaite df',
     ])
-    // |50 − 50.5| / 50.5 and |400 − 440| / 440: arithmetic, common practice, no source.
-    expect(rows[0].relativeDifference).toBeCloseTo(0.5 / 50.5, 12)
+    // |50 − 50.5| / (50.5 + 25 + 600) for a variance, |400 − 440| / 440 otherwise: arithmetic, no source.
+    expect(rows[0].relativeDifference).toBeCloseTo(0.5 / 675.5, 12)
     expect(rows[1].relativeDifference).toBe(0)
     expect(rows[5].relativeDifference).toBeCloseTo(40 / 440, 12)
     expect(rows[8]).toMatchObject({ reference: null, relativeDifference: null })
@@ -41,5 +41,7 @@ describe('compareEstimates', () => {
       quantity: 'contrast NW-117 − vehicle Satterthwaite df',
       value: 40 / 440,
     })
+    expect(largestDifference(rows, 'estimates')).toEqual({ quantity: 'variance lab', value: 0.5 / 675.5 })
+    expect(largestDifference(rows, 'df')!.value).toBe(40 / 440)
   })
 })

@@ -3,8 +3,9 @@ import seedrandom from 'seedrandom'
 
 /**
  * Writes an invented consortium data set: neurite length per neuron, neurons nested in mice,
- * mice nested in labs, half of each lab's mice given the fictional compound NW-117. Animal labels
- * repeat across labs (m01 exists in every lab), as they do in real spreadsheets.
+ * mice nested in labs, half of each lab's mice given the fictional compound NW-117, and labs
+ * that differ in how strongly they respond (a lab × treatment effect). Animal labels repeat across
+ * labs (m01 exists in every lab), as they do in real spreadsheets.
  */
 export interface NestedCsvSpec {
   seed: string
@@ -15,6 +16,8 @@ export interface NestedCsvSpec {
   grandMean: number
   compoundEffect: number
   labSd: number
+  /** SD of the lab × treatment effect: each arm of each lab is shifted by its own draw. */
+  labTreatmentSd: number
   animalSd: number
   residualSd: number
 }
@@ -28,6 +31,7 @@ export const BENCH_SPEC: NestedCsvSpec = {
   grandMean: 120,
   compoundEffect: 6,
   labSd: 8,
+  labTreatmentSd: 3,
   animalSd: 5,
   residualSd: 25,
 }
@@ -73,6 +77,7 @@ export function writeNestedCsv(path: string, spec: NestedCsvSpec): number {
     for (let lab = 1; lab <= spec.labs; lab++) {
       const labLabel = `lab-${pad(lab)}`
       const labShift = spec.labSd * normal()
+      const armShift = [spec.labTreatmentSd * normal(), spec.labTreatmentSd * normal()]
       const treatedAnimals = new Set(
         shuffledIndices(spec.animalsPerLab, uniform).slice(0, Math.floor(spec.animalsPerLab / 2)),
       )
@@ -81,7 +86,11 @@ export function writeNestedCsv(path: string, spec: NestedCsvSpec): number {
         const treatment = treated ? 'NW-117' : 'vehicle'
         const prefix = `${labLabel},m${pad(animal + 1)},${treatment},`
         const centre =
-          spec.grandMean + labShift + spec.animalSd * normal() + (treated ? spec.compoundEffect : 0)
+          spec.grandMean +
+          labShift +
+          armShift[treated ? 1 : 0] +
+          spec.animalSd * normal() +
+          (treated ? spec.compoundEffect : 0)
         const cells = spec.minCells + Math.floor(uniform() * (spec.maxCells - spec.minCells + 1))
         const lines: string[] = new Array(cells)
         for (let cell = 0; cell < cells; cell++)

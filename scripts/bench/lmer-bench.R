@@ -6,21 +6,22 @@
 # evaluates lme4's own REML criterion there, and lmerTest's SEs and Satterthwaite df at exactly
 # those components, both with lmerTest's default derivative steps and with steadier ones.
 # Prints one JSON line.
-# Usage: Rscript lmer-bench.R FILE RESPONSE LEVELS CONDITION REFERENCE [polish|no-polish] [COMPONENTS_JSON]
+# The model is the other engine's own formula (lme4 notation), so both fit the same maximal nested model.
+# Usage: Rscript lmer-bench.R FILE FORMULA CONDITION REFERENCE [polish|no-polish] [COMPONENTS_JSON]
 suppressPackageStartupMessages({
   library(lmerTest)
   library(jsonlite)
 })
 
 args <- commandArgs(trailingOnly = TRUE)
-if (length(args) < 5) stop("usage: lmer-bench.R FILE RESPONSE LEVELS CONDITION REFERENCE [polish]")
+if (length(args) < 4) stop("usage: lmer-bench.R FILE FORMULA CONDITION REFERENCE [polish]")
 file <- args[1]
-response <- args[2]
-levels <- strsplit(args[3], ",")[[1]]
-condition <- args[4]
-reference <- args[5]
-polish <- length(args) >= 6 && args[6] == "polish"
-other <- if (length(args) >= 7) fromJSON(args[7]) else NULL
+form <- as.formula(args[2])
+response <- all.vars(form)[1]
+condition <- args[3]
+reference <- args[4]
+polish <- length(args) >= 5 && args[5] == "polish"
+other <- if (length(args) >= 6) fromJSON(args[6]) else NULL
 
 elapsed <- function() proc.time()[["elapsed"]]
 # CPU time of this process (all threads): less sensitive than wall time to other work on the machine.
@@ -29,15 +30,10 @@ cpu <- function() { p <- proc.time(); p[["user.self"]] + p[["sys.self"]] }
 t0 <- elapsed()
 c0 <- cpu()
 d <- read.csv(file, stringsAsFactors = FALSE)
-for (l in levels) d[[l]] <- factor(d[[l]])
 d[[condition]] <- relevel(factor(d[[condition]]), ref = reference)
 labels <- levels(d[[condition]])
 t1 <- elapsed()
 c1 <- cpu()
-
-# Nested terms keyed by full path: (1 | lab) + (1 | lab:animal) + ...
-terms <- vapply(seq_along(levels), function(i) sprintf("(1 | %s)", paste(levels[1:i], collapse = ":")), "")
-form <- as.formula(sprintf("%s ~ %s + %s", response, condition, paste(terms, collapse = " + ")))
 
 mean_vector <- function(k) {
   L <- numeric(length(labels))

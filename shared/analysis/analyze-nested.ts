@@ -5,7 +5,8 @@ import type {
   MixedModelContrast,
 } from '../schemas/analysis-result'
 import { anovaNestedBalanced } from '../stats/anova-nested-balanced'
-import { cellMeanRow, cellMeans } from '../stats/cell-means'
+import { cellMeanRow } from '../stats/cell-mean-row'
+import { cellMeans } from '../stats/cell-means'
 import { contrastDesignEffect } from '../stats/contrast-design-effect'
 import { ENGINE_VERSION } from '../stats/engine-version'
 import { fitNestedReml } from '../stats/fit-nested-reml'

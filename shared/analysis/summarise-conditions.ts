@@ -1,6 +1,6 @@
 import type { GroupSummary } from '../schemas/analysis-result'
 import type { CellMean } from '../stats/cell-means'
-import { cellMeanRow } from '../stats/cell-means'
+import { cellMeanRow } from '../stats/cell-mean-row'
 import { contrastDesignEffect } from '../stats/contrast-design-effect'
 import { EngineInputError } from '../stats/engine-input-error'
 import { studentTQuantile } from '../stats/student-t-quantile'

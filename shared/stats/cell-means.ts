@@ -1,3 +1,4 @@
+import { cellMeanRow } from './cell-mean-row'
 import { EngineInputError } from './engine-input-error'
 import { satterthwaiteContrast } from './satterthwaite-contrast'
 import { studentTQuantile } from './student-t-quantile'
@@ -37,13 +38,4 @@ export function cellMeans(design: NestedDesign, fit: NestedFit, confidence = 0.9
     const half = studentTQuantile(1 - (1 - confidence) / 2, t.df) * t.se
     return { cell, estimate: t.estimate, se: t.se, df: t.df, ci: [t.estimate - half, t.estimate + half] }
   })
-}
-
-/** The row of X whose product with β is cell c's mean, covariates at their means. */
-export function cellMeanRow(design: NestedDesign, c: number): number[] {
-  const { cellRows, covariateColumns, columns } = design.fixed
-  const p = columns.length
-  const row = Array.from(cellRows.subarray(c * p, (c + 1) * p))
-  covariateColumns.forEach((col, j) => (row[col] = design.covariates[j].mean))
-  return row
 }

@@ -94,12 +94,12 @@ function collinearFixedEffects(design: NestedDesign): EngineInputError {
 }
 
 /**
- * The best of a small grid of starting points: the full grid over √θ for up to four terms, and
+ * The best of a small grid of starting points: the full grid over √θ for up to three terms, and
  * beyond that (the grid would grow as 4^K) the common scalings of all terms plus each term
  * alone scaled up or down.
  */
 function bestGridStart(criterion: (t: number[]) => number, K: number): number[] {
-  if (K > 4) return bestOfPoints(criterion, wideStarts(K))
+  if (K > 3) return bestOfPoints(criterion, wideStarts(K))
   const values = [0.1, 0.4, 1.6, 6.4]
   let best = new Array(K).fill(1)
   let bestF = criterion(best)

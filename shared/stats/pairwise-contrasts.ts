@@ -1,4 +1,4 @@
-import { cellMeanRow } from './cell-means'
+import { cellMeanRow } from './cell-mean-row'
 import { holmAdjust } from './holm-adjust'
 import { satterthwaiteContrast } from './satterthwaite-contrast'
 import { studentTQuantile } from './student-t-quantile'

@@ -1,4 +1,4 @@
-import { cellMeanRow } from './cell-means'
+import { cellMeanRow } from './cell-mean-row'
 import { satterthwaiteContrast } from './satterthwaite-contrast'
 import { satterthwaiteF } from './satterthwaite-f'
 import { studentTQuantile } from './student-t-quantile'

@@ -1,4 +1,4 @@
-import { cholesky, invertSpd, solveCholesky } from './small-cholesky'
+import { choleskyInto, invertSpd, solveCholeskyInto } from './small-cholesky'
 import type { NestedSufficientStats } from './sufficient-stats'
 
 /** The pieces of the REML criterion at one θ, with H = V / σ² = I + Σ_t θ_t Z_t Z_tᵀ. */
@@ -60,17 +60,18 @@ export function evaluateNestedReml(
 
   // Innermost level: B = diag(n) per unit, μ = cell means.
   const inner = levels[K - 1]
+  const scratch = scratchFor(stats)
   let mu: Float64Array = stats.innerMean
   let weights = diagonalBlocks(inner.cellStart, stats.innerN)
-  let logDetH = applyOwnTerms(inner, weights, theta)
+  let logDetH = applyOwnTerms(inner, weights, theta, scratch)
 
   for (let l = K - 2; l >= -1; l--) {
     const child = levels[l + 1]
     const parent = l >= 0 ? levels[l] : null
-    const merged = mergeChildren(child, parent, mu, weights, m, W)
+    const merged = mergeChildren(child, parent, mu, weights, m, W, scratch)
     mu = merged.mu
     weights = merged.weights
-    if (parent) logDetH += applyOwnTerms(parent, weights, theta)
+    if (parent) logDetH += applyOwnTerms(parent, weights, theta, scratch)
   }
   // Only the lower triangle of W was added to: mirror it.
   for (let j = 0; j < m; j++) for (let k = 0; k < j; k++) W[k * m + j] = W[j * m + k]
@@ -107,6 +108,21 @@ export function evaluateNestedReml(
   return result
 }
 
+const scratches = new WeakMap<NestedSufficientStats, Scratch>()
+
+/** Scratch space sized for the most cells any unit holds (at most the number of design cells). */
+function scratchFor(stats: NestedSufficientStats): Scratch {
+  let scratch = scratches.get(stats)
+  if (!scratch) {
+    let q = 1
+    for (const level of stats.levels)
+      for (let u = 0; u < level.nUnits; u++) q = Math.max(q, level.cellStart[u + 1] - level.cellStart[u])
+    scratch = new Scratch(q, stats.m)
+    scratches.set(stats, scratch)
+  }
+  return scratch
+}
+
 /** The B matrices of every unit of a level, q_u × q_u each, stored one after another. */
 interface Blocks {
   /** blocks[offset[u] …] holds unit u's matrix, row-major. */
@@ -130,6 +146,31 @@ function diagonalBlocks(cellStart: Int32Array, n: Float64Array): Blocks {
   return { offset, blocks }
 }
 
+/** Scratch space for the per-unit small matrices, reused across units so an evaluation allocates little. */
+class Scratch {
+  readonly psi: Float64Array
+  readonly L: Float64Array
+  readonly PL: Float64Array
+  readonly M: Float64Array
+  readonly R: Float64Array
+  readonly X: Float64Array
+  readonly G: Float64Array
+  readonly d: Float64Array
+  readonly e: Float64Array
+  constructor(q: number, m: number) {
+    const qq = q * q
+    this.psi = new Float64Array(qq)
+    this.L = new Float64Array(qq)
+    this.PL = new Float64Array(qq)
+    this.M = new Float64Array(qq)
+    this.R = new Float64Array(qq)
+    this.X = new Float64Array(Math.max(qq, q * m))
+    this.G = new Float64Array(q * m)
+    this.d = new Float64Array(m)
+    this.e = new Float64Array(m)
+  }
+}
+
 /**
  * Replaces each unit's B by (B⁻¹ + Ψ)⁻¹ for the level's own random terms and returns the sum of
  * log |I + Lᵀ Ψ L| over the units.
@@ -142,23 +183,26 @@ function applyOwnTerms(
   },
   weights: Blocks,
   theta: ArrayLike<number>,
+  w: Scratch,
 ): number {
   const { cellStart, cellDesign, terms } = level
   const nUnits = cellStart.length - 1
+  const B = weights.blocks
+  let total = 0
+  for (const t of terms) total += theta[t.theta]
   let logDet = 0
   for (let u = 0; u < nUnits; u++) {
     const c0 = cellStart[u]
     const q = cellStart[u + 1] - c0
     const at = weights.offset[u]
     if (q === 1) {
-      let psi = 0
-      for (const t of terms) psi += theta[t.theta]
-      const b = weights.blocks[at]
-      weights.blocks[at] = b / (1 + psi * b)
-      logDet += Math.log1p(psi * b)
+      const b = B[at]
+      B[at] = b / (1 + total * b)
+      logDet += Math.log1p(total * b)
       continue
     }
-    const psi = new Float64Array(q * q)
+    const { psi, L, PL, M, R, X } = w
+    psi.fill(0, 0, q * q)
     for (const t of terms) {
       const th = theta[t.theta]
       if (th === 0) continue
@@ -167,41 +211,35 @@ function applyOwnTerms(
         for (let b = 0; b < q; b++) if (t.groupOfCell[cellDesign[c0 + b]] === ga) psi[a * q + b] += th
       }
     }
-    const B = weights.blocks.subarray(at, at + q * q)
-    const Lb = cholesky(B, q)
-    // M = I + Lᵀ Ψ L
-    const PL = new Float64Array(q * q)
+    choleskyInto(B, at, q, L)
+    // PL = Ψ L, M = I + Lᵀ Ψ L
     for (let a = 0; a < q; a++)
       for (let b = 0; b < q; b++) {
         let s = 0
-        for (let k = b; k < q; k++) s += psi[a * q + k] * Lb[k * q + b]
+        for (let k = b; k < q; k++) s += psi[a * q + k] * L[k * q + b]
         PL[a * q + b] = s
       }
-    const M = new Float64Array(q * q)
     for (let a = 0; a < q; a++)
       for (let b = 0; b <= a; b++) {
         let s = a === b ? 1 : 0
-        for (let k = a; k < q; k++) s += Lb[k * q + a] * PL[k * q + b]
+        for (let k = a; k < q; k++) s += L[k * q + a] * PL[k * q + b]
         M[a * q + b] = s
         M[b * q + a] = s
       }
-    const R = cholesky(M, q)
+    choleskyInto(M, 0, q, R)
     for (let a = 0; a < q; a++) logDet += 2 * Math.log(R[a * q + a])
     // B' = L M⁻¹ Lᵀ: solve M X = Lᵀ, then B' = L X.
-    const Lt = new Float64Array(q * q)
-    for (let a = 0; a < q; a++) for (let b = 0; b < q; b++) Lt[a * q + b] = Lb[b * q + a]
-    const X = solveCholesky(R, q, Lt, q)
+    for (let a = 0; a < q; a++) for (let b = 0; b < q; b++) X[a * q + b] = L[b * q + a]
+    solveCholeskyInto(R, q, X, q)
     for (let a = 0; a < q; a++)
-      for (let b = 0; b < q; b++) {
-        let s = 0
-        for (let k = 0; k <= a; k++) s += Lb[a * q + k] * X[k * q + b]
-        B[a * q + b] = s
-      }
-    for (let a = 0; a < q; a++)
-      for (let b = 0; b < a; b++) {
-        const s = 0.5 * (B[a * q + b] + B[b * q + a])
-        B[a * q + b] = s
-        B[b * q + a] = s
+      for (let b = 0; b <= a; b++) {
+        let s1 = 0
+        let s2 = 0
+        for (let k = 0; k <= a; k++) s1 += L[a * q + k] * X[k * q + b]
+        for (let k = 0; k <= b; k++) s2 += L[b * q + k] * X[k * q + a]
+        const s = 0.5 * (s1 + s2)
+        B[at + a * q + b] = s
+        B[at + b * q + a] = s
       }
   }
   return logDet
@@ -219,9 +257,10 @@ function mergeChildren(
   weights: Blocks,
   m: number,
   W: Float64Array,
+  w: Scratch,
 ): { mu: Float64Array; weights: Blocks } {
   const nParents = parent ? parent.nUnits : 1
-  const pCellStart = parent ? parent.cellStart : Int32Array.from([0, 1])
+  const pCellStart = parent ? parent.cellStart : TOP_CELL
   const nParentCells = pCellStart[nParents]
   const offset = new Int32Array(nParents + 1)
   for (let u = 0; u < nParents; u++) {
@@ -230,56 +269,63 @@ function mergeChildren(
   }
   const blocks = new Float64Array(offset[nParents])
   const muP = new Float64Array(nParentCells * m)
-  const d = new Float64Array(m)
-  const e = new Float64Array(m)
+  const { G, d, e, R } = w
+  const childB = weights.blocks
+  const parentCell = child.parentCell
 
   for (let u = 0; u < nParents; u++) {
     const u0 = parent ? parent.childStart![u] : 0
     const u1 = parent ? parent.childStart![u + 1] : child.nUnits
     const p0 = pCellStart[u]
+    const base = parent ? p0 : 0
     const qP = pCellStart[u + 1] - p0
-    const BP = blocks.subarray(offset[u], offset[u] + qP * qP)
-    const G = new Float64Array(qP * m)
+    const bp = offset[u]
+    G.fill(0, 0, qP * m)
     for (let c = u0; c < u1; c++) {
       const k0 = child.cellStart[c]
       const q = child.cellStart[c + 1] - k0
       const at = weights.offset[c]
       for (let a = 0; a < q; a++) {
-        const pa = child.parentCell[k0 + a] - (parent ? p0 : 0)
+        const pa = parentCell[k0 + a] - base
+        const src = (k0 + a) * m
         for (let b = 0; b < q; b++) {
-          const w = weights.blocks[at + a * q + b]
-          const pb = child.parentCell[k0 + b] - (parent ? p0 : 0)
-          BP[pa * qP + pb] += w
-          const src = (k0 + a) * m
-          for (let j = 0; j < m; j++) G[pb * m + j] += w * mu[src + j]
+          const wt = childB[at + a * q + b]
+          const pb = parentCell[k0 + b] - base
+          blocks[bp + pa * qP + pb] += wt
+          const dst = pb * m
+          for (let j = 0; j < m; j++) G[dst + j] += wt * mu[src + j]
         }
       }
     }
-    // μ_P = G B_P⁻¹ (row per parent cell here, as G is stored transposed).
-    const means = qP === 1 ? G.map((g) => g / BP[0]) : solveCholesky(cholesky(BP, qP), qP, G, m)
-    muP.set(means, p0 * m)
+    // μ_P = G B_P⁻¹ (a row per parent cell here, as G is stored transposed).
+    const mo = p0 * m
+    if (qP === 1) {
+      const b = blocks[bp]
+      for (let j = 0; j < m; j++) muP[mo + j] = G[j] / b
+    } else {
+      choleskyInto(blocks, bp, qP, R)
+      solveCholeskyInto(R, qP, G, m)
+      for (let k = 0; k < qP * m; k++) muP[mo + k] = G[k]
+    }
     for (let c = u0; c < u1; c++) {
       const k0 = child.cellStart[c]
       const q = child.cellStart[c + 1] - k0
       const at = weights.offset[c]
       for (let a = 0; a < q; a++) {
-        const pa = child.parentCell[k0 + a] - (parent ? p0 : 0)
-        for (let j = 0; j < m; j++) d[j] = mu[(k0 + a) * m + j] - means[pa * m + j]
+        const pa = parentCell[k0 + a] - base
+        for (let j = 0; j < m; j++) d[j] = mu[(k0 + a) * m + j] - muP[mo + pa * m + j]
         for (let b = 0; b < q; b++) {
-          const w = weights.blocks[at + a * q + b]
-          if (w === 0) continue
-          if (b === a) {
-            for (let j = 0; j < m; j++) {
-              const dj = w * d[j]
-              for (let k = 0; k <= j; k++) W[j * m + k] += dj * d[k]
-            }
-          } else {
-            const pb = child.parentCell[k0 + b] - (parent ? p0 : 0)
-            for (let j = 0; j < m; j++) e[j] = mu[(k0 + b) * m + j] - means[pb * m + j]
-            for (let j = 0; j < m; j++) {
-              const dj = w * d[j]
-              for (let k = 0; k <= j; k++) W[j * m + k] += dj * e[k]
-            }
+          const wt = childB[at + a * q + b]
+          if (wt === 0) continue
+          let other = d
+          if (b !== a) {
+            const pb = parentCell[k0 + b] - base
+            for (let j = 0; j < m; j++) e[j] = mu[(k0 + b) * m + j] - muP[mo + pb * m + j]
+            other = e
+          }
+          for (let j = 0; j < m; j++) {
+            const dj = wt * d[j]
+            for (let k = 0; k <= j; k++) W[j * m + k] += dj * other[k]
           }
         }
       }
@@ -287,6 +333,8 @@ function mergeChildren(
   }
   return { mu: muP, weights: { offset, blocks } }
 }
+
+const TOP_CELL = Int32Array.from([0, 1])
 
 /** β̂ and (XᵀH⁻¹X)⁻¹ from the top-level summaries, by the block inverse around the intercept. */
 function fixedEffects(W: Float64Array, m: number, A: number, centredMean: Float64Array, shift: Float64Array) {

@@ -9,18 +9,24 @@
  */
 export function cholesky(A: ArrayLike<number>, n: number): Float64Array {
   const L = new Float64Array(n * n)
+  choleskyInto(A, 0, n, L)
+  return L
+}
+
+/** `cholesky` of the n × n matrix starting at A[offset], written into L (its upper triangle set to 0). */
+export function choleskyInto(A: ArrayLike<number>, offset: number, n: number, L: Float64Array): void {
   for (let j = 0; j < n; j++) {
-    let s = A[j * n + j]
+    let s = A[offset + j * n + j]
     for (let k = 0; k < j; k++) s -= L[j * n + k] * L[j * n + k]
     const d = Math.sqrt(s)
     L[j * n + j] = d
+    for (let k = j + 1; k < n; k++) L[j * n + k] = 0
     for (let i = j + 1; i < n; i++) {
-      let t = A[i * n + j]
+      let t = A[offset + i * n + j]
       for (let k = 0; k < j; k++) t -= L[i * n + k] * L[j * n + k]
       L[i * n + j] = t / d
     }
   }
-  return L
 }
 
 /**
@@ -31,6 +37,12 @@ export function cholesky(A: ArrayLike<number>, n: number): Float64Array {
  */
 export function solveCholesky(L: Float64Array, n: number, R: ArrayLike<number>, r: number): Float64Array {
   const X = Float64Array.from(R as ArrayLike<number>)
+  solveCholeskyInto(L, n, X, r)
+  return X
+}
+
+/** `solveCholesky` in place: X holds the right-hand side on entry and the solution on return. */
+export function solveCholeskyInto(L: Float64Array, n: number, X: Float64Array, r: number): void {
   for (let c = 0; c < r; c++) {
     for (let i = 0; i < n; i++) {
       let t = X[i * r + c]
@@ -43,7 +55,6 @@ export function solveCholesky(L: Float64Array, n: number, R: ArrayLike<number>, 
       X[i * r + c] = t / L[i * n + i]
     }
   }
-  return X
 }
 
 /**
