@@ -211,7 +211,8 @@ try {
     started = performance.now()
     const columns = await loadNestedColumns(versionId, {
       response: 'neurite_length_um',
-      condition: 'condition',
+      conditions: ['condition'],
+      covariates: [],
       levels: ['lab', 'animal'],
     })
     readMs.push(performance.now() - started)

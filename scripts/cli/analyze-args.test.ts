@@ -9,8 +9,9 @@ describe('parseAnalyzeArgs', () => {
       file: 'cells.csv',
       response: 'length',
       levels: ['lab', 'animal'],
-      condition: null,
-      reference: null,
+      conditions: [],
+      covariates: [],
+      reference: {},
       bootstrap: null,
       delimiter: undefined,
       decimal: '.',
@@ -34,13 +35,47 @@ describe('parseAnalyzeArgs', () => {
       ',',
     ])
     expect(args).toMatchObject({
-      condition: 'treatment',
-      reference: 'vehicle',
+      conditions: ['treatment'],
+      reference: { treatment: 'vehicle' },
       bootstrap: { resamples: 1000, seed: 's1' },
       delimiter: '\t',
       decimal: ',',
     })
     expect(parseAnalyzeArgs([...base, '--delimiter', ';'])?.delimiter).toBe(';')
+  })
+
+  it('reads two conditions, covariates and a reference per factor', () => {
+    const args = parseAnalyzeArgs([
+      ...base,
+      '--condition',
+      'genotype, treatment',
+      '--covariate',
+      'soma_area_um2,age_days',
+      '--reference',
+      'treatment=vehicle,genotype=KO-3',
+    ])
+    expect(args).toMatchObject({
+      conditions: ['genotype', 'treatment'],
+      covariates: ['soma_area_um2', 'age_days'],
+      reference: { treatment: 'vehicle', genotype: 'KO-3' },
+    })
+    expect(
+      parseAnalyzeArgs([...base, '--condition', 'genotype,treatment', '--reference', 'genotype=WT'])
+        ?.reference,
+    ).toEqual({ genotype: 'WT' })
+    // One factor: the level alone, or FACTOR=LEVEL; a level may itself hold "=" or ",".
+    expect(parseAnalyzeArgs([...base, '--condition', 'dose', '--reference', 'dose=0 µM'])?.reference).toEqual(
+      {
+        dose: '0 µM',
+      },
+    )
+    expect(parseAnalyzeArgs([...base, '--condition', 'dose', '--reference', 'a=b,c'])?.reference).toEqual({
+      dose: 'a=b,c',
+    })
+    expect(parseAnalyzeArgs([...base, '--covariate', 'soma'])).toMatchObject({
+      conditions: [],
+      covariates: ['soma'],
+    })
   })
 
   it('returns null for --help and -h', () => {
@@ -62,6 +97,13 @@ describe('parseAnalyzeArgs', () => {
     [[...base, '--decimal', ';'], /--decimal must be/],
     [[...base, '--decimal', ',', '--delimiter', ','], /cannot be combined/],
     [[...base, '--reference', 'vehicle'], /--reference needs --condition/],
+    [[...base, '--condition', 'a,b,c'], /--condition takes at most 2 columns, got 3/],
+    [[...base, '--condition', 'a,'], /--condition has an empty column name/],
+    [[...base, '--condition', ' '], /--condition has an empty column name/],
+    [[...base, '--covariate', 'v,w,x,y,z'], /--covariate takes at most 4 columns/],
+    [[...base, '--condition', 'g,t', '--reference', 'WT'], /does not say which condition.*g=LEVEL,t=LEVEL/],
+    [[...base, '--condition', 'g,t', '--reference', 'g=WT,dose=1'], /"dose=1" must be FACTOR=LEVEL/],
+    [[...base, '--condition', 'g,t', '--reference', 'g=WT,g=KO'], /names "g" twice/],
     [[...base, '--colour', 'red'], /Unknown option '--colour'.*--help/],
   ])('rejects %j', (argv, message) => {
     expect(() => parseAnalyzeArgs(argv)).toThrow(message)

@@ -5,8 +5,11 @@ export interface AnalyzeArgs {
   file: string
   response: string
   levels: string[]
-  condition: string | null
-  reference: string | null
+  /** Condition factors: none, one, or two (fitted as A * B). */
+  conditions: string[]
+  covariates: string[]
+  /** Reference level per condition factor; a factor left out uses its first label in the file. */
+  reference: Record<string, string>
   bootstrap: { resamples: number; seed: string } | null
   delimiter: string | undefined
   decimal: '.' | ','
@@ -14,9 +17,9 @@ export interface AnalyzeArgs {
 
 export const ANALYZE_HELP = `Usage: nestwise analyze FILE --response COL --levels OUTER,INNER[,...] [options]
 
-Fits the nested random-intercept model (REML) to one numeric column of a CSV/TSV file and prints
-one JSON document on stdout: variance per level, ICC, design effect, effective n, naive and
-cluster-correct means with CIs, and comparisons between conditions.
+Fits the nested mixed model (REML) to one numeric column of a CSV/TSV file and prints one JSON
+document on stdout: variance per level, ICC, design effect, effective n, naive and cluster-correct
+means with CIs, and comparisons between conditions (adjusted for any covariates).
 
 Required:
   FILE                    CSV or TSV file with a header row (UTF-8, or UTF-16 with a byte-order mark)
@@ -24,17 +27,28 @@ Required:
   --levels A,B[,C[,D]]    nesting levels, outermost first (e.g. lab,animal); labels are keyed by their full path
 
 Options:
-  --condition COL         fixed-effect column (treatment, genotype, dose) to compare
-  --reference LEVEL       reference condition for the model coding (default: first in the file)
+  --condition A[,B]       one or two condition columns (treatment, genotype, dose) to compare; two are
+                          fitted as A * B
+  --covariate X[,Y...]    numeric columns to adjust for (measured per observation or per unit, at most
+                          4); a missing value leaves its row out
+  --reference LEVEL       reference level of the one condition (default: its first value in the file)
+  --reference A=LEVEL[,B=LEVEL]
+                          reference level per condition column
   --bootstrap N           add a hierarchical bootstrap with N resamples (needs --seed)
   --seed S                seed of the bootstrap, so a result can be reproduced
   --delimiter C           field separator: ',' ';' or 'tab' (default: detected from the first rows)
-  --decimal C             decimal mark of the response: '.' (default) or ','
+  --decimal C             decimal mark of the response and covariates: '.' (default) or ','
   -h, --help              show this help
 
 Exit codes: 0 success; 2 bad input (one line on stderr naming the column, row or file); 1 internal error.
 Example:
-  npm run --silent nestwise -- analyze cells.csv --response neurite_length_um --levels lab,animal --condition treatment`
+  npm run --silent nestwise -- analyze cells.csv --response neurite_length_um --levels lab,animal --condition treatment
+  npm run --silent nestwise -- analyze cells.csv --response neurite_length_um --levels lab,animal \\
+    --condition genotype,treatment --covariate soma_area_um2 --reference genotype=WT,treatment=vehicle`
+
+/** At most this many condition factors and covariates (as in the app's settings). */
+const MAX_CONDITIONS = 2
+const MAX_COVARIATES = 4
 
 /** Separators people type on a command line, mapped to the character. */
 const DELIMITERS: Record<string, string> = {
@@ -58,6 +72,7 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
         response: { type: 'string' },
         levels: { type: 'string' },
         condition: { type: 'string' },
+        covariate: { type: 'string' },
         reference: { type: 'string' },
         bootstrap: { type: 'string' },
         seed: { type: 'string' },
@@ -110,19 +125,57 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
     throw new CliInputError('--seed only applies together with --bootstrap N.')
   }
 
-  if (values.condition !== undefined && values.condition.trim() === '')
-    throw new CliInputError('--condition needs a column name.')
-  if (values.reference !== undefined && values.condition === undefined)
-    throw new CliInputError('--reference needs --condition COL.')
-
+  const conditions = columnList('--condition', values.condition, MAX_CONDITIONS)
+  const covariates = columnList('--covariate', values.covariate, MAX_COVARIATES)
   return {
     file: positionals[0],
     response: values.response.trim(),
     levels,
-    condition: values.condition?.trim() ?? null,
-    reference: values.reference ?? null,
+    conditions,
+    covariates,
+    reference: referenceLevels(values.reference, conditions),
     bootstrap,
     delimiter,
     decimal,
   }
+}
+
+/** A comma-separated list of column names (empty when the option is absent). */
+function columnList(option: string, text: string | undefined, max: number): string[] {
+  if (text === undefined) return []
+  const names = text.split(',').map((name) => name.trim())
+  if (names.some((name) => name === ''))
+    throw new CliInputError(`${option} has an empty column name: "${text}".`)
+  if (names.length > max)
+    throw new CliInputError(`${option} takes at most ${max} columns, got ${names.length}.`)
+  return names
+}
+
+/**
+ * "--reference LEVEL" for the one condition, or "--reference A=LEVEL[,B=LEVEL]" per condition
+ * column. A value that starts with a condition's name and "=" is read as the second form.
+ */
+function referenceLevels(text: string | undefined, conditions: string[]): Record<string, string> {
+  if (text === undefined) return {}
+  if (!conditions.length) throw new CliInputError('--reference needs --condition COL.')
+  const perFactor = conditions.some((name) => text.startsWith(`${name}=`))
+  if (!perFactor) {
+    if (conditions.length > 1)
+      throw new CliInputError(
+        `--reference "${text}" does not say which condition it is for; use --reference ${conditions[0]}=LEVEL,${conditions[1]}=LEVEL.`,
+      )
+    return { [conditions[0]]: text }
+  }
+  const reference: Record<string, string> = {}
+  for (const part of text.split(',')) {
+    const at = part.indexOf('=')
+    const factor = at < 0 ? '' : part.slice(0, at).trim()
+    if (!conditions.includes(factor))
+      throw new CliInputError(
+        `--reference "${part}" must be FACTOR=LEVEL with FACTOR one of the conditions (${conditions.join(', ')}).`,
+      )
+    if (factor in reference) throw new CliInputError(`--reference names "${factor}" twice.`)
+    reference[factor] = part.slice(at + 1)
+  }
+  return reference
 }

@@ -5,8 +5,11 @@ export interface ColumnSelection {
   response: string
   /** Nesting levels, outermost first. */
   levels: string[]
-  condition?: string | null
-  /** Decimal mark of the response values. */
+  /** Condition factors: none, one or two. */
+  conditions?: readonly string[]
+  /** Numeric covariates. */
+  covariates?: readonly string[]
+  /** Decimal mark of the response and covariate values. */
   decimal?: '.' | ','
 }
 
@@ -53,18 +56,21 @@ class FactorBuilder {
 
 /**
  * Turns table rows into engine columns without keeping any per-row object: labels become integer
- * codes through Map lookups, the response goes straight into a Float64Array. A row with a missing
- * label or a missing response gets NaN as its response so the engine leaves it out and counts it.
- * The reader looks up label codes only when a label changes from one row to the next.
+ * codes through Map lookups, the response and covariates go straight into Float64Arrays. A row
+ * with a missing label, response or covariate gets NaN there, so the engine leaves it out and
+ * counts it. The reader looks up label codes only when a label changes from one row to the next.
  */
 export class ColumnCollector {
   private responseIndex = -1
   private levels: FactorBuilder[] = []
-  private condition: FactorBuilder | null = null
+  private conditions: FactorBuilder[] = []
   private factors: FactorBuilder[] = []
-  /** Column index of each factor: the levels, outermost first, then the condition. */
+  /** Column index of each factor: the levels, outermost first, then the conditions. */
   factorColumns: number[] = []
+  /** Column index of each covariate, in the order given. */
+  covariateColumns: number[] = []
   private response = new Float64Array(1024)
+  private covariates: Float64Array[] = []
   private rows = 0
   private headerSeen = false
   readonly decimalComma: boolean
@@ -74,12 +80,13 @@ export class ColumnCollector {
     const names = [
       selection.response,
       ...selection.levels,
-      ...(selection.condition ? [selection.condition] : []),
+      ...(selection.conditions ?? []),
+      ...(selection.covariates ?? []),
     ]
     const repeated = names.find((name, i) => names.indexOf(name) !== i)
     if (repeated !== undefined)
       throw new CliInputError(
-        `The column "${repeated}" is used twice; response, levels and condition must be different columns.`,
+        `The column "${repeated}" is used twice; response, levels, conditions and covariates must be different columns.`,
       )
   }
 
@@ -102,10 +109,10 @@ export class ColumnCollector {
   }
 
   /**
-   * Adds a data row: one label code per factor, in factor order. A row with a missing label (-1)
-   * still needs a code; it is left out through a NaN response.
+   * Adds a data row: one label code per factor, in factor order, and one value per covariate. A
+   * row with a missing label (-1) still needs a code; it is left out through a NaN response.
    */
-  addRow(codes: Int32Array, response: number): void {
+  addRow(codes: Int32Array, response: number, covariates?: Float64Array): void {
     if (this.rows === this.response.length) this.grow()
     const row = this.rows++
     const factors = this.factors
@@ -116,16 +123,27 @@ export class ColumnCollector {
       factors[f].codes[row] = code < 0 ? 0 : code
     }
     this.response[row] = missing ? NaN : response
+    for (let k = 0; k < this.covariates.length; k++)
+      this.covariates[k][row] = covariates ? covariates[k] : NaN
   }
 
   finish(): NestedColumns {
     if (!this.headerSeen) throw new CliInputError('The file is empty: no header row.')
     if (this.rows === 0) throw new CliInputError('The file has a header but no data rows.')
+    const covariates = this.selection.covariates ?? []
     return {
       responseName: this.selection.response,
       response: this.response.subarray(0, this.rows),
       levels: this.levels.map((level) => level.toFactor(this.rows)),
-      factors: this.condition ? [this.condition.toFactor(this.rows)] : [],
+      factors: this.conditions.map((condition) => condition.toFactor(this.rows)),
+      ...(covariates.length
+        ? {
+            covariates: covariates.map((name, k) => ({
+              name,
+              values: this.covariates[k].subarray(0, this.rows),
+            })),
+          }
+        : {}),
     }
   }
 
@@ -143,16 +161,29 @@ export class ColumnCollector {
       return index
     }
     this.responseIndex = find(this.selection.response)
-    this.levels = this.selection.levels.map((name) => new FactorBuilder(name, this.response.length))
-    const { condition } = this.selection
-    this.condition = condition ? new FactorBuilder(condition, this.response.length) : null
-    this.factors = this.condition ? [...this.levels, this.condition] : [...this.levels]
-    this.factorColumns = [...this.selection.levels, ...(condition ? [condition] : [])].map(find)
+    const size = this.response.length
+    const conditions = this.selection.conditions ?? []
+    const covariates = this.selection.covariates ?? []
+    this.levels = this.selection.levels.map((name) => new FactorBuilder(name, size))
+    this.conditions = conditions.map((name) => new FactorBuilder(name, size))
+    this.factors = [...this.levels, ...this.conditions]
+    this.factorColumns = [...this.selection.levels, ...conditions].map(find)
+    this.covariateColumns = covariates.map(find)
+    this.covariates = covariates.map(() => new Float64Array(size))
     this.headerSeen = true
   }
 
   /** The response value of a field's text (NaN when missing); names the row and line when it is not a number. */
   parseResponse(raw: string, row: number, line: number): number {
+    return this.parseNumber(raw, row, line, `the response column "${this.selection.response}"`)
+  }
+
+  /** Covariate `k`'s value of a field's text (NaN when missing); names the row, line and column when it is not a number. */
+  parseCovariate(k: number, raw: string, row: number, line: number): number {
+    return this.parseNumber(raw, row, line, `the covariate column "${this.selection.covariates![k]}"`)
+  }
+
+  private parseNumber(raw: string, row: number, line: number, what: string): number {
     const text = clean(raw)
     if (text === '') return NaN
     const value = Number(this.decimalComma ? text.replace(',', '.') : text)
@@ -161,7 +192,7 @@ export class ColumnCollector {
       const hint =
         !this.decimalComma && /^-?\d+,\d+$/.test(text) ? ' (for a decimal comma use --decimal ",")' : ''
       throw new CliInputError(
-        `Row ${row + 1} (line ${line}): the response column "${this.selection.response}" holds "${text}", which is not a number${hint}.`,
+        `Row ${row + 1} (line ${line}): ${what} holds "${text}", which is not a number${hint}.`,
       )
     }
     return value
@@ -180,6 +211,11 @@ export class ColumnCollector {
     const response = new Float64Array(size)
     response.set(this.response)
     this.response = response
+    this.covariates = this.covariates.map((values) => {
+      const grown = new Float64Array(size)
+      grown.set(values)
+      return grown
+    })
     for (const factor of this.factors) {
       const codes = new Int32Array(size)
       codes.set(factor.codes)

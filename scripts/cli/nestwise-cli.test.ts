@@ -9,6 +9,7 @@ import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { describe, expect, it } from 'vitest'
 import { AnalysisResult } from '../../shared/schemas/analysis-result'
+import { ENGINE_VERSION } from '../../shared/stats/engine-version'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
 const fixture = (name: string) => join('tests', 'fixtures', 'cli', name)
@@ -22,6 +23,19 @@ function nestwise(...args: string[]) {
 }
 
 const analyzeCells = ['--response', 'neurite_length_um', '--levels', 'lab,mouse', '--condition', 'treatment']
+const analyzeTwoFactors = [
+  '--response',
+  'neurite_length_um',
+  '--levels',
+  'lab,mouse',
+  '--condition',
+  'genotype,treatment',
+  '--covariate',
+  'soma_area_um2',
+]
+/** Engine 0.1 fits one factor and no covariate; 0.2 fits two factors and covariates. */
+const [engineMajor, engineMinor] = ENGINE_VERSION.split('.').map(Number)
+const engineFitsTwoFactors = engineMajor > 0 || engineMinor >= 2
 
 // Each test spawns the command line one to three times (the first may rebuild its bundle); a busy
 // machine makes that slow, hence the long timeout.
@@ -46,7 +60,10 @@ describe('nestwise analyze', SPAWNING, () => {
       ['lab', 4],
       ['mouse', 16],
     ])
-    expect(result.varianceComponents.map((c) => c.level)).toEqual(['lab', 'mouse', 'residual'])
+    // Treatment varies between mice inside each lab: the maximal nested model (engine 0.2) adds lab:treatment.
+    expect(result.varianceComponents.map((c) => c.level)).toEqual(
+      engineFitsTwoFactors ? ['lab', 'lab:treatment', 'mouse', 'residual'] : ['lab', 'mouse', 'residual'],
+    )
     expect(result.groups.map((g) => g.condition).sort()).toEqual(['NW-117', 'vehicle'])
     expect(result.comparisons.mixedModel!.contrasts[0]).toMatchObject({ a: 'NW-117', b: 'vehicle' })
     expect(result.engine.version).toMatch(/^\d+\.\d+\.\d+$/)
@@ -135,6 +152,16 @@ describe('nestwise analyze', SPAWNING, () => {
       ['analyze', fixture('cells.csv'), ...analyzeCells, '--reference', 'saline'],
       /^nestwise: .*"saline".*$/,
     ],
+    [
+      'a covariate holding text, naming row, line and column',
+      ['analyze', fixture('covariate-text.csv'), ...analyzeTwoFactors],
+      /^nestwise: Row 9 \(line 10\): the covariate column "soma_area_um2" holds "n\.d\.", which is not a number\.$/,
+    ],
+    [
+      'a reference that does not say which of two conditions it is for',
+      ['analyze', fixture('genotype-treatment.csv'), ...analyzeTwoFactors, '--reference', 'WT'],
+      /^nestwise: --reference "WT" does not say which condition it is for; use --reference genotype=LEVEL,treatment=LEVEL\.$/,
+    ],
     ['an unknown command', ['summarise'], /^nestwise: Unknown command "summarise"/],
   ])('exits with code 2 and one line on stderr for %s', (_, args, message) => {
     const run = nestwise(...args)
@@ -143,6 +170,35 @@ describe('nestwise analyze', SPAWNING, () => {
     expect(run.stderr.endsWith('\n')).toBe(true)
     expect(run.stderr.trimEnd().split('\n')).toHaveLength(1)
     expect(run.stderr.trimEnd()).toMatch(message)
+  })
+})
+
+// Runs once the engine fits two factors and covariates (engine 0.2); until then such a design is refused.
+describe.runIf(engineFitsTwoFactors)('nestwise analyze, two factors and a covariate', SPAWNING, () => {
+  it('prints exactly the engine’s result: factors, covariate, model formula and references per factor', () => {
+    const run = nestwise(
+      'analyze',
+      fixture('genotype-treatment.csv'),
+      ...analyzeTwoFactors,
+      '--reference',
+      'genotype=WT,treatment=vehicle',
+    )
+    expect(run.stderr).toBe('')
+    expect(run.code).toBe(0)
+    expect(run.stdout.trim().split('\n')).toHaveLength(1)
+    const result = AnalysisResult.parse(JSON.parse(run.stdout))
+    expect(result.nObs).toBe(72)
+    expect(result.condition).toBe('genotype:treatment')
+    expect(result.reference).toBe('WT:vehicle')
+    expect(result.factors!.map((f) => f.name)).toEqual(['genotype', 'treatment'])
+    expect(result.covariates!.map((c) => c.name)).toEqual(['soma_area_um2'])
+    const formula = result.model!.formula
+    expect(formula.startsWith('neurite_length_um ~ ')).toBe(true)
+    for (const part of ['genotype * treatment', 'soma_area_um2', '(1|lab)']) expect(formula).toContain(part)
+    const terms = result.comparisons.mixedModel!.terms!.map((t) => t.term)
+    expect(terms).toEqual(
+      expect.arrayContaining(['genotype', 'treatment', 'genotype:treatment', 'soma_area_um2']),
+    )
   })
 })
 

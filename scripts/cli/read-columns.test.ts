@@ -5,7 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest'
 import iconv from 'iconv-lite'
 import { readColumnsFromFile, readColumnsFromText } from './read-columns'
 
-const selection = { response: 'length', levels: ['lab', 'animal'], condition: 'treatment' }
+const selection = { response: 'length', levels: ['lab', 'animal'], conditions: ['treatment'] }
 
 describe('readColumnsFromText', () => {
   it('codes labels in order of appearance and keeps the response as doubles', () => {
@@ -19,7 +19,7 @@ describe('readColumnsFromText', () => {
     expect(Array.from(columns.levels[0].codes)).toEqual([0, 0, 1])
     // Animal "1" of lab B gets the same code as animal "1" of lab A: paths are the engine's job.
     expect(Array.from(columns.levels[1].codes)).toEqual([0, 1, 0])
-    expect(columns.condition?.labels).toEqual(['vehicle', 'NW-117'])
+    expect(columns.factors?.[0].labels).toEqual(['vehicle', 'NW-117'])
     expect(columns.responseName).toBe('length')
   })
 
@@ -35,7 +35,7 @@ describe('readColumnsFromText', () => {
       selection,
     )
     expect(semi.levels[0].labels).toEqual(['A;1', 'B'])
-    expect(semi.condition?.labels).toEqual(['veh"icle', 'vehicle'])
+    expect(semi.factors?.[0].labels).toEqual(['veh"icle', 'vehicle'])
   })
 
   it('reads a decimal comma on request, with a semicolon separator detected', () => {
@@ -65,6 +65,53 @@ describe('readColumnsFromText', () => {
     )
   })
 
+  it('reads two condition factors and covariates, a missing covariate as NaN', () => {
+    const columns = readColumnsFromText(
+      [
+        'lab,animal,genotype,treatment,soma,age,length',
+        'A,1,WT,vehicle,80.5,12,10',
+        'A,1,WT,NW-117,NA,12,11',
+        'A,2,KO-3,vehicle,79,,12',
+        'B,1,KO-3,NW-117,81.25,14,13',
+      ].join('\n'),
+      {
+        response: 'length',
+        levels: ['lab', 'animal'],
+        conditions: ['genotype', 'treatment'],
+        covariates: ['soma', 'age'],
+      },
+    )
+    expect(columns.factors!.map((f) => [f.name, f.labels, Array.from(f.codes)])).toEqual([
+      ['genotype', ['WT', 'KO-3'], [0, 0, 1, 1]],
+      ['treatment', ['vehicle', 'NW-117'], [0, 1, 0, 1]],
+    ])
+    expect(columns.covariates!.map((c) => c.name)).toEqual(['soma', 'age'])
+    expect(columns.covariates![0].values).toBeInstanceOf(Float64Array)
+    expect(Array.from(columns.covariates![0].values)).toEqual([80.5, NaN, 79, 81.25])
+    expect(Array.from(columns.covariates![1].values)).toEqual([12, 12, NaN, 14])
+    expect(Array.from(columns.response)).toEqual([10, 11, 12, 13])
+  })
+
+  it('reads covariates with a decimal comma and leaves out no covariate when none is asked for', () => {
+    const columns = readColumnsFromText('lab;animal;soma;length\nA;1;1,5;2\nB;1;-0,25;3\n', {
+      response: 'length',
+      levels: ['lab', 'animal'],
+      covariates: ['soma'],
+      decimal: ',',
+    })
+    expect(Array.from(columns.covariates![0].values)).toEqual([1.5, -0.25])
+    expect(
+      readColumnsFromText('lab,length\nA,1\n', { response: 'length', levels: ['lab'] }),
+    ).not.toHaveProperty('covariates')
+  })
+
+  it('names the row, line and column of a covariate that holds text', () => {
+    const text = 'lab,animal,soma,length\nA,1,80,1\nA,2,80,2\nA,3,large,3\n'
+    expect(() =>
+      readColumnsFromText(text, { response: 'length', levels: ['lab', 'animal'], covariates: ['soma'] }),
+    ).toThrow('Row 3 (line 4): the covariate column "soma" holds "large", which is not a number.')
+  })
+
   it('lists the available columns when one is missing', () => {
     expect(() => readColumnsFromText('lab,mouse,treatment,length\nA,1,v,1\n', selection)).toThrow(
       'Column "animal" not found. Available columns: lab, mouse, treatment, length.',
@@ -75,6 +122,16 @@ describe('readColumnsFromText', () => {
     expect(() =>
       readColumnsFromText('lab,length\nA,1\n', { response: 'length', levels: ['lab', 'length'] }),
     ).toThrow(/used twice/)
+    expect(() =>
+      readColumnsFromText('lab,soma,length\nA,1,1\n', {
+        response: 'length',
+        levels: ['lab'],
+        conditions: ['soma'],
+        covariates: ['soma'],
+      }),
+    ).toThrow(
+      'The column "soma" is used twice; response, levels, conditions and covariates must be different columns.',
+    )
     expect(() =>
       readColumnsFromText('lab,lab,length\nA,B,1\n', { response: 'length', levels: ['lab'] }),
     ).toThrow(/more than once/)
@@ -129,24 +186,27 @@ describe('readColumnsFromFile', () => {
     const columns = await readColumnsFromFile(path, selection)
     expect(columns.response.length).toBe(20000)
     expect(columns.levels[0].labels).toEqual(['Läb-ü0', 'Läb-ü1', 'Läb-ü2'])
-    expect(columns.condition?.labels).toEqual(['β'])
+    expect(columns.factors?.[0].labels).toEqual(['β'])
   })
 
   it('reserves room from the first chunk and still reads a file longer than estimated', async () => {
     // Long rows first, short rows later: the estimate from the first chunk is too small and the columns must grow.
-    const lines = ['lab,animal,treatment,length']
+    const lines = ['lab,animal,treatment,length,soma']
     for (let i = 0; i < 60000; i++)
       lines.push(
         i >= 30000
-          ? `A,${i % 9},v,${i}`
-          : `Lab-with-a-much-longer-name-${i % 4},animal-${i % 9},vehicle,${i}`,
+          ? `A,${i % 9},v,${i},${i % 13}`
+          : `Lab-with-a-much-longer-name-${i % 4},animal-${i % 9},vehicle,${i},${i % 13}`,
       )
     const path = join(folder, 'uneven.csv')
     writeFileSync(path, lines.join('\n'))
-    const columns = await readColumnsFromFile(path, selection)
+    const columns = await readColumnsFromFile(path, { ...selection, covariates: ['soma'] })
     expect(columns.response.length).toBe(60000)
+    expect(columns.covariates![0].values.length).toBe(60000)
+    expect(columns.covariates![0].values[59999]).toBe(59999 % 13)
+    expect(columns.covariates![0].values[29999]).toBe(29999 % 13)
     expect(columns.levels.map((l) => l.codes.length)).toEqual([60000, 60000])
-    expect(columns.condition!.codes.length).toBe(60000)
+    expect(columns.factors![0].codes.length).toBe(60000)
     expect(columns.response[59999]).toBe(59999)
     expect(columns.levels[0].labels[columns.levels[0].codes[59999]]).toBe('A')
     expect(columns.levels[0].labels[columns.levels[0].codes[29999]]).toBe('Lab-with-a-much-longer-name-3')

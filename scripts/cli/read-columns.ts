@@ -43,6 +43,8 @@ class ColumnReader {
   private previousLength: number[] = []
   /** Label code of each factor in the current row (-1 = missing). */
   private codes = new Int32Array(0)
+  /** Value of each covariate in the current row (NaN = missing). */
+  private covariates = new Float64Array(0)
 
   constructor(
     private readonly options: ReadColumnsOptions,
@@ -102,6 +104,7 @@ class ColumnReader {
       this.previousBytes = collector.factorColumns.map(() => Buffer.alloc(64))
       this.previousLength = collector.factorColumns.map(() => -1)
       this.codes = new Int32Array(collector.factorColumns.length)
+      this.covariates = new Float64Array(collector.covariateColumns.length)
       return
     }
     const columns = collector.factorColumns
@@ -130,7 +133,31 @@ class ColumnReader {
       if (Number.isNaN(response))
         response = collector.parseResponse(fieldText(record, column), collector.rowCount, record.line)
     }
-    collector.addRow(codes, response)
+    const covariates = this.covariates
+    if (covariates.length) this.readCovariates(record, missing)
+    collector.addRow(codes, response, covariates)
+  }
+
+  /** Each covariate of the row as a number (NaN when missing); a row left out for a missing label is not read. */
+  private readCovariates(record: CsvRow, missing: boolean): void {
+    const collector = this.collector
+    const columns = collector.covariateColumns
+    for (let k = 0; k < columns.length; k++) {
+      const field = columns[k]
+      if (missing || field >= record.count) {
+        this.covariates[k] = NaN
+        continue
+      }
+      let value = parseDecimalBytes(
+        record.bytes,
+        record.starts[field],
+        record.ends[field],
+        collector.decimalComma,
+      )
+      if (Number.isNaN(value))
+        value = collector.parseCovariate(k, fieldText(record, field), collector.rowCount, record.line)
+      this.covariates[k] = value
+    }
   }
 
   /**

@@ -8,12 +8,10 @@ export async function runAnalyze(args: AnalyzeArgs): Promise<AnalysisResult> {
   const columns = await readColumnsFromFile(args.file, {
     response: args.response,
     levels: args.levels,
-    condition: args.condition,
+    conditions: args.conditions,
+    covariates: args.covariates,
     delimiter: args.delimiter,
     decimal: args.decimal,
   })
-  return analyzeNested(columns, {
-    ...(args.reference === null ? {} : { reference: args.reference }),
-    bootstrap: args.bootstrap,
-  })
+  return analyzeNested(columns, { reference: args.reference, bootstrap: args.bootstrap })
 }

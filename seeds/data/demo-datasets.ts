@@ -1,4 +1,5 @@
 import seedrandom from 'seedrandom'
+import { genotypeTreatmentCsv } from './demo-genotype-treatment'
 
 /**
  * The demo datasets: invented per-cell tables of a fictional consortium measuring neurite length
@@ -186,6 +187,21 @@ export function demoDatasets(): DemoDataset[] {
       filename: 'fernhill-plates.csv',
       csv: plateReaderDoses(),
       tagging: { responseColumns: ['viability_au'], conditionColumn: 'dose', levels: ['day', 'plate'] },
+    },
+    {
+      labSlug: 'nimbus-neurite-lab',
+      uploaderEmail: 'petra@example.org',
+      project: 'Consortium NW-117',
+      name: 'Genotype × treatment, three labs',
+      description:
+        'Wild-type and Nwl1 knock-out mice (an invented line) in three labs; two coverslips per mouse, one with vehicle and one with NW-117; soma area measured per neuron. Invented demo data.',
+      filename: 'consortium-genotype-treatment.csv',
+      csv: genotypeTreatmentCsv(),
+      tagging: {
+        responseColumns: ['neurite_length_um'],
+        conditionColumn: 'treatment',
+        levels: ['lab', 'mouse', 'coverslip'],
+      },
     },
   ]
 }

@@ -47,13 +47,18 @@ export async function computeAnalysis(
   report({ stage: 'reading', fraction: STAGE_START.reading })
   const columns = await loadNestedColumns(
     input.datasetVersionId,
-    { response: settings.response, condition: settings.condition, levels: settings.levels },
+    {
+      response: settings.response,
+      conditions: settings.conditions,
+      covariates: settings.covariates,
+      levels: settings.levels,
+    },
     input.exclusions,
     conn,
   )
   report({ stage: 'fitting', fraction: STAGE_START.fitting })
   const result = analyzeNested(columns, {
-    ...(settings.reference === null ? {} : { reference: settings.reference }),
+    reference: settings.reference,
     bootstrap: settings.bootstrap.enabled
       ? { resamples: settings.bootstrap.resamples, seed: settings.bootstrap.seed }
       : null,

@@ -1,13 +1,13 @@
-import type {
-  AnalysisHeadline,
-  AnalysisProgress,
-  AnalysisRunError,
+import {
+  type AnalysisHeadline,
+  type AnalysisProgress,
+  type AnalysisRunError,
   AnalysisSettings,
-  AnalysisStatus,
-  AnalysisVersionStatus,
-  AnalysisVersionSummary,
-  AppliedExclusion,
-  ChartData,
+  type AnalysisStatus,
+  type AnalysisVersionStatus,
+  type AnalysisVersionSummary,
+  type AppliedExclusion,
+  type ChartData,
 } from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import type { Exclusion } from '../../shared/schemas/datasets'
@@ -222,10 +222,7 @@ export interface NewAnalysisVersion {
   exclusions: RecordedExclusion[]
   engineVersion: string
   createdBy: number
-  /**
-   * An outcome known already, stored at once instead of queuing the version: a result reused
-   * because only the display changed, or a run made directly (the demo seed).
-   */
+  /** An outcome known already, stored at once instead of queuing the version: a run made directly (the demo seed). */
   finished?: { result: AnalysisResult; chart: ChartData; runMs: number | null } | { error: AnalysisRunError }
 }
 
@@ -277,7 +274,8 @@ interface VersionRow {
   dataset_version_id: number
   dataset_version_no: number
   dataset_sha256: string
-  settings: AnalysisSettings
+  /** As stored: engine 0.1 wrote another shape (see toVersion). */
+  settings: unknown
   exclusions: RecordedExclusion[]
   engine_version: string
   status: AnalysisStatus
@@ -333,7 +331,8 @@ function toVersion(row: VersionRow): AnalysisVersionRecord {
       versionNo: row.dataset_version_no,
       sha256: row.dataset_sha256,
     },
-    settings: row.settings,
+    // Parsed, so settings stored by engine 0.1 read in today's shape; the stored JSON stays as it is.
+    settings: AnalysisSettings.parse(row.settings),
     exclusions: row.exclusions,
     engineVersion: row.engine_version,
     createdBy: { id: row.created_by, name: row.creator_name },

@@ -1,8 +1,8 @@
-import type {
-  AnalysisProgress,
-  AnalysisRunError,
+import {
+  type AnalysisProgress,
+  type AnalysisRunError,
   AnalysisSettings,
-  ChartData,
+  type ChartData,
 } from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import type { RecordedExclusion } from './analyses.repo'
@@ -39,7 +39,7 @@ export async function claimNextJob(claimToken: string, conn: Conn = defaultConn)
         id: number
         attempts: number
         dataset_version_id: number
-        settings: AnalysisSettings
+        settings: unknown
         exclusions: RecordedExclusion[]
       }
     | undefined
@@ -49,7 +49,8 @@ export async function claimNextJob(claimToken: string, conn: Conn = defaultConn)
         claimToken,
         attempts: row.attempts,
         datasetVersionId: row.dataset_version_id,
-        settings: row.settings,
+        // A version queued before an upgrade may hold engine 0.1 settings: read in today's shape.
+        settings: AnalysisSettings.parse(row.settings),
         exclusions: row.exclusions,
       }
     : null

@@ -123,6 +123,62 @@ export async function firstNonNumberRow(
   return row ? { rowNo: Number(row.row_no), value: row.value } : null
 }
 
+/** Distinct labels of two factor columns over the kept rows, and how they pair up. */
+export interface CrossedLabelCounts {
+  /** Distinct labels of each column among kept rows where it has one. */
+  first: number
+  second: number
+  /** One label of each (the smallest), to name a constant column. */
+  firstExample: string | null
+  secondExample: string | null
+  /** Among kept rows labelled in both: distinct pairs, and distinct labels of each column. */
+  pairs: number
+  firstPaired: number
+  secondPaired: number
+}
+
+/**
+ * Counts the labels of two factor columns over the kept rows and their distinct pairs, in one
+ * scan: enough to tell a constant factor and two factors that are the same split under two names.
+ */
+export async function crossedLabelCounts(
+  shape: RowTableShape,
+  firstPosition: number,
+  secondPosition: number,
+  excluded: string,
+  conn: Conn = defaultConn,
+): Promise<CrossedLabelCounts> {
+  // One hash aggregate over the rows down to the distinct pairs (a few), then counts over those.
+  const label = (position: number) =>
+    `CASE WHEN ${missingSql(shape, position)} THEN NULL ELSE ${trimmed(position)} END`
+  const [row] = await queryBuilt<Record<string, string | null>>(
+    `WITH pairs AS (
+       SELECT a, b FROM (
+         SELECT ${label(firstPosition)} AS a, ${label(secondPosition)} AS b
+           FROM ${rowsTable(shape.versionId)} WHERE NOT ${excluded}
+       ) labelled GROUP BY a, b
+     )
+     SELECT count(DISTINCT a) AS first,
+            count(DISTINCT b) AS second,
+            min(a) AS first_example,
+            min(b) AS second_example,
+            count(*) FILTER (WHERE a IS NOT NULL AND b IS NOT NULL) AS pairs,
+            count(DISTINCT a) FILTER (WHERE b IS NOT NULL) AS first_paired,
+            count(DISTINCT b) FILTER (WHERE a IS NOT NULL) AS second_paired
+       FROM pairs`,
+    conn,
+  )
+  return {
+    first: Number(row.first),
+    second: Number(row.second),
+    firstExample: row.first_example,
+    secondExample: row.second_example,
+    pairs: Number(row.pairs),
+    firstPaired: Number(row.first_paired),
+    secondPaired: Number(row.second_paired),
+  }
+}
+
 export interface PageRequest {
   offset: number
   limit: number

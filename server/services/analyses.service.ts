@@ -5,7 +5,6 @@ import type {
   AnalysisDetail,
   AnalysisListItem,
   AnalysisListQuery,
-  AnalysisSettings,
   AnalysisVersionCreate,
   AnalysisVersionDetail,
   AnalysisVersionStatus,
@@ -37,9 +36,10 @@ import type { Conn } from '../repositories/connection'
 import { activeExclusions, currentTagging } from '../repositories/datasets-annotations.repo'
 import { findVersion, listColumns, listVersions, type VersionRecord } from '../repositories/datasets.repo'
 import { recordAudit } from './audit.service'
+import { checkSettingsAgainstRows } from './analysis-design-checks.service'
 import {
   checkSettingsAgainstColumns,
-  knownLabels,
+  labelsByColumn,
   mergeSettings,
   settingsFromTagging,
 } from './analysis-settings.service'
@@ -183,14 +183,12 @@ export async function getAnalysisDefaults(
   await datasetFor(user, datasetId, 'read')
   const version = await readyDatasetVersion(datasetId, datasetVersionNo)
   const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
-  const settings = settingsFromTagging(tagging)
-  const conditionColumn = settings?.condition ? columns.find((c) => c.name === settings.condition) : undefined
   return {
     datasetVersion: { id: version.id, versionNo: version.versionNo },
-    settings,
+    settings: settingsFromTagging(tagging),
     columns: columns.map((c) => c.name),
     numericColumns: columns.filter((c) => c.type === 'integer' || c.type === 'numeric').map((c) => c.name),
-    conditionLabels: knownLabels(conditionColumn),
+    labelsByColumn: labelsByColumn(columns),
   }
 }
 
@@ -227,7 +225,8 @@ export async function exportUnitsCsv(
 
 /**
  * A new analysis of a dataset (version 1 queued at once). Settings not given come from the
- * dataset version's tagging; every column is checked against the version (400 naming it).
+ * dataset version's tagging; every column is checked against the version (400 naming it), and
+ * covariates and a second factor against its kept rows (400 / 422, see checkSettingsAgainstRows).
  */
 export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate): Promise<AnalysisDetail> {
   const dataset = await datasetFor(user, input.datasetId, 'read')
@@ -239,6 +238,8 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
   const name = input.name ?? `${dataset.name} – ${settings.response}`
 
   const analysisId = await db.transaction(async (trx) => {
+    const exclusions = await recordExclusions(version.id, trx)
+    await checkSettingsAgainstRows(version, settings, exclusions, trx)
     const id = await insertAnalysis(
       {
         labId: dataset.labId,
@@ -256,7 +257,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
         datasetVersionId: version.id,
         datasetSha256: version.sha256,
         settings,
-        exclusions: await recordExclusions(version.id, trx),
+        exclusions,
         engineVersion: ENGINE_VERSION,
         createdBy: user.id,
       },
@@ -278,8 +279,8 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
 /**
  * The next version of an analysis: the newest version's settings with the given changes, on the
  * same dataset version unless another is named. Asking for exactly what the newest version
- * already is (same settings, data and exclusions, not failed) answers 409. A change of the
- * display default alone reuses the newest finished result instead of computing it again.
+ * already is (same settings, data, exclusions and engine, not failed) answers 409. Fields the
+ * settings no longer have (the error bar, now a display preference) are ignored.
  */
 export async function createAnalysisVersionFor(
   user: CurrentUser,
@@ -299,20 +300,18 @@ export async function createAnalysisVersionFor(
     const next = await lockAnalysisForNewVersion(analysisId, trx)
     const latest = (await listAnalysisVersions(analysisId, trx))[0]
     const exclusions = await recordExclusions(datasetVersion.id, trx)
-    const sameData =
+    const unchanged =
       latest.datasetVersion.id === datasetVersion.id &&
       isDeepStrictEqual(latest.exclusions, exclusions) &&
-      latest.engineVersion === ENGINE_VERSION
-    const sameComputation =
-      sameData && isDeepStrictEqual(withoutDisplay(latest.settings), withoutDisplay(settings))
-    if (sameComputation && latest.status !== 'failed' && latest.settings.errorBar === settings.errorBar) {
+      latest.engineVersion === ENGINE_VERSION &&
+      isDeepStrictEqual(latest.settings, settings)
+    if (unchanged && latest.status !== 'failed') {
       throw new ConflictError(
         `Nothing changed: version ${latest.versionNo} already has these settings and data.`,
         { versionNo: latest.versionNo },
       )
     }
-    const reuse =
-      sameComputation && latest.status === 'done' ? await findAnalysisVersionResult(latest.id, trx) : null
+    await checkSettingsAgainstRows(datasetVersion, settings, exclusions, trx)
     await insertAnalysisVersion(
       {
         analysisId,
@@ -323,9 +322,6 @@ export async function createAnalysisVersionFor(
         exclusions,
         engineVersion: ENGINE_VERSION,
         createdBy: user.id,
-        ...(reuse?.result && reuse.chart
-          ? { finished: { result: reuse.result, chart: reuse.chart, runMs: null } }
-          : {}),
       },
       trx,
     )
@@ -334,18 +330,12 @@ export async function createAnalysisVersionFor(
       labId: analysis.labId,
       subjectType: 'analysis',
       subjectId: analysisId,
-      details: { versionNo: next, datasetVersionNo: datasetVersion.versionNo, reusedResult: !!reuse?.result },
+      details: { versionNo: next, datasetVersionNo: datasetVersion.versionNo },
     })
     return next
   })
   wakeAnalysisRunner()
   return publicVersion(await versionOf(analysisId, versionNo))
-}
-
-/** Settings that change what is computed (the error bar only changes what is shown first). */
-function withoutDisplay(settings: AnalysisSettings): Omit<AnalysisSettings, 'errorBar'> {
-  const { errorBar: _shown, ...computed } = settings
-  return computed
 }
 
 export async function renameAnalysisFor(

@@ -4,6 +4,7 @@ import { AppError } from '../errors/app-error'
 import {
   checkSettingsAgainstColumns,
   knownLabels,
+  labelsByColumn,
   mergeSettings,
   settingsFromTagging,
 } from './analysis-settings.service'
@@ -50,25 +51,52 @@ function issuesOf(run: () => unknown) {
 }
 
 describe('settingsFromTagging', () => {
-  it('takes the first response, the condition and the levels, with the display defaults', () => {
+  it('takes the first response, the condition as the one factor, the levels and the defaults', () => {
     expect(base).toEqual({
       response: 'neurite_um',
-      condition: 'treatment',
+      conditions: ['treatment'],
+      covariates: [],
       levels: ['lab', 'mouse'],
-      reference: null,
-      errorBar: 'sem',
+      reference: {},
       bootstrap: { enabled: false, resamples: 2000, seed: '1' },
     })
+    expect(
+      settingsFromTagging({ responseColumns: ['neurite_um'], conditionColumn: null, levels: ['mouse'] })
+        ?.conditions,
+    ).toEqual([])
     expect(settingsFromTagging(null)).toBeNull()
   })
 })
 
 describe('mergeSettings', () => {
-  it('keeps the reference while the condition stays, and drops it when the condition changes', () => {
-    const withReference = mergeSettings(base, { reference: 'vehicle' })
-    expect(mergeSettings(withReference, { levels: ['mouse'] }).reference).toBe('vehicle')
-    expect(mergeSettings(withReference, { condition: 'genotype' }).reference).toBeNull()
-    expect(mergeSettings(withReference, { condition: null }).reference).toBeNull()
+  it('keeps a reference while its factor stays a condition, and drops it when the factor goes', () => {
+    const withReference = mergeSettings(base, { reference: { treatment: 'vehicle' } })
+    expect(mergeSettings(withReference, { levels: ['mouse'] }).reference).toEqual({ treatment: 'vehicle' })
+    expect(mergeSettings(withReference, { conditions: ['genotype', 'treatment'] }).reference).toEqual({
+      treatment: 'vehicle',
+    })
+    expect(mergeSettings(withReference, { conditions: ['genotype'] }).reference).toEqual({})
+    expect(mergeSettings(withReference, { conditions: [] }).reference).toEqual({})
+  })
+
+  it('takes two conditions and covariates as sent', () => {
+    const two = mergeSettings(base, {
+      conditions: ['genotype', 'treatment'],
+      covariates: ['soma_um2'],
+      reference: { genotype: 'WT' },
+    })
+    expect(two).toMatchObject({
+      conditions: ['genotype', 'treatment'],
+      covariates: ['soma_um2'],
+      reference: { genotype: 'WT' },
+    })
+  })
+
+  it('ignores the error bar, which is no longer a setting', () => {
+    const sent = { reference: { treatment: 'vehicle' }, errorBar: 'sd' } as Parameters<
+      typeof mergeSettings
+    >[1]
+    expect(mergeSettings(base, sent)).not.toHaveProperty('errorBar')
   })
 
   it('merges bootstrap fields one by one', () => {
@@ -82,13 +110,16 @@ describe('mergeSettings', () => {
   })
 
   it('asks for response and levels when there is no tagging, and reports schema problems under settings.*', () => {
-    const missing = issuesOf(() => mergeSettings(null, { condition: 'treatment' }))
+    const missing = issuesOf(() => mergeSettings(null, { conditions: ['treatment'] }))
     expect(missing.status).toBe(400)
+    expect(missing.message).toContain('not tagged yet')
     expect(missing.details.issues.map((i) => i.path)).toEqual(['settings.response', 'settings.levels'])
     const twice = issuesOf(() => mergeSettings(base, { response: 'mouse' }))
     expect(twice.message).toContain('"mouse" is used twice')
-    const noCondition = issuesOf(() => mergeSettings(base, { condition: null, reference: 'vehicle' }))
-    expect(noCondition.details.issues[0].path).toBe('settings.reference')
+    const covariateTwice = issuesOf(() => mergeSettings(base, { covariates: ['treatment'] }))
+    expect(covariateTwice.message).toContain('"treatment" is used twice')
+    const three = issuesOf(() => mergeSettings(base, { conditions: ['a', 'b', 'c'] }))
+    expect(three.details.issues[0].path).toBe('settings.conditions')
   })
 })
 
@@ -97,38 +128,88 @@ describe('checkSettingsAgainstColumns', () => {
     column('lab'),
     column('mouse'),
     column('treatment'),
+    column('genotype', {
+      topValues: [
+        { value: 'WT', count: 10 },
+        { value: 'KO-3', count: 10 },
+      ],
+    }),
     column('neurite_um', { type: 'numeric', topValues: null, distinctCount: 900 }),
+    column('soma_um2', { type: 'numeric', topValues: null, distinctCount: 900 }),
   ]
 
-  it('accepts settings whose columns all exist', () => {
-    expect(() =>
-      checkSettingsAgainstColumns(mergeSettings(base, { reference: 'NW-117' }), columns, 1),
-    ).not.toThrow()
+  it('accepts settings whose columns all exist, with a reference per factor', () => {
+    const two = mergeSettings(base, {
+      conditions: ['genotype', 'treatment'],
+      covariates: ['soma_um2'],
+      reference: { genotype: 'KO-3', treatment: 'NW-117' },
+    })
+    expect(() => checkSettingsAgainstColumns(two, columns, 1)).not.toThrow()
   })
 
   it('names every missing column with its place in the settings', () => {
     const problem = issuesOf(() =>
-      checkSettingsAgainstColumns(mergeSettings(base, { levels: ['site', 'mouse'] }), columns.slice(1), 3),
+      checkSettingsAgainstColumns(
+        mergeSettings(base, {
+          levels: ['site', 'mouse'],
+          conditions: ['treatment', 'diet'],
+          covariates: ['age'],
+        }),
+        columns.slice(1),
+        3,
+      ),
     )
-    expect(problem.message).toBe('Version 3 of this dataset has no column “site”.')
-    expect(problem.details.issues.map((i) => i.path)).toEqual(['settings.levels.0'])
+    expect(problem.message).toBe('Version 3 of this dataset has no column “diet”.')
+    expect(problem.details.issues.map((i) => i.path)).toEqual([
+      'settings.conditions.1',
+      'settings.covariates.0',
+      'settings.levels.0',
+    ])
   })
 
-  it('refuses an empty response and a reference that is not a condition label', () => {
-    const empty = [...columns.slice(0, 3), column('neurite_um', { type: 'empty' })]
+  it('refuses an empty response or covariate and a reference that is not a label of its factor', () => {
+    const empty = [
+      ...columns.slice(0, 4),
+      column('neurite_um', { type: 'empty' }),
+      column('soma_um2', { type: 'empty' }),
+    ]
     expect(issuesOf(() => checkSettingsAgainstColumns(base, empty, 1)).message).toContain('has no values')
-    expect(
-      issuesOf(() => checkSettingsAgainstColumns(mergeSettings(base, { reference: 'saline' }), columns, 1))
-        .message,
-    ).toContain('“saline” is not a value of “treatment”')
+    const covariate = issuesOf(() =>
+      checkSettingsAgainstColumns(
+        mergeSettings(base, { covariates: ['soma_um2'] }),
+        [...columns.slice(0, 5), column('soma_um2', { type: 'empty' })],
+        1,
+      ),
+    )
+    expect(covariate.message).toBe('“soma_um2” cannot be a covariate: it has no values.')
+    expect(covariate.details.issues[0].path).toBe('settings.covariates.0')
+    const reference = issuesOf(() =>
+      checkSettingsAgainstColumns(
+        mergeSettings(base, { conditions: ['genotype', 'treatment'], reference: { genotype: 'wt' } }),
+        columns,
+        1,
+      ),
+    )
+    expect(reference.message).toBe('“wt” is not a value of “genotype” (it has “WT”, “KO-3”).')
+    expect(reference.details.issues[0].path).toBe('settings.reference.genotype')
   })
 })
 
-describe('knownLabels', () => {
+describe('knownLabels and labelsByColumn', () => {
   it('lists labels only when the profile holds all of them', () => {
     expect(knownLabels(column('treatment'))).toEqual(['vehicle', 'NW-117'])
     expect(knownLabels(column('treatment', { distinctCount: 3 }))).toBeNull()
     expect(knownLabels(column('treatment', { distinctCapped: true }))).toBeNull()
     expect(knownLabels(undefined)).toBeNull()
+  })
+
+  it('gives the labels of every text column whose profile knows them all, and no other column', () => {
+    expect(
+      labelsByColumn([
+        column('treatment'),
+        column('mouse', { distinctCount: 400, topValues: null }),
+        column('dose', { type: 'integer' }),
+      ]),
+    ).toEqual({ treatment: ['vehicle', 'NW-117'] })
   })
 })

@@ -1,63 +1,44 @@
-import { AnalysisSettings, type AnalysisSettingsPatch } from '../../shared/schemas/analyses'
+import type { AnalysisSettings, AnalysisSettingsPatch } from '../../shared/schemas/analyses'
 import type { ColumnProfile, Tagging } from '../../shared/schemas/datasets'
+import { applySettingsChange } from '../../shared/analysis/apply-settings-change'
 import { InvalidPayloadError } from '../errors/app-error'
-import { zodIssues } from '../errors/translate-error'
 
 const q = (name: string) => `“${name}”`
 
-/** Settings from a version's tagging: its first response, its condition and levels, the display defaults. */
+/** Settings from a version's tagging: its first response, its condition (if any) and levels, the defaults for the rest. */
 export function settingsFromTagging(
   tagging: Pick<Tagging, 'responseColumns' | 'conditionColumn' | 'levels'> | null,
 ): AnalysisSettings | null {
   if (!tagging || !tagging.responseColumns.length || !tagging.levels.length) return null
-  return AnalysisSettings.parse({
+  const change = applySettingsChange(null, {
     response: tagging.responseColumns[0],
-    condition: tagging.conditionColumn,
+    conditions: tagging.conditionColumn ? [tagging.conditionColumn] : [],
     levels: tagging.levels,
   })
+  // A tagging names distinct columns, so this holds; a tagging that breaks a rule simply has no defaults.
+  return change.ok ? change.settings : null
 }
 
 /**
  * Applies a client's partial settings to a base (the tagging's defaults, or the previous
- * version's settings). The reference condition is kept only while the condition column stays
- * the same; bootstrap fields merge one by one. Answers 400 when response or levels are still
- * unknown, or the result breaks a rule of the schema.
+ * version's settings) with the one shared rule (applySettingsChange). Answers 400 with every
+ * problem under "settings.<field>", the first one as the message; a missing response or levels
+ * says the dataset version is not tagged yet.
  */
 export function mergeSettings(base: AnalysisSettings | null, patch: AnalysisSettingsPatch): AnalysisSettings {
-  const condition = patch.condition !== undefined ? patch.condition : (base?.condition ?? null)
-  const sameCondition = base !== null && condition === base.condition
-  const merged = {
-    response: patch.response ?? base?.response,
-    condition,
-    levels: patch.levels ?? base?.levels,
-    reference: patch.reference !== undefined ? patch.reference : sameCondition ? base.reference : null,
-    errorBar: patch.errorBar ?? base?.errorBar,
-    bootstrap: { ...base?.bootstrap, ...patch.bootstrap },
-  }
-  if (merged.response === undefined || merged.levels === undefined) {
-    throw new InvalidPayloadError(
-      'This dataset version is not tagged yet: choose the response and the nesting levels.',
-      {
-        issues: [
-          ...(merged.response === undefined
-            ? [{ path: 'settings.response', message: 'Choose the response column' }]
-            : []),
-          ...(merged.levels === undefined
-            ? [{ path: 'settings.levels', message: 'Choose the nesting levels' }]
-            : []),
-        ],
-      },
-    )
-  }
-  const parsed = AnalysisSettings.safeParse(merged)
-  if (!parsed.success) {
-    const issues = zodIssues(parsed.error).map((issue) => ({
-      ...issue,
-      path: ['settings', issue.path].filter(Boolean).join('.'),
-    }))
-    throw new InvalidPayloadError(issues[0]?.message ?? 'The settings are not valid.', { issues })
-  }
-  return parsed.data
+  const change = applySettingsChange(base, patch)
+  if (change.ok) return change.settings
+  const issues = change.problems.map((problem) => ({
+    path: ['settings', problem.path].filter(Boolean).join('.'),
+    message: problem.message,
+  }))
+  const untagged = change.problems.some((p) => p.path === 'response' || p.path === 'levels')
+  throw new InvalidPayloadError(
+    untagged
+      ? 'This dataset version is not tagged yet: choose the response and the nesting levels.'
+      : (issues[0]?.message ?? 'The settings are not valid.'),
+    { issues },
+  )
 }
 
 /** Every label of a column when the profile knows them all (not capped, all in the top list), else null. */
@@ -67,10 +48,23 @@ export function knownLabels(column: ColumnProfile | undefined): string[] | null 
   return column.topValues.map((t) => t.value)
 }
 
+/** The known labels of every text column (for the reference picker of each condition factor). */
+export function labelsByColumn(columns: readonly ColumnProfile[]): Record<string, string[]> {
+  const out: Record<string, string[]> = {}
+  for (const column of columns) {
+    if (column.type !== 'text') continue
+    const labels = knownLabels(column)
+    if (labels) out[column.name] = labels
+  }
+  return out
+}
+
 /**
- * Checks settings against the columns of the dataset version: each named column exists, the
- * response is not empty, and a reference condition is one of the condition's labels when the
- * profile knows them all. 400 naming the column; the engine checks the rest when it runs.
+ * Checks settings against the column profiles of the dataset version: each named column exists,
+ * the response and the covariates are not empty, and each reference level is one of its factor's
+ * labels when the profile knows them all. 400 naming the column and its place in the settings.
+ * What the profile cannot tell (a covariate's text cell in a kept row, a constant or confounded
+ * second factor) is checked on the rows by analysis-design-checks.service.
  */
 export function checkSettingsAgainstColumns(
   settings: AnalysisSettings,
@@ -83,21 +77,22 @@ export function checkSettingsAgainstColumns(
     if (!byName.has(name))
       issues.push({ path, message: `Version ${datasetVersionNo} of this dataset has no column ${q(name)}.` })
   }
+  const notEmpty = (path: string, name: string, role: string) => {
+    if (byName.get(name)?.type === 'empty')
+      issues.push({ path, message: `${q(name)} cannot be ${role}: it has no values.` })
+  }
   need('settings.response', settings.response)
-  if (settings.condition) need('settings.condition', settings.condition)
+  settings.conditions.forEach((name, i) => need(`settings.conditions.${i}`, name))
+  settings.covariates.forEach((name, i) => need(`settings.covariates.${i}`, name))
   settings.levels.forEach((name, i) => need(`settings.levels.${i}`, name))
-  const response = byName.get(settings.response)
-  if (response?.type === 'empty')
-    issues.push({
-      path: 'settings.response',
-      message: `${q(settings.response)} cannot be the response: it has no values.`,
-    })
-  if (settings.condition && settings.reference !== null) {
-    const labels = knownLabels(byName.get(settings.condition))
-    if (labels && !labels.includes(settings.reference)) {
+  notEmpty('settings.response', settings.response, 'the response')
+  settings.covariates.forEach((name, i) => notEmpty(`settings.covariates.${i}`, name, 'a covariate'))
+  for (const [factor, level] of Object.entries(settings.reference)) {
+    const labels = knownLabels(byName.get(factor))
+    if (labels && !labels.includes(level)) {
       issues.push({
-        path: 'settings.reference',
-        message: `${q(settings.reference)} is not a value of ${q(settings.condition)} (it has ${labels.map(q).join(', ')}).`,
+        path: `settings.reference.${factor}`,
+        message: `${q(level)} is not a value of ${q(factor)} (it has ${labels.map(q).join(', ')}).`,
       })
     }
   }

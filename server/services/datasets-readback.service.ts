@@ -195,7 +195,10 @@ async function readColumnsWith(
 export interface ReadBackTagging {
   /** The one response column to load (a tagging may name several). */
   response: string
-  condition: string | null
+  /** Condition factors, none to two. */
+  conditions: readonly string[]
+  /** Numeric covariates. */
+  covariates: readonly string[]
   /** Outermost first. */
   levels: readonly string[]
 }
@@ -205,9 +208,10 @@ export const fileRow = (version: Pick<VersionRecord, 'headerRow'>, rowNo: number
 
 /**
  * The engine's input for one response of a tagged version: kept rows only (exclusions applied),
- * in file order, factor codes for the levels and the condition, NaN for a missing response.
+ * in file order, factor codes for the levels and the conditions, numbers for the response and the
+ * covariates, NaN for a missing number (the engine leaves such a row out and counts it).
  * Refuses (422, naming the row) a kept row without a label at some level or condition, and a
- * response cell that holds text which is not a number.
+ * response or covariate cell that holds text which is not a number.
  *
  * @param exclusions defaults to the version's active exclusions
  */
@@ -221,20 +225,19 @@ export async function loadNestedColumns(
   if (!version) throw new NotFoundError('Dataset version not found.')
   const shape = await shapeOf(version, conn)
   const applied = exclusions ?? (await activeExclusions(versionId, conn))
+  const numberColumns = [tagging.response, ...tagging.covariates]
   const requests: ColumnRequest[] = [
-    { name: tagging.response, as: 'number' },
-    ...tagging.levels.map((name) => ({ name, as: 'factor' as const })),
-    ...(tagging.condition ? [{ name: tagging.condition, as: 'factor' as const }] : []),
+    ...numberColumns.map((name) => ({ name, as: 'number' as const })),
+    ...[...tagging.levels, ...tagging.conditions].map((name) => ({ name, as: 'factor' as const })),
   ]
   const read = await readColumns(version, shape, requests, applied, conn)
-  const notNumber = read.notNumbers.get(tagging.response)
-  if (notNumber) {
+  for (const name of numberColumns) {
+    const notNumber = read.notNumbers.get(name)
+    if (!notNumber) continue
+    const row = fileRow(version, notNumber.rowNo)
     throw new UnprocessableError(
-      `Row ${fileRow(version, notNumber.rowNo)} of “${tagging.response}” holds “${notNumber.value}”, which is not a number. Exclude that row or correct the file.`,
-      {
-        column: tagging.response,
-        row: fileRow(version, notNumber.rowNo),
-      },
+      `Row ${row} of “${name}” holds “${notNumber.value}”, which is not a number. Exclude that row or correct the file.`,
+      { column: name, row },
     )
   }
   const toFactor = (name: string): Factor => {
@@ -253,6 +256,7 @@ export async function loadNestedColumns(
     responseName: tagging.response,
     response: read.numbers.get(tagging.response)!,
     levels: tagging.levels.map(toFactor),
-    factors: tagging.condition ? [toFactor(tagging.condition)] : [],
+    factors: tagging.conditions.map(toFactor),
+    covariates: tagging.covariates.map((name) => ({ name, values: read.numbers.get(name)! })),
   }
 }

@@ -1,4 +1,5 @@
 import type { CurrentUser } from '../../shared/schemas/auth'
+import { AnalysisSettings } from '../../shared/schemas/analyses'
 import { PlanRecommendation, type PlanSummary } from '../../shared/schemas/plans'
 import type {
   CreatedShareLink,
@@ -221,7 +222,7 @@ export async function openSharedAnalysis(token: string): Promise<SharedAnalysis>
     finishedAt: stored.finishedAt ? stored.finishedAt.toISOString() : null,
     engineVersion: stored.engineVersion,
     datasetSha256: stored.datasetSha256,
-    settings: stored.settings,
+    settings: AnalysisSettings.parse(stored.settings),
     result,
     chart,
     allowUnitTable: link.allowUnitTable,

@@ -381,11 +381,14 @@ export const AnalysisDefaults = z.object({
   datasetVersion: z.object({ id: z.number().int().positive(), versionNo: z.number().int().positive() }),
   /** Null when the version is not tagged yet (the client must ask for response and levels). */
   settings: AnalysisSettings.nullable(),
-  /** All column names, and the numeric ones (response candidates). */
+  /** All column names, and the numeric ones (response and covariate candidates). */
   columns: z.array(z.string()),
   numericColumns: z.array(z.string()),
-  /** Labels of the tagged condition column when known from the profile (for the reference picker). */
-  conditionLabels: z.array(z.string()).nullable(),
+  /**
+   * Every label of each text column whose profile knows them all (most frequent first), for the
+   * reference picker of each chosen condition factor. A column left out has too many labels to list.
+   */
+  labelsByColumn: z.record(z.string(), z.array(z.string())),
 })
 export type AnalysisDefaults = z.infer<typeof AnalysisDefaults>
 

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { ChartData } from './analyses'
+import { AnalysisSettings, ChartData } from './analyses'
 import { AnalysisResult } from './analysis-result'
 import { Email } from './auth'
 import { PlanSummary } from './plans'
@@ -59,7 +59,8 @@ export const SharedAnalysis = z.object({
   finishedAt: z.string().nullable(),
   engineVersion: z.string(),
   datasetSha256: z.string(),
-  settings: z.record(z.string(), z.unknown()),
+  /** The version's settings in today's shape (settings stored by engine 0.1 are upgraded on the way out). */
+  settings: AnalysisSettings,
   result: AnalysisResult,
   chart: ChartData,
   allowUnitTable: z.boolean(),

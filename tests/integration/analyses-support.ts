@@ -109,3 +109,52 @@ export async function finishedAnalysis(app: Express, cookie: string, datasetId: 
   await finishQueuedVersion(res.body.data.id)
   return res.body.data.id as number
 }
+
+export interface TwoFactorSpec {
+  seed?: string
+  /** Data row (1-based) whose soma area is written as text, as a spreadsheet export might. */
+  textSomaAtRow?: number
+}
+
+/**
+ * An invented genotype × treatment table: 2 labs × 6 mice (WT and the invented line KO-3
+ * alternating), two coverslips per mouse (vehicle and NW-117), 8 neurons per coverslip. Besides the
+ * design columns: "batch", the same in every row, and "line", which is the genotype under other
+ * names (line-A for WT, line-B for KO-3); soma_area_um2 per neuron. Seeded.
+ */
+export function twoFactorCsv(spec: TwoFactorSpec = {}): string {
+  const random = seedrandom(spec.seed ?? 'two-factors')
+  const normal = () => {
+    let u = 0
+    while (u === 0) u = random()
+    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * random())
+  }
+  const lines = ['lab,mouse,genotype,line,batch,coverslip,treatment,neuron,soma_area_um2,neurite_length_um']
+  let row = 0
+  for (const lab of ['Nimbus', 'Fernhill'])
+    for (let m = 1; m <= 6; m++) {
+      const knockout = m % 2 === 0
+      const mouseMean = 120 + (knockout ? -10 : 0) + 8 * normal()
+      for (const [c, treatment] of ['vehicle', 'NW-117'].entries())
+        for (let n = 1; n <= 8; n++) {
+          row++
+          const soma = 85 + 10 * normal()
+          const y = mouseMean + (treatment === 'NW-117' ? 6 : 0) + 0.4 * (soma - 85) + 15 * normal()
+          lines.push(
+            [
+              lab,
+              `m${m}`,
+              knockout ? 'KO-3' : 'WT',
+              knockout ? 'line-B' : 'line-A',
+              'B1',
+              `cs${c + 1}`,
+              treatment,
+              n,
+              row === spec.textSomaAtRow ? 'n.d.' : soma.toFixed(1),
+              y.toFixed(2),
+            ].join(','),
+          )
+        }
+    }
+  return lines.join('\n') + '\n'
+}

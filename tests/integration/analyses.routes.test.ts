@@ -55,10 +55,10 @@ describe('creating and running an analysis', () => {
     const [v1] = detail.versions
     expect(v1.settings).toEqual({
       response: 'neurite_length_um',
-      condition: 'treatment',
+      conditions: ['treatment'],
+      covariates: [],
       levels: ['mouse'],
-      reference: null,
-      errorBar: 'sem',
+      reference: {},
       bootstrap: { enabled: true, resamples: 5000, seed: 'routes' },
     })
     // Answered before the run finished: the engine never runs on the request.
@@ -138,13 +138,13 @@ describe('creating and running an analysis', () => {
     const before = (await getAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}/versions/1`))
       .body.data
     const res = await postAs(app, team.cookies.pi, `/api/v1/analyses/${analysisId}/versions`, {
-      settings: { reference: 'NW-117', bootstrap: { enabled: false } },
+      settings: { reference: { treatment: 'NW-117' }, bootstrap: { enabled: false } },
     })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     const v2 = AnalysisVersionSummary.parse(res.body.data)
     expect(v2.versionNo).toBe(2)
     expect(v2.settings).toMatchObject({
-      reference: 'NW-117',
+      reference: { treatment: 'NW-117' },
       levels: ['mouse'],
       bootstrap: { enabled: false, resamples: 5000, seed: 'routes' },
     })
@@ -169,21 +169,19 @@ describe('creating and running an analysis', () => {
     expect(detail.versions.map((v) => v.versionNo)).toEqual([2, 1])
   })
 
-  it('refuses a version identical to the newest (409) and reuses the result when only the error bar changes', async () => {
+  it('refuses a version identical to the newest (409), also when the body only sends an error bar (no longer a setting)', async () => {
     const same = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}/versions`, {})
     expect(same.status).toBe(409)
     expect(same.body.error.code).toBe('CONFLICT')
-    const display = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}/versions`, {
+    expect(same.body.error.details).toEqual({ versionNo: 2 })
+    const errorBar = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}/versions`, {
       settings: { errorBar: 'ci95' },
     })
-    expect(display.status).toBe(201)
-    expect(display.body.data).toMatchObject({ versionNo: 3, status: 'done', settings: { errorBar: 'ci95' } })
-    const v2 = (await getAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}/versions/2`)).body
-      .data
-    const v3 = (await getAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}/versions/3`)).body
-      .data
-    expect(v3.result).toEqual(v2.result)
-    expect(v3.chart).toEqual(v2.chart)
+    expect(errorBar.status).toBe(409)
+    const detail = AnalysisDetail.parse(
+      (await getAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}`)).body.data,
+    )
+    expect(detail.versionCount).toBe(2)
   })
 
   it('keeps finished versions unchangeable in the database itself', async () => {
@@ -210,7 +208,6 @@ describe('creating and running an analysis', () => {
       .select('action', 'actor_user_id', 'lab_id')
     expect(entries.map((e) => e.action)).toEqual([
       'analysis.created',
-      'analysis.version_created',
       'analysis.version_created',
       'analysis.renamed',
     ])
@@ -288,13 +285,20 @@ describe('settings checks', () => {
     expect(level.body.error.details.issues[0].path).toBe('settings.levels.1')
   })
 
-  it('answers 400 for a reference that is not a condition, a column used twice, and too few resamples', async () => {
+  it('answers 400 for a reference that is not a label of its factor, a column used twice, and too few resamples', async () => {
     const reference = await createAnalysis(team.cookies.scientist, {
       datasetId: dataset.id,
-      settings: { reference: 'saline' },
+      settings: { reference: { treatment: 'saline' } },
     })
     expect(reference.status).toBe(400)
     expect(reference.body.error.message).toContain('“saline” is not a value of “treatment”')
+    expect(reference.body.error.details.issues[0].path).toBe('settings.reference.treatment')
+    const notACondition = await createAnalysis(team.cookies.scientist, {
+      datasetId: dataset.id,
+      settings: { conditions: [], reference: { treatment: 'vehicle' } },
+    })
+    expect(notACondition.status, JSON.stringify(notACondition.body)).toBe(201)
+    expect(notACondition.body.data.versions[0].settings.reference).toEqual({})
     const twice = await createAnalysis(team.cookies.scientist, {
       datasetId: dataset.id,
       settings: { levels: ['treatment'] },
@@ -318,12 +322,17 @@ describe('settings checks', () => {
     const defaults = AnalysisDefaults.parse(res.body.data)
     expect(defaults.settings).toMatchObject({
       response: 'neurite_length_um',
-      condition: 'treatment',
+      conditions: ['treatment'],
+      covariates: [],
       levels: ['mouse'],
+      reference: {},
     })
     expect(defaults.columns).toEqual(['lab', 'mouse', 'treatment', 'neuron', 'neurite_length_um'])
     expect(defaults.numericColumns).toEqual(['neuron', 'neurite_length_um'])
-    expect(defaults.conditionLabels?.sort()).toEqual(['NW-117', 'vehicle'])
+    // Every text column whose labels the profile knows; the numbers are covariate candidates instead.
+    expect(Object.keys(defaults.labelsByColumn).sort()).toEqual(['lab', 'mouse', 'treatment'])
+    expect(defaults.labelsByColumn.treatment.sort()).toEqual(['NW-117', 'vehicle'])
+    expect(defaults.labelsByColumn.lab).toEqual(['Nimbus'])
   })
 })
 
@@ -353,8 +362,11 @@ describe('permissions', () => {
       expect(res.body.error.code).toBe('NOT_FOUND')
     }
     expect(
-      (await postAs(app, cookie, `/api/v1/analyses/${analysisId}/versions`, { settings: { errorBar: 'sd' } }))
-        .status,
+      (
+        await postAs(app, cookie, `/api/v1/analyses/${analysisId}/versions`, {
+          settings: { bootstrap: { seed: 'other' } },
+        })
+      ).status,
     ).toBe(404)
     expect((await patchAs(app, cookie, `/api/v1/analyses/${analysisId}`, { name: 'mine now' })).status).toBe(
       404,
@@ -372,7 +384,9 @@ describe('permissions', () => {
     expect((await getAs(app, cookie, `/api/v1/analyses/${analysisId}/versions/1/units.csv`)).status).toBe(200)
     for (const res of [
       await createAnalysis(cookie, { datasetId: dataset.id }),
-      await postAs(app, cookie, `/api/v1/analyses/${analysisId}/versions`, { settings: { errorBar: 'sd' } }),
+      await postAs(app, cookie, `/api/v1/analyses/${analysisId}/versions`, {
+        settings: { bootstrap: { seed: 'other' } },
+      }),
       await patchAs(app, cookie, `/api/v1/analyses/${analysisId}`, { name: 'reviewed' }),
     ]) {
       expect(res.status).toBe(403)

@@ -22,7 +22,7 @@ let team: Awaited<ReturnType<typeof signedInTeam>>
 let dataset: Awaited<ReturnType<typeof taggedDataset>> & { projectId: number }
 const settings = AnalysisSettings.parse({
   response: 'neurite_length_um',
-  condition: 'treatment',
+  conditions: ['treatment'],
   levels: ['mouse'],
 })
 

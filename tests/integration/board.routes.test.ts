@@ -103,7 +103,7 @@ describe('the lab board', () => {
     )
     expect(row((await board()).rows, ids.wide).reviewStatus).toBe('signed_off')
     const v2 = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${ids.wide}/versions`, {
-      settings: { reference: 'NW-117' },
+      settings: { reference: { treatment: 'NW-117' } },
     })
     await finishQueuedVersion(ids.wide, v2.body.data.versionNo)
     const after = row((await board()).rows, ids.wide)

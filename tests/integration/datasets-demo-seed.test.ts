@@ -28,7 +28,7 @@ const summary = (values: number[]) => {
 }
 
 describe('demo datasets seed', () => {
-  it('stores the four demo datasets once, tagged, and a second run adds nothing', async () => {
+  it('stores the five demo datasets once, tagged, and a second run adds nothing', async () => {
     await seedPeople(db)
     await seedDatasets(db)
     await seedDatasets(db)
@@ -38,6 +38,7 @@ describe('demo datasets seed', () => {
       .select('d.name')
     expect(rows.map((r) => r.name).sort()).toEqual([
       'Consortium outgrowth, three labs',
+      'Genotype × treatment, three labs',
       'Outgrowth, single lab (NW-117 vs vehicle)',
       'Plate reader, three doses',
       'Within-mouse coverslips',
@@ -51,20 +52,21 @@ describe('demo datasets seed', () => {
       )
       .count<{ n: number }[]>('* as n')
       .first()
-    expect(Number(taggings?.n)).toBe(4)
+    expect(Number(taggings?.n)).toBe(5)
   })
 
   it('single lab: the naive test is "significant", the test on mouse means is not', async () => {
     const version = await versionOf('Outgrowth, single lab (NW-117 vs vehicle)')
     const columns = await loadNestedColumns(version.id, {
       response: 'neurite_length_um',
-      condition: 'treatment',
+      conditions: ['treatment'],
+      covariates: [],
       levels: ['mouse'],
     })
     const byArm = new Map<string, number[]>()
     const byMouse = new Map<string, { arm: string; values: number[] }>()
     columns.response.forEach((y, r) => {
-      const arm = columns.condition!.labels[columns.condition!.codes[r]]
+      const arm = columns.factors![0].labels[columns.factors![0].codes[r]]
       const mouse = columns.levels[0].labels[columns.levels[0].codes[r]]
       byArm.set(arm, [...(byArm.get(arm) ?? []), y])
       if (!byMouse.has(mouse)) byMouse.set(mouse, { arm, values: [] })
@@ -84,7 +86,8 @@ describe('demo datasets seed', () => {
     const version = await versionOf('Consortium outgrowth, three labs')
     const columns = await loadNestedColumns(version.id, {
       response: 'neurite_length_um',
-      condition: 'treatment',
+      conditions: ['treatment'],
+      covariates: [],
       levels: ['lab', 'mouse'],
     })
     const sd = (lab: string) => {
@@ -105,5 +108,45 @@ describe('demo datasets seed', () => {
     expect((await versionOf('Plate reader, three doses')).suggestion).toMatchObject({
       conditionPlacement: 'within-innermost',
     })
+  })
+
+  it('genotype × treatment: genotype between mice, treatment within mice, every cell in every lab, soma area a number', async () => {
+    const version = await versionOf('Genotype × treatment, three labs')
+    const columns = await loadNestedColumns(version.id, {
+      response: 'neurite_length_um',
+      conditions: ['genotype', 'treatment'],
+      covariates: ['soma_area_um2'],
+      levels: ['lab', 'mouse', 'coverslip'],
+    })
+    const [lab, mouse] = columns.levels
+    const [genotype, treatment] = columns.factors!
+    const label = (f: { labels: string[]; codes: Int32Array }, r: number) => f.labels[f.codes[r]]
+    const genotypesOfMouse = new Map<string, Set<string>>()
+    const treatmentsOfMouse = new Map<string, Set<string>>()
+    const cells = new Set<string>()
+    for (let r = 0; r < columns.response.length; r++) {
+      const key = `${label(lab, r)}/${label(mouse, r)}`
+      if (!genotypesOfMouse.has(key)) genotypesOfMouse.set(key, new Set())
+      if (!treatmentsOfMouse.has(key)) treatmentsOfMouse.set(key, new Set())
+      genotypesOfMouse.get(key)!.add(label(genotype, r))
+      treatmentsOfMouse.get(key)!.add(label(treatment, r))
+      cells.add(`${label(lab, r)}|${label(genotype, r)}|${label(treatment, r)}`)
+    }
+    // By construction (seeds/data/demo-genotype-treatment.ts): 3 labs × 8 mice, a few thousand neurons.
+    expect(genotypesOfMouse.size).toBe(24)
+    expect(columns.response.length).toBeGreaterThan(2000)
+    expect(columns.response.length).toBeLessThan(5000)
+    expect([...genotypesOfMouse.values()].every((g) => g.size === 1)).toBe(true)
+    expect([...treatmentsOfMouse.values()].every((t) => t.size === 2)).toBe(true)
+    expect(cells.size).toBe(3 * 2 * 2)
+    expect([...genotype.labels].sort()).toEqual(['Nwl1-KO', 'WT'])
+    const soma = columns.covariates![0].values
+    expect(soma.every((v) => Number.isFinite(v))).toBe(true)
+    // The knock-out's somata are built 6 µm² smaller: the covariate differs between genotypes.
+    const meanSoma = (g: string) => {
+      const values = Array.from(soma).filter((_, r) => label(genotype, r) === g)
+      return values.reduce((a, b) => a + b, 0) / values.length
+    }
+    expect(meanSoma('WT') - meanSoma('Nwl1-KO')).toBeGreaterThan(3)
   })
 })

@@ -47,11 +47,12 @@ describe('encodings', () => {
     // Decimal commas stay as written and are read as numbers on the way to the engine.
     const columns = await loadNestedColumns(version.id, {
       response: 'Neuritenlänge µm',
-      condition: 'Behandlung',
+      conditions: ['Behandlung'],
+      covariates: [],
       levels: ['Labor', 'Maus'],
     })
     expect(Array.from(columns.response.slice(0, 3))).toEqual([100, 101.25, 102.5])
-    expect(columns.condition!.labels).toEqual(['Vehikel', 'NW-117'])
+    expect(columns.factors![0].labels).toEqual(['Vehikel', 'NW-117'])
   })
 
   it('reads the same table as UTF-8', async () => {

@@ -35,7 +35,12 @@ beforeAll(async () => {
   expect(tagged.status).toBe(200)
 })
 
-const tagging = { response: 'neurite_length_um', condition: 'treatment', levels: ['lab', 'mouse'] }
+const tagging = {
+  response: 'neurite_length_um',
+  conditions: ['treatment'],
+  covariates: [],
+  levels: ['lab', 'mouse'],
+}
 
 describe('exclusions', () => {
   it('leave rows out by a numeric rule and by a unit, keep the rows stored, and record the reason', async () => {

@@ -347,7 +347,8 @@ describe('tagging and versions', () => {
 
     const columns = await loadNestedColumns(v2.body.data.id, {
       response: 'neurite_length_um',
-      condition: 'treatment',
+      conditions: ['treatment'],
+      covariates: [],
       levels: ['lab', 'mouse'],
     })
     expect(columns.levels[0].labels).toEqual(['Nimbus', 'Fernhill', 'Ashgrove'])

@@ -257,7 +257,7 @@ const cases: Case[] = [
   ['GET /api/v1/analyses/:analysisId',                         [401, 200, 200, 200, 404, 404], (c) => c.api.get(an())],
   ['PATCH /api/v1/analyses/:analysisId',                       [401, 200, 200, 403, 404, 404], (c) => c.api.patch(an(), { name: `Renamed by ${c.role}` })],
   ['POST /api/v1/analyses/:analysisId/versions',               [401, 201, 201, 403, 404, 404], async (c) =>
-    c.api.post(`/api/v1/analyses/${await make.analysis()}/versions`, { settings: { errorBar: 'sd' } })],
+    c.api.post(`/api/v1/analyses/${await make.analysis()}/versions`, { settings: { bootstrap: { seed: `matrix ${c.role}` } } })],
   ['GET /api/v1/analyses/:analysisId/versions/:versionNo',     [401, 200, 200, 200, 404, 404], (c) => c.api.get(an('/versions/1'))],
   ['GET /api/v1/analyses/:analysisId/versions/:versionNo/status', [401, 200, 200, 200, 404, 404], (c) => c.api.get(an('/versions/1/status'))],
   // No runner in this test, so the version is still queued: members pass the permission check and

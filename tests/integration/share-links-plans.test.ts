@@ -68,7 +68,7 @@ beforeAll(async () => {
   sharedId = await finishedAnalysis(app, team.cookies.scientist, dataset.id, 'Shared with plans')
   otherId = await finishedAnalysis(app, team.cookies.scientist, dataset.id, 'Other analysis')
   const second = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${sharedId}/versions`, {
-    settings: { reference: 'NW-117' },
+    settings: { reference: { treatment: 'NW-117' } },
   })
   expect(second.status, JSON.stringify(second.body)).toBe(201)
   await finishQueuedVersion(sharedId, 2)

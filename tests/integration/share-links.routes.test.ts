@@ -74,7 +74,7 @@ describe('creating a link', () => {
     expect((await postAs(app, team.cookies.biostatistician, links(), { versionNo: 1 })).status).toBe(403)
     expect((await postAs(app, outsider.cookies.pi, links(), { versionNo: 1 })).status).toBe(404)
     const queued = await postAs(app, team.cookies.scientist, `/api/v1/analyses/${analysisId}/versions`, {
-      settings: { reference: 'NW-117' },
+      settings: { reference: { treatment: 'NW-117' } },
     })
     expect(
       (await postAs(app, team.cookies.pi, links(), { versionNo: queued.body.data.versionNo })).status,

@@ -1,3 +1,4 @@
+import { AnalysisSettings } from '../../shared/schemas/analyses'
 import { computeAnalysis } from '../../server/analysis/compute-analysis'
 import { db } from '../../server/db'
 
@@ -11,7 +12,12 @@ export async function finishQueuedVersion(analysisId: number, versionNo = 1): Pr
     .first('id', 'dataset_version_id', 'settings', 'exclusions')
   if (!row) throw new Error(`version ${versionNo} of analysis ${analysisId} is not queued`)
   const done = await computeAnalysis(
-    { datasetVersionId: row.dataset_version_id, settings: row.settings, exclusions: row.exclusions },
+    {
+      datasetVersionId: row.dataset_version_id,
+      // Stored settings may be engine 0.1's shape: read them as the job runner does.
+      settings: AnalysisSettings.parse(row.settings),
+      exclusions: row.exclusions,
+    },
     db,
   )
   await db('analysis_versions')

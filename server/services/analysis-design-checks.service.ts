@@ -1,0 +1,90 @@
+import type { AnalysisSettings } from '../../shared/schemas/analyses'
+import type { Exclusion } from '../../shared/schemas/datasets'
+import { InvalidPayloadError, UnprocessableError } from '../errors/app-error'
+import {
+  crossedLabelCounts,
+  excludedSql,
+  firstNonNumberRow,
+  type RowTableShape,
+} from '../repositories/datasets-row-queries.repo'
+import type { VersionRecord } from '../repositories/datasets.repo'
+import type { Conn } from '../repositories/connection'
+import { fileRow, shapeOf } from './datasets-readback.service'
+
+const q = (name: string) => `“${name}”`
+
+type AppliedExclusions = readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[]
+
+/**
+ * Checks settings against the kept rows of a dataset version, where the profile cannot tell:
+ * - a covariate holds numbers in every kept row (400 naming the column and the first file row
+ *   that holds text, as the row table shows it);
+ * - with two condition factors, neither is constant and they are not fully confounded (each
+ *   label of one going with exactly one label of the other, both ways): 422 naming the columns.
+ * One query per text covariate and one scan for two factors; nothing for the usual one-factor case.
+ */
+export async function checkSettingsAgainstRows(
+  version: VersionRecord,
+  settings: AnalysisSettings,
+  exclusions: AppliedExclusions,
+  conn: Conn,
+): Promise<void> {
+  const shape = await shapeOf(version, conn)
+  const excluded = excludedSql(shape, exclusions)
+  await checkCovariatesHoldNumbers(version, shape, settings.covariates, excluded, conn)
+  if (settings.conditions.length === 2)
+    await checkFactorsCanBeToldApart(shape, settings.conditions, excluded, conn)
+}
+
+async function checkCovariatesHoldNumbers(
+  version: VersionRecord,
+  shape: RowTableShape,
+  covariates: readonly string[],
+  excluded: string,
+  conn: Conn,
+): Promise<void> {
+  for (const [i, name] of covariates.entries()) {
+    const column = shape.columns.get(name)
+    // Profiled as numbers means every cell is a number or missing; only text columns need a look.
+    if (!column || column.type !== 'text') continue
+    const offending = await firstNonNumberRow(shape, column.position, excluded, conn)
+    if (!offending) continue
+    const row = fileRow(version, offending.rowNo)
+    const message = `${q(name)} cannot be a covariate: row ${row} holds ${q(offending.value)}, which is not a number. Correct the file, or exclude such rows first.`
+    throw new InvalidPayloadError(message, {
+      issues: [{ path: `settings.covariates.${i}`, message }],
+      column: name,
+      row,
+    })
+  }
+}
+
+async function checkFactorsCanBeToldApart(
+  shape: RowTableShape,
+  [first, second]: readonly string[],
+  excluded: string,
+  conn: Conn,
+): Promise<void> {
+  const a = shape.columns.get(first)
+  const b = shape.columns.get(second)
+  if (!a || !b) return
+  const counts = await crossedLabelCounts(shape, a.position, b.position, excluded, conn)
+  for (const [name, distinct, example] of [
+    [second, counts.second, counts.secondExample],
+    [first, counts.first, counts.firstExample],
+  ] as const) {
+    if (distinct < 2) {
+      const value = example === null ? 'no value' : `a single value (${q(example)})`
+      throw new UnprocessableError(
+        `The condition ${q(name)} has ${value} in the rows kept: it cannot be a factor of the comparison. Leave it out of the conditions.`,
+        { column: name, columns: [name] },
+      )
+    }
+  }
+  if (counts.pairs === counts.firstPaired && counts.pairs === counts.secondPaired) {
+    throw new UnprocessableError(
+      `The conditions ${q(first)} and ${q(second)} are fully confounded in the rows kept: each value of one goes with exactly one value of the other, so their effects cannot be told apart. Keep one of them.`,
+      { columns: [first, second] },
+    )
+  }
+}
