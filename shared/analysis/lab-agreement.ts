@@ -1,4 +1,3 @@
-import jStat from 'jstat'
 import type {
   AgreementFlag,
   AgreementLab,
@@ -13,6 +12,8 @@ import { labPrecision } from '../stats/lab-precision'
 import type { LabSummary } from '../stats/lab-summaries'
 import { mandelH } from '../stats/mandel-h'
 import { mandelK } from '../stats/mandel-k'
+import { fUpperP } from '../stats/reml/f-upper-p'
+import { studentTQuantile } from '../stats/student-t-quantile'
 import type { NestedColumns } from '../stats/types'
 
 /**
@@ -49,7 +50,7 @@ function tInterval(values: number[]): { ciLow: number | null; ciHigh: number | n
   if (values.length < 2) return { ciLow: null, ciHigh: null }
   const m = mean(values)
   const sd = Math.sqrt(values.reduce((s, v) => s + (v - m) ** 2, 0) / (values.length - 1))
-  const half = jStat.studentt.inv(0.975, values.length - 1) * (sd / Math.sqrt(values.length))
+  const half = studentTQuantile(0.975, values.length - 1) * (sd / Math.sqrt(values.length))
   return { ciLow: m - half, ciHigh: m + half }
 }
 
@@ -254,7 +255,7 @@ export function labAgreement(
       }, 0)
       const se = Math.sqrt((ss / df) * (1 / a.length + 1 / b.length))
       const estimate = mean(a) - mean(b)
-      const half = jStat.studentt.inv(0.975, df) * se
+      const half = studentTQuantile(0.975, df) * se
       perLab.push({
         lab: labs[i].label,
         estimate,
@@ -373,7 +374,7 @@ function interactionTest(cells: Cell[], labCodes: number[], condCodes: number[])
   if (df2 < 1 || groups.size < labCodes.length * condCodes.length) return null
   const rssAdditive = residualSumOfSquares(additive, y)
   const f = Math.max(0, (rssAdditive - rssFull) / df1) / (rssFull / df2)
-  const p = 1 - jStat.centralF.cdf(f, df1, df2)
+  const p = fUpperP(f, df1, df2)
   const pText = p < 0.001 ? 'p < 0.001' : `p = ${p.toFixed(3)}`
   return {
     f,

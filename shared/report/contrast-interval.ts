@@ -1,4 +1,4 @@
-import jStat from 'jstat'
+import { studentTQuantile } from '../stats/student-t-quantile'
 
 /**
  * Two-sided confidence interval of a t-based estimate: estimate ± t(1 − α/2, df) · se.
@@ -10,6 +10,6 @@ export function contrastInterval(
   df: number,
   confidence = 0.95,
 ): [number, number] {
-  const half = jStat.studentt.inv(1 - (1 - confidence) / 2, df) * se
+  const half = studentTQuantile(1 - (1 - confidence) / 2, df) * se
   return [estimate - half, estimate + half]
 }

@@ -1,6 +1,6 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
 import { noncentralTCdf } from './noncentral-t-cdf'
+import { studentTQuantile } from './student-t-quantile'
 import { totalVariance, type TotalSpread } from './total-variance'
 
 export interface ClusterPowerInput extends TotalSpread {
@@ -34,7 +34,7 @@ export interface ClusterPowerResult {
  *
  * Formula: deff = 1 + (m − 1)ρ, df = 2(k − 1), λ = √(k m / (2 deff)) · |δ| / σ_total,
  *   power = P(T′ > t_{1−α/2, df}) + P(T′ < −t_{1−α/2, df}), T′ ~ noncentral t(df, λ).
- * The noncentral t cdf is noncentralTCdf (jStat's series, or a quadrature for large λ).
+ * The noncentral t cdf is noncentralTCdf (Lenth's series, or a quadrature for large λ).
  * Source: the standard cluster-randomised two-sample formula (Donner & Klar 2000, Design
  * and Analysis of Cluster Randomization Trials in Health Research), as in the documentation of
  * the R package clusterPower (crtpwr.2mean); that package counts the upper tail only, which
@@ -71,7 +71,7 @@ export function clusterPower(input: ClusterPowerInput): ClusterPowerResult {
   const deff = 1 + (m - 1) * icc
   const df = 2 * (k - 1)
   const ncp = Math.sqrt((k * m) / (2 * deff)) * (Math.abs(difference) / Math.sqrt(variance))
-  const tCritical = jStat.studentt.inv(1 - alpha / 2, df)
+  const tCritical = studentTQuantile(1 - alpha / 2, df)
   const upper = 1 - noncentralTCdf(tCritical, df, ncp)
   // P(T′ < −t) ≤ P(T′ < 0) = Φ(−λ), below 1e-15 once λ > 8: skip the second evaluation there.
   const lower = ncp > 8 ? 0 : noncentralTCdf(-tCritical, df, ncp)

@@ -1,5 +1,5 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
+import { fQuantile } from './f-quantile'
 import { checkLabSummaries, type LabSummary } from './lab-summaries'
 import { precisionFlag, type PrecisionFlag } from './precision-flag'
 
@@ -64,6 +64,6 @@ export function cochranTest(labs: LabSummary[]): CochranTestResult {
 }
 
 function cochranCritical(p: number, n: number, alpha: number): number {
-  const f = jStat.centralF.inv(1 - alpha / p, n - 1, (p - 1) * (n - 1))
+  const f = fQuantile(1 - alpha / p, n - 1, (p - 1) * (n - 1))
   return 1 / (1 + (p - 1) / f)
 }

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import jStat from 'jstat'
 import seedrandom from 'seedrandom'
 import { designEffect } from './design-effect'
 import { EngineInputError } from './engine-input-error'
+import { normalQuantile } from './normal-quantile'
 
 describe('designEffect', () => {
   it('gives Kish 1 + (m − 1)ρ for equal clusters, and the same value from the unequal formula', () => {
@@ -30,7 +30,7 @@ describe('designEffect', () => {
     const sizes = [2, 3, 5, 8, 12, 20, 30, 50]
     const icc = 0.2
     const rng = seedrandom('deff-unequal')
-    const normal = () => jStat.normal.inv(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12), 0, 1)
+    const normal = () => normalQuantile(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12))
     const total = sizes.reduce((a, b) => a + b, 0)
     const reps = 10000
     let sum = 0

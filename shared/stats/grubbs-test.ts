@@ -1,6 +1,6 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
 import { precisionFlag, type PrecisionFlag } from './precision-flag'
+import { studentTQuantile } from './student-t-quantile'
 
 export interface GrubbsSide {
   /** Index (input order) of the largest or smallest value. */
@@ -81,6 +81,6 @@ export function grubbsTest(values: number[]): GrubbsTestResult {
 }
 
 function grubbsCritical(n: number, alpha: number): number {
-  const t = jStat.studentt.inv(1 - alpha / (2 * n), n - 2)
+  const t = studentTQuantile(1 - alpha / (2 * n), n - 2)
   return ((n - 1) / Math.sqrt(n)) * Math.sqrt((t * t) / (n - 2 + t * t))
 }

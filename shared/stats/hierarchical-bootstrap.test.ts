@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import jStat from 'jstat'
 import seedrandom from 'seedrandom'
 import { hierarchicalBootstrap, type BootstrapInput } from './hierarchical-bootstrap'
 import { EngineInputError } from './engine-input-error'
+import { normalQuantile } from './normal-quantile'
 
 interface SimulationSpec {
   labs: number
@@ -22,7 +22,7 @@ interface SimulationSpec {
 /** Invented neurite-length-like data: labs ⊃ animals ⊃ cells, random intercepts per level. */
 function simulate(spec: SimulationSpec): BootstrapInput {
   const rng = seedrandom(spec.seed)
-  const normal = () => jStat.normal.inv(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12), 0, 1)
+  const normal = () => normalQuantile(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12))
   const y: number[] = []
   const labOfObs: number[] = []
   const animalOfObs: number[] = []
@@ -199,7 +199,7 @@ describe('hierarchicalBootstrap', () => {
     // Two conditions inside every animal: the animal effect cancels in the difference, so its
     // bootstrap SE must be far below that of either condition mean (common practice, no source).
     const rng = seedrandom('paired')
-    const normal = () => jStat.normal.inv(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12), 0, 1)
+    const normal = () => normalQuantile(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12))
     const y: number[] = []
     const unit: number[] = []
     const codes: number[] = []

@@ -1,7 +1,7 @@
-import jStat from 'jstat'
 import seedrandom from 'seedrandom'
 import { quantileSorted } from 'simple-statistics'
 import { EngineInputError } from './engine-input-error'
+import { normalQuantile } from './normal-quantile'
 
 /** One level of nested units, outermost first (a NestedDesign's random level fits as is). */
 export interface BootstrapLevel {
@@ -172,7 +172,7 @@ export function hierarchicalBootstrap(
       if (n >= exactBelow) {
         // Normal deviate by inversion; the guard keeps u strictly inside (0, 1).
         const u = rng() || Number.MIN_VALUE
-        sums[c] += n * pools.mean[g] + poolSd[g] * jStat.normal.inv(u, 0, 1)
+        sums[c] += n * pools.mean[g] + poolSd[g] * normalQuantile(u)
       } else {
         const start = pools.start[g]
         let s = 0

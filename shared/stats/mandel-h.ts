@@ -1,7 +1,7 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
 import { checkLabSummaries, type LabSummary } from './lab-summaries'
 import { precisionFlag, type PrecisionFlag } from './precision-flag'
+import { studentTQuantile } from './student-t-quantile'
 
 export interface MandelHResult {
   /** One value per laboratory, in input order. */
@@ -46,6 +46,6 @@ export function mandelH(labs: LabSummary[]): MandelHResult {
 }
 
 function hCritical(p: number, alpha: number): number {
-  const t = jStat.studentt.inv(1 - alpha / 2, p - 2)
+  const t = studentTQuantile(1 - alpha / 2, p - 2)
   return ((p - 1) * t) / Math.sqrt(p * (t * t + p - 2))
 }

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import jStat from 'jstat'
 import seedrandom from 'seedrandom'
 import { nestedDesignEffect } from './nested-design-effect'
 import { designEffect } from './design-effect'
+import { normalQuantile } from './normal-quantile'
 
 describe('nestedDesignEffect', () => {
   it('sums the per-level terms for a balanced design', () => {
@@ -25,7 +25,7 @@ describe('nestedDesignEffect', () => {
   it('matches the simulated variance of a mean in a balanced three-level design', () => {
     // Common practice, no source: Monte Carlo, 4 labs × 5 animals × 6 cells.
     const rng = seedrandom('nested-deff')
-    const normal = () => jStat.normal.inv(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12), 0, 1)
+    const normal = () => normalQuantile(Math.min(Math.max(rng(), 1e-12), 1 - 1e-12))
     const [shareLab, shareAnimal] = [0.15, 0.25]
     const reps = 10000
     let sum = 0

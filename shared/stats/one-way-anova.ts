@@ -1,5 +1,6 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
+import { fQuantile } from './f-quantile'
+import { fUpperP } from './reml/f-upper-p'
 
 export interface OneWayAnovaOptions {
   /** Confidence level of the ICC interval, default 0.95. */
@@ -126,10 +127,10 @@ export function oneWayAnova(groups: number[][], options: OneWayAnovaOptions = {}
     iccCi = [1, 1]
   } else {
     f = msb / msw
-    p = 1 - jStat.centralF.cdf(f, dfBetween, dfWithin)
+    p = fUpperP(f, dfBetween, dfWithin)
     const tail = (1 + confidence) / 2
-    const fLow = f / jStat.centralF.inv(tail, dfBetween, dfWithin)
-    const fHigh = f * jStat.centralF.inv(tail, dfWithin, dfBetween)
+    const fLow = f / fQuantile(tail, dfBetween, dfWithin)
+    const fHigh = f * fQuantile(tail, dfWithin, dfBetween)
     iccCi = [clip01((fLow - 1) / (fLow + n0 - 1)), clip01((fHigh - 1) / (fHigh + n0 - 1))]
   }
 

@@ -1,7 +1,7 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
 import { clusterPower } from './cluster-power'
 import { costOptimalObsPerUnit } from './cost-optimal-obs-per-unit'
+import { normalQuantile } from './normal-quantile'
 import { totalVariance, type TotalSpread } from './total-variance'
 import { unitsNeeded } from './units-needed'
 
@@ -130,7 +130,7 @@ export function planDesign(input: PlanDesignInput): PlanDesignResult {
     clusterPower({ unitsPerArm: k, obsPerUnit: m, difference, variance, icc, alpha: alphaPerComparison })
       .power
   const costOf = (k: number, m: number) => arms * k * (costPerUnit + m * costPerObs)
-  const z = jStat.normal.inv(1 - alphaPerComparison / 2, 0, 1) + jStat.normal.inv(target, 0, 1)
+  const z = normalQuantile(1 - alphaPerComparison / 2) + normalQuantile(target)
   const approximateUnits = (m: number) =>
     Math.max(2, (2 * (1 + (m - 1) * icc) * variance * z * z) / (m * difference * difference))
 

@@ -1,6 +1,6 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
 import { oneWayAnova } from './one-way-anova'
+import { studentTTwoSidedP } from './reml/student-t-two-sided-p'
 
 export interface UnitMeansTestResult {
   /** 'student-t' for two conditions, 'one-way-anova' for three or more. */
@@ -70,7 +70,7 @@ export function unitMeansTest(groups: number[][]): UnitMeansTestResult {
   const se = Math.sqrt(anova.msw * (1 / a.length + 1 / b.length))
   const t = diff / se
   const df = anova.dfWithin
-  const p = 2 * (1 - jStat.studentt.cdf(Math.abs(t), df))
+  const p = studentTTwoSidedP(t, df)
   return { method: 'student-t', t, df, p, diff, se, f: t * t, df1: 1, df2: df }
 }
 

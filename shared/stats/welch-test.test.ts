@@ -17,6 +17,15 @@ describe('welchTest', () => {
     expect(r.diff).toBeCloseTo(-1.58, 12)
   })
 
+  it('keeps the digits of a tiny p-value (two cohorts of 100, far apart)', () => {
+    // R 4.2.2: t.test(a, b) with a, b of 100 values each, rescaled to means 11.2 and 8.08 and
+    // variances 4 (set.seed(1); rnorm): t = 11.030865786510139, df = 198, p-value = 2.3033758663278346e-22.
+    const r = welchTest({ n: 100, mean: 11.2, variance: 4 }, { n: 100, mean: 8.08, variance: 4 })
+    expect(r.t).toBeCloseTo(11.030865786510139, 10)
+    expect(r.df).toBeCloseTo(198, 10)
+    expect(Math.abs(r.p / 2.3033758663278346e-22 - 1)).toBeLessThan(1e-10)
+  })
+
   it('is antisymmetric in its arguments', () => {
     const ab = welchTest(group1, group2)
     const ba = welchTest(group2, group1)

@@ -1,5 +1,5 @@
-import jStat from 'jstat'
 import { EngineInputError } from './engine-input-error'
+import { studentTTwoSidedP } from './reml/student-t-two-sided-p'
 
 export interface GroupSummary {
   /** Number of observations. */
@@ -49,7 +49,7 @@ export function welchTest(a: GroupSummary, b: GroupSummary): WelchTestResult {
   const diff = a.mean - b.mean
   const t = diff / se
   const df = (va + vb) ** 2 / (va ** 2 / (a.n - 1) + vb ** 2 / (b.n - 1))
-  const p = 2 * (1 - jStat.studentt.cdf(Math.abs(t), df))
+  const p = studentTTwoSidedP(t, df)
   return { t, df, p, diff, se }
 }
 

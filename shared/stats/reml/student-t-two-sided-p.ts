@@ -1,20 +1,21 @@
-import jStat from 'jstat'
+import { studentTUpperP } from '../student-t-upper-p'
 
 /**
- * Two-sided p-value of a t statistic, P(|T_df| ≥ |t|), computed as the regularised incomplete
- * beta I_{df/(df+t²)}(df/2, 1/2) so that small p-values keep their relative precision (1 − cdf
- * would cancel). Accepts non-integer df (Satterthwaite).
+ * Two-sided p-value of a t statistic, P(|T_df| ≥ |t|), for any positive df (Satterthwaite df need
+ * not be whole); df = Infinity is the standard normal.
  *
- * Source: Abramowitz & Stegun (1964), 26.7.1 and 26.5.27.
+ * Formula: p = 2 · P(T_df ≥ |t|) = I_{df/(df+t²)}(df/2, ½) (Abramowitz & Stegun 1964, 26.7.1 with
+ * 26.5.27), with the tail taken directly by studentTUpperP, so a p-value of 1e-300 keeps its
+ * relative precision. It is 0 only for an infinite t, or when the exact value is below the
+ * smallest double (about 5e-324).
  *
- * Guard errors: none; df ≤ 0 or a non-finite input gives NaN.
+ * Guard errors: none; df ≤ 0 or a NaN input gives NaN.
  *
  * @example
- * studentTTwoSidedP(2.1, 7.3) // → 0.072247 (R: 2 * pt(-2.1, 7.3))
+ * studentTTwoSidedP(2.1, 7.3) // → 0.0722467134 (R: 2 * pt(-2.1, 7.3))
+ * studentTTwoSidedP(-37, 1e8) // → 1.15049997768e-299 (R: 2 * pt(-37, 1e8))
  */
 export function studentTTwoSidedP(t: number, df: number): number {
-  if (!(df > 0) || Number.isNaN(t)) return NaN
-  if (!Number.isFinite(t)) return 0
-  if (!Number.isFinite(df)) return 2 * jStat.normal.cdf(-Math.abs(t), 0, 1)
-  return Math.min(1, jStat.ibeta(df / (df + t * t), df / 2, 0.5))
+  if (!(df > 0) || Number.isNaN(t)) return Number.NaN
+  return Math.min(1, 2 * studentTUpperP(Math.abs(t), df))
 }
