@@ -1,0 +1,51 @@
+import { describe, expect, it } from 'vitest'
+import type { EffectVariation } from '../schemas/analysis-result'
+import {
+  effectVariationExplain,
+  effectVariationSentence,
+  fewUnitsCaution,
+  warningsAbout,
+} from './effect-variation'
+
+// Invented level × condition terms; effectSd = √(2 · variance) as the result schema defines it.
+const fourLabs: EffectVariation = {
+  term: 'lab:treatment',
+  level: 'lab',
+  factor: 'treatment',
+  variance: 48,
+  effectSd: Math.sqrt(96),
+  nUnits: 4,
+}
+
+describe('effect variation words', () => {
+  it('says how much the effect differs, in the response’s unit when known', () => {
+    expect(effectVariationSentence(fourLabs, 'µm')).toBe(
+      'The effect of treatment differs between labs by about 9.80 µm (SD).',
+    )
+    expect(effectVariationSentence(fourLabs, null)).toBe(
+      'The effect of treatment differs between labs by about 9.80 (SD).',
+    )
+    const both = { ...fourLabs, term: 'lab:genotype:treatment', factor: 'genotype:treatment' }
+    expect(effectVariationSentence(both, null)).toMatch(
+      /^The combined effect of genotype and treatment differs/,
+    )
+  })
+
+  it('explains where the SD comes from', () => {
+    expect(effectVariationExplain(fourLabs)).toContain('“lab × treatment” variance (48.0)')
+  })
+
+  it('cautions below 5 units that the comparison has about units − 1 df (issue 12)', () => {
+    expect(fewUnitsCaution(fourLabs)).toContain('only 4 labs')
+    expect(fewUnitsCaution(fourLabs)).toContain('about 3 degrees of freedom')
+    expect(fewUnitsCaution({ ...fourLabs, nUnits: 5 })).toBeNull()
+  })
+
+  it('finds the engine’s warnings about this term, and only those', () => {
+    const warnings = [
+      { code: 'FEW_UNITS_EFFECT_SPREAD', message: 'The lab:treatment variance rests on 4 labs.' },
+      { code: 'FEW_OUTER_UNITS', message: 'Only 4 labs.' },
+    ]
+    expect(warningsAbout(fourLabs, warnings).map((w) => w.code)).toEqual(['FEW_UNITS_EFFECT_SPREAD'])
+  })
+})
