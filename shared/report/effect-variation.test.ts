@@ -37,15 +37,22 @@ describe('effect variation words', () => {
 
   it('cautions below 5 units that the comparison has about units − 1 df (issue 12)', () => {
     expect(fewUnitsCaution(fourLabs)).toContain('only 4 labs')
-    expect(fewUnitsCaution(fourLabs)).toContain('about 3 degrees of freedom')
+    expect(fewUnitsCaution(fourLabs)).toContain('about 3 degrees of freedom for a difference of two levels')
     expect(fewUnitsCaution({ ...fourLabs, nUnits: 5 })).toBeNull()
   })
 
   it('finds the engine’s warnings about this term, and only those', () => {
+    // Shaped like engine 0.2's LEVEL_EFFECT_FEW_UNITS warning, which names the term in quotes.
+    const about = (term: string) => ({
+      code: 'LEVEL_EFFECT_FEW_UNITS',
+      message: `The effect may differ from one lab to the next (the "${term}" variance), and only 4 lab units show how much.`,
+    })
     const warnings = [
-      { code: 'FEW_UNITS_EFFECT_SPREAD', message: 'The lab:treatment variance rests on 4 labs.' },
+      about('lab:treatment'),
+      about('lab:treatment:genotype'),
       { code: 'FEW_OUTER_UNITS', message: 'Only 4 labs.' },
     ]
-    expect(warningsAbout(fourLabs, warnings).map((w) => w.code)).toEqual(['FEW_UNITS_EFFECT_SPREAD'])
+    expect(warningsAbout(fourLabs, warnings)).toEqual([warnings[0]])
+    expect(warningsAbout({ ...fourLabs, term: 'lab:treatment:genotype' }, warnings)).toEqual([warnings[1]])
   })
 })

@@ -25,20 +25,16 @@ export function effectVariationExplain(v: EffectVariation): string {
 export function fewUnitsCaution(v: EffectVariation): string | null {
   if (v.nUnits >= FEW_UNITS_FOR_EFFECT_SPREAD) return null
   const units = `${v.nUnits} ${v.nUnits === 1 ? v.level : pluralOf(v.level)}`
-  return `This spread rests on only ${units}, so it is a rough estimate, and the comparison of ${factorWords(v.factor)} then has only about ${Math.max(v.nUnits - 1, 0)} degrees of freedom, whatever the number of observations.`
+  return `This spread rests on only ${units}, so it is a rough estimate, and the comparison of ${factorWords(v.factor)} then has only about ${Math.max(v.nUnits - 1, 0)} degrees of freedom for a difference of two levels, whatever the number of observations.`
 }
 
 /**
  * The engine's own warnings about one level × condition term: those naming the term
- * ("lab:treatment") or both its level and its factor in quotes. They are shown beside the
+ * ("lab:treatment", as a whole name: not inside "lab:treatment:dose"). They are shown beside the
  * sentence, and left out of the general list so nothing is said twice.
  */
 export function warningsAbout(v: EffectVariation, warnings: readonly EngineWarning[]): EngineWarning[] {
-  return warnings.filter(
-    (w) =>
-      w.message.includes(v.term) ||
-      (w.message.includes(`“${v.level}”`) &&
-        w.message.includes(`“${v.factor}”`) &&
-        /differ|effect/i.test(w.message)),
-  )
+  const escaped = v.term.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')
+  const named = new RegExp(`(^|[^\\w:])${escaped}($|[^\\w:])`)
+  return warnings.filter((w) => named.test(w.message))
 }

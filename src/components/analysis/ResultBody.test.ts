@@ -106,15 +106,15 @@ describe('ResultBody', () => {
 
   it('shows an engine warning about a level × condition term beside it, and not again in the list', () => {
     const warning = {
-      code: 'FEW_UNITS_EFFECT_SPREAD',
+      code: 'LEVEL_EFFECT_FEW_UNITS',
       message: 'The lab:treatment variance rests on 3 labs.',
     }
     const wrapper = mountBody({ ...twoFactorResult, warnings: [...twoFactorResult.warnings, warning] })
     const beside = wrapper.get('[data-testid="effect-variation-lab:treatment"]')
-    expect(beside.find('[data-warning="FEW_UNITS_EFFECT_SPREAD"]').exists()).toBe(true)
+    expect(beside.find('[data-warning="LEVEL_EFFECT_FEW_UNITS"]').exists()).toBe(true)
     expect(beside.find('[data-testid="effect-variation-caution"]').exists()).toBe(false)
     const list = wrapper.get('[data-testid="warnings"]')
-    expect(list.find('[data-warning="FEW_UNITS_EFFECT_SPREAD"]').exists()).toBe(false)
+    expect(list.find('[data-warning="LEVEL_EFFECT_FEW_UNITS"]').exists()).toBe(false)
     expect(list.get('[data-testid="warnings-placed-elsewhere"]').text()).toContain('One more caution')
   })
 })
