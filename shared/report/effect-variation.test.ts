@@ -31,6 +31,12 @@ describe('effect variation words', () => {
     )
   })
 
+  it('says a variance estimated as 0 as such, not as “about 0 µm”', () => {
+    expect(effectVariationSentence({ ...fourLabs, variance: 0, effectSd: 0 }, 'µm')).toBe(
+      'The effect of treatment shows no measurable difference between labs here (SD estimated as 0).',
+    )
+  })
+
   it('explains where the SD comes from', () => {
     expect(effectVariationExplain(fourLabs)).toContain('“lab × treatment” variance (48.0)')
   })
@@ -54,5 +60,16 @@ describe('effect variation words', () => {
     ]
     expect(warningsAbout(fourLabs, warnings)).toEqual([warnings[0]])
     expect(warningsAbout({ ...fourLabs, term: 'lab:treatment:genotype' }, warnings)).toEqual([warnings[1]])
+  })
+
+  it('leaves a warning that names several terms (such as a boundary fit) in the general list', () => {
+    // Shaped like engine 0.2's BOUNDARY_FIT warning.
+    const boundary = {
+      code: 'BOUNDARY_FIT',
+      message:
+        'The variance between "lab:genotype", "lab:treatment" units was estimated as 0 (a boundary fit).',
+    }
+    expect(warningsAbout(fourLabs, [boundary], ['lab:genotype', 'lab:treatment'])).toEqual([])
+    expect(warningsAbout(fourLabs, [boundary])).toEqual([boundary])
   })
 })

@@ -6,11 +6,17 @@ import { factorWords, listWords, pluralOf } from './words'
 /** Below this many units of a level, its level × condition variance is a rough estimate (issue 12; common practice). */
 export const FEW_UNITS_FOR_EFFECT_SPREAD = 5
 
-/** "The effect of treatment differs between labs by about 9.8 µm (SD)."; `source` is added in the brackets. */
+/**
+ * "The effect of treatment differs between labs by about 9.8 µm (SD)."; `source` is added in the
+ * brackets. A variance estimated as 0 (a boundary fit) is said as such, not as "about 0 µm".
+ */
 export function effectVariationSentence(v: EffectVariation, unit: string | null, source?: string): string {
   const parts = v.factor.split(':')
   const what = parts.length > 1 ? `The combined effect of ${listWords(parts)}` : `The effect of ${v.factor}`
-  return `${what} differs between ${pluralOf(v.level)} by about ${withUnit(formatNumber(v.effectSd), unit)} (SD${source ? `; ${source}` : ''}).`
+  const also = source ? `; ${source}` : ''
+  if (v.effectSd === 0)
+    return `${what} shows no measurable difference between ${pluralOf(v.level)} here (SD estimated as 0${also}).`
+  return `${what} differs between ${pluralOf(v.level)} by about ${withUnit(formatNumber(v.effectSd), unit)} (SD${also}).`
 }
 
 /** How the SD is read, for the hover beside the sentence. */
@@ -29,12 +35,21 @@ export function fewUnitsCaution(v: EffectVariation): string | null {
 }
 
 /**
- * The engine's own warnings about one level × condition term: those naming the term
- * ("lab:treatment", as a whole name: not inside "lab:treatment:dose"). They are shown beside the
- * sentence, and left out of the general list so nothing is said twice.
+ * The engine's own warnings about one level × condition term: those naming this term (as a whole
+ * name: "lab:treatment" is not inside "lab:treatment:dose") and no other such term, so a warning
+ * about several terms stays in the general list. They are shown beside the sentence, and left out
+ * of the general list so nothing is said twice.
  */
-export function warningsAbout(v: EffectVariation, warnings: readonly EngineWarning[]): EngineWarning[] {
-  const escaped = v.term.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')
-  const named = new RegExp(`(^|[^\\w:])${escaped}($|[^\\w:])`)
-  return warnings.filter((w) => named.test(w.message))
+export function warningsAbout(
+  v: EffectVariation,
+  warnings: readonly EngineWarning[],
+  allTerms: readonly string[] = [v.term],
+): EngineWarning[] {
+  const names = (term: string) => {
+    const escaped = term.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')
+    return new RegExp(`(^|[^\\w:])${escaped}($|[^\\w:])`)
+  }
+  const others = allTerms.filter((t) => t !== v.term).map(names)
+  const mine = names(v.term)
+  return warnings.filter((w) => mine.test(w.message) && !others.some((other) => other.test(w.message)))
 }

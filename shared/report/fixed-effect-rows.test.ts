@@ -10,7 +10,8 @@ describe('coefficient rows', () => {
   const row = (term: string) => rows.find((r) => r.term === term)!
 
   it('reads each coefficient in treatment coding against the reference levels', () => {
-    expect(row('intercept').reads).toBe('mean at genotype = WT, treatment = vehicle')
+    // Covariates are not centred in the coefficients (lme4's treatment coding), so the intercept is at 0.
+    expect(row('intercept').reads).toBe('mean at genotype = WT, treatment = vehicle, soma_area_um2 = 0')
     expect(row('genotype')).toMatchObject({ level: 'KO', reads: 'KO − WT when treatment = vehicle' })
     expect(row('genotype × treatment')).toMatchObject({
       level: 'KO × KX-9',

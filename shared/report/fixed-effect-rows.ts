@@ -22,7 +22,11 @@ type Facts = Pick<AnalysisResult, 'factors' | 'covariates'>
 
 function reading(c: Coefficient, { factors = [], covariates = [] }: Facts): string {
   if (c.term === '(intercept)') {
-    const at = factors.map((f) => `${f.name} = ${f.reference}`)
+    // Treatment coding, covariates as given (not centred), as lme4 reports it.
+    const at = [
+      ...factors.map((f) => `${f.name} = ${f.reference}`),
+      ...covariates.map((v) => `${v.name} = 0`),
+    ]
     return at.length ? `mean at ${at.join(', ')}` : 'overall mean'
   }
   const factor = factors.find((f) => f.name === c.term)

@@ -91,7 +91,8 @@ export function simpleEffectsSentence(result: AnalysisResult): string | null {
 
 function slope(c: Coefficient): string {
   const [low, high] = contrastInterval(c.estimate, c.se, c.df)
-  return `the slope for ${q(c.term)} was ${formatNumber(c.estimate)} per unit (95% CI ${formatInterval(low, high)}; t(${formatDf(c.df)}) = ${formatNumber(c.t)}, ${formatP(c.p)})`
+  const unit = responseUnit(c.term)
+  return `the slope for ${q(c.term)} was ${formatNumber(c.estimate)} per ${unit ? `1 ${unit}` : 'unit'} (95% CI ${formatInterval(low, high)}; t(${formatDf(c.df)}) = ${formatNumber(c.t)}, ${formatP(c.p)})`
 }
 
 export function slopesSentence(result: AnalysisResult): string | null {

@@ -114,7 +114,7 @@ describe('report text of engine ≥ 0.2 results', () => {
     expect(two.methods).toContain(
       'a two-way ANOVA (type III) was run on the means of the 24 units of “mouse”',
     )
-    expect(two.methods).toContain('design effect 6.20, effective n 77.4 for KO − WT')
+    expect(two.methods).toContain('For KO − WT, the design effect was 6.20 and the effective n 77.4.')
   })
 
   it('reports the type III tests, simple effects, the slope and how much the effect differs between labs', () => {
@@ -123,7 +123,7 @@ describe('report text of engine ≥ 0.2 results', () => {
     )
     expect(two.results).toContain('genotype × treatment F(1, 6.1) = 1.04, p = 0.35')
     expect(two.results).toContain('Simple effects: treatment within genotype = WT, KX-9 minus vehicle')
-    expect(two.results).toContain('the slope for “soma_area_um2” was 0.212 per unit')
+    expect(two.results).toContain('the slope for “soma_area_um2” was 0.212 per 1 µm²')
     expect(two.results).toContain(
       'The effect of treatment differs between labs by about 9.80 µm (SD; from the “lab × treatment” variance, 3 labs).',
     )
@@ -145,7 +145,9 @@ describe('report text of engine ≥ 0.2 results', () => {
     expect(text.methods).toContain(
       'In lme4 notation the model was neurite_length_um ~ treatment + (1|mouse).',
     )
-    expect(text.methods).toContain('effective n 23.5 for NW-117 − vehicle')
+    expect(text.methods).toContain(
+      'For NW-117 − vehicle, the design effect was 17.5 and the effective n 23.5.',
+    )
   })
 })
 

@@ -86,10 +86,21 @@ function unitsCheckSentence(result: AnalysisResult): string | null {
   return `As a check, a ${test} was run on the means of the ${unitsTest.nUnits} units of “${unitsTest.level}”.`
 }
 
-function designEffectWords(result: AnalysisResult): string {
+/**
+ * Engine 0.1 (no headline): " (design effect 17.5, effective n 23.5)" inside the units sentence.
+ * Engine ≥ 0.2 says which quantity they belong to in a sentence of its own, since its label may
+ * hold brackets of its own ("KO − WT (averaged over treatment)").
+ */
+function tableDesignEffect(result: AnalysisResult): string {
+  if (result.headline) return ''
+  return ` (design effect ${formatNumber(result.designEffect)}, effective n ${formatNumber(result.effectiveN)})`
+}
+
+function headlineSentence(result: AnalysisResult): string | null {
   const h = result.headline
-  const of = h ? ` for ${h.label === 'mean' ? 'the overall mean' : h.label}` : ''
-  return `design effect ${formatNumber(h?.designEffect ?? result.designEffect)}, effective n ${formatNumber(h?.effectiveN ?? result.effectiveN)}${of}`
+  if (!h) return null
+  const of = h.label === 'mean' ? 'the overall mean' : h.label
+  return `For ${of}, the design effect was ${formatNumber(h.designEffect)} and the effective n ${formatNumber(h.effectiveN)}.`
 }
 
 export function methodsParagraph({ result, settings, software }: ReportContext): string {
@@ -105,9 +116,10 @@ export function methodsParagraph({ result, settings, software }: ReportContext):
   const outer = result.levels[0]
   sentences.push(
     perCondition
-      ? `The independent unit is the “${result.conditionLevel}”: ${perCondition}, with ${result.nObs} observations in all (${designEffectWords(result)}).`
-      : `The ${result.nObs} observations came from ${outer.nUnits} units of “${outer.name}” (${designEffectWords(result)}).`,
+      ? `The independent unit is the “${result.conditionLevel}”: ${perCondition}, with ${result.nObs} observations in all${tableDesignEffect(result)}.`
+      : `The ${result.nObs} observations came from ${outer.nUnits} units of “${outer.name}”${tableDesignEffect(result)}.`,
   )
+  sentences.push(...present([headlineSentence(result)]))
   sentences.push(`Analyses were run in ${software} (statistics engine ${result.engine.version}).`)
   return sentences.join(' ')
 }

@@ -20,8 +20,9 @@ export interface EffectVariationItem {
 /** What the page says about each level × condition term; empty for engine 0.1 results. */
 export function effectVariationItems(result: AnalysisResult): EffectVariationItem[] {
   const unit = responseUnit(result.response)
+  const terms = (result.effectVariation ?? []).map((v) => v.term)
   return (result.effectVariation ?? []).map((v) => {
-    const warnings = warningsAbout(v, result.warnings)
+    const warnings = warningsAbout(v, result.warnings, terms)
     return {
       term: v.term,
       sentence: effectVariationSentence(v, unit),
