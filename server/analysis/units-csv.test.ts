@@ -69,6 +69,55 @@ describe('unitsCsv', () => {
   })
 })
 
+describe('unitsCsv with two condition factors', () => {
+  // An invented genotype × treatment design; mouse m1 carries one cell, mouse m2 has coverslips of two.
+  const chart = {
+    unitLevels: [
+      {
+        level: 'mouse',
+        roles: ['condition-level' as const, 'innermost' as const],
+        units: [
+          { path: ['m1'], label: 'm1', condition: 'WT:vehicle', n: 2, mean: 10, sd: 1 },
+          { path: ['m2'], label: 'm2', condition: 'KO:vehicle', n: 3, mean: 12, sd: 2 },
+          { path: ['m2'], label: 'm2', condition: 'KO:=KX-9', n: 1, mean: 15, sd: null },
+        ],
+      },
+    ],
+  }
+  const cell = (genotype: string, treatment: string) => ({
+    condition: `${genotype}:${treatment}`,
+    factorLevels: { genotype, treatment },
+  })
+  const design = {
+    factors: [
+      { name: 'genotype', labels: ['WT', 'KO'], reference: 'WT', level: 'mouse' },
+      { name: 'treatment', labels: ['vehicle', '=KX-9'], reference: 'vehicle', level: null },
+    ],
+    groups: [cell('WT', 'vehicle'), cell('KO', 'vehicle'), cell('KO', '=KX-9')],
+  }
+
+  it('splits units by design cell with one column per factor, neutralised like any text', () => {
+    const parsed = Papa.parse<string[]>(unitsCsv(chart, design).trimEnd(), { newline: '\r\n' }).data
+    expect(parsed).toEqual([
+      ['level', 'unit', 'genotype', 'treatment', 'n', 'mean', 'sd'],
+      ['mouse', 'm1', 'WT', 'vehicle', '2', '10', '1'],
+      ['mouse', 'm2', 'KO', 'vehicle', '3', '12', '2'],
+      ['mouse', 'm2', 'KO', "'=KX-9", '1', '15', ''],
+    ])
+  })
+
+  it('keeps the one condition column for one factor, and for a result of engine 0.1 without factors', () => {
+    const one = { factors: [design.factors[0]], groups: [] }
+    for (const d of [one, undefined, null, { groups: [] }])
+      expect(unitsCsv(chart, d).split('\r\n')[0]).toBe('level,unit,condition,n,mean,sd')
+  })
+
+  it('tells a factor named like a fixed column apart', () => {
+    const named = { ...design, factors: [design.factors[0], { ...design.factors[1], name: 'n' }] }
+    expect(unitsCsv(chart, named).split('\r\n')[0]).toBe('level,unit,genotype,n (condition),n,mean,sd')
+  })
+})
+
 describe('csvFilename', () => {
   it('keeps letters, digits, - and _ and names the version', () => {
     expect(csvFilename('Neurite length – vehicle vs NW-117', 2)).toBe(

@@ -1,4 +1,5 @@
 import type { ChartData } from '../../shared/schemas/analyses'
+import type { FactorSummary, GroupSummary } from '../../shared/schemas/analysis-result'
 
 /** Characters that make a spreadsheet treat a cell as a formula (OWASP "CSV injection"). */
 const FORMULA_START = /^[=+\-@\t\r]/
@@ -20,21 +21,59 @@ const numberCell = (value: number | null) => (value === null ? '' : String(value
 
 export const UNITS_CSV_HEADER = ['level', 'unit', 'condition', 'n', 'mean', 'sd'] as const
 
+/** Header names of the fixed columns; a factor of the same name is told apart by "(condition)". */
+const FIXED = new Set<string>(UNITS_CSV_HEADER)
+
+/** The part of a result that says how a design cell ("a:b") splits into one level per factor. */
+export interface UnitsCsvDesign {
+  factors?: Pick<FactorSummary, 'name'>[]
+  groups: Pick<GroupSummary, 'condition' | 'factorLevels'>[]
+}
+
+/**
+ * For two condition factors (engine ≥ 0.2): the factor names, and each design cell's level of
+ * each, from the result's groups. Null for one factor or none, where one condition column says all.
+ */
+function factorColumns(design: UnitsCsvDesign | null | undefined) {
+  const names = (design?.factors ?? []).map((f) => f.name)
+  if (names.length < 2) return null
+  const cells = new Map<string, Record<string, string>>()
+  for (const g of design!.groups) if (g.factorLevels) cells.set(g.condition, g.factorLevels)
+  return { names, cells }
+}
+
 /**
  * The unit-level summary table of a finished analysis: one line per unit (and condition, when a
- * unit spans several) at every level, outer level first. Text cells are neutralised against
- * formula injection and quoted per RFC 4180; numbers are the server's own and written plainly.
- * CRLF line ends, as RFC 4180 and spreadsheets expect.
+ * unit spans several) at every level, outer level first. With two condition factors the units are
+ * split by design cell and the condition column gives way to one column per factor, named after
+ * it. Text cells are neutralised against formula injection and quoted per RFC 4180; numbers are
+ * the server's own and written plainly. CRLF line ends, as RFC 4180 and spreadsheets expect.
  */
-export function unitsCsv(chart: Pick<ChartData, 'unitLevels'>): string {
-  const lines = [UNITS_CSV_HEADER.join(',')]
+export function unitsCsv(chart: Pick<ChartData, 'unitLevels'>, design?: UnitsCsvDesign | null): string {
+  const factors = factorColumns(design)
+  const conditionCells = (condition: string | null): string[] => {
+    if (!factors) return [textCell(condition ?? '')]
+    const levels = condition === null ? undefined : factors.cells.get(condition)
+    return factors.names.map((name) => textCell(levels?.[name] ?? ''))
+  }
+  const header = factors
+    ? [
+        'level',
+        'unit',
+        ...factors.names.map((n) => textCell(FIXED.has(n) ? `${n} (condition)` : n)),
+        'n',
+        'mean',
+        'sd',
+      ]
+    : [...UNITS_CSV_HEADER]
+  const lines = [header.join(',')]
   for (const level of chart.unitLevels) {
     for (const unit of level.units) {
       lines.push(
         [
           textCell(level.level),
           textCell(unit.label),
-          textCell(unit.condition ?? ''),
+          ...conditionCells(unit.condition),
           numberCell(unit.n),
           numberCell(unit.mean),
           numberCell(unit.sd),

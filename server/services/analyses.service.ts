@@ -19,7 +19,6 @@ import { wakeAnalysisRunner } from '../jobs/analysis-runner'
 import {
   findAnalysis,
   findAnalysisVersion,
-  findAnalysisVersionChart,
   findAnalysisVersionResult,
   findAnalysisVersionStatus,
   insertAnalysis,
@@ -216,9 +215,9 @@ export async function exportUnitsCsv(
     throw new ConflictError('This version is still running; the unit table is ready when it is done.', {
       status: version.status,
     })
-  const chart = await findAnalysisVersionChart(version.id)
+  const { result, chart } = await findAnalysisVersionResult(version.id)
   if (!chart) throw new ConflictError('This version has no unit table.')
-  return { filename: csvFilename(analysis.name, versionNo), body: unitsCsv(chart) }
+  return { filename: csvFilename(analysis.name, versionNo), body: unitsCsv(chart, result) }
 }
 
 // ---------------------------------------------------------------- writing

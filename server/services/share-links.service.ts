@@ -12,7 +12,7 @@ import { publicUrl } from '../config'
 import { db } from '../db'
 import { ConflictError, ForbiddenError, NotFoundError } from '../errors/app-error'
 import { shareLinkMail } from '../mail/templates/review-mails'
-import { findAnalysis, findAnalysisVersionChart } from '../repositories/analyses.repo'
+import { findAnalysis, findAnalysisVersionResult } from '../repositories/analyses.repo'
 import { listPlansOfVersion, type PlanRecord } from '../repositories/plans.repo'
 import { findReviewableVersion, findReviewableVersionById } from '../repositories/reviews.repo'
 import {
@@ -237,7 +237,7 @@ export async function sharedUnitsCsv(token: string): Promise<{ filename: string;
   const link = await usableLink(token)
   if (!link.allowUnitTable) throw new NotFoundError('The unit table is not shared through this link.')
   const version = await findReviewableVersionById(link.analysisVersionId)
-  const chart = await findAnalysisVersionChart(link.analysisVersionId)
+  const { result, chart } = await findAnalysisVersionResult(link.analysisVersionId)
   if (!version || !chart) throw new NotFoundError(GONE)
-  return { filename: csvFilename(version.analysisName, version.versionNo), body: unitsCsv(chart) }
+  return { filename: csvFilename(version.analysisName, version.versionNo), body: unitsCsv(chart, result) }
 }

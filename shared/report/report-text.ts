@@ -2,16 +2,30 @@ import type { AnalysisSettings } from '../schemas/analyses'
 import type { AnalysisResult, MixedModelContrast } from '../schemas/analysis-result'
 import { contrastInterval } from './contrast-interval'
 import { formatDf, formatInterval, formatNumber, formatP } from './number-format'
+import {
+  adjustedFor,
+  effectVariationSentences,
+  factorsDescription,
+  formulaSentence,
+  randomDescription,
+  simpleEffectsSentence,
+  slopesSentence,
+  termsMethodSentence,
+  termsResultSentence,
+} from './report-parts'
+import { listWords } from './words'
 
 /**
  * The "How to report this" text: a methods paragraph and a results sentence that count the
  * independent units (not the observations), name the model, the df method and the software.
- * Pure: the same result always gives the same words, so the text can be tested and reused.
+ * Pure: the same result always gives the same words, so the text can be tested and reused. What
+ * engine ≥ 0.2 adds (two factors, covariates, formula, type III tests, level × condition
+ * variances) comes from report-parts; without those fields the words are those of engine 0.1.
  */
 
 export interface ReportContext {
   result: AnalysisResult
-  settings: AnalysisSettings
+  settings: Pick<AnalysisSettings, 'bootstrap'>
   /** Name and version of the program, e.g. "Nestwise 0.1.0". */
   software: string
 }
@@ -21,10 +35,7 @@ export interface ReportText {
   results: string
 }
 
-function listWords(items: string[]): string {
-  if (items.length <= 1) return items.join('')
-  return `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`
-}
+const present = (items: (string | null)[]): string[] => items.filter((s): s is string => s !== null)
 
 /** Units of the condition level per condition: "5 vehicle and 5 NW-117 mice"-style counts. */
 function unitsPerCondition(result: AnalysisResult): string | null {
@@ -34,37 +45,67 @@ function unitsPerCondition(result: AnalysisResult): string | null {
 }
 
 function levelsDescription(result: AnalysisResult): string {
+  const crossed = randomDescription(result)
+  if (crossed) return crossed
   const levels = result.levels.map((l) => `“${l.name}” (${l.nUnits} units)`)
   return levels.length === 1
     ? `a random intercept for ${levels[0]}`
     : `random intercepts for ${listWords(levels)}, each nested in the one before`
 }
 
-export function methodsParagraph({ result, settings, software }: ReportContext): string {
-  const sentences: string[] = []
+function modelSentence(result: AnalysisResult): string {
   const subject = `“${result.response}”`
+  const model = `a linear mixed model fitted by REML${adjustedFor(result)}, with ${levelsDescription(result)}`
+  const factors = factorsDescription(result)
+  if (factors)
+    return `${subject} was compared between the design cells of ${factors}, crossed with their interaction, with ${model}.`
   if (result.condition) {
     const conditions = result.groups.map((g) => g.condition)
-    sentences.push(
-      `${subject} was compared between the conditions of “${result.condition}” (${listWords(conditions)}; reference ${result.reference}) with a linear mixed model fitted by REML, with ${levelsDescription(result)}.`,
-    )
-    sentences.push(
-      result.groups.length > 2
-        ? 'Degrees of freedom used the Satterthwaite approximation; the overall difference was tested with an F test and pairwise differences were Holm-adjusted.'
-        : 'Degrees of freedom used the Satterthwaite approximation.',
-    )
-  } else {
-    sentences.push(
-      `The mean of ${subject} was estimated with a linear mixed model fitted by REML, with ${levelsDescription(result)}; degrees of freedom used the Satterthwaite approximation.`,
-    )
+    return `${subject} was compared between the conditions of “${result.condition}” (${listWords(conditions)}; reference ${result.reference}) with ${model}.`
   }
+  return `The mean of ${subject} was estimated with ${model}; degrees of freedom used the Satterthwaite approximation.`
+}
+
+function dfSentence(result: AnalysisResult): string | null {
+  const terms = termsMethodSentence(result)
+  if (terms) return terms
+  if (!result.condition) return null
+  return result.groups.length > 2
+    ? 'Degrees of freedom used the Satterthwaite approximation; the overall difference was tested with an F test and pairwise differences were Holm-adjusted.'
+    : 'Degrees of freedom used the Satterthwaite approximation.'
+}
+
+function unitsCheckSentence(result: AnalysisResult): string | null {
   const unitsTest = result.comparisons.unitMeans
-  if (unitsTest) {
-    const test = unitsTest.method === 'student-t' ? "Student's t-test" : 'one-way ANOVA'
-    sentences.push(
-      `As a check, a ${test} was run on the means of the ${unitsTest.nUnits} units of “${unitsTest.level}”.`,
-    )
-  }
+  if (!unitsTest) return null
+  const test = {
+    'student-t': "Student's t-test",
+    'one-way-anova': 'one-way ANOVA',
+    'two-way-anova': 'two-way ANOVA (type III)',
+  }[unitsTest.method]
+  return `As a check, a ${test} was run on the means of the ${unitsTest.nUnits} units of “${unitsTest.level}”.`
+}
+
+/**
+ * Engine 0.1 (no headline): " (design effect 17.5, effective n 23.5)" inside the units sentence.
+ * Engine ≥ 0.2 says which quantity they belong to in a sentence of its own, since its label may
+ * hold brackets of its own ("KO − WT (averaged over treatment)").
+ */
+function tableDesignEffect(result: AnalysisResult): string {
+  if (result.headline) return ''
+  return ` (design effect ${formatNumber(result.designEffect)}, effective n ${formatNumber(result.effectiveN)})`
+}
+
+function headlineSentence(result: AnalysisResult): string | null {
+  const h = result.headline
+  if (!h) return null
+  const of = h.label === 'mean' ? 'the overall mean' : h.label
+  return `For ${of}, the design effect was ${formatNumber(h.designEffect)} and the effective n ${formatNumber(h.effectiveN)}.`
+}
+
+export function methodsParagraph({ result, settings, software }: ReportContext): string {
+  const sentences = present([modelSentence(result), formulaSentence(result), dfSentence(result)])
+  sentences.push(...present([unitsCheckSentence(result)]))
   const boot = result.comparisons.bootstrap
   if (boot && settings.bootstrap.enabled) {
     sentences.push(
@@ -75,15 +116,16 @@ export function methodsParagraph({ result, settings, software }: ReportContext):
   const outer = result.levels[0]
   sentences.push(
     perCondition
-      ? `The independent unit is the “${result.conditionLevel}”: ${perCondition}, with ${result.nObs} observations in all (design effect ${formatNumber(result.designEffect)}, effective n ${formatNumber(result.effectiveN)}).`
-      : `The ${result.nObs} observations came from ${outer.nUnits} units of “${outer.name}” (design effect ${formatNumber(result.designEffect)}, effective n ${formatNumber(result.effectiveN)}).`,
+      ? `The independent unit is the “${result.conditionLevel}”: ${perCondition}, with ${result.nObs} observations in all${tableDesignEffect(result)}.`
+      : `The ${result.nObs} observations came from ${outer.nUnits} units of “${outer.name}”${tableDesignEffect(result)}.`,
   )
+  sentences.push(...present([headlineSentence(result)]))
   sentences.push(`Analyses were run in ${software} (statistics engine ${result.engine.version}).`)
   return sentences.join(' ')
 }
 
 function contrastSentence(c: MixedModelContrast, result: AnalysisResult, adjusted: boolean): string {
-  const [low, high] = contrastInterval(c.estimate, c.se, c.df)
+  const [low, high] = c.ci ?? contrastInterval(c.estimate, c.se, c.df)
   const p = adjusted ? `${formatP(c.pHolm)}, Holm-adjusted` : formatP(c.p)
   const a = result.groups.find((g) => g.condition === c.a)
   const b = result.groups.find((g) => g.condition === c.b)
@@ -94,9 +136,11 @@ function contrastSentence(c: MixedModelContrast, result: AnalysisResult, adjuste
   return `${c.a} minus ${c.b}: ${formatNumber(c.estimate)} (95% CI ${formatInterval(low, high)}; t(${formatDf(c.df)}) = ${formatNumber(c.t)}, ${p}${n})`
 }
 
-export function resultsSentence({ result }: ReportContext): string {
+function comparisonSentence(result: AnalysisResult): string {
   const model = result.comparisons.mixedModel
   const tail = 'linear mixed model, Satterthwaite df'
+  const terms = termsResultSentence(result)
+  if (terms) return terms
   if (!model || model.contrasts.length === 0) {
     const g = result.groups[0]
     return `The mean of “${result.response}” was ${formatNumber(g.clustered.estimate)} (95% CI ${formatInterval(g.clustered.ciLow, g.clustered.ciHigh)}; SE ${formatNumber(g.clustered.se)}, df ${formatDf(g.clustered.df)}; ${result.levels[0].nUnits} units of “${result.levels[0].name}”, ${result.nObs} observations; ${tail}).`
@@ -107,6 +151,14 @@ export function resultsSentence({ result }: ReportContext): string {
     return `Across conditions of “${result.condition}”, F(${formatDf(f.df1)}, ${formatDf(f.df2)}) = ${formatNumber(f.f)}, ${formatP(f.p)} (${tail}). Pairwise: ${pairs.join('; ')}.`
   }
   return `Difference in “${result.response}”, ${contrastSentence(model.contrasts[0], result, false)}; ${tail}.`
+}
+
+export function resultsSentence({ result }: ReportContext): string {
+  return [
+    comparisonSentence(result),
+    ...present([simpleEffectsSentence(result), slopesSentence(result)]),
+    ...effectVariationSentences(result),
+  ].join(' ')
 }
 
 export function reportText(context: ReportContext): ReportText {

@@ -2,6 +2,7 @@ import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import type {
   AnalysisCreate,
+  AnalysisDefaults,
   AnalysisDetail,
   AnalysisListItem,
   AnalysisSettingsPatch,
@@ -119,6 +120,30 @@ export const useAnalysesStore = defineStore('analyses', () => {
     pollToken++
   }
 
+  // ------------------------------------------------------------ settings defaults
+  /** What a new analysis (or version) of a dataset version starts from, and the columns it may use. */
+  const defaults = ref<AnalysisDefaults | null>(null)
+  const defaultsError = ref<ApiError | null>(null)
+  const defaultsLoading = ref(false)
+
+  async function loadDefaults(
+    datasetId: number,
+    datasetVersionNo?: number,
+  ): Promise<AnalysisDefaults | null> {
+    defaultsLoading.value = true
+    defaultsError.value = null
+    defaults.value = null
+    try {
+      defaults.value = await analysesApi.getDefaults(datasetId, datasetVersionNo)
+      return defaults.value
+    } catch (error) {
+      defaultsError.value = asApiError(error)
+      return null
+    } finally {
+      defaultsLoading.value = false
+    }
+  }
+
   // ------------------------------------------------------------ writes
   const creating = ref(false)
   const createError = ref<ApiError | null>(null)
@@ -177,6 +202,10 @@ export const useAnalysesStore = defineStore('analyses', () => {
     open,
     selectVersion,
     stopFollowing,
+    defaults,
+    defaultsError,
+    defaultsLoading,
+    loadDefaults,
     creating,
     createError,
     create,

@@ -34,6 +34,8 @@ export async function mountWithApp(
     /** Replaces the app's routes (to test a page as if some feature were absent). */
     routes?: RouteRecordRaw[]
     props?: Record<string, unknown>
+    /** Components replaced by stubs (e.g. charts, which happy-dom cannot draw). */
+    stubs?: Record<string, boolean>
   } = {},
 ) {
   stubMissingBrowserApis()
@@ -48,7 +50,7 @@ export async function mountWithApp(
   await router.isReady()
   const wrapper = mount(component, {
     props: options.props,
-    global: { plugins: [pinia, router, vuetify] },
+    global: { plugins: [pinia, router, vuetify], stubs: options.stubs },
     attachTo: document.body,
   })
   await flushPromises()

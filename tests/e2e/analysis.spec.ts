@@ -79,6 +79,9 @@ test('reads the seeded single-lab analysis, switches error bars, exports and pri
 
   await page.getByTestId('print-view').click()
   await expect(page.getByTestId('print-page')).toBeVisible()
+  // The printed report shows the bar chosen on the result page, and says which.
+  await expect(page).toHaveURL(/bars=ci95/)
+  await expect(page.getByTestId('print-error-bars')).toContainText('95% CI')
   await mainChartDrawn(page)
   await expect(page.getByTestId('report-results')).toContainText('Satterthwaite')
   await page.emulateMedia({ media: 'print' })
@@ -106,7 +109,8 @@ test('creates a new analysis on a demo dataset and sees it finish', async ({ pag
 
   // New settings make version 2; version 1 stays readable.
   await page.getByTestId('change-settings').click()
-  await page.getByRole('dialog').getByRole('button', { name: 'SD', exact: true }).click()
+  // The error bar is a viewer's preference now, not a setting: turn on the bootstrap instead.
+  await page.getByRole('dialog').getByTestId('setting-bootstrap').locator('input').click()
   await page.getByTestId('run-new-version').click()
   await expect(page.getByTestId('version-picker')).toContainText('Version 2', { timeout: 30_000 })
   await mainChartDrawn(page)

@@ -39,4 +39,13 @@ describe('AnalysisBadges', () => {
     expect(units.attributes('data-adequacy')).toBe('too-few')
     expect(units.text()).toContain('too few to compare')
   })
+
+  it('labels per-arm effective n as each arm’s mean, with a hover saying why they do not add up', () => {
+    const wrapper = mountBadges(result)
+    const perArm = wrapper.get('[data-testid="badge-effective-n-per-arm"]')
+    expect(perArm.text()).toContain('for each arm’s mean: 12.1 vehicle · 11.4 NW-117')
+    const why = wrapper.get('[data-testid="badge-effective-n-per-arm-why"]')
+    expect(why.attributes('aria-label')).toContain('do not add up')
+    expect(why.attributes('tabindex')).toBe('0')
+  })
 })

@@ -1,7 +1,7 @@
 // @vitest-environment happy-dom
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { flushPromises, mount } from '@vue/test-utils'
-import type { AnalysisSettings } from '../../../shared/schemas/analyses'
+import { AnalysisSettings } from '../../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../../shared/schemas/analysis-result'
 import demo from '../../../shared/report/fixtures/single-lab-demo.json'
 import { createNestwiseVuetify } from '@/plugins/vuetify'
@@ -9,7 +9,7 @@ import { stubMissingBrowserApis } from '@/testing/mount-with-app'
 import ReportPanel from './ReportPanel.vue'
 
 // Fixture: the engine's stored result of the seeded single-lab demo.
-const props = { result: demo.result as AnalysisResult, settings: demo.settings as AnalysisSettings }
+const props = { result: demo.result as AnalysisResult, settings: AnalysisSettings.parse(demo.settings) }
 
 afterEach(() => {
   vi.unstubAllGlobals()

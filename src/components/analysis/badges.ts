@@ -3,6 +3,13 @@ import { formatNumber } from '../../../shared/report/number-format'
 import { formatCount } from '@/components/dataset/format'
 import { unitAdequacy, type UnitAdequacy } from '@/components/dataset/unit-badge'
 
+/** A line under a badge's number, with its own one-sentence hover when it needs one. */
+export interface BadgeDetail {
+  id: string
+  text: string
+  explain?: string
+}
+
 export interface Badge {
   id: string
   label: string
@@ -11,16 +18,66 @@ export interface Badge {
   explain: string
   /** Null: a count to read, not a judgement. */
   adequacy: UnitAdequacy | null
-  detail?: string
+  details: BadgeDetail[]
+}
+
+/** Per-arm effective n are for each arm's mean; why they do not sum to the comparison's. */
+export function perArmExplain(arm: string): string {
+  return `Each ${arm}’s effective n is for that ${arm}’s mean alone; a comparison’s variance combines two ${arm}s and loses the variance they share (such as lab-to-lab differences when every lab runs both), so these numbers do not add up to the comparison’s.`
+}
+
+/** The quantity the headline design effect belongs to: a contrast of engine ≥ 0.2, else the overall mean. */
+function headlineOf(result: AnalysisResult) {
+  if (result.headline) return result.headline
+  return { label: 'mean', designEffect: result.designEffect, effectiveN: result.effectiveN }
+}
+
+function forWhat(label: string): string {
+  return label === 'mean' ? 'for the mean of all observations' : `for ${label}`
+}
+
+function unitBadges(result: AnalysisResult): Badge[] {
+  const cells = result.groups.some((g) => g.factorLevels)
+  return result.levels.map((level) => {
+    const carriesCondition = level.name === result.conditionLevel
+    const perArm = carriesCondition ? result.groups.map((g) => g.nUnits ?? 0) : []
+    const fewest = perArm.length ? Math.min(...perArm) : null
+    const what = cells ? 'design cell' : 'condition'
+    return {
+      id: `units-${level.name}`,
+      label: `units of “${level.name}”`,
+      value: formatCount(level.nUnits),
+      explain: carriesCondition
+        ? `Independent units: each “${level.name}” carries one ${what}, so comparisons count these, not the rows.`
+        : `Units at the “${level.name}” level, ${formatNumber(level.meanUnitSize)} observations each on average.`,
+      adequacy: fewest === null ? null : unitAdequacy(fewest),
+      details: carriesCondition
+        ? [
+            {
+              id: 'per-arm',
+              text: `${cells ? 'per design cell' : 'per arm'}: ${result.groups.map((g) => `${g.nUnits ?? 0} ${g.condition}`).join(' · ')}`,
+            },
+          ]
+        : [],
+    }
+  })
 }
 
 /**
- * The headline numbers of a result, each with its one-line explanation. Colours follow the unit
- * rule (common practice, no source): fewer than 3 independent units in any arm is too few, 3–5
- * is thin, 6 or more is adequate; effective n per arm is judged on the same scale.
+ * The headline numbers of a result, each with its one-line explanation. Design effect and
+ * effective n belong to one quantity (the first comparison of the first factor, or the overall
+ * mean) and say which; per-arm values say they are for each arm's mean and why they do not add up.
+ * Colours follow the unit rule (common practice, no source): fewer than 3 independent units in
+ * any arm is too few, 3–5 is thin, 6 or more is adequate; effective n per arm on the same scale.
  */
 export function resultBadges(result: AnalysisResult): Badge[] {
-  const badges: Badge[] = [
+  const headline = headlineOf(result)
+  const isMean = headline.label === 'mean'
+  const quantity = isMean ? 'the mean of all observations' : headline.label
+  const observationsBehind = Math.round(headline.effectiveN * headline.designEffect)
+  const perArmEffective = result.groups.map((g) => g.effectiveN)
+  const arm = result.groups.some((g) => g.factorLevels) ? 'design cell' : 'arm'
+  return [
     {
       id: 'observations',
       label: 'observations',
@@ -28,46 +85,40 @@ export function resultBadges(result: AnalysisResult): Badge[] {
       explain:
         'Rows that went into the analysis. They are not independent: rows from one unit resemble each other.',
       adequacy: null,
-      detail: result.nDropped ? `${formatCount(result.nDropped)} left out for missing values` : undefined,
+      details: result.nDropped
+        ? [{ id: 'dropped', text: `${formatCount(result.nDropped)} left out for missing values` }]
+        : [],
+    },
+    ...unitBadges(result),
+    {
+      id: 'design-effect',
+      label: 'design effect',
+      value: formatNumber(headline.designEffect),
+      explain: `How many times larger the variance of ${quantity} is under the model than if every observation were independent${isMean ? '' : '; variance that both sides share cancels out of a difference'}.`,
+      adequacy: null,
+      details: [{ id: 'quantity', text: forWhat(headline.label) }],
+    },
+    {
+      id: 'effective-n',
+      label: 'effective n',
+      value: formatNumber(headline.effectiveN),
+      explain: `The number of independent observations ${quantity} is worth: its observations divided by its design effect.`,
+      adequacy: unitAdequacy(Math.floor(Math.min(...perArmEffective))),
+      details: [
+        {
+          id: 'quantity',
+          text: `${forWhat(headline.label)}: ${formatCount(observationsBehind)} observations ÷ ${formatNumber(headline.designEffect)}`,
+        },
+        ...(result.groups.length > 1
+          ? [
+              {
+                id: 'per-arm',
+                text: `for each ${arm}’s mean: ${result.groups.map((g) => `${formatNumber(g.effectiveN)} ${g.condition}`).join(' · ')}`,
+                explain: perArmExplain(arm),
+              },
+            ]
+          : []),
+      ],
     },
   ]
-  for (const level of result.levels) {
-    const carriesCondition = level.name === result.conditionLevel
-    const perArm = carriesCondition ? result.groups.map((g) => g.nUnits ?? 0) : []
-    const fewest = perArm.length ? Math.min(...perArm) : null
-    badges.push({
-      id: `units-${level.name}`,
-      label: `units of “${level.name}”`,
-      value: formatCount(level.nUnits),
-      explain: carriesCondition
-        ? `Independent units: each “${level.name}” carries one condition, so comparisons count these, not the rows.`
-        : `Units at the “${level.name}” level, ${formatNumber(level.meanUnitSize)} observations each on average.`,
-      adequacy: fewest === null ? null : unitAdequacy(fewest),
-      detail: carriesCondition
-        ? `per arm: ${result.groups.map((g) => `${g.nUnits ?? 0} ${g.condition}`).join(' · ')}`
-        : undefined,
-    })
-  }
-  badges.push({
-    id: 'design-effect',
-    label: 'design effect',
-    value: formatNumber(result.designEffect),
-    explain:
-      'How many times larger the variance of a mean is than if every observation were independent; it shrinks the usable sample size.',
-    adequacy: null,
-  })
-  const perArmEffective = result.groups.map((g) => g.effectiveN)
-  badges.push({
-    id: 'effective-n',
-    label: 'effective n',
-    value: formatNumber(result.effectiveN),
-    explain:
-      'The number of independent observations the data are worth: observations divided by the design effect.',
-    adequacy: unitAdequacy(Math.floor(Math.min(...perArmEffective))),
-    detail:
-      result.groups.length > 1
-        ? `per arm: ${result.groups.map((g) => `${formatNumber(g.effectiveN)} ${g.condition}`).join(' · ')}`
-        : undefined,
-  })
-  return badges
 }

@@ -1,44 +1,72 @@
 import { describe, expect, it } from 'vitest'
-import type { AnalysisDefaults } from '../../../shared/schemas/analyses'
-import { checkDraft, draftFrom } from './settings-form'
+import { AnalysisSettings } from '../../../shared/schemas/analyses'
+import { applySettingsChange } from '../../../shared/analysis/apply-settings-change'
+import {
+  checkDraft,
+  columnChoices,
+  draftFrom,
+  draftToChange,
+  labelsOf,
+  type FormDefaults,
+} from './settings-form'
 
-const defaults: AnalysisDefaults = {
-  datasetVersion: { id: 1, versionNo: 1 },
-  settings: {
-    response: 'length',
-    condition: 'treatment',
-    levels: ['mouse'],
-    reference: null,
-    errorBar: 'sem',
-    bootstrap: { enabled: false, resamples: 2000, seed: '1' },
-  },
-  columns: ['length', 'treatment', 'mouse', 'note'],
-  numericColumns: ['length'],
-  conditionLabels: ['vehicle', 'NW-117'],
+// An invented genotype × treatment table: the column roles and labels below are the test's own.
+const tagged = AnalysisSettings.parse({
+  response: 'length',
+  conditions: ['treatment'],
+  levels: ['lab', 'mouse'],
+  reference: { treatment: 'vehicle' },
+})
+const defaults: FormDefaults = {
+  columns: ['length', 'soma_area', 'treatment', 'genotype', 'lab', 'mouse', 'note'],
+  numericColumns: ['length', 'soma_area'],
+  labelsByColumn: { treatment: ['vehicle', 'KX-9'], genotype: ['WT', 'KO'] },
 }
 
 describe('settings form check', () => {
   it('accepts the defaults from the tagging', () => {
-    const check = checkDraft(draftFrom(defaults.settings), defaults)
-    expect(check.ok).toBe(true)
+    const check = checkDraft(draftFrom(tagged), defaults)
+    expect(check.ok && check.settings).toEqual(tagged)
   })
 
-  it('asks for a response and at least one level', () => {
-    const check = checkDraft({ ...draftFrom(null) }, defaults)
+  it('sends two conditions, a covariate and a reference per factor in the new settings shape', () => {
+    const draft = {
+      ...draftFrom(tagged),
+      conditions: ['genotype', 'treatment'],
+      covariates: ['soma_area'],
+      reference: { genotype: 'KO', treatment: 'vehicle' },
+    }
+    const check = checkDraft(draft, defaults)
+    expect(check.ok).toBe(true)
+    if (check.ok) {
+      expect(check.settings.conditions).toEqual(['genotype', 'treatment'])
+      expect(check.settings.covariates).toEqual(['soma_area'])
+      expect(check.settings.reference).toEqual({ genotype: 'KO', treatment: 'vehicle' })
+      expect(check.settings).not.toHaveProperty('errorBar')
+    }
+  })
+
+  it('gives the same verdict as applySettingsChange, the function the server uses', () => {
+    const draft = { ...draftFrom(tagged), conditions: ['genotype', 'treatment', 'note'] }
+    const server = applySettingsChange(null, draftToChange(draft))
+    const form = checkDraft(draft, defaults)
+    expect(server.ok).toBe(false)
+    expect(form.ok).toBe(false)
+    if (!server.ok && !form.ok) expect(form.problems.conditions).toBe(server.problems[0].message)
+  })
+
+  it('asks for a response and at least one level, by field', () => {
+    const check = checkDraft(draftFrom(null), defaults)
     expect(check.ok).toBe(false)
     if (!check.ok) {
-      expect(check.problems.response).toBe('Pick the measured column')
-      expect(check.problems.levels).toBe('Pick at least one nesting level')
+      expect(check.problems.response).toBe('Choose the response column')
+      const noLevels = checkDraft({ ...draftFrom(tagged), levels: [] }, defaults)
+      expect(!noLevels.ok && noLevels.problems.levels).toBe('Pick at least one nesting level')
     }
   })
 
   it('refuses a column used twice and resamples out of range, with the schema’s words', () => {
-    const draft = {
-      ...draftFrom(defaults.settings),
-      levels: ['treatment'],
-      bootstrapEnabled: true,
-      resamples: 5,
-    }
+    const draft = { ...draftFrom(tagged), levels: ['treatment'], bootstrapEnabled: true, resamples: 5 }
     const check = checkDraft(draft, defaults)
     expect(check.ok).toBe(false)
     if (!check.ok) {
@@ -47,17 +75,42 @@ describe('settings form check', () => {
     }
   })
 
-  it('refuses a response column without numbers', () => {
-    const check = checkDraft({ ...draftFrom(defaults.settings), response: 'note' }, defaults)
-    expect(check.ok).toBe(false)
-    if (!check.ok) expect(check.problems.response).toContain('holds no numbers')
+  it('asks for the resamples when the field is left empty', () => {
+    const check = checkDraft({ ...draftFrom(tagged), bootstrapEnabled: true, resamples: null }, defaults)
+    expect(!check.ok && check.problems['bootstrap.resamples']).toBe('Give the number of resamples')
   })
 
-  it('drops the reference when there is no condition', () => {
-    const check = checkDraft(
-      { ...draftFrom(defaults.settings), condition: null, reference: 'vehicle' },
-      defaults,
-    )
-    expect(check.ok && check.settings.reference).toBeNull()
+  it('refuses a response or covariate without numbers', () => {
+    const response = checkDraft({ ...draftFrom(tagged), response: 'note' }, defaults)
+    expect(!response.ok && response.problems.response).toContain('holds no numbers')
+    const covariate = checkDraft({ ...draftFrom(tagged), covariates: ['genotype'] }, defaults)
+    expect(!covariate.ok && covariate.problems.covariates).toContain('“genotype” holds no numbers')
+  })
+
+  it('puts a reference that is not one of the known labels on that factor’s field', () => {
+    const draft = { ...draftFrom(tagged), reference: { treatment: 'placebo' } }
+    const check = checkDraft(draft, defaults)
+    expect(!check.ok && check.problems['reference.treatment']).toBe('“placebo” is not a value of “treatment”')
+  })
+
+  it('drops the reference of a factor that is no longer a condition, and empty references', () => {
+    const draft = { ...draftFrom(tagged), conditions: [], reference: { treatment: 'vehicle', genotype: '' } }
+    const check = checkDraft(draft, defaults)
+    expect(check.ok && check.settings.reference).toEqual({})
+  })
+})
+
+describe('column choices', () => {
+  it('offers only numeric columns as covariates, never the response, a level or a condition', () => {
+    const choices = columnChoices(defaults, { ...draftFrom(tagged), covariates: [] })
+    expect(choices.covariates).toEqual(['soma_area'])
+    expect(choices.conditions).not.toContain('lab')
+    expect(choices.levels).not.toContain('treatment')
+  })
+
+  it('falls back to no labels (a free-text reference) when a column’s labels are unknown', () => {
+    expect(labelsOf(defaults, 'genotype')).toEqual(['WT', 'KO'])
+    expect(labelsOf(defaults, 'note')).toEqual([])
+    expect(labelsOf({ columns: [], numericColumns: [] }, 'genotype')).toEqual([])
   })
 })

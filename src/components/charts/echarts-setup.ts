@@ -1,4 +1,4 @@
-import { BarChart, CustomChart, ScatterChart } from 'echarts/charts'
+import { BarChart, CustomChart, LineChart, ScatterChart } from 'echarts/charts'
 import {
   GridComponent,
   LegendComponent,
@@ -16,6 +16,7 @@ use([
   SVGRenderer,
   ScatterChart,
   BarChart,
+  LineChart,
   CustomChart,
   GridComponent,
   TooltipComponent,

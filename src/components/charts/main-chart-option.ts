@@ -6,6 +6,7 @@ import type {
 import type { EChartsCoreOption } from 'echarts/core'
 import type { ChartData, ErrorBarType, UnitSummary } from '../../../shared/schemas/analyses'
 import { formatNumber } from '../../../shared/report/number-format'
+import { termLabel } from '../../../shared/report/words'
 import { ERROR_BAR_WORDS, naiveBar, nestedBar, type Bar } from './error-bars'
 import { unitStyle } from './unit-style'
 
@@ -232,7 +233,8 @@ export function mainChartOption(
         customValues: conditionNames.map((_, i) => i),
         formatter: (value: number) => conditionNames[Math.round(value)] ?? '',
       },
-      name: chart.condition ?? '',
+      // Two factors: the cells "a:b" of "A:B", named "A × B".
+      name: chart.condition ? termLabel(chart.condition) : '',
       nameLocation: 'middle',
       nameGap: 30,
     },

@@ -9,6 +9,12 @@ export const terms = {
   response: 'The response is the measured number you want to compare, such as neurite length.',
   condition:
     'The condition is what differs between the groups you compare, such as vehicle versus compound; it is optional.',
+  conditions:
+    'Conditions are what differ between the groups you compare, such as genotype and treatment; pick none, one, or two (then fitted with their interaction).',
+  covariate:
+    'A covariate is a measured number that also affects the response, such as soma size; comparisons are adjusted for it and its slope is reported.',
+  reference:
+    'The reference level is the one the other levels of a condition are compared with, such as vehicle.',
   reusedLabels:
     'The same label under different parents (mouse “m1” in two labs) names different units; Nestwise keys each unit by its full path.',
   exclusion:

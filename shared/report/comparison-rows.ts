@@ -1,0 +1,180 @@
+import type { AnalysisResult, MixedModelContrast, TermTest } from '../schemas/analysis-result'
+import { contrastInterval } from './contrast-interval'
+import { formatDf, formatInterval, formatNumber, formatP } from './number-format'
+import { termLabel } from './words'
+
+export interface ComparisonRow {
+  id: string
+  method: string
+  /** What is compared: "NW-117 − vehicle", "all conditions equal" or a model term. */
+  what: string
+  estimate: string
+  interval: string
+  statistic: string
+  df: string
+  p: string
+  /** This comparison's own design effect and effective n (engine ≥ 0.2, model contrasts only). */
+  designEffect: string
+  effectiveN: string
+  /** Why the row must not be used; set for the naive test only. */
+  wrongBecause?: string
+  /** The reason is shown under this row: the last row of the naive block. */
+  reasonBelow?: boolean
+  note?: string
+}
+
+const NONE = { estimate: '—', interval: '—', designEffect: '—', effectiveN: '—' }
+
+function contrastRow(c: MixedModelContrast, adjusted: boolean): ComparisonRow {
+  const [low, high] = c.ci ?? contrastInterval(c.estimate, c.se, c.df)
+  return {
+    id: `model-${c.a}-${c.b}`,
+    method: 'Mixed model (REML, Satterthwaite df)',
+    what: `${c.a} − ${c.b}`,
+    estimate: formatNumber(c.estimate),
+    interval: formatInterval(low, high),
+    statistic: `t = ${formatNumber(c.t)}`,
+    df: formatDf(c.df),
+    p: adjusted ? `${formatP(c.pHolm)} (Holm)` : formatP(c.p),
+    designEffect: c.designEffect === undefined ? '—' : formatNumber(c.designEffect),
+    effectiveN: c.effectiveN === undefined ? '—' : formatNumber(c.effectiveN),
+  }
+}
+
+/** One row per term of an F-test table ("genotype", "genotype × treatment"). */
+function termTestRows(id: string, method: string, terms: readonly TermTest[]): ComparisonRow[] {
+  return terms.map((t) => ({
+    ...NONE,
+    id: `${id}-${t.term}`,
+    method,
+    what: termLabel(t.term),
+    statistic: `F = ${formatNumber(t.f)}`,
+    df: `${formatDf(t.df1)}, ${formatDf(t.df2)}`,
+    p: formatP(t.p),
+  }))
+}
+
+function unitMeansRows(result: AnalysisResult): ComparisonRow[] {
+  const unitMeans = result.comparisons.unitMeans
+  if (!unitMeans) return []
+  const id = 'unit-means'
+  const method = `Test on unit means (${unitMeans.nUnits} units of “${unitMeans.level}”)`
+  if (unitMeans.method === 'two-way-anova')
+    return termTestRows(id, method.replace('Test on', 'Two-way ANOVA on'), unitMeans.terms)
+  if (unitMeans.method === 'student-t') {
+    const [low, high] = contrastInterval(unitMeans.estimate, unitMeans.se, unitMeans.df)
+    return [
+      {
+        ...NONE,
+        id,
+        method,
+        what: `${unitMeans.a} − ${unitMeans.b}`,
+        estimate: formatNumber(unitMeans.estimate),
+        interval: formatInterval(low, high),
+        statistic: `t = ${formatNumber(unitMeans.t)}`,
+        df: formatDf(unitMeans.df),
+        p: formatP(unitMeans.p),
+      },
+    ]
+  }
+  return [
+    {
+      ...NONE,
+      id,
+      method,
+      what: 'all conditions equal',
+      statistic: `F = ${formatNumber(unitMeans.f)}`,
+      df: `${formatDf(unitMeans.df1)}, ${formatDf(unitMeans.df2)}`,
+      p: formatP(unitMeans.p),
+    },
+  ]
+}
+
+function naiveRows(result: AnalysisResult): ComparisonRow[] {
+  const naive = result.comparisons.naive
+  if (!naive) return []
+  const designEffect = result.headline?.designEffect ?? result.designEffect
+  const wrongBecause = `Counts all ${result.nObs} observations as independent, but observations from one unit are alike (design effect ${formatNumber(designEffect)}), so its p-value is far too small.`
+  if (naive.method === 'linear-model') {
+    const rows = termTestRows('naive', 'Naive linear model (every observation independent)', naive.terms)
+    // One reason under the whole block: the last row carries it.
+    return rows.map((row, i) => ({ ...row, wrongBecause, reasonBelow: i === rows.length - 1 }))
+  }
+  if (naive.method === 'welch') {
+    const [low, high] = contrastInterval(naive.estimate, naive.se, naive.df)
+    return [
+      {
+        ...NONE,
+        id: 'naive',
+        method: 'Naive t-test (every observation independent)',
+        what: `${naive.a} − ${naive.b}`,
+        estimate: formatNumber(naive.estimate),
+        interval: formatInterval(low, high),
+        statistic: `t = ${formatNumber(naive.t)}`,
+        df: formatDf(naive.df),
+        p: formatP(naive.p),
+        wrongBecause,
+        reasonBelow: true,
+      },
+    ]
+  }
+  return [
+    {
+      ...NONE,
+      id: 'naive',
+      method: 'Naive ANOVA (every observation independent)',
+      what: 'all conditions equal',
+      statistic: `F = ${formatNumber(naive.f)}`,
+      df: `${formatDf(naive.df1)}, ${formatDf(naive.df2)}`,
+      p: formatP(naive.p),
+      wrongBecause,
+      reasonBelow: true,
+    },
+  ]
+}
+
+/**
+ * Rows of the comparison table, best answer first: the mixed model (omnibus F with 3+ conditions,
+ * then each pair, Holm-adjusted when there are several), the test on unit means, the bootstrap,
+ * and last the naive test, struck through with its reason.
+ */
+export function comparisonRows(result: AnalysisResult): ComparisonRow[] {
+  const rows: ComparisonRow[] = []
+  const { mixedModel, bootstrap } = result.comparisons
+  const contrasts = mixedModel?.contrasts ?? []
+  if (mixedModel?.omnibus) {
+    const f = mixedModel.omnibus
+    rows.push({
+      ...NONE,
+      id: 'model-omnibus',
+      method: 'Mixed model, F test',
+      what: 'all conditions equal',
+      statistic: `F = ${formatNumber(f.f)}`,
+      df: `${formatDf(f.df1)}, ${formatDf(f.df2)}`,
+      p: formatP(f.p),
+    })
+  }
+  for (const c of contrasts) rows.push(contrastRow(c, result.groups.length > 2))
+  rows.push(...unitMeansRows(result))
+  for (const c of bootstrap?.contrasts ?? []) {
+    rows.push({
+      ...NONE,
+      id: `bootstrap-${c.a}-${c.b}`,
+      method: `Hierarchical bootstrap (${bootstrap!.resamples} resamples)`,
+      what: `${c.a} − ${c.b}`,
+      estimate: formatNumber(c.estimate),
+      interval: formatInterval(c.ciLow, c.ciHigh),
+      statistic: '—',
+      df: '—',
+      p: formatP(c.p),
+      note: 'Percentile interval; its p is a resampling summary, not an exact test.',
+    })
+  }
+  rows.push(...naiveRows(result))
+  return rows
+}
+
+/** Whether the table needs the per-comparison design effect and effective n columns. */
+export function hasPerComparisonDesignEffect(rows: readonly ComparisonRow[]): boolean {
+  return rows.some((r) => r.designEffect !== '—' || r.effectiveN !== '—')
+}
