@@ -9,10 +9,6 @@ import { attachScreenshot, signIn } from './support/demo'
  * formula; the unit table has one column per factor.
  */
 
-// Needs engine 0.2 (two factors and covariates); the engine on this branch fits one factor only.
-// Remove the fixme once branch engine2 is merged.
-const ENGINE_FITS_TWO_FACTORS = false
-
 const LABS = ['nimbus', 'corvid', 'aster']
 const GENOTYPES = ['WT', 'KO']
 const TREATMENTS = ['vehicle', 'KX-9']
@@ -69,7 +65,6 @@ async function choose(page: Page, field: string, names: string[]): Promise<void>
 }
 
 test('a scientist analyses a genotype × treatment table with a covariate', async ({ page }, testInfo) => {
-  test.fixme(!ENGINE_FITS_TWO_FACTORS, 'needs engine 0.2 from branch engine2 (two factors, covariates)')
   test.setTimeout(240_000)
   const datasetName = `Genotype × treatment neurites ${Date.now()}`
 

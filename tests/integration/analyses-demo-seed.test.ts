@@ -5,15 +5,12 @@ import { seed as seedPeople } from '../../seeds/01-demo-people'
 import { seed as seedDatasets } from '../../seeds/02-demo-datasets'
 import { seed as seedAnalyses } from '../../seeds/03-demo-analyses'
 import { demoPassword } from '../../seeds/data/demo-accounts'
-import { ENGINE_VERSION } from '../../shared/stats/engine-version'
 import { closeConnections, createTestApp, signIn } from '../support/api'
 import { getAs } from './datasets-support'
 
 afterAll(closeConnections)
 
 /** Engine 0.1 fits one factor and no covariate; 0.2 fits the two-factor demo. */
-const [engineMajor, engineMinor] = ENGINE_VERSION.split('.').map(Number)
-const engineFitsTwoFactors = engineMajor > 0 || engineMinor >= 2
 
 describe('demo analyses seed', () => {
   it('gives every demo dataset a finished analysis, once, readable through the API', async () => {
@@ -48,12 +45,7 @@ describe('demo analyses seed', () => {
         reference: { genotype: 'WT', treatment: 'vehicle' },
       },
     })
-    if (engineFitsTwoFactors) expect([twoFactor.status, twoFactor.error]).toEqual(['done', null])
-    else
-      expect(twoFactor).toMatchObject({
-        status: 'failed',
-        error: { code: 'UNPROCESSABLE', message: expect.stringContaining('not supported yet') },
-      })
+    expect([twoFactor.status, twoFactor.error]).toEqual(['done', null])
 
     const app = createTestApp()
     const sami = await signIn(app, 'sami@example.org', demoPassword)

@@ -24,8 +24,6 @@ let withText: Awaited<ReturnType<typeof taggedDataset>>
 
 const LEVELS = ['lab', 'mouse', 'coverslip']
 /** Engine 0.1 fits one factor and no covariate; 0.2 fits two factors and covariates. */
-const [engineMajor, engineMinor] = ENGINE_VERSION.split('.').map(Number)
-const engineFitsTwoFactors = engineMajor > 0 || engineMinor >= 2
 
 beforeAll(async () => {
   startAnalysisRunner({ pollMs: 100, leaseMs: 2000, heartbeatMs: 300 })
@@ -78,19 +76,12 @@ describe('two condition factors and a covariate', () => {
     expect(stored.settings).toEqual(expected)
 
     const { final } = await pollUntilFinished(app, team.cookies.scientist, detail.id, 1)
-    if (engineFitsTwoFactors) {
-      expect(final.status, JSON.stringify(final)).toBe('done')
-      const version = (await getAs(app, team.cookies.scientist, `/api/v1/analyses/${detail.id}/versions/1`))
-        .body.data
-      expect(version.result.factors.map((f: { name: string }) => f.name)).toEqual(['genotype', 'treatment'])
-      expect(version.result.covariates.map((c: { name: string }) => c.name)).toEqual(['soma_area_um2'])
-      expect(version.result.reference).toBe('WT:vehicle')
-    } else {
-      expect(final.error).toMatchObject({
-        code: 'UNPROCESSABLE',
-        message: expect.stringContaining('not supported yet'),
-      })
-    }
+    expect(final.status, JSON.stringify(final)).toBe('done')
+    const version = (await getAs(app, team.cookies.scientist, `/api/v1/analyses/${detail.id}/versions/1`))
+      .body.data
+    expect(version.result.factors.map((f: { name: string }) => f.name)).toEqual(['genotype', 'treatment'])
+    expect(version.result.covariates.map((c: { name: string }) => c.name)).toEqual(['soma_area_um2'])
+    expect(version.result.reference).toBe('WT:vehicle')
   })
 
   it('offers the labels of every text column for the reference of each factor', async () => {

@@ -5,7 +5,6 @@ import { AnalysisSettings } from '../../../shared/schemas/analyses'
 import { AnalysisResult } from '../../../shared/schemas/analysis-result'
 import { analyzeNested } from '../../../shared/analysis/analyze-nested'
 import { buildChartData } from '../../../shared/analysis/chart-data'
-import { ENGINE_VERSION } from '../../../shared/stats/engine-version'
 import type { Factor, NestedColumns } from '../../../shared/stats/types'
 import { createNestwiseVuetify } from '@/plugins/vuetify'
 import { stubMissingBrowserApis } from '@/testing/mount-with-app'
@@ -14,10 +13,8 @@ import ResultBody from './ResultBody.vue'
 /**
  * The result page on what the engine really returns for two factors and a covariate (not a
  * hand-made fixture): an invented table of 3 labs × 8 mice (each mouse one genotype × treatment
- * cell) × 5 neurons, with soma area per neuron. Engine 0.1 fits one factor only, so this runs once
- * the engine of branch engine2 (0.2) is merged.
+ * cell) × 5 neurons, with soma area per neuron.
  */
-const twoFactorEngine = !ENGINE_VERSION.startsWith('0.1.')
 
 function factor(name: string, values: string[]): Factor {
   const labels = [...new Set(values)]
@@ -66,49 +63,46 @@ afterEach(() => {
 })
 
 describe('ResultBody on a real two-factor result', () => {
-  it.skipIf(!twoFactorEngine)(
-    'shows the interaction chart, terms, simple effects and formula, without warnings',
-    () => {
-      const columns = inventedTable()
-      // Parsed as the server stores it: the engine's document must pass the result schema.
-      const result = AnalysisResult.parse(analyzeNested(columns))
-      const chart = buildChartData(columns, result)
-      const settings = AnalysisSettings.parse({
-        response: 'neurite_length_um',
-        conditions: ['genotype', 'treatment'],
-        covariates: ['soma_area_um2'],
-        levels: ['lab', 'mouse'],
-      })
-      stubMissingBrowserApis()
-      const wrapper = mount(ResultBody, {
-        props: { version: { id: 1, settings, chart, result }, name: 'Invented', errorBar: 'sem' as const },
-        global: {
-          plugins: [createNestwiseVuetify()],
-          stubs: { AnalysisChart: true },
-          config: {
-            warnHandler: (message) => void problems.push(message),
-            errorHandler: (error) => void problems.push(String(error)),
-          },
+  it('shows the interaction chart, terms, simple effects and formula, without warnings', () => {
+    const columns = inventedTable()
+    // Parsed as the server stores it: the engine's document must pass the result schema.
+    const result = AnalysisResult.parse(analyzeNested(columns))
+    const chart = buildChartData(columns, result)
+    const settings = AnalysisSettings.parse({
+      response: 'neurite_length_um',
+      conditions: ['genotype', 'treatment'],
+      covariates: ['soma_area_um2'],
+      levels: ['lab', 'mouse'],
+    })
+    stubMissingBrowserApis()
+    const wrapper = mount(ResultBody, {
+      props: { version: { id: 1, settings, chart, result }, name: 'Invented', errorBar: 'sem' as const },
+      global: {
+        plugins: [createNestwiseVuetify()],
+        stubs: { AnalysisChart: true },
+        config: {
+          warnHandler: (message) => void problems.push(message),
+          errorHandler: (error) => void problems.push(String(error)),
         },
-        attachTo: document.body,
-      })
-      expect(wrapper.get('[data-testid="interaction-section"]').text()).toContain('genotype and treatment')
-      const terms = wrapper.findAll('[data-testid="terms-table"] tbody tr').map((tr) => tr.find('td').text())
-      expect(terms).toEqual(
-        expect.arrayContaining([
-          'genotype',
-          'treatment',
-          'genotype × treatment (interaction)',
-          'soma_area_um2',
-        ]),
-      )
-      expect(wrapper.findAll('[data-testid="simple-effects-table"] tbody tr').length).toBeGreaterThan(0)
-      expect(wrapper.get('[data-testid="model-formula"]').text()).toBe(result.model!.formula)
-      expect(wrapper.get('[data-testid="badge-design-effect"]').text()).toContain(
-        `for ${result.headline!.label}`,
-      )
-      expect(wrapper.get('[data-testid="report-methods"]').text()).toContain('design cells of “genotype”')
-      expect(problems).toEqual([])
-    },
-  )
+      },
+      attachTo: document.body,
+    })
+    expect(wrapper.get('[data-testid="interaction-section"]').text()).toContain('genotype and treatment')
+    const terms = wrapper.findAll('[data-testid="terms-table"] tbody tr').map((tr) => tr.find('td').text())
+    expect(terms).toEqual(
+      expect.arrayContaining([
+        'genotype',
+        'treatment',
+        'genotype × treatment (interaction)',
+        'soma_area_um2',
+      ]),
+    )
+    expect(wrapper.findAll('[data-testid="simple-effects-table"] tbody tr').length).toBeGreaterThan(0)
+    expect(wrapper.get('[data-testid="model-formula"]').text()).toBe(result.model!.formula)
+    expect(wrapper.get('[data-testid="badge-design-effect"]').text()).toContain(
+      `for ${result.headline!.label}`,
+    )
+    expect(wrapper.get('[data-testid="report-methods"]').text()).toContain('design cells of “genotype”')
+    expect(problems).toEqual([])
+  })
 })
