@@ -54,7 +54,8 @@ function simulate(
     responseName: 'y',
     response,
     levels: [{ name: 'mouse', codes: units, labels: Array.from({ length: 2 * k }, (_, i) => `m${i}`) }],
-    condition: { name: 'arm', codes: arms, labels: ['vehicle', 'NW-117'] },
+    // The first label is the reference: vehicle.
+    factors: [{ name: 'arm', codes: arms, labels: ['vehicle', 'NW-117'] }],
   }
 }
 
@@ -79,7 +80,7 @@ describe('computePlan against simulated experiments', () => {
     let rejected = 0
     for (let e = 0; e < EXPERIMENTS; e++) {
       const columns = simulate(plan.unitsPerArm, plan.obsPerUnit, 0.2, 10, 6, normal)
-      const design = prepareNestedDesign(columns, { reference: 'vehicle' })
+      const design = prepareNestedDesign(columns)
       const fit = fitNestedReml(design)
       const test = satterthwaiteContrast(design, fit, [0, 1])
       if (test.p < inputs.alpha) rejected++
@@ -105,7 +106,7 @@ describe('computePlan against simulated experiments', () => {
     let rejected = 0
     for (let e = 0; e < EXPERIMENTS; e++) {
       const columns = simulate(plan.unitsPerArm, plan.obsPerUnit, 0.2, 10, 0, normal)
-      const design = prepareNestedDesign(columns, { reference: 'vehicle' })
+      const design = prepareNestedDesign(columns)
       const test = satterthwaiteContrast(design, fitNestedReml(design), [0, 1])
       if (test.p < 0.05) rejected++
     }
