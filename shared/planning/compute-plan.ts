@@ -2,6 +2,7 @@ import type { PlanInputs, PlanLabCurve, PlanResult } from '../schemas/plans'
 import { ENGINE_VERSION } from '../stats/engine-version'
 import { planThreeLevel } from '../stats/plan-three-level'
 import { threeLevelPower } from '../stats/three-level-power'
+import { pluralOf } from './plural-of'
 import { resolveLevels } from './resolve-levels'
 
 /** Observations-per-unit values drawn as separate power curves: 1, the recommendation, and a spread around it. */
@@ -73,6 +74,7 @@ export function computePlan(inputs: PlanInputs): PlanResult {
     costPerObs: inputs.costPerObs,
     ...(inputs.maxUnitsPerArm === null ? {} : { maxUnitsPerLabArm: inputs.maxUnitsPerArm }),
     ...(inputs.maxObsPerUnit === null ? {} : { maxObsPerUnit: inputs.maxObsPerUnit }),
+    labWords: { one: outer.name, many: pluralOf(outer.name) },
   })
   const alpha = design.alphaPerComparison
   const L = design.labs
@@ -158,7 +160,7 @@ export function computePlan(inputs: PlanInputs): PlanResult {
   const notes = [...design.notes]
   if (!levels.multiLab && outer.effectSd !== null && outer.effectSd > 0) {
     notes.push(
-      `With one ${outer.name}, how much the effect differs between ${outer.name}s does not enter: the plan is for this ${outer.name} alone.`,
+      `With one ${outer.name}, how much the effect differs between ${pluralOf(outer.name)} does not enter: the plan is for this ${outer.name} alone.`,
     )
   }
 

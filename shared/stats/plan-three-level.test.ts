@@ -172,3 +172,23 @@ describe('planThreeLevel', () => {
     expect(() => planThreeLevel({ ...ok, difference: 0 })).toThrow(/non-zero/)
   })
 })
+
+describe('planThreeLevel notes', () => {
+  it('use the outer level’s own name', () => {
+    // A day × arm variance and at most 4 days: the notes speak of days, not labs.
+    const r = planThreeLevel({
+      ...example,
+      labArmVariance: 8,
+      difference: 6,
+      minLabs: 1,
+      maxLabs: 4,
+      labWords: { one: 'day', many: 'days' },
+    })
+    const notes = r.notes.join(' ')
+    expect(notes).toMatch(/With one day, how much days differ/)
+    expect(notes).toMatch(
+      /No design with at most 4 days reaches 80 % power: with 4 days no number of units gets past \d+ %/,
+    )
+    expect(notes).not.toMatch(/\blabs?\b/)
+  })
+})

@@ -28,6 +28,8 @@ export interface PlanThreeLevelInput extends ThreeLevelVariances {
   maxUnitsPerLabArm?: number
   /** Upper limit on observations per unit. */
   maxObsPerUnit?: number
+  /** The outer level's name in the notes, singular and plural; default "lab", "labs". */
+  labWords?: { one: string; many: string }
 }
 
 export interface PlanThreeLevelResult {
@@ -158,6 +160,8 @@ export function planThreeLevel(input: PlanThreeLevelInput): PlanThreeLevelResult
   const { labArmVariance, unitVariance, residualVariance, difference, costPerLab, costPerUnit, costPerObs } =
     input
   const labVariance = input.labVariance ?? 0
+  const word = input.labWords ?? { one: 'lab', many: 'labs' }
+  const labsWord = (n: number) => (n === 1 ? word.one : word.many)
   const alphaPerComparison = alpha / ((arms * (arms - 1)) / 2)
   const variances = { labArmVariance, unitVariance, residualVariance, labVariance }
   // Validates the variances, the difference and α (one lab only when it is allowed).
@@ -197,8 +201,8 @@ export function planThreeLevel(input: PlanThreeLevelInput): PlanThreeLevelResult
   if (firstLabs > maxLabs) {
     throw new EngineInputError(
       design === 'one-arm'
-        ? 'planThreeLevel: with each lab running one arm, at least 2 labs per arm are needed'
-        : 'planThreeLevel: with one lab, how much labs differ in their response cannot be told apart from the effect; allow at least 2 labs, or set the lab × condition variance to 0 to plan for one lab alone',
+        ? `planThreeLevel: with each ${word.one} running one arm, at least 2 ${word.many} per arm are needed`
+        : `planThreeLevel: with one ${word.one}, how much ${word.many} differ in their response cannot be told apart from the effect; allow at least 2 ${word.many}, or set the ${word.one} × condition variance to 0 to plan for one ${word.one} alone`,
     )
   }
   if (firstLabs === 1 && maxLabs === 1 && maxUnitsPerLabArm === 1) {
@@ -207,8 +211,8 @@ export function planThreeLevel(input: PlanThreeLevelInput): PlanThreeLevelResult
   if (firstLabs > minLabs) {
     notes.push(
       design === 'one-arm'
-        ? 'With one lab per arm the labs cannot be compared with each other, so the search starts at 2 labs per arm.'
-        : 'With one lab, how much labs differ in their response cannot be measured, so the search starts at 2 labs.',
+        ? `With one ${word.one} per arm the ${word.many} cannot be compared with each other, so the search starts at 2 ${word.many} per arm.`
+        : `With one ${word.one}, how much ${word.many} differ in their response cannot be measured, so the search starts at 2 ${word.many}.`,
     )
   }
 
@@ -323,7 +327,7 @@ export function planThreeLevel(input: PlanThreeLevelInput): PlanThreeLevelResult
       const power = powerAt(labs, k, searchCap)
       best = { labs, k, m: searchCap, power: power.power, cost: costOf(labs, k, searchCap), df: power.df }
       notes.push(
-        `No design within ${labs} ${labs === 1 ? 'lab' : 'labs'}, ${k} units per lab and arm and ${searchCap} observations per unit reaches power ${target}; the most powerful one reaches ${best.power.toFixed(3)}.`,
+        `No design within ${labs} ${labsWord(labs)}, ${k} units per ${word.one} and arm and ${searchCap} observations per unit reaches ${asPercent(target)} power; the most powerful one reaches ${asPercent(best.power)}.`,
       )
     } else {
       const ceiling = ceilingOf(labs)
@@ -331,16 +335,16 @@ export function planThreeLevel(input: PlanThreeLevelInput): PlanThreeLevelResult
       best = searchLabs(labs, goal)
       if (!best) throw new Error('planThreeLevel: no design below the ceiling was found')
       notes.push(
-        `No design with at most ${labs} labs reaches power ${target}: with ${labs} labs no number of units gets past ${ceiling.toFixed(3)}, because labs differ in how strongly they respond.${fewestLabs === null ? '' : ` It takes at least ${fewestLabs} labs.`} Shown: the cheapest design within 2 points of that limit.`,
+        `No design with at most ${labs} ${labsWord(labs)} reaches ${asPercent(target)} power: with ${labs} ${labsWord(labs)} no number of units gets past ${asPercent(ceiling)}, because ${word.many} differ ${design === 'one-arm' ? 'from each other' : 'in how strongly they respond'}.${fewestLabs === null ? '' : ` It takes at least ${fewestLabs} ${labsWord(fewestLabs)}.`} Shown: the cheapest design within 2 points of that limit.`,
       )
     }
   } else {
     if (maxUnitsPerLabArm !== undefined && best.k === maxUnitsPerLabArm)
-      notes.push('The limit on units per lab and arm is binding.')
+      notes.push(`The limit on units per ${word.one} and arm is binding.`)
     if (maxObsPerUnit !== undefined && best.m === maxObsPerUnit)
       notes.push('The limit on observations per unit is binding.')
     if (best.labs === maxLabs && maxLabs > minLabs)
-      notes.push('The largest number of labs allowed is binding.')
+      notes.push(`The largest number of ${word.many} allowed is binding.`)
   }
   if (best.labs === 1) notes.push(...singleLabNotes)
   if (arms > 2) {
@@ -380,6 +384,11 @@ export function planThreeLevel(input: PlanThreeLevelInput): PlanThreeLevelResult
     searchedUpToObsPerUnit: searchCap,
     notes,
   }
+}
+
+/** 0.8 → "80 %", 0.533 → "53 %" (whole percentage points, as the planner shows power). */
+function asPercent(p: number): string {
+  return `${Math.round(p * 100)} %`
 }
 
 /**
