@@ -42,6 +42,19 @@ describe('costOptimalUnitsPerLab', () => {
     }
   })
 
+  it('leaves the optimal m inside a unit where the two-level result puts it (brute force, common practice)', () => {
+    // Minimise (c_lab + 2k(c_unit + m·c_obs))(2σ²_lab×arm + 2(σ²_unit + σ²_resid/m)/k) over a fine
+    // grid of k and whole m: the best m is next to m* = √((100/1)·(100/20)) = √500 = 22.36.
+    let best = { m: 0, value: Infinity }
+    for (let m = 1; m <= 80; m++) {
+      for (let k = 0.25; k <= 60; k += 0.25) {
+        const value = (2000 + 2 * k * (100 + m)) * (2 * 2 + (2 * (20 + 100 / m)) / k)
+        if (value < best.value) best = { m, value }
+      }
+    }
+    expect([22, 23]).toContain(best.m)
+  })
+
   it('explains the edge cases', () => {
     const none = costOptimalUnitsPerLab({ ...base, labArmVariance: 0 })
     expect(none).toMatchObject({ exact: Infinity, unitsPerLabArm: null })

@@ -44,7 +44,9 @@ export interface CostOptimalUnitsPerLabResult {
  * persons per site n* = 2√(C·σ²/(c·τ)) (from memory) with n = 2k, τ = 2σ²_lab×arm and a person
  * replaced by a unit of m observations. The number of labs does not enter: it is then set by the
  * power wanted. The optimal m inside a unit does not depend on the labs either
- * (costOptimalObsPerUnit; Moerbeek, van Breukelen & Berger 2000, J Educ Behav Stat 25:271).
+ * (costOptimalObsPerUnit; Moerbeek, van Breukelen & Berger 2000, J Educ Behav Stat 25:271, from
+ * memory): minimising over k first leaves (√(a·c) + √(b·d))², whose m-dependent part (c₁·w) is
+ * smallest at m* = √((c_unit/c_obs)·σ²_resid/σ²_unit).
  * The whole-number recommendation is whichever of ⌊k*⌋ and ⌈k*⌉ (at least 1) gives the smaller
  * criterion.
  *
