@@ -19,6 +19,15 @@ export interface PlanArgs {
   maxObs: number | null
   gridUnits: number[] | null
   gridObs: number[] | null
+  /** Labs (or days, plates): a fixed number, or a range for the cheapest design; null plans as before (one lab, two levels). */
+  labs: { min: number; max: number } | null
+  costLab: number | null
+  /** σ²_lab×arm: how much a lab's arm mean departs from what its lab and arm predict (every lab runs every arm). */
+  labArmVariance: number | null
+  /** Each lab runs one arm (labs per arm), instead of every lab running every arm. */
+  oneArmPerLab: boolean
+  /** With --one-arm-per-lab: variance between labs' means in one arm (σ²_lab + σ²_lab×arm). */
+  labVariance: number | null
 }
 
 export const PLAN_HELP = `Usage: nestwise plan --difference D (--icc R --sd S | --from RESULT.json) [what to plan] [options]
@@ -45,16 +54,35 @@ What to plan (any combination, at least one):
                           power over a grid of designs (for a chart)
 
 Options:
+Labs (or days, plates: any outer level), for a comparison within labs:
+  --labs L | --labs L1-L2 number of labs, or a range to search for the cheapest design; with it the
+                          plan has three levels (labs, units per lab and arm, observations per unit)
+                          and --icc/--sd/--variance describe the spread inside one lab and arm (the
+                          labs' own variance cancels when every lab runs every arm). Power then comes
+                          from the noncentral t with L − 1 df and variance
+                          (2·V_lab×arm + 2(σ²_unit + σ²_resid/M)/K)/L (Raudenbush & Liu 2000 with a
+                          unit level); --units and --obs are per lab and arm.
+  --lab-arm-variance V    how much labs differ in their response: the lab × condition variance
+                          (the effect's SD between labs is √(2V)). Default with --from: the analysis's
+                          <lab>:<condition> component; without it (e.g. engine 0.1) 0, which is
+                          optimistic, and inputs.labArmVarianceSource says "unknown"
+  --cost-lab C            cost of one more lab (default 0), for the cheapest design
+  --one-arm-per-lab       each lab runs one arm (L labs per arm, df 2(L − 1)) instead of every arm
+  --lab-variance V        with --one-arm-per-lab: variance between labs' means within an arm
+
+Options:
   --alpha A               two-sided significance level (default 0.05; Bonferroni-split for more than 2 arms)
   --power P               target power (default 0.8)
   --arms N                number of conditions (default 2)
-  --max-units K           limit on units per arm for the cheapest design
+  --max-units K           limit on units per arm (per lab and arm with --labs) for the cheapest design
   --max-obs M             limit on observations per unit for the cheapest design
   -h, --help              show this help
 
 Exit codes: 0 success; 2 bad input (one line on stderr); 1 internal error.
-Example:
-  npm run --silent nestwise -- plan --difference 5 --icc 0.1 --sd 25 --obs 50 --cost-unit 400 --cost-obs 2`
+Examples:
+  npm run --silent nestwise -- plan --difference 5 --icc 0.1 --sd 25 --obs 50 --cost-unit 400 --cost-obs 2
+  npm run --silent nestwise -- plan --difference 8 --icc 0.17 --sd 11 --labs 2-12 --lab-arm-variance 2 \
+    --cost-lab 2000 --cost-unit 100 --cost-obs 1`
 
 function number(
   name: string,
@@ -83,6 +111,19 @@ const positive = (v: number) => v > 0
 const nonNegative = (v: number) => v >= 0
 const wholeAtLeast = (min: number) => (v: number) => Number.isInteger(v) && v >= min
 
+/** "4" → 4 to 4; "2-12" → 2 to 12 (whole numbers from 1 to 1000, smallest first). */
+function labRange(raw: string | undefined): { min: number; max: number } | null {
+  if (raw === undefined) return null
+  const match = /^\s*(\d+)\s*(?:(?:-|\.\.)\s*(\d+)\s*)?$/.exec(raw)
+  const min = match ? Number(match[1]) : Number.NaN
+  const max = match?.[2] !== undefined ? Number(match[2]) : min
+  if (!match || min < 1 || max < min || max > 1000)
+    throw new CliInputError(
+      `--labs must be a whole number from 1 to 1000, or a range like 2-12, got "${raw}".`,
+    )
+  return { min, max }
+}
+
 /** Parses the arguments after "plan"; null means help was asked for. */
 export function parsePlanArgs(argv: string[]): PlanArgs | null {
   const option = { type: 'string' } as const
@@ -109,6 +150,11 @@ export function parsePlanArgs(argv: string[]): PlanArgs | null {
         'max-obs': option,
         'grid-units': option,
         'grid-obs': option,
+        labs: option,
+        'cost-lab': option,
+        'lab-arm-variance': option,
+        'one-arm-per-lab': { type: 'boolean' },
+        'lab-variance': option,
         help: { type: 'boolean', short: 'h' },
       },
     }))
@@ -134,6 +180,16 @@ export function parsePlanArgs(argv: string[]): PlanArgs | null {
     maxObs: number('max-obs', values['max-obs'], wholeAtLeast(1), 'a whole number of at least 1'),
     gridUnits: list('grid-units', values['grid-units'], wholeAtLeast(2), 'whole numbers of at least 2'),
     gridObs: list('grid-obs', values['grid-obs'], wholeAtLeast(1), 'whole numbers of at least 1'),
+    labs: labRange(values.labs),
+    costLab: number('cost-lab', values['cost-lab'], nonNegative, 'a number of at least 0'),
+    labArmVariance: number(
+      'lab-arm-variance',
+      values['lab-arm-variance'],
+      nonNegative,
+      'a number of at least 0',
+    ),
+    oneArmPerLab: values['one-arm-per-lab'] ?? false,
+    labVariance: number('lab-variance', values['lab-variance'], nonNegative, 'a number of at least 0'),
   }
   const difference = number('difference', values.difference, (v) => v !== 0, 'a non-zero number')
   if (difference === null)
@@ -160,6 +216,34 @@ export function parsePlanArgs(argv: string[]): PlanArgs | null {
     throw new CliInputError(
       '--max-units and --max-obs limit the cheapest design; add --cost-unit and --cost-obs.',
     )
+  }
+  if (args.labs === null) {
+    for (const [given, name] of [
+      [args.costLab !== null, '--cost-lab'],
+      [args.labArmVariance !== null, '--lab-arm-variance'],
+      [args.oneArmPerLab, '--one-arm-per-lab'],
+      [args.labVariance !== null, '--lab-variance'],
+    ] as const) {
+      if (given) throw new CliInputError(`${name} needs --labs L (or a range L1-L2).`)
+    }
+  } else {
+    const range = args.labs.min !== args.labs.max
+    if (range && (args.units !== null || args.gridUnits !== null))
+      throw new CliInputError(
+        '--labs L1-L2 is a range for the cheapest design; give one number of labs for --units/--obs or a grid.',
+      )
+    if (args.obs !== null && args.units === null)
+      throw new CliInputError(
+        'With --labs, give --units K and --obs M for the power of a design, or --cost-unit and --cost-obs for the cheapest one.',
+      )
+    if (args.labVariance !== null && !args.oneArmPerLab)
+      throw new CliInputError(
+        '--lab-variance goes with --one-arm-per-lab (with every lab running every arm it cancels).',
+      )
+    if (args.oneArmPerLab && args.labArmVariance !== null)
+      throw new CliInputError(
+        "With --one-arm-per-lab the lab × condition variance cannot be told apart from the labs' own: give --lab-variance only.",
+      )
   }
   if (args.obs === null && args.costUnit === null && args.gridUnits === null) {
     throw new CliInputError(

@@ -1,13 +1,61 @@
 import { readFileSync } from 'node:fs'
+import { threeLevelComponents } from '../../shared/planning/three-level-components'
 import { AnalysisResult } from '../../shared/schemas/analysis-result'
 import { clusterPower } from '../../shared/stats/cluster-power'
 import { costOptimalObsPerUnit, type CostOptimalResult } from '../../shared/stats/cost-optimal-obs-per-unit'
+import {
+  costOptimalUnitsPerLab,
+  type CostOptimalUnitsPerLabResult,
+} from '../../shared/stats/cost-optimal-units-per-lab'
 import { ENGINE_VERSION } from '../../shared/stats/engine-version'
 import { planDesign, type PlanDesignResult } from '../../shared/stats/plan-design'
+import { planThreeLevel, type PlanThreeLevelResult } from '../../shared/stats/plan-three-level'
 import { powerCurve, type PowerCurveResult } from '../../shared/stats/power-curve'
+import { threeLevelPower } from '../../shared/stats/three-level-power'
 import { unitsNeeded, type UnitsNeededResult } from '../../shared/stats/units-needed'
 import { CliInputError } from './cli-input-error'
 import type { PlanArgs } from './plan-args'
+
+/** The outer level of a three-level plan (present only when --labs was given). */
+export interface PlanLabsInput {
+  /** Fixed (min = max) or a range searched by the cheapest design. */
+  labs: { min: number; max: number }
+  design: 'every-arm' | 'one-arm'
+  costPerLab: number
+  /** σ²_lab×arm used ('every-arm'); 0 for 'one-arm'. */
+  labArmVariance: number
+  /** 'unknown': an analysis without a lab × condition term and none given: planned as 0 (optimistic). */
+  labArmVarianceSource: 'given' | 'analysis' | 'unknown'
+  /** 'one-arm': variance between labs' means within an arm. */
+  labVariance: number
+  /** The spread inside a lab and arm, split by the ICC. */
+  unitVariance: number
+  residualVariance: number
+  /** How an analysis's components were put on the three levels (with --from), in words. */
+  mapping: string[]
+}
+
+export interface ThreeLevelPowerOutput {
+  labs: number
+  unitsPerLabArm: number
+  obsPerUnit: number
+  power: number
+  variance: number
+  df: number
+  ncp: number
+  /** The most these labs can reach, however many units and observations. */
+  ceilingPower: number
+}
+
+export interface ThreeLevelGrid {
+  labs: number
+  kValues: number[]
+  mValues: number[]
+  /** power[i][j]: kValues[i] units per lab and arm, mValues[j] observations per unit. */
+  power: number[][]
+  ceilingPower: number
+  alphaPerComparison: number
+}
 
 export interface PlanOutput {
   inputs: {
@@ -22,25 +70,35 @@ export interface PlanOutput {
     alphaPerComparison: number
     targetPower: number
     arms: number
+    /** Present with --labs: the outer level and the three variances. */
+    labs?: PlanLabsInput
   }
-  power: {
-    unitsPerArm: number
-    obsPerUnit: number
-    power: number
-    deff: number
-    df: number
-    ncp: number
-  } | null
+  power:
+    | ThreeLevelPowerOutput
+    | {
+        unitsPerArm: number
+        obsPerUnit: number
+        power: number
+        deff: number
+        df: number
+        ncp: number
+      }
+    | null
   unitsNeeded: (UnitsNeededResult & { obsPerUnit: number }) | null
-  cheapestDesign: PlanDesignResult | null
-  /** exact is null when there is no finite optimum. */
-  costOptimal: (Omit<CostOptimalResult, 'exact'> & { exact: number | null }) | null
-  grid: PowerCurveResult | null
+  cheapestDesign: PlanDesignResult | PlanThreeLevelResult | null
+  /** exact is null when there is no finite optimum; unitsPerLab (k*) with --labs. */
+  costOptimal:
+    | (Omit<CostOptimalResult, 'exact'> & {
+        exact: number | null
+        unitsPerLab?: Omit<CostOptimalUnitsPerLabResult, 'exact'> & { exact: number | null }
+      })
+    | null
+  grid: PowerCurveResult | ThreeLevelGrid | null
   engine: { version: string }
 }
 
-/** ICC and total SD of a saved analysis: the ICC of the level that carries the condition (else the innermost level). */
-function fromAnalysis(path: string): { icc: number; level: string; sdTotal: number } {
+/** A saved analysis result, or a one-line input error. */
+function readAnalysis(path: string): AnalysisResult {
   let raw: string
   try {
     raw = readFileSync(path, 'utf8')
@@ -60,7 +118,12 @@ function fromAnalysis(path: string): { icc: number; level: string; sdTotal: numb
     throw new CliInputError(
       `"${path}" is not a result of "nestwise analyze" (${parsed.error.issues[0]?.path.join('.')}: ${parsed.error.issues[0]?.message}).`,
     )
-  const result = parsed.data
+  return parsed.data
+}
+
+/** ICC and total SD of a saved analysis: the ICC of the level that carries the condition (else the innermost level). */
+function fromAnalysis(path: string): { icc: number; level: string; sdTotal: number } {
+  const result = readAnalysis(path)
   const level = result.conditionLevel ?? result.levels[result.levels.length - 1].name
   const icc = result.icc.find((entry) => entry.level === level)
   if (!icc) throw new CliInputError(`"${path}" has no ICC for the level "${level}".`)
@@ -73,6 +136,7 @@ function fromAnalysis(path: string): { icc: number; level: string; sdTotal: numb
  * design and the cost-optimal observations per unit, a power grid; each only when asked for.
  */
 export function runPlan(args: PlanArgs): PlanOutput {
+  if (args.labs !== null) return runThreeLevelPlan(args, args.labs)
   const analysis = args.from ? fromAnalysis(args.from) : null
   const icc = args.icc ?? analysis!.icc
   const sdTotal = args.sd ?? (args.variance !== null ? Math.sqrt(args.variance) : analysis!.sdTotal)
@@ -151,4 +215,158 @@ export function runPlan(args: PlanArgs): PlanOutput {
 
 function pick(result: ReturnType<typeof clusterPower>) {
   return { power: result.power, deff: result.deff, df: result.df, ncp: result.ncp }
+}
+
+/** Three levels from a saved analysis (threeLevelComponents), with the ICC and SD inside a lab and arm. */
+function threeLevelFromAnalysis(path: string) {
+  const result = readAnalysis(path)
+  const components = threeLevelComponents(result)
+  const within = components ? components.unitVariance + components.residualVariance : 0
+  if (!components || !(within > 0))
+    throw new CliInputError(`"${path}" has no spread inside the labs to plan with.`)
+  return { components, icc: components.unitVariance / within, sdTotal: Math.sqrt(within) }
+}
+
+/**
+ * --labs: plans over three levels (labs, units per lab and arm, observations per unit) with
+ * threeLevelPower and planThreeLevel. The ICC and SD (typed or from --from) describe the spread
+ * inside one lab and arm.
+ */
+function runThreeLevelPlan(args: PlanArgs, labs: { min: number; max: number }): PlanOutput {
+  const analysis = args.from ? threeLevelFromAnalysis(args.from) : null
+  const icc = args.icc ?? analysis!.icc
+  const sdTotal = args.sd ?? (args.variance !== null ? Math.sqrt(args.variance) : analysis!.sdTotal)
+  const design = args.oneArmPerLab ? 'one-arm' : 'every-arm'
+  const fromData = analysis?.components ?? null
+  const analysisLabArm = fromData === null ? null : design === 'one-arm' ? null : fromData.labArmVariance
+  const labArmVariance = design === 'one-arm' ? 0 : (args.labArmVariance ?? analysisLabArm ?? 0)
+  const labArmVarianceSource: PlanLabsInput['labArmVarianceSource'] =
+    args.labArmVariance !== null || design === 'one-arm'
+      ? 'given'
+      : analysisLabArm !== null
+        ? 'analysis'
+        : 'unknown'
+  const labVariance =
+    design === 'one-arm'
+      ? (args.labVariance ?? (fromData ? fromData.labVariance + (fromData.labArmVariance ?? 0) : 0))
+      : 0
+  const variance = sdTotal * sdTotal
+  const variances = {
+    design,
+    labArmVariance,
+    labVariance,
+    unitVariance: icc * variance,
+    residualVariance: (1 - icc) * variance,
+  } as const
+  const alphaPerComparison = args.alpha / ((args.arms * (args.arms - 1)) / 2)
+  const costPerLab = args.costLab ?? 0
+
+  let power: ThreeLevelPowerOutput | null = null
+  if (args.units !== null && args.obs !== null) {
+    const r = threeLevelPower({
+      ...variances,
+      labs: labs.min,
+      unitsPerLabArm: args.units,
+      obsPerUnit: args.obs,
+      difference: args.difference,
+      alpha: alphaPerComparison,
+    })
+    power = {
+      labs: labs.min,
+      unitsPerLabArm: args.units,
+      obsPerUnit: args.obs,
+      power: r.power,
+      variance: r.variance,
+      df: r.df,
+      ncp: r.ncp,
+      ceilingPower: r.ceilingPower,
+    }
+  }
+  let cheapestDesign: PlanThreeLevelResult | null = null
+  let costOptimal: PlanOutput['costOptimal'] = null
+  if (args.costUnit !== null && args.costObs !== null) {
+    cheapestDesign = planThreeLevel({
+      ...variances,
+      difference: args.difference,
+      alpha: args.alpha,
+      power: args.power,
+      arms: args.arms,
+      minLabs: labs.min,
+      maxLabs: labs.max,
+      costPerLab,
+      costPerUnit: args.costUnit,
+      costPerObs: args.costObs,
+      ...(args.maxUnits === null ? {} : { maxUnitsPerLabArm: args.maxUnits }),
+      ...(args.maxObs === null ? {} : { maxObsPerUnit: args.maxObs }),
+    })
+    const optimum = costOptimalObsPerUnit({ costPerUnit: args.costUnit, costPerObs: args.costObs, icc })
+    const perLab = costOptimalUnitsPerLab({
+      ...variances,
+      arms: args.arms,
+      costPerLab,
+      costPerUnit: args.costUnit,
+      costPerObs: args.costObs,
+      obsPerUnit: cheapestDesign.obsPerUnit,
+    })
+    costOptimal = {
+      ...optimum,
+      exact: Number.isFinite(optimum.exact) ? optimum.exact : null,
+      unitsPerLab: { ...perLab, exact: Number.isFinite(perLab.exact) ? perLab.exact : null },
+    }
+  }
+  let grid: ThreeLevelGrid | null = null
+  if (args.gridUnits && args.gridObs) {
+    if (args.gridUnits.length * args.gridObs.length > 10_000)
+      throw new CliInputError('--grid-units × --grid-obs: at most 10000 grid points.')
+    const at = (k: number, m: number) =>
+      threeLevelPower({
+        ...variances,
+        labs: labs.min,
+        unitsPerLabArm: k,
+        obsPerUnit: m,
+        difference: args.difference,
+        alpha: alphaPerComparison,
+      })
+    const gridUnits = args.gridUnits
+    const gridObs = args.gridObs
+    grid = {
+      labs: labs.min,
+      kValues: [...gridUnits],
+      mValues: [...gridObs],
+      power: gridUnits.map((k) => gridObs.map((m) => at(k, m).power)),
+      ceilingPower: at(gridUnits[0], gridObs[0]).ceilingPower,
+      alphaPerComparison,
+    }
+  }
+
+  return {
+    inputs: {
+      icc,
+      iccSource: args.icc === null ? { kind: 'analysis', level: fromData!.unitLevel } : { kind: 'given' },
+      sdTotal,
+      sdSource: args.sd === null && args.variance === null ? 'analysis' : 'given',
+      difference: args.difference,
+      alpha: args.alpha,
+      alphaPerComparison,
+      targetPower: args.power,
+      arms: args.arms,
+      labs: {
+        labs,
+        design,
+        costPerLab,
+        labArmVariance,
+        labArmVarianceSource,
+        labVariance,
+        unitVariance: variances.unitVariance,
+        residualVariance: variances.residualVariance,
+        mapping: fromData?.mapping ?? [],
+      },
+    },
+    power,
+    unitsNeeded: null,
+    cheapestDesign,
+    costOptimal,
+    grid,
+    engine: { version: ENGINE_VERSION },
+  }
 }

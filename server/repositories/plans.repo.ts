@@ -1,4 +1,4 @@
-import type { PlanInputs, PlanResult } from '../../shared/schemas/plans'
+import { PlanInputs, PlanResult } from '../../shared/schemas/plans'
 import { defaultConn, type Conn } from './connection'
 
 /** A stored plan with the names shown beside it (permissions are the service's business). */
@@ -26,8 +26,8 @@ interface PlanRow {
   analysis_version_no: number | null
   analysis_name: string | null
   name: string
-  inputs: PlanInputs
-  result: PlanResult
+  inputs: unknown
+  result: unknown
   created_by: number
   creator_name: string
   created_at: Date
@@ -49,8 +49,10 @@ function toPlan(row: PlanRow): PlanRecord {
             analysisName: row.analysis_name ?? '',
           },
     name: row.name,
-    inputs: row.inputs,
-    result: row.result,
+    // Parsed on the way out, never written back: a plan saved before a field existed reads with that
+    // field's default (plans before the outer level read as plans for one lab).
+    inputs: PlanInputs.parse(row.inputs),
+    result: PlanResult.parse(row.result),
     createdBy: { id: Number(row.created_by), name: row.creator_name },
     createdAt: row.created_at.toISOString(),
     updatedAt: row.updated_at.toISOString(),

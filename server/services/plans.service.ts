@@ -139,6 +139,7 @@ export async function createPlanFor(user: CurrentUser, input: PlanCreate): Promi
         name: input.name,
         projectId,
         ...(input.source ? { analysisId: input.source.analysisId, versionNo: input.source.versionNo } : {}),
+        labs: result.labs,
         unitsPerArm: result.unitsPerArm,
         obsPerUnit: result.obsPerUnit,
       },

@@ -1,9 +1,9 @@
-import type { PlanInputs, PlanResult } from '../schemas/plans'
-import { clusterPower } from '../stats/cluster-power'
+import type { PlanInputs, PlanLabCurve, PlanResult } from '../schemas/plans'
 import { ENGINE_VERSION } from '../stats/engine-version'
-import { planDesign } from '../stats/plan-design'
-import { powerCurve } from '../stats/power-curve'
-import { resolveSpread } from './resolve-spread'
+import { planThreeLevel } from '../stats/plan-three-level'
+import { threeLevelPower } from '../stats/three-level-power'
+import { pluralOf } from './plural-of'
+import { resolveLevels } from './resolve-levels'
 
 /** Observations-per-unit values drawn as separate power curves: 1, the recommendation, and a spread around it. */
 function curveObsValues(recommended: number): number[] {
@@ -11,11 +11,11 @@ function curveObsValues(recommended: number): number[] {
   return [...values].sort((a, b) => a - b)
 }
 
-function unitsRange(recommended: number): number[] {
+function unitsRange(recommended: number, first: number): number[] {
   const top = Math.max(12, Math.min(200, Math.ceil(recommended * 2)))
-  const step = Math.max(1, Math.ceil((top - 2) / 60))
+  const step = Math.max(1, Math.ceil((top - first) / 60))
   const values: number[] = []
-  for (let k = 2; k <= top; k += step) values.push(k)
+  for (let k = first; k <= top; k += step) values.push(k)
   if (!values.includes(recommended)) values.push(recommended)
   return values.sort((a, b) => a - b)
 }
@@ -28,70 +28,149 @@ function obsRange(recommended: number): number[] {
 }
 
 /**
- * The planner's whole answer from its inputs: the cheapest design reaching the target power
- * (planDesign), power curves (powerCurve), what more observations per unit buy at the recommended
- * number of units (clusterPower, and m / design effect), and a small table of designs around the
- * recommendation. Throws the engine's EngineInputError for impossible inputs.
+ * Numbers of labs drawn in the labs chart: the fewest allowed, the last number that cannot reach
+ * the target and the first that can (where the ceiling bites), the recommendation and twice it.
+ */
+function labValues(first: number, recommended: number, fewest: number | null): number[] {
+  const values = new Set([first, recommended, recommended * 2])
+  if (fewest !== null) {
+    values.add(fewest)
+    if (fewest - 1 >= first) values.add(fewest - 1)
+  }
+  return [...values]
+    .filter((l) => l >= first && l <= 1000)
+    .sort((a, b) => a - b)
+    .slice(0, 6)
+}
+
+/**
+ * The planner's whole answer from its inputs: the cheapest design reaching the target power over
+ * labs, units per lab and arm and observations per unit (planThreeLevel; with one lab, the
+ * two-level plan exactly), power curves against units for several observations per unit, what more
+ * observations buy at the recommended units, power for several numbers of labs with the ceiling
+ * each can reach, and a small table of designs around the recommendation. Throws the engine's
+ * EngineInputError for impossible inputs.
  */
 export function computePlan(inputs: PlanInputs): PlanResult {
-  const { icc, sdTotal } = resolveSpread(inputs)
-  const base = { sdTotal, icc, difference: inputs.difference }
-  const design = planDesign({
-    ...base,
+  const levels = resolveLevels(inputs)
+  const { outer } = inputs
+  const variances = {
+    design: levels.design,
+    labArmVariance: levels.labArmVariance,
+    labVariance: levels.labVariance,
+    unitVariance: levels.unitVariance,
+    residualVariance: levels.residualVariance,
+  }
+  const design = planThreeLevel({
+    ...variances,
+    difference: inputs.difference,
     alpha: inputs.alpha,
     power: inputs.targetPower,
     arms: inputs.arms,
+    minLabs: outer.minLabs,
+    maxLabs: outer.maxLabs,
+    costPerLab: outer.costPerLab,
     costPerUnit: inputs.costPerUnit,
     costPerObs: inputs.costPerObs,
-    ...(inputs.maxUnitsPerArm === null ? {} : { maxUnitsPerArm: inputs.maxUnitsPerArm }),
+    ...(inputs.maxUnitsPerArm === null ? {} : { maxUnitsPerLabArm: inputs.maxUnitsPerArm }),
     ...(inputs.maxObsPerUnit === null ? {} : { maxObsPerUnit: inputs.maxObsPerUnit }),
+    labWords: { one: outer.name, many: pluralOf(outer.name) },
   })
   const alpha = design.alphaPerComparison
-  const k = design.unitsPerArm
+  const L = design.labs
+  const k = design.unitsPerLabArm
   const m = design.obsPerUnit
-  const costOf = (units: number, obs: number) =>
-    inputs.arms * units * (inputs.costPerUnit + obs * inputs.costPerObs)
+  const powerAt = (labs: number, units: number, obs: number) =>
+    threeLevelPower({
+      ...variances,
+      labs,
+      unitsPerLabArm: units,
+      obsPerUnit: obs,
+      difference: inputs.difference,
+      alpha,
+    })
+  const costOf = (labs: number, units: number, obs: number) =>
+    (levels.design === 'one-arm' ? inputs.arms : 1) *
+    labs *
+    (outer.costPerLab +
+      (levels.design === 'one-arm' ? 1 : inputs.arms) *
+        units *
+        (inputs.costPerUnit + obs * inputs.costPerObs))
+  const minUnits = (labs: number) => (labs === 1 && levels.design === 'every-arm' ? 2 : 1)
 
   const curveObs = curveObsValues(m)
-  const grid = powerCurve({
-    ...base,
-    alpha: inputs.alpha,
-    arms: inputs.arms,
-    kValues: unitsRange(k),
-    mValues: curveObs,
-  })
-  const powerCurves = curveObs.map((obs, j) => ({
+  const kValues = unitsRange(k, minUnits(L))
+  const powerCurves = curveObs.map((obs) => ({
     obsPerUnit: obs,
-    points: grid.kValues.map((units, i) => ({ unitsPerArm: units, power: grid.power[i][j] })),
+    points: kValues.map((units) => ({ unitsPerArm: units, power: powerAt(L, units, obs).power })),
   }))
 
   const obsCurve = obsRange(m).map((obs) => ({
     obsPerUnit: obs,
-    power: clusterPower({ ...base, unitsPerArm: k, obsPerUnit: obs, alpha }).power,
-    effectivePerUnit: obs / (1 + (obs - 1) * icc),
+    power: powerAt(L, k, obs).power,
+    effectivePerUnit: obs / (1 + (obs - 1) * levels.icc),
   }))
 
-  const table: PlanResult['table'] = []
-  const seen = new Set<string>()
-  for (const units of [k - 2, k - 1, k, k + 1, k + 2]) {
-    for (const obs of [Math.max(1, Math.round(m / 2)), m, m * 2]) {
-      const key = `${units}/${obs}`
-      if (units < 2 || seen.has(key)) continue
-      seen.add(key)
-      table.push({
-        unitsPerArm: units,
-        obsPerUnit: obs,
-        power: clusterPower({ ...base, unitsPerArm: units, obsPerUnit: obs, alpha }).power,
-        cost: costOf(units, obs),
-        recommended: units === k && obs === m,
+  const labCurves: PlanLabCurve[] = []
+  if (levels.multiLab) {
+    const first =
+      levels.design === 'every-arm' && levels.labArmVariance === 0 ? Math.max(1, outer.minLabs) : 2
+    for (const labs of labValues(first, L, design.fewestLabs)) {
+      const units = unitsRange(k, minUnits(labs))
+      labCurves.push({
+        labs,
+        ceilingPower: powerAt(labs, Math.max(k, minUnits(labs)), m).ceilingPower,
+        byUnits: units.map((u) => ({ unitsPerArm: u, power: powerAt(labs, u, m).power })),
+        byObs: obsRange(m).map((obs) => ({
+          obsPerUnit: obs,
+          power: powerAt(labs, Math.max(k, minUnits(labs)), obs).power,
+        })),
       })
     }
   }
 
+  const table: PlanResult['table'] = []
+  const seen = new Set<string>()
+  const addRow = (labs: number, units: number, obs: number) => {
+    const key = `${labs}/${units}/${obs}`
+    if (labs < 1 || units < minUnits(labs) || obs < 1 || seen.has(key)) return
+    if (labs === 1 && levels.design === 'one-arm') return
+    if (labs === 1 && levels.labArmVariance > 0) return
+    seen.add(key)
+    table.push({
+      labs,
+      unitsPerArm: units,
+      obsPerUnit: obs,
+      power: powerAt(labs, units, obs).power,
+      cost: costOf(labs, units, obs),
+      recommended: labs === L && units === k && obs === m,
+    })
+  }
+  const halfM = Math.max(1, Math.round(m / 2))
+  if (!levels.multiLab) {
+    for (const units of [k - 2, k - 1, k, k + 1, k + 2])
+      for (const obs of [halfM, m, m * 2]) addRow(L, units, obs)
+  } else {
+    for (const labs of [L - 1, L, L + 1]) for (const units of [k - 1, k, k + 1]) addRow(labs, units, m)
+    addRow(L, k, halfM)
+    addRow(L, k, m * 2)
+    table.sort((a, b) => a.labs - b.labs || a.unitsPerArm - b.unitsPerArm || a.obsPerUnit - b.obsPerUnit)
+  }
+
+  const notes = [...design.notes]
+  if (!levels.multiLab && outer.effectSd !== null && outer.effectSd > 0) {
+    notes.push(
+      `With one ${outer.name}, how much the effect differs between ${pluralOf(outer.name)} does not enter: the plan is for this ${outer.name} alone.`,
+    )
+  }
+
   return {
-    icc,
-    sdTotal,
+    icc: levels.icc,
+    sdTotal: levels.sdTotal,
     feasible: design.feasible,
+    labs: L,
+    design: levels.design,
+    totalLabs: design.totalLabs,
     unitsPerArm: k,
     obsPerUnit: m,
     totalUnits: design.totalUnits,
@@ -102,8 +181,15 @@ export function computePlan(inputs: PlanInputs): PlanResult {
     designEffect: design.deff,
     effectivePerUnit: m / design.deff,
     mStar: design.mStar,
-    notes: design.notes,
+    kStar: design.kStar,
+    df: design.df,
+    labArmVariance: levels.design === 'one-arm' ? levels.labVariance : levels.labArmVariance,
+    labArmVarianceAssumed: levels.assumed,
+    ceilingPower: design.ceilingPower,
+    fewestLabs: design.fewestLabs,
+    notes,
     powerCurves,
+    labCurves,
     obsCurve,
     table,
     engineVersion: ENGINE_VERSION,

@@ -17,6 +17,11 @@ describe('planUnitLevel', () => {
     ).toBe('mouse')
   })
 
+  it('takes the next level inside when the outermost level carries the condition (one arm per lab)', () => {
+    expect(planUnitLevel({ conditionLevel: 'plate', levels: [level('plate'), level('well')] })).toBe('well')
+    expect(planUnitLevel({ conditionLevel: 'mouse', levels: [level('mouse')] })).toBe('mouse')
+  })
+
   it('falls back to the innermost level without a condition, and to "unit" without levels', () => {
     expect(planUnitLevel({ conditionLevel: null, levels: [level('lab'), level('mouse')] })).toBe('mouse')
     expect(planUnitLevel({ conditionLevel: null, levels: [] })).toBe('unit')

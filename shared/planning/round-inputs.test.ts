@@ -9,7 +9,9 @@ describe('roundInputs', () => {
       difference: 7.619431734895755,
       costPerUnit: 100,
       costPerObs: 1,
+      outer: { name: 'lab', minLabs: 4, maxLabs: 4, effectSd: 3.14159265, sdBetweenLabs: null },
     })
+    expect(rounded.outer).toMatchObject({ effectSd: 3.142, sdBetweenLabs: null, minLabs: 4 })
     expect(rounded).toMatchObject({
       icc: 0.384,
       spread: { kind: 'components', sdBetween: 19.3, sdWithin: 24.47 },

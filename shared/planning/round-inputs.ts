@@ -1,6 +1,7 @@
 import type { PlanInputsInput } from '../schemas/plans'
 
 const significant = (v: number, digits = 4) => Number(v.toPrecision(digits))
+const maybe = (v: number | null | undefined) => (v === null || v === undefined ? v : significant(v))
 
 /**
  * Numbers suggested by an analysis, rounded for the form: an estimate carries no more than three or
@@ -15,5 +16,18 @@ export function roundInputs(inputs: PlanInputsInput): PlanInputsInput {
           sdBetween: significant(inputs.spread.sdBetween),
           sdWithin: significant(inputs.spread.sdWithin),
         }
-  return { ...inputs, icc: Number(inputs.icc.toFixed(3)), spread, difference: significant(inputs.difference) }
+  const outer = inputs.outer
+    ? {
+        ...inputs.outer,
+        effectSd: maybe(inputs.outer.effectSd),
+        sdBetweenLabs: maybe(inputs.outer.sdBetweenLabs),
+      }
+    : inputs.outer
+  return {
+    ...inputs,
+    icc: Number(inputs.icc.toFixed(3)),
+    spread,
+    difference: significant(inputs.difference),
+    ...(outer ? { outer } : {}),
+  }
 }

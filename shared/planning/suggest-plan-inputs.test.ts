@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import type { AnalysisResult } from '../schemas/analysis-result'
 import demo from '../report/fixtures/single-lab-demo.json'
+import { PlanInputs, SINGLE_LAB } from '../schemas/plans'
+import { v01, v02 } from './fixtures/multi-lab-results'
 import { suggestPlanInputs } from './suggest-plan-inputs'
 
 // Fixture: the engine's stored result for the seeded single-lab demo analysis (10 mice, 2 arms).
@@ -24,6 +26,35 @@ describe('suggestPlanInputs', () => {
     )
     expect(suggested.inputs.arms).toBe(2)
     expect(suggested.unitsInData).toBe(5)
+    // One level: a plan for one lab, as before.
+    expect(suggested.inputs.outer).toEqual(SINGLE_LAB)
+    expect(suggested.labArmVarianceSource).toBe('not-needed')
+  })
+
+  it('suggests the three levels from the maximal model: effect SD between labs √(2 σ²_lab×arm)', () => {
+    const suggested = suggestPlanInputs(v02)!
+    // Invented components (fixtures/multi-lab-results.ts): lab:treatment 2, mouse 20, residual 100.
+    expect(suggested.inputs.spread).toEqual({ kind: 'components', sdBetween: Math.sqrt(20), sdWithin: 10 })
+    expect(suggested.inputs.icc).toBeCloseTo(20 / 120, 12)
+    expect(suggested.inputs.outer).toMatchObject({
+      name: 'lab',
+      design: 'every-arm',
+      minLabs: 4,
+      maxLabs: 4,
+      effectSd: 2,
+      sdBetweenLabs: null,
+    })
+    expect(suggested).toMatchObject({ outerLevel: 'lab', labsInData: 4, labArmVarianceSource: 'analysis' })
+    expect(PlanInputs.safeParse(suggested.inputs).success).toBe(true)
+  })
+
+  it('leaves the effect SD between labs unknown for an engine 0.1 result, and says so', () => {
+    const suggested = suggestPlanInputs(v01)!
+    expect(suggested.inputs.outer.effectSd).toBeNull()
+    expect(suggested.labArmVarianceSource).toBe('unknown')
+    expect(suggested.mapping.join(' ')).toMatch(/did not estimate/)
+    // The lab variance cancels from a comparison within labs: only mouse and cell spread remain.
+    expect(suggested.inputs.spread).toEqual({ kind: 'components', sdBetween: Math.sqrt(20), sdWithin: 10 })
   })
 
   it('gives half an SD as the difference without a contrast, and nothing without variation', () => {

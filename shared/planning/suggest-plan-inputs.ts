@@ -1,36 +1,42 @@
 import type { AnalysisResult } from '../schemas/analysis-result'
-import type { PlanDefaults } from '../schemas/plans'
-import { planUnitLevel } from './plan-unit-level'
+import { SINGLE_LAB, type PlanDefaults } from '../schemas/plans'
+import { threeLevelComponents } from './three-level-components'
 
 export type SuggestedPlan = Omit<PlanDefaults, 'source' | 'labId' | 'projectId'>
 
 /**
- * Planning inputs suggested by a finished analysis: the ICC of the level whose units carry the
- * condition (else the innermost level), the total SD from all variance components split into
- * between and within units, and the observed difference of the first mixed-model contrast.
- * Null when the analysis found no variation at all (nothing to plan with).
+ * Planning inputs suggested by a finished analysis, on three levels (threeLevelComponents): the
+ * spread between units of one lab and arm and inside a unit (as two SDs), the outer level with its
+ * number of units in the data as a fixed number of labs, and how much the effect differs between
+ * labs (the SD of the difference between two arms from lab to lab, √(2 σ²_lab×arm); null when the
+ * analysis did not estimate it, so the form asks). The difference is the first mixed-model
+ * contrast's. Null when the analysis found no variation inside the labs (nothing to plan with).
  */
 export function suggestPlanInputs(result: AnalysisResult): SuggestedPlan | null {
-  const unitLevel = planUnitLevel(result)
-  const icc = result.icc.find((entry) => entry.level === unitLevel)?.icc ?? 0
-  const variance = result.varianceComponents.reduce((sum, c) => sum + c.variance, 0)
-  if (!(variance > 0)) return null
+  const components = threeLevelComponents(result)
+  if (!components) return null
+  const within = components.unitVariance + components.residualVariance
+  if (!(within > 0)) return null
+  const icc = components.unitVariance / within
   const contrast = result.comparisons.mixedModel?.contrasts[0] ?? null
   const observed = contrast ? Math.abs(contrast.estimate) : null
-  const level = result.levels.find((l) => l.name === unitLevel)
+  const { outer } = components
+  const level = result.levels.find((l) => l.name === components.unitLevel)
   const conditions = Math.max(1, result.groups.length)
+  const labs = outer?.nUnits ?? 1
+  const multiLab = outer !== null && labs >= 2
   return {
-    unitLevel,
+    unitLevel: components.unitLevel,
     responseName: result.response,
     inputs: {
       icc,
       spread: {
         kind: 'components',
-        sdBetween: Math.sqrt(icc * variance),
-        sdWithin: Math.sqrt((1 - icc) * variance),
+        sdBetween: Math.sqrt(components.unitVariance),
+        sdWithin: Math.sqrt(components.residualVariance),
       },
       // Without an observed difference, half an SD is a common default, no source.
-      difference: observed && observed > 0 ? observed : 0.5 * Math.sqrt(variance),
+      difference: observed && observed > 0 ? observed : 0.5 * Math.sqrt(within),
       alpha: 0.05,
       targetPower: 0.8,
       arms: Math.min(8, Math.max(2, result.groups.length)),
@@ -38,9 +44,35 @@ export function suggestPlanInputs(result: AnalysisResult): SuggestedPlan | null 
       costPerObs: 1,
       maxUnitsPerArm: null,
       maxObsPerUnit: null,
+      outer: multiLab
+        ? {
+            name: outer.name,
+            design: outer.design,
+            minLabs: outer.design === 'one-arm' ? Math.max(2, Math.round(labs / conditions)) : labs,
+            maxLabs: outer.design === 'one-arm' ? Math.max(2, Math.round(labs / conditions)) : labs,
+            // Invented default: a lab costs as much as ten units.
+            costPerLab: 1000,
+            effectSd:
+              outer.design === 'every-arm' && components.labArmVariance !== null
+                ? Math.sqrt(2 * components.labArmVariance)
+                : null,
+            sdBetweenLabs:
+              outer.design === 'one-arm'
+                ? Math.sqrt(components.labVariance + (components.labArmVariance ?? 0))
+                : null,
+          }
+        : SINGLE_LAB,
     },
     observedDifference: contrast ? contrast.estimate : null,
     unitsInData: Math.round((level?.nUnits ?? 0) / conditions),
     meanObsPerUnit: level?.meanUnitSize ?? 0,
+    outerLevel: multiLab ? outer.name : null,
+    labsInData: multiLab ? labs : null,
+    labArmVarianceSource: !multiLab
+      ? 'not-needed'
+      : outer.design === 'one-arm' || components.labArmVariance !== null
+        ? 'analysis'
+        : 'unknown',
+    mapping: components.mapping,
   }
 }

@@ -1,9 +1,15 @@
 import { z } from 'zod'
 
 /**
- * Experiment plans: how many independent units per arm and observations per unit the next
- * experiment needs, from a finished analysis's variance components or from typed-in values.
- * The server recomputes the result from the inputs on every save; a stored plan keeps both.
+ * Experiment plans: how many labs (or days, plates: the outer level), units per lab and arm and
+ * observations per unit the next experiment needs, from a finished analysis's variance components
+ * or from typed-in values. The server recomputes the result from the inputs on every save; a
+ * stored plan keeps both.
+ *
+ * Plans saved before the outer level existed stay readable as they are stored: every field added
+ * since has a default that reads an old plan as what it was, a plan for one lab (one lab, no lab
+ * cost, no lab × arm variance; units per arm are then units per lab and arm). The stored JSON is
+ * never rewritten.
  */
 
 const Id = z.coerce.number().int().positive()
@@ -17,6 +23,52 @@ export const PlanSpread = z.discriminatedUnion('kind', [
 ])
 export type PlanSpread = z.infer<typeof PlanSpread>
 
+/** How the condition meets the outer level: every lab runs every arm, or each lab runs one arm. */
+export const PlanLabDesign = z.enum(['every-arm', 'one-arm'])
+export type PlanLabDesign = z.infer<typeof PlanLabDesign>
+
+const LabCount = z.number().int().min(1).max(200)
+
+/**
+ * The outer level (labs, days, plates): its name, how many (a fixed number or a range to search),
+ * what one costs, and how much it varies. With one lab the plan is the two-level plan of old.
+ */
+export const PlanOuterLevel = z
+  .object({
+    /** The outer level's own name, singular: "lab", "day", "plate". */
+    name: z.string().trim().min(1).max(60).default('lab'),
+    /** 'every-arm': every lab runs every arm (units are assigned within labs); 'one-arm': each lab runs one arm. */
+    design: PlanLabDesign.default('every-arm'),
+    /** Fewest and most labs to consider (labs per arm for 'one-arm'); equal for a fixed number. */
+    minLabs: LabCount.default(1),
+    maxLabs: LabCount.default(1),
+    /** Cost of one more lab (set-up, travel, shipping), on the scale of the other costs. */
+    costPerLab: nonNegative.default(0),
+    /**
+     * 'every-arm': how much the effect (the difference between two arms) differs from lab to lab,
+     * as an SD: √(2 σ²_lab×arm). Null: unknown, planned as 0 with a caution (optimistic).
+     */
+    effectSd: nonNegative.nullable().default(null),
+    /** 'one-arm': SD between labs of a lab's mean in one arm, √(σ²_lab + σ²_lab×arm). Null: unknown, planned as 0. */
+    sdBetweenLabs: nonNegative.nullable().default(null),
+  })
+  .refine((o) => o.minLabs <= o.maxLabs, {
+    error: 'The fewest labs must not be more than the most labs',
+    path: ['maxLabs'],
+  })
+export type PlanOuterLevel = z.infer<typeof PlanOuterLevel>
+
+/** The outer level of a plan saved before it existed, and of a plan for one lab. */
+export const SINGLE_LAB: PlanOuterLevel = {
+  name: 'lab',
+  design: 'every-arm',
+  minLabs: 1,
+  maxLabs: 1,
+  costPerLab: 0,
+  effectSd: null,
+  sdBetweenLabs: null,
+}
+
 export const PlanInputs = z
   .object({
     /** ICC of the units that are assigned to arms; ignored (derived) when the spread is given as components. */
@@ -29,27 +81,54 @@ export const PlanInputs = z
     arms: z.number().int().min(2).max(8).default(2),
     costPerUnit: nonNegative,
     costPerObs: nonNegative,
-    maxUnitsPerArm: z.number().int().min(2).max(100_000).nullable().default(null),
+    /** Limit on units per lab and arm (with one lab: per arm, at least 2). */
+    maxUnitsPerArm: z.number().int().min(1).max(100_000).nullable().default(null),
     maxObsPerUnit: z.number().int().min(1).max(100_000).nullable().default(null),
+    /** The outer level; absent in plans saved before it existed, which were plans for one lab. */
+    outer: PlanOuterLevel.default(SINGLE_LAB),
   })
   .refine((i) => i.costPerUnit > 0 || i.costPerObs > 0, {
     error: 'Give a cost per unit or per observation (at least one above 0)',
     path: ['costPerUnit'],
+  })
+  .refine((i) => i.maxUnitsPerArm === null || i.maxUnitsPerArm >= 2 || i.outer.maxLabs > 1, {
+    error: 'With one lab, allow at least 2 units per arm',
+    path: ['maxUnitsPerArm'],
   })
 export type PlanInputs = z.infer<typeof PlanInputs>
 export type PlanInputsInput = z.input<typeof PlanInputs>
 
 export const PlanCurve = z.object({
   obsPerUnit: z.number().int().positive(),
+  /** unitsPerArm: units per lab and arm (per arm with one lab). */
   points: z.array(z.object({ unitsPerArm: z.number().int(), power: z.number().min(0).max(1) })),
 })
 export type PlanCurve = z.infer<typeof PlanCurve>
 
+/**
+ * Power with one number of labs: against units per lab and arm (at the recommended observations
+ * per unit) and against observations per unit (at the recommended units per lab), with the most
+ * those labs can reach however many units and observations they use.
+ */
+export const PlanLabCurve = z.object({
+  labs: z.number().int().positive(),
+  ceilingPower: z.number().min(0).max(1),
+  byUnits: z.array(z.object({ unitsPerArm: z.number().int(), power: z.number().min(0).max(1) })),
+  byObs: z.array(z.object({ obsPerUnit: z.number().int(), power: z.number().min(0).max(1) })),
+})
+export type PlanLabCurve = z.infer<typeof PlanLabCurve>
+
 export const PlanResult = z.object({
-  /** ICC and total SD the computation used (derived from components when those were given). */
+  /** ICC and total SD inside a lab and arm the computation used (derived from components when those were given). */
   icc: z.number(),
   sdTotal: z.number(),
   feasible: z.boolean(),
+  /** Labs (labs per arm when each lab runs one arm); 1 for a plan for one lab. */
+  labs: z.number().int().positive().default(1),
+  design: PlanLabDesign.default('every-arm'),
+  /** Labs to run in all: labs, or arms · labs when each lab runs one arm. */
+  totalLabs: z.number().int().positive().default(1),
+  /** Units per lab and arm (with one lab: units per arm). */
   unitsPerArm: z.number().int(),
   obsPerUnit: z.number().int(),
   totalUnits: z.number().int(),
@@ -62,9 +141,23 @@ export const PlanResult = z.object({
   effectivePerUnit: z.number(),
   /** Cost-optimal observations per unit m* before rounding; null without a finite optimum. */
   mStar: z.number().nullable(),
+  /** Cost-optimal units per lab and arm at the recommended m, before rounding; null without a finite optimum. */
+  kStar: z.number().nullable().default(null),
+  /** Degrees of freedom of the planned test (L − 1 across labs, 2(k − 1) with one lab); null in old plans. */
+  df: z.number().nullable().default(null),
+  /** σ²_lab×arm the plan used (σ²_lab + σ²_lab×arm when each lab runs one arm). */
+  labArmVariance: z.number().nonnegative().default(0),
+  /** True when that variance was unknown and planned as 0: the plan is then optimistic. */
+  labArmVarianceAssumed: z.boolean().default(false),
+  /** The most the recommended labs can reach, however many units and observations; 1 without a limit. */
+  ceilingPower: z.number().min(0).max(1).default(1),
+  /** Fewest labs whose ceiling reaches the target power; null when more than 10 000 would be needed. */
+  fewestLabs: z.number().int().positive().nullable().default(1),
   notes: z.array(z.string()),
-  /** Power against units per arm for several observations per unit. */
+  /** Power against units per lab and arm for several observations per unit, at the recommended labs. */
   powerCurves: z.array(PlanCurve),
+  /** Power for several numbers of labs, each with its ceiling; empty for a plan for one lab. */
+  labCurves: z.array(PlanLabCurve).default([]),
   /** At the recommended units per arm: power and effective observations per unit as m grows. */
   obsCurve: z.array(
     z.object({ obsPerUnit: z.number().int(), power: z.number().min(0).max(1), effectivePerUnit: z.number() }),
@@ -72,6 +165,7 @@ export const PlanResult = z.object({
   /** A few designs around the recommendation, for the table to copy. */
   table: z.array(
     z.object({
+      labs: z.number().int().positive().default(1),
       unitsPerArm: z.number().int(),
       obsPerUnit: z.number().int(),
       power: z.number(),
@@ -156,12 +250,27 @@ export const PlanDefaults = z.object({
   /** Units per arm in the analysed data, a hint of how certain the ICC is. */
   unitsInData: z.number().int(),
   meanObsPerUnit: z.number(),
+  /** The outer level of the data (e.g. "lab"), null when the plan is for one lab. */
+  outerLevel: z.string().nullable().default(null),
+  /** Units of the outer level in the analysed data, a hint of how certain its variance is. */
+  labsInData: z.number().int().nullable().default(null),
+  /**
+   * Where the lab × arm variance came from: 'analysis' (its estimate), 'unknown' (an analysis
+   * without that term, e.g. engine 0.1: planned as 0 until someone types a value), 'not-needed'.
+   */
+  labArmVarianceSource: z.enum(['analysis', 'unknown', 'not-needed']).default('not-needed'),
+  /** How the analysis's variance components were put on the three levels, in plain words. */
+  mapping: z.array(z.string()).default([]),
 })
 export type PlanDefaults = z.infer<typeof PlanDefaults>
 
 /** The recommendation of a plan without its curves and tables: what a summary or a report shows. */
 export const PlanRecommendation = PlanResult.pick({
   feasible: true,
+  labs: true,
+  design: true,
+  totalLabs: true,
+  ceilingPower: true,
   unitsPerArm: true,
   obsPerUnit: true,
   totalUnits: true,

@@ -75,6 +75,87 @@ export function powerCurvesOption(
   }
 }
 
+export interface LabChartWords {
+  /** The outer level, singular and plural ("lab", "labs"); the units likewise ("mouse", "mice"). */
+  outer: string
+  outers: string
+  unit: string
+  units: string
+  /** Each lab runs one arm: the numbers of labs are per arm. */
+  perArm: boolean
+}
+
+const plural = (n: number, word: string, pluralWord: string) => `${n} ${n === 1 ? word : pluralWord}`
+
+/**
+ * Power for several numbers of labs, against units per lab and arm ('units') or observations per
+ * unit ('obs'), each line with its ceiling drawn as a dashed line of the same colour: the most that
+ * many labs can reach however many units and observations they use. The recommendation is marked.
+ */
+export function labCurvesOption(
+  result: PlanResult,
+  target: number,
+  colors: PlanChartColors,
+  by: 'units' | 'obs',
+  words: LabChartWords,
+): EChartsCoreOption {
+  const perArm = words.perArm ? ' per arm' : ''
+  return {
+    animation: false,
+    grid: { left: 64, right: 56, top: 84, bottom: 52 },
+    // A width makes a long legend wrap onto a second line instead of running off the chart.
+    legend: { top: 0, left: 8, width: '92%', textStyle: { color: colors.text }, itemGap: 12 },
+    tooltip: { trigger: 'axis', valueFormatter: (v: unknown) => percent(Number(v)) },
+    xAxis: axis(
+      colors,
+      by === 'units' ? `${words.units} per ${words.outer} and arm` : `observations per ${words.unit}`,
+      { type: 'value', min: 1 },
+    ),
+    yAxis: axis(colors, 'power', {
+      type: 'value',
+      min: 0,
+      max: 1,
+      axisLabel: { color: colors.muted, formatter: percent },
+    }),
+    series: result.labCurves.map((curve, i) => {
+      const hue = CURVE_HUES[i % CURVE_HUES.length]
+      const mine = curve.labs === result.labs
+      const marks: object[] = []
+      if (curve.ceilingPower < 0.999) {
+        marks.push({
+          yAxis: curve.ceilingPower,
+          lineStyle: { color: hue, type: 'dashed', width: 1.5 },
+          label: {
+            color: hue,
+            formatter: percent(curve.ceilingPower),
+            position: 'end',
+          },
+        })
+      }
+      if (i === 0) {
+        marks.push({
+          yAxis: target,
+          lineStyle: { color: colors.accent, type: 'dotted' },
+          label: { color: colors.accent, formatter: `target ${percent(target)}`, position: 'insideStartTop' },
+        })
+      }
+      return {
+        type: 'line',
+        name: `${plural(curve.labs, words.outer, words.outers)}${perArm}${mine ? ' (plan)' : ''}`,
+        data:
+          by === 'units'
+            ? curve.byUnits.map((p) => [p.unitsPerArm, p.power])
+            : curve.byObs.map((p) => [p.obsPerUnit, p.power]),
+        showSymbol: false,
+        symbol: SYMBOLS[Math.floor(i / CURVE_HUES.length) % SYMBOLS.length],
+        lineStyle: { width: mine ? 3 : 1.5 },
+        color: hue,
+        ...(marks.length ? { markLine: { silent: true, symbol: 'none', data: marks } } : {}),
+      }
+    }),
+  }
+}
+
 /**
  * At the recommended units per arm: what more observations per unit buy. Effective observations per
  * unit m / (1 + (m − 1)ρ) levels off at 1/ρ, and power with it.
@@ -137,8 +218,10 @@ export function obsPerUnitOption(result: PlanResult, colors: PlanChartColors): E
 
 /** Tab-separated designs, for pasting into a spreadsheet or a protocol. */
 export function planTableText(result: PlanResult, arms: number): string {
+  const multiLab = result.labCurves.length > 0
   const header = [
-    'units per arm',
+    ...(multiLab ? [result.design === 'one-arm' ? 'labs per arm' : 'labs'] : []),
+    multiLab ? 'units per lab and arm' : 'units per arm',
     'observations per unit',
     'total units',
     'total observations',
@@ -148,10 +231,11 @@ export function planTableText(result: PlanResult, arms: number): string {
   ]
   const rows = result.table.map((r) =>
     [
+      ...(multiLab ? [r.labs] : []),
       r.unitsPerArm,
       r.obsPerUnit,
-      r.unitsPerArm * arms,
-      r.unitsPerArm * arms * r.obsPerUnit,
+      r.unitsPerArm * arms * (multiLab ? r.labs : 1),
+      r.unitsPerArm * arms * (multiLab ? r.labs : 1) * r.obsPerUnit,
       r.power.toFixed(3),
       Math.round(r.cost),
       r.recommended ? 'yes' : '',

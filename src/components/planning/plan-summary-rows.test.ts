@@ -15,6 +15,10 @@ function plan(overrides: Partial<PlanSummary> = {}): PlanSummary {
     }),
     result: {
       feasible: true,
+      labs: 1,
+      design: 'every-arm',
+      totalLabs: 1,
+      ceilingPower: 1,
       unitsPerArm: 70,
       obsPerUnit: 12,
       totalUnits: 140,
@@ -68,6 +72,46 @@ describe('planSummaryRow', () => {
       'at most 20 observations per plate',
     ])
     expect(row.shortfall).toMatch(/No design within the limits reaches 90 %/)
+    expect(row.labs).toBeNull()
+  })
+
+  it('names the labs, the effect SD between them, the range of labs and their cost for a plan over labs', () => {
+    const inputs = PlanInputs.parse({
+      icc: 0.2,
+      spread: { kind: 'total', sdTotal: 11 },
+      difference: 8,
+      costPerUnit: 100,
+      costPerObs: 1,
+      maxUnitsPerArm: 6,
+      outer: { name: 'lab', minLabs: 2, maxLabs: 12, costPerLab: 2000, effectSd: 2 },
+    })
+    const result = { ...plan().result, labs: 4, totalLabs: 4, unitsPerArm: 5 }
+    const row = planSummaryRow(plan({ inputs, result }), 'mouse')
+    expect(row.labs).toBe('4 labs')
+    expect(row.assumptions).toContain('effect SD between labs 2.00')
+    expect(row.constraints).toEqual([
+      '2 to 12 labs',
+      'cost 2,000 per lab',
+      'cost 100 per mouse + 1 per observation',
+      'at most 6 mice per lab and arm',
+    ])
+    const unknown = PlanInputs.parse({
+      ...inputs,
+      outer: { ...inputs.outer, effectSd: null, minLabs: 4, maxLabs: 4 },
+    })
+    const vague = planSummaryRow(plan({ inputs: unknown, result }), 'mouse')
+    expect(vague.assumptions).toContain('effect SD between labs unknown (planned as 0)')
+    expect(vague.constraints[0]).toBe('4 labs')
+    const plates = PlanInputs.parse({
+      ...inputs,
+      outer: { name: 'plate', design: 'one-arm', minLabs: 3, maxLabs: 3, costPerLab: 50, sdBetweenLabs: 1.5 },
+    })
+    const onePerArm = planSummaryRow(
+      plan({ inputs: plates, result: { ...result, labs: 3, design: 'one-arm' } }),
+      'well',
+    )
+    expect(onePerArm.labs).toBe('3 plates per arm')
+    expect(onePerArm.assumptions).toContain('SD between plates 1.50, one arm per plate')
   })
 })
 

@@ -12,6 +12,8 @@ export interface PlanSummaryRow {
   assumptions: string[]
   /** Costs and limits the plan was held to. */
   constraints: string[]
+  /** "4 labs", "3 plates per arm"; null for a plan for one lab. */
+  labs: string | null
   unitsPerArm: string
   /** "224 in all" */
   totalUnits: string
@@ -38,14 +40,47 @@ function spreadWords(inputs: PlanSummary['inputs'], unitWord: string): { icc: nu
   return { icc, sd }
 }
 
+/** True when a saved plan spans more than one lab (or one arm per lab). */
+export function isMultiLab(plan: PlanSummary): boolean {
+  return plan.inputs.outer.design === 'one-arm' || plan.inputs.outer.maxLabs > 1
+}
+
+const count = (n: number, word: string) => `${n} ${n === 1 ? word : pluralOf(word)}`
+
+/** The outer level's numbers in words: its spread, and the labs and cost it was held to. */
+function outerWords(plan: PlanSummary): { assumption: string; constraints: string[] } {
+  const { outer } = plan.inputs
+  const outers = pluralOf(outer.name)
+  const assumption =
+    outer.design === 'one-arm'
+      ? `SD between ${outers} ${outer.sdBetweenLabs === null ? 'unknown (planned as 0)' : formatNumber(outer.sdBetweenLabs)}, one arm per ${outer.name}`
+      : `effect SD between ${outers} ${outer.effectSd === null ? 'unknown (planned as 0)' : formatNumber(outer.effectSd)}`
+  const range =
+    outer.minLabs === outer.maxLabs
+      ? count(outer.minLabs, outer.name)
+      : `${outer.minLabs} to ${outer.maxLabs} ${outers}`
+  return {
+    assumption,
+    constraints: [
+      `${range}${outer.design === 'one-arm' ? ' per arm' : ''}`,
+      `cost ${money(outer.costPerLab)} per ${outer.name}`,
+    ],
+  }
+}
+
 export function planSummaryRow(plan: PlanSummary, unitWord: string, index = 0): PlanSummaryRow {
   const { inputs, result } = plan
   const spread = spreadWords(inputs, unitWord)
+  const multiLab = isMultiLab(plan)
+  const outer = multiLab ? outerWords(plan) : null
   const constraints = [
+    ...(outer?.constraints ?? []),
     `cost ${money(inputs.costPerUnit)} per ${unitWord} + ${money(inputs.costPerObs)} per observation`,
   ]
   if (inputs.maxUnitsPerArm !== null)
-    constraints.push(`at most ${inputs.maxUnitsPerArm} ${pluralOf(unitWord)} per arm`)
+    constraints.push(
+      `at most ${inputs.maxUnitsPerArm} ${pluralOf(unitWord)} per ${multiLab ? `${inputs.outer.name} and arm` : 'arm'}`,
+    )
   if (inputs.maxObsPerUnit !== null)
     constraints.push(`at most ${inputs.maxObsPerUnit} observations per ${unitWord}`)
   return {
@@ -55,10 +90,14 @@ export function planSummaryRow(plan: PlanSummary, unitWord: string, index = 0): 
     assumptions: [
       `ICC ${spread.icc.toFixed(2)}`,
       spread.sd,
+      ...(outer ? [outer.assumption] : []),
       `difference worth detecting ${formatNumber(inputs.difference)}`,
       `${inputs.arms} arms, α ${inputs.alpha}, target power ${percent(inputs.targetPower)}`,
     ],
     constraints,
+    labs: multiLab
+      ? `${count(result.labs, inputs.outer.name)}${result.design === 'one-arm' ? ' per arm' : ''}`
+      : null,
     unitsPerArm: String(result.unitsPerArm),
     totalUnits: `${money(result.totalUnits)} in all`,
     obsPerUnit: String(result.obsPerUnit),

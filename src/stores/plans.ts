@@ -1,0 +1,158 @@
+import { defineStore } from 'pinia'
+import { ref } from 'vue'
+import type { Project } from '../../shared/schemas/datasets'
+import type { Plan, PlanCreate, PlanDefaults, PlanInputsInput, PlanResult } from '../../shared/schemas/plans'
+import * as plansApi from '@/api/plans'
+import { listProjects } from '@/api/projects'
+import { asApiError, type ApiError } from '@/api/http'
+
+/** Time the planner waits after the last change of a number before it asks the server again. */
+export const PREVIEW_DELAY_MS = 250
+
+/**
+ * The planner as the screens see it: the saved plans of the user's labs (and their projects), the
+ * plan or analysis the numbers start from, and the server's answer to the numbers on the form,
+ * asked for again a moment after each change (an older request is cancelled when a newer starts).
+ */
+export const usePlansStore = defineStore('plans', () => {
+  const list = ref<Plan[]>([])
+  const projects = ref<Project[]>([])
+  const loadError = ref<ApiError | null>(null)
+  /** The saved plan the planner shows, when it was opened on one. */
+  const saved = ref<Plan | null>(null)
+  /** Inputs suggested by an analysis, when the planner was opened from one. */
+  const defaults = ref<PlanDefaults | null>(null)
+
+  const result = ref<PlanResult | null>(null)
+  const previewError = ref<ApiError | null>(null)
+  const computing = ref(false)
+  const saving = ref(false)
+  const saveError = ref<ApiError | null>(null)
+
+  async function loadList(): Promise<void> {
+    loadError.value = null
+    try {
+      const [plans, allProjects] = await Promise.all([plansApi.listPlans(), listProjects()])
+      list.value = plans
+      projects.value = allProjects
+    } catch (error) {
+      loadError.value = asApiError(error)
+    }
+  }
+
+  /** Opens a saved plan; null (and loadError set) when it cannot be read. */
+  async function openPlan(planId: number): Promise<Plan | null> {
+    defaults.value = null
+    try {
+      saved.value = await plansApi.getPlan(planId)
+      return saved.value
+    } catch (error) {
+      loadError.value = asApiError(error)
+      return null
+    }
+  }
+
+  /** Starts from a finished analysis version; null (and loadError set) when it cannot be read. */
+  async function startFromAnalysis(analysisId: number, versionNo: number): Promise<PlanDefaults | null> {
+    saved.value = null
+    try {
+      defaults.value = await plansApi.planDefaults(analysisId, versionNo)
+      return defaults.value
+    } catch (error) {
+      loadError.value = asApiError(error)
+      return null
+    }
+  }
+
+  function startBlank(): void {
+    saved.value = null
+    defaults.value = null
+  }
+
+  let pending: AbortController | null = null
+  let timer: ReturnType<typeof setTimeout> | null = null
+  /** Asks the server for the answer to these inputs, after a short pause; the latest request wins. */
+  function preview(inputs: PlanInputsInput, delay = PREVIEW_DELAY_MS): Promise<void> {
+    if (timer) clearTimeout(timer)
+    return new Promise((resolve) => {
+      timer = setTimeout(async () => {
+        timer = null
+        pending?.abort()
+        const controller = (pending = new AbortController())
+        computing.value = true
+        try {
+          result.value = await plansApi.previewPlan(inputs, controller.signal)
+          previewError.value = null
+        } catch (error) {
+          if (!controller.signal.aborted) previewError.value = asApiError(error)
+        } finally {
+          if (pending === controller) computing.value = false
+          resolve()
+        }
+      }, delay)
+    })
+  }
+
+  /** Saves new inputs as a plan, or renames and moves the open saved plan. The saved plan, or null. */
+  async function save(
+    input: Omit<PlanCreate, 'inputs' | 'source'> & { inputs: PlanInputsInput },
+  ): Promise<Plan | null> {
+    saving.value = true
+    saveError.value = null
+    try {
+      if (saved.value) {
+        saved.value = await plansApi.updatePlan(saved.value.id, {
+          name: input.name,
+          projectId: input.projectId,
+        })
+      } else {
+        const source = defaults.value
+          ? { analysisId: defaults.value.source.analysisId, versionNo: defaults.value.source.versionNo }
+          : null
+        saved.value = await plansApi.createPlan({ ...input, source })
+      }
+      list.value = await plansApi.listPlans()
+      return saved.value
+    } catch (error) {
+      saveError.value = asApiError(error)
+      return null
+    } finally {
+      saving.value = false
+    }
+  }
+
+  /** Deletes a plan; true when it was the open one. */
+  async function remove(plan: Plan): Promise<boolean> {
+    try {
+      await plansApi.deletePlan(plan.id)
+      list.value = list.value.filter((p) => p.id !== plan.id)
+      if (saved.value?.id === plan.id) {
+        saved.value = null
+        return true
+      }
+    } catch (error) {
+      saveError.value = asApiError(error)
+    }
+    return false
+  }
+
+  return {
+    list,
+    projects,
+    loadError,
+    saved,
+    defaults,
+    result,
+    previewError,
+    computing,
+    saving,
+    saveError,
+    loadList,
+    openPlan,
+    startFromAnalysis,
+    startBlank,
+    preview,
+    save,
+    remove,
+  }
+})
