@@ -96,7 +96,8 @@ describe('computePlan', () => {
       stored.result.obsPerUnit,
       stored.result.cost,
     ])
-    expect(again.power).toBeCloseTo(stored.result.power, 12)
+    // The stored power came from jStat's t quantile, about 3e-8 off R's qt; ours matches R.
+    expect(Math.abs(again.power - stored.result.power)).toBeLessThan(1e-7)
   })
 
   it('plans labs, units per lab and observations per unit from the effect SD between labs', () => {
