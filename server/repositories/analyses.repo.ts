@@ -7,6 +7,7 @@ import {
   type AnalysisVersionStatus,
   type AnalysisVersionSummary,
   type AppliedExclusion,
+  readStoredChart,
   type ChartData,
 } from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
@@ -397,7 +398,7 @@ export async function findAnalysisVersionResult(
   )
     .where({ id: versionId })
     .first('result', 'chart')
-  return { result: row?.result ?? null, chart: row?.chart ?? null }
+  return { result: row?.result ?? null, chart: row?.chart ? readStoredChart(row.chart) : null }
 }
 
 export async function findAnalysisVersionChart(
@@ -407,7 +408,7 @@ export async function findAnalysisVersionChart(
   const row: { chart: ChartData | null } | undefined = await conn('analysis_versions')
     .where({ id: versionId })
     .first('chart')
-  return row?.chart ?? null
+  return row?.chart ? readStoredChart(row.chart) : null
 }
 
 export async function findAnalysisVersionStatus(

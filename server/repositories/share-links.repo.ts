@@ -1,4 +1,4 @@
-import type { ChartData } from '../../shared/schemas/analyses'
+import { readStoredChart, type ChartData } from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import { defaultConn, type Conn } from './connection'
 
@@ -168,6 +168,6 @@ export async function findSharedVersionFacts(versionId: number, conn: Conn = def
     datasetSha256: row.dataset_sha256,
     settings: row.settings,
     result: row.result,
-    chart: row.chart,
+    chart: row.chart ? readStoredChart(row.chart) : null,
   }
 }

@@ -1,6 +1,6 @@
 import { sampleStandardDeviation } from 'simple-statistics'
 import { describe, expect, it } from 'vitest'
-import { ChartData } from '../schemas/analyses'
+import { ChartData, ConditionBars } from '../schemas/analyses'
 import { analyzeNested } from './analyze-nested'
 import type { NestedColumns } from '../stats/types'
 import { buildChartData } from './chart-data'
@@ -100,16 +100,16 @@ describe('buildChartData', () => {
     expect(vehicle.nObs).toBe(values.length)
     // Plain SD and SEM of the observations (common practice; simple-statistics as the independent sum).
     expect(vehicle.naive.sd).toBeCloseTo(sampleStandardDeviation(values), 10)
-    expect(vehicle.naive.sem).toBeCloseTo(sampleStandardDeviation(values) / Math.sqrt(values.length), 10)
+    expect(vehicle.naive.se).toBeCloseTo(sampleStandardDeviation(values) / Math.sqrt(values.length), 10)
     expect(vehicle.naive.df).toBe(values.length - 1)
     const group = result.groups[0]
     expect(vehicle.nested).toMatchObject({
-      mean: group.clustered.estimate,
-      sem: group.clustered.se,
+      estimate: group.clustered.estimate,
+      se: group.clustered.se,
       df: group.clustered.df,
       nUnits: 3,
     })
-    expect(vehicle.nested.ci95).toEqual([group.clustered.ciLow, group.clustered.ciHigh])
+    expect(vehicle.nested.ci).toEqual([group.clustered.ciLow, group.clustered.ciHigh])
     // SD of the vehicle mice's means 12, 12, 12 = 0 (by hand).
     expect(vehicle.nested.sd).toBeCloseTo(0, 12)
     // NW-117 mice: 21, 20, 21 → SD √(1/3) (by hand).
@@ -212,5 +212,23 @@ describe('buildChartData without a condition', () => {
     expect(chart.conditions.map((c) => c.condition)).toEqual(['all'])
     expect(chart.unitLevels[1].units.every((u) => u.condition === null)).toBe(true)
     expect(chart.unitLevels[1].units).toHaveLength(6)
+  })
+})
+
+describe('stored charts of engine 0.1', () => {
+  it('read their bars in the one interval shape', () => {
+    // A condition's bars as engine 0.1 stored them (invented numbers).
+    const stored = {
+      condition: 'vehicle',
+      nObs: 6,
+      naive: { mean: 10, sd: 2, sem: 0.8, ci95: [8, 12], df: 5 },
+      nested: { mean: 10.5, sem: 1.5, ci95: [5, 16], df: 2, sd: 1.4, nUnits: 2 },
+    }
+    expect(ConditionBars.parse(stored)).toEqual({
+      condition: 'vehicle',
+      nObs: 6,
+      naive: { estimate: 10, se: 0.8, df: 5, ci: [8, 12], sd: 2 },
+      nested: { estimate: 10.5, se: 1.5, df: 2, ci: [5, 16], sd: 1.4, nUnits: 2 },
+    })
   })
 })

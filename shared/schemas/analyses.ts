@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { AnalysisResult, LevelIcc, VarianceComponentShare } from './analysis-result'
+import { AnalysisResult, Interval, LevelIcc, VarianceComponentShare } from './analysis-result'
 
 /**
  * Analyses API shapes. An analysis belongs to one dataset; each run of it is an immutable version
@@ -128,26 +128,15 @@ export type AnalysisSettingsPatch = z.infer<typeof AnalysisSettingsPatch>
 
 // ---------------------------------------------------------------- chart data
 
-/** ± bars of one condition; ci95 = [low, high] with the df named beside it. */
-export const NaiveBars = z.object({
-  /** Plain mean of all observations. */
-  mean: z.number(),
+/** The naive bars of one condition: the interval of the plain mean (SD/√n, t with n − 1 df) and the SD. */
+export const NaiveBars = Interval.extend({
+  /** SD of all the condition's observations. */
   sd: z.number().nonnegative(),
-  sem: z.number().nonnegative(),
-  ci95: z.tuple([z.number(), z.number()]),
-  /** n − 1. */
-  df: z.number().positive(),
 })
 export type NaiveBars = z.infer<typeof NaiveBars>
 
-export const NestedBars = z.object({
-  /** The mixed model's estimate of the condition mean. */
-  mean: z.number(),
-  /** SE of that estimate from the model. */
-  sem: z.number().nonnegative(),
-  ci95: z.tuple([z.number(), z.number()]),
-  /** Satterthwaite df. */
-  df: z.number().positive(),
+/** The nested bars of one condition: the model's interval (Satterthwaite df) and the SD of unit means. */
+export const NestedBars = Interval.extend({
   /** SD of the unit means at the condition level; null without a condition level or with one unit. */
   sd: z.number().nonnegative().nullable(),
   /** Units behind `sd` (units carrying this condition at the condition level); null without a condition level. */
@@ -155,12 +144,22 @@ export const NestedBars = z.object({
 })
 export type NestedBars = z.infer<typeof NestedBars>
 
+/**
+ * Bars stored before the one interval shape ({ mean, sem, ci95, df, … }) read as Interval + sd.
+ * Stored charts are never rewritten; they are read through this.
+ */
+function upgradeStoredBars(raw: unknown): unknown {
+  if (typeof raw !== 'object' || raw === null || !('ci95' in raw)) return raw
+  const { mean, sem, ci95, ...rest } = raw as Record<string, unknown>
+  return { ...rest, estimate: mean, se: sem, ci: ci95 }
+}
+
 export const ConditionBars = z.object({
-  /** Condition label, or "all" without a condition. */
+  /** Condition label (a design cell "a:b" for two factors), or "all" without a condition. */
   condition: z.string(),
   nObs: count,
-  naive: NaiveBars,
-  nested: NestedBars,
+  naive: z.preprocess(upgradeStoredBars, NaiveBars),
+  nested: z.preprocess(upgradeStoredBars, NestedBars),
 })
 export type ConditionBars = z.infer<typeof ConditionBars>
 
@@ -217,6 +216,15 @@ export const ChartData = z.object({
   variance: z.object({ components: z.array(VarianceComponentShare), icc: z.array(LevelIcc) }),
 })
 export type ChartData = z.infer<typeof ChartData>
+
+/**
+ * A chart as stored, in today's shape: bars stored by engine 0.1 ({ mean, sem, ci95 }) read as
+ * the one interval shape. Only the few condition bars are touched, not the points.
+ */
+export function readStoredChart(stored: unknown): ChartData {
+  const chart = stored as ChartData
+  return { ...chart, conditions: chart.conditions.map((c) => ConditionBars.parse(c)) }
+}
 
 // ---------------------------------------------------------------- versions
 

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { canonicalJson } from '../../shared/canonical/canonical-json'
-import { AnalysisDetail, AnalysisVersionDetail } from '../../shared/schemas/analyses'
+import { AnalysisDetail, AnalysisVersionDetail, type ChartData } from '../../shared/schemas/analyses'
 import { SharedAnalysis } from '../../shared/schemas/share-links'
 import { db } from '../../server/db'
 import { closeConnections, createTestApp } from '../support/api'
@@ -70,7 +70,7 @@ beforeAll(async () => {
       status: 'done',
       progress: JSON.stringify({ stage: 'done', fraction: 1 }),
       result: JSON.stringify(v1.result),
-      chart: JSON.stringify(v1.chart),
+      chart: JSON.stringify(asFirstEngineChart(v1.chart)),
       started_at: db.fn.now(),
       finished_at: db.fn.now(),
     })
@@ -79,6 +79,20 @@ beforeAll(async () => {
 }, 120_000)
 
 afterAll(closeConnections)
+
+/** The chart as engine 0.1 stored it: bars as { mean, sem, ci95 } instead of the interval shape. */
+function asFirstEngineChart(chart: ChartData) {
+  const bars = ({ estimate, se, ci, ...rest }: { estimate: number; se: number; ci: [number, number] }) => ({
+    ...rest,
+    mean: estimate,
+    sem: se,
+    ci95: ci,
+  })
+  return {
+    ...chart,
+    conditions: chart.conditions.map((c) => ({ ...c, naive: bars(c.naive), nested: bars(c.nested) })),
+  }
+}
 
 const UPGRADED = {
   response: 'neurite_length_um',
@@ -104,6 +118,15 @@ describe('settings stored by engine 0.1', () => {
     expect(version.result).toEqual(firstEngineVersion.result)
     const stored = await db('analysis_versions').where({ id: firstEngineVersion.id }).first('settings')
     expect(stored.settings).toEqual(FIRST_ENGINE_SETTINGS)
+  })
+
+  it('come with their stored chart read in the one interval shape', async () => {
+    const res = await getAs(app, team.cookies.biostatistician, `/api/v1/analyses/${analysisId}/versions/2`)
+    const [first] = res.body.data.chart.conditions
+    expect(Object.keys(first.naive).sort()).toEqual(['ci', 'df', 'estimate', 'sd', 'se'])
+    expect(Object.keys(first.nested).sort()).toEqual(['ci', 'df', 'estimate', 'nUnits', 'sd', 'se'])
+    const stored = await db('analysis_versions').where({ id: firstEngineVersion.id }).first('chart')
+    expect(Object.keys(stored.chart.conditions[0].naive)).toContain('ci95')
   })
 
   it('keep a sign-off valid: the hash covers the stored JSON, with its errorBar and single condition', async () => {

@@ -23,8 +23,8 @@ function chartFor(conditions: string[]): ChartData {
     conditions: conditions.map((condition) => ({
       condition,
       nObs: 10,
-      naive: { mean: 10, sd: 2, sem: 0.6, ci95: [8.6, 11.4], df: 9 },
-      nested: { mean: 10, sem: 1.5, ci95: [5, 15], df: 2, sd: 1.4, nUnits: 2 },
+      naive: { estimate: 10, se: 0.6, df: 9, ci: [8.6, 11.4], sd: 2 },
+      nested: { estimate: 10, se: 1.5, df: 2, ci: [5, 15], sd: 1.4, nUnits: 2 },
     })),
     unitLevels: [{ level: 'mouse', roles: ['condition-level', 'innermost'], units: [] }],
     points: { level: 'mouse', limit: 5000, nTotal: 0, nShown: 0, seed: 's', y: [], cell: [] },

@@ -6,8 +6,8 @@ import { naiveBar, nestedBar } from './error-bars'
 const bars: ConditionBars = {
   condition: 'vehicle',
   nObs: 100,
-  naive: { mean: 10, sd: 4, sem: 0.4, ci95: [9.2, 10.8], df: 99 },
-  nested: { mean: 11, sem: 2, ci95: [6.5, 15.5], df: 8.1, sd: 3, nUnits: 5 },
+  naive: { estimate: 10, se: 0.4, df: 99, ci: [9.2, 10.8], sd: 4 },
+  nested: { estimate: 11, se: 2, df: 8.1, ci: [6.5, 15.5], sd: 3, nUnits: 5 },
 }
 
 describe('error bars', () => {

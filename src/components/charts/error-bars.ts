@@ -14,10 +14,10 @@ export const ERROR_BAR_WORDS: Record<ErrorBarType, { short: string; long: string
 
 /** The naive bar: every observation counted as independent. */
 export function naiveBar(c: ConditionBars, type: ErrorBarType): Bar {
-  const { mean, sd, sem, ci95 } = c.naive
+  const { estimate: mean, sd, se, ci } = c.naive
   if (type === 'sd') return { mean, low: mean - sd, high: mean + sd }
-  if (type === 'ci95') return { mean, low: ci95[0], high: ci95[1] }
-  return { mean, low: mean - sem, high: mean + sem }
+  if (type === 'ci95') return { mean, low: ci[0], high: ci[1] }
+  return { mean, low: mean - se, high: mean + se }
 }
 
 /**
@@ -25,8 +25,8 @@ export function naiveBar(c: ConditionBars, type: ErrorBarType): Bar {
  * Null when the SD cannot be given (no level carries the condition, or a single unit).
  */
 export function nestedBar(c: ConditionBars, type: ErrorBarType): Bar | null {
-  const { mean, sd, sem, ci95 } = c.nested
+  const { estimate: mean, sd, se, ci } = c.nested
   if (type === 'sd') return sd === null ? null : { mean, low: mean - sd, high: mean + sd }
-  if (type === 'ci95') return { mean, low: ci95[0], high: ci95[1] }
-  return { mean, low: mean - sem, high: mean + sem }
+  if (type === 'ci95') return { mean, low: ci[0], high: ci[1] }
+  return { mean, low: mean - se, high: mean + se }
 }

@@ -29,14 +29,14 @@ const chart: ChartData = {
     {
       condition: 'vehicle',
       nObs: 6,
-      naive: { mean: 10, sd: 2, sem: 0.8, ci95: [8, 12], df: 5 },
-      nested: { mean: 10, sem: 1.5, ci95: [5, 15], df: 2, sd: 1.4, nUnits: 2 },
+      naive: { estimate: 10, se: 0.8, df: 5, ci: [8, 12], sd: 2 },
+      nested: { estimate: 10, se: 1.5, df: 2, ci: [5, 15], sd: 1.4, nUnits: 2 },
     },
     {
       condition: 'drug',
       nObs: 6,
-      naive: { mean: 14, sd: 2, sem: 0.8, ci95: [12, 16], df: 5 },
-      nested: { mean: 14, sem: 1.5, ci95: [9, 19], df: 2, sd: null, nUnits: 2 },
+      naive: { estimate: 14, se: 0.8, df: 5, ci: [12, 16], sd: 2 },
+      nested: { estimate: 14, se: 1.5, df: 2, ci: [9, 19], sd: null, nUnits: 2 },
     },
   ],
   unitLevels: [
