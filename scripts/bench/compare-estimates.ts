@@ -1,4 +1,4 @@
-import type { AnalysisResult } from '../../shared/schemas/analysis-result'
+import { isWald, type AnalysisResult } from '../../shared/schemas/analysis-result'
 
 /** What the R benchmark script prints (see lmer-bench.R). */
 export interface ReferenceEstimates {
@@ -47,13 +47,13 @@ export function compareEstimates(result: AnalysisResult, reference: ReferenceEst
     const theirs = reference.contrasts.find((c) => c.a === contrast.a && c.b === contrast.b)
     add(`contrast ${contrast.a} − ${contrast.b}`, contrast.estimate, theirs?.estimate)
     add(`  SE`, contrast.se, theirs?.se)
-    add(`  Satterthwaite df`, contrast.df, theirs?.df)
+    if (!isWald(contrast)) add(`  Satterthwaite df`, contrast.df, theirs?.df)
   }
   for (const group of result.groups) {
     const theirs = reference.means.find((m) => m.condition === group.condition)
     add(`mean ${group.condition}`, group.clustered.estimate, theirs?.estimate)
     add(`  SE`, group.clustered.se, theirs?.se)
-    add(`  Satterthwaite df`, group.clustered.df, theirs?.df)
+    if (group.clustered.df !== null) add(`  Satterthwaite df`, group.clustered.df, theirs?.df)
   }
   return rows
 }

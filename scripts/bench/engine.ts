@@ -270,7 +270,7 @@ async function main() {
     console.log(`    at its default fit         ${versus(reference.remlCriterion)}`)
     if (reference.polished)
       console.log(`    at its polished fit        ${versus(reference.polished.remlCriterion)}`)
-    console.log(`    (nestwise's own value:     ${analyzer.result.remlCriterion.toFixed(8)})`)
+    console.log(`    (nestwise's own value:     ${analyzer.result.remlCriterion!.toFixed(8)})`)
   }
 
   section('hierarchical bootstrap, 1,000 resamples (seed "bench")')

@@ -183,7 +183,7 @@ describe.each(scenarios)('analyzeNested invariances: $name', (scenario) => {
       skip: new Set(['remlCriterion', ...INTERCEPT_TEST]),
       offset: (path) => (LOCATION_FIELDS.test(path) ? by : 0),
     })
-    expect(shifted.remlCriterion).toBeCloseTo(base.remlCriterion, 4)
+    expect(shifted.remlCriterion).toBeCloseTo(base.remlCriterion!, 4)
     // The comparison is not vacuous: without the offset the shifted means are caught.
     expect(() =>
       expectSameResult(shifted, base, {

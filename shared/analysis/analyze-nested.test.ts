@@ -1,5 +1,10 @@
 import { describe, expect, it } from 'vitest'
-import { AnalysisResult } from '../schemas/analysis-result'
+import {
+  AnalysisResult,
+  type Coefficient,
+  type MixedModelContrast,
+  type TermTest,
+} from '../schemas/analysis-result'
 import { analyzeNested } from './analyze-nested'
 import { EngineInputError } from '../stats/engine-input-error'
 import { dyestuff } from '../stats/fixtures/dyestuff'
@@ -88,7 +93,7 @@ describe('analyzeNested on six animals (hand calculation, common practice, no so
   it('makes the mixed-model contrast coincide with the t-test on unit means', () => {
     const se = Math.sqrt(pooledUnitMeanVar * (2 / 3))
     const t = (13 / 3 - 23 / 12) / se
-    const [contrast] = result.comparisons.mixedModel!.contrasts
+    const contrast = result.comparisons.mixedModel!.contrasts[0] as MixedModelContrast
     expect(contrast).toMatchObject({ a: 'NW-117', b: 'vehicle' })
     expect(contrast.estimate).toBeCloseTo(13 / 3 - 23 / 12, 8)
     expect(contrast.se).toBeCloseTo(se, 6)
@@ -449,7 +454,7 @@ describe('analyzeNested with two factors and a covariate (invented data)', () =>
       ['soma', null],
       ['genotype:condition', 'KO:KX-9'],
     ])
-    expect(mixed.terms!.map((t) => [t.term, t.df1])).toEqual([
+    expect((mixed.terms as TermTest[]).map((t) => [t.term, t.df1])).toEqual([
       ['genotype', 1],
       ['condition', 1],
       ['soma', 1],
@@ -457,8 +462,8 @@ describe('analyzeNested with two factors and a covariate (invented data)', () =>
     ])
     // A one-df term's F is the square of its coefficient's t (the interaction and the slope).
     for (const name of ['soma', 'genotype:condition']) {
-      const term = mixed.terms!.find((t) => t.term === name)!
-      const coefficient = mixed.coefficients!.find((c) => c.term === name)!
+      const term = (mixed.terms as TermTest[]).find((t) => t.term === name)!
+      const coefficient = (mixed.coefficients as Coefficient[]).find((c) => c.term === name)!
       expect(term.f / coefficient.t ** 2).toBeCloseTo(1, 8)
     }
   })
@@ -536,6 +541,6 @@ describe('analyzeNested: design effect per comparison (Kish 1965, the ratio defi
     const warning = result.warnings.find((w) => w.code === 'LEVEL_EFFECT_FEW_UNITS')!
     expect(warning.message).toMatch(/only 4 lab units/)
     // With the lab × condition variance in the model the comparison has about labs − 1 df, not mice − labs.
-    expect(result.comparisons.mixedModel!.contrasts[0].df).toBeLessThan(6)
+    expect((result.comparisons.mixedModel!.contrasts[0] as MixedModelContrast).df).toBeLessThan(6)
   })
 })

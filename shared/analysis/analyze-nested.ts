@@ -14,17 +14,17 @@ import { fixedCoefficients } from '../stats/fixed-coefficients'
 import { fixedTermTests } from '../stats/fixed-term-tests'
 import { modelFormula } from '../stats/model-formula'
 import { nestedDesignEffect } from '../stats/nested-design-effect'
-import { observationsPerUnit } from '../stats/observations-per-unit'
 import { oneWayAnova } from '../stats/one-way-anova'
 import { pairwiseContrasts, type PairwiseContrast } from '../stats/pairwise-contrasts'
 import { prepareNestedDesign } from '../stats/prepare-nested-design'
 import { simpleEffects } from '../stats/simple-effects'
 import { typeThreeHypotheses } from '../stats/type-three-hypotheses'
 import type { NestedColumns, NestedDesign, NestedFit } from '../stats/types'
-import { unitSizeSummary } from '../stats/unit-size-summary'
 import { bootstrapForResult } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
+import { analyzeNestedGlmm } from './analyze-nested-glmm'
 import { compareUnitMeans } from './compare-unit-means'
+import { describeDesign, firstFactorContrast, levelFacts } from './describe-design'
 import { naiveComparison } from './naive-comparison'
 import { summariseConditions } from './summarise-conditions'
 import { effectVariation, termGroupSizes, termIccs } from './term-summaries'
@@ -40,8 +40,6 @@ export interface AnalyzeNestedOptions {
 
 /** Level of every confidence interval in the result. */
 const CONFIDENCE = 0.95
-/** Examples of repeated labels kept per level in the result. */
-const MAX_LABEL_EXAMPLES = 5
 
 /**
  * The whole analysis of one nested data set, as the result document the app and the command
@@ -74,6 +72,8 @@ const MAX_LABEL_EXAMPLES = 5
  * //     designEffect: 3.1, effectiveN: 309.7, headline: { label: 'KX-9 − vehicle', … }, groups: [...], … }
  */
 export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOptions = {}): AnalysisResult {
+  if (columns.family === 'binomial' || columns.family === 'poisson')
+    return analyzeNestedGlmm(columns, options)
   const design = prepareNestedDesign(columns, options.reference ? { reference: options.reference } : {})
   const fit = fitNestedReml(design)
 
@@ -109,58 +109,14 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
     )
   }
 
-  const levelSizes = design.randomLevels.map((level) => observationsPerUnit(level))
-  const cellLevel = design.cellLevel >= 0 ? design.randomLevels[design.cellLevel].name : null
-  const conditionName = design.factors.length > 0 ? design.factors.map((f) => f.name).join(':') : null
+  const { random, ...described } = describeDesign(design)
   const variation = effectVariation(
     design,
     fit.components.map((c) => c.variance),
   )
   const result: AnalysisResult = {
-    nObs: design.nObs,
-    nDropped: design.nDropped,
-    response: design.responseName,
-    condition: conditionName,
-    reference: design.factors.length > 0 ? design.factors.map((f) => f.reference).join(':') : null,
-    conditionLevel: cellLevel,
-    factors: design.factors.map((f) => ({
-      name: f.name,
-      labels: f.labels,
-      reference: f.reference,
-      level: f.carrier >= 0 ? design.randomLevels[f.carrier].name : null,
-    })),
-    covariates: design.covariates.map((c) => ({
-      name: c.name,
-      mean: c.mean,
-      sd: c.sd,
-      level: c.constantWithin >= 0 ? design.randomLevels[c.constantWithin].name : null,
-    })),
-    model: {
-      formula: modelFormula(design),
-      random: design.terms.map((term) => ({
-        name: term.name,
-        level: design.randomLevels[term.level].name,
-        factor: term.factors.length > 0 ? term.factors.map((f) => design.factors[f].name).join(':') : null,
-        nGroups: term.nGroups,
-      })),
-      skipped: design.skippedTerms,
-    },
-    levels: design.randomLevels.map((level, l) => {
-      const { meanSize, cv } = unitSizeSummary(levelSizes[l], 'analyzeNested')
-      return {
-        name: level.name,
-        nUnits: level.nUnits,
-        minUnitSize: levelSizes[l].reduce((min, size) => Math.min(min, size), Infinity),
-        meanUnitSize: meanSize,
-        maxUnitSize: levelSizes[l].reduce((max, size) => Math.max(max, size), 0),
-        unitSizeCv: cv,
-      }
-    }),
-    implicitNesting: design.implicitNesting.map(({ level, labels }) => ({
-      level,
-      nRepeatedLabels: labels.length,
-      examples: labels.slice(0, MAX_LABEL_EXAMPLES),
-    })),
+    ...described,
+    model: { formula: modelFormula(design), random, skipped: design.skippedTerms },
     varianceComponents: fit.components.map((c, i) => ({
       level: c.level,
       variance: c.variance,
@@ -205,19 +161,13 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
     engine: { version: ENGINE_VERSION },
   }
 
+  const cellLevel = result.conditionLevel
   result.warnings = buildWarnings({
     responseName: design.responseName,
-    levels: design.randomLevels.map((level, l) => ({
-      name: level.name,
-      unitSizes: levelSizes[l],
-      childrenPerUnit:
-        l + 1 < design.randomLevels.length
-          ? observationsPerUnit({ nUnits: level.nUnits, unitOfObs: design.randomLevels[l + 1].parentOfUnit })
-          : null,
-    })),
-    condition: conditionName
+    levels: levelFacts(design),
+    condition: result.condition
       ? {
-          name: conditionName,
+          name: result.condition,
           level: cellLevel,
           unitsPerCondition: cellLevel
             ? groups.map((g) => ({ condition: g.condition, nUnits: g.nUnits ?? 0 }))
@@ -277,22 +227,9 @@ function headlineQuantity(
       effectiveN: first.effectiveN!,
     }
   }
-  const [a, b] = design.factors
-  const kB = b.labels.length
-  const weights = new Array<number>(design.fixed.columns.length).fill(0)
-  let n = 0
-  for (let j = 0; j < kB; j++) {
-    const one = cellMeanRow(design, kB + j)
-    const ref = cellMeanRow(design, j)
-    one.forEach((v, k) => (weights[k] += (v - ref[k]) / kB))
-    n += design.cells.counts[kB + j] + design.cells.counts[j]
-  }
+  const { label, weights, nObs } = firstFactorContrast(design)
   const deff = contrastDesignEffect(design, fit, weights)
-  return {
-    label: `${a.labels[1]} − ${a.labels[0]} (averaged over ${b.name})`,
-    designEffect: deff,
-    effectiveN: n / deff,
-  }
+  return { label, designEffect: deff, effectiveN: nObs / deff }
 }
 
 /** F test of all conditions equal: the factor's term test when there is one factor with 3 or more labels. */

@@ -35,7 +35,14 @@ export interface WarningFacts {
   /** A naive test (every observation independent) is part of the result. */
   naiveShown: boolean
   converged: boolean
+  /** Binary and count responses: the family, the counts' Pearson χ²/df, and design cells at 0 % or 100 %. */
+  family?: 'gaussian' | 'binomial' | 'poisson'
+  overdispersion?: { ratio: number; hasObservationLevel: boolean } | null
+  edgeCells?: string[]
 }
+
+/** Pearson χ²/df of a count model above this is called overdispersed: a rule of thumb (Bolker et al. 2009, Trends Ecol Evol 24:127). */
+export const OVERDISPERSION_RATIO = 1.5
 
 /** Fewer units per condition than this: common practice, no source (a t-test on 2 vs 2 units has 2 df). */
 export const MIN_UNITS_PER_CONDITION = 3
@@ -56,7 +63,7 @@ const MAX_EXAMPLES = 3
  * bench scientist can act on. Codes: ROWS_DROPPED, NO_VARIATION, IMPLICIT_NESTING,
  * SINGLE_OBSERVATION_UNITS, SINGLE_CHILD_UNITS, UNBALANCED_UNITS, FEW_OUTER_UNITS, FEW_UNITS,
  * CONDITION_CONFOUNDED, LEVEL_EFFECT_FEW_UNITS, UNIT_MEANS_UNAVAILABLE, BOUNDARY_FIT,
- * NOT_CONVERGED, NAIVE_TEST_INVALID.
+ * NOT_CONVERGED, OVERDISPERSED, EDGE_CELLS, NAIVE_TEST_INVALID.
  *
  * @example
  * buildWarnings({ ...facts, nDropped: 2 })
@@ -93,7 +100,13 @@ export function buildWarnings(facts: WarningFacts): Warning[] {
   }
 
   const innermost = facts.levels[facts.levels.length - 1]
-  if (innermost) {
+  // In a binary or count model a level of single observations is an observation-level term on purpose.
+  const observationLevel =
+    facts.family !== undefined &&
+    facts.family !== 'gaussian' &&
+    innermost &&
+    countBelow(innermost.unitSizes, 2) === innermost.unitSizes.length
+  if (innermost && !observationLevel) {
     const singles = countBelow(innermost.unitSizes, 2)
     if (singles > 0) {
       add(
@@ -198,6 +211,29 @@ export function buildWarnings(facts: WarningFacts): Warning[] {
     add(
       'NOT_CONVERGED',
       'The model fit stopped before it fully converged. The estimates are the best found, but check them against another tool.',
+    )
+  }
+
+  const over = facts.overdispersion
+  if (over && over.ratio > OVERDISPERSION_RATIO && !over.hasObservationLevel) {
+    add(
+      'OVERDISPERSED',
+      `The counts vary more than a Poisson model allows (Pearson χ²/df = ${over.ratio.toFixed(2)}, above ${OVERDISPERSION_RATIO}), ` +
+        'so the standard errors and p-values are too optimistic. Add a nesting level with one row per observation (the cell or neuron id): ' +
+        'its term then absorbs the extra spread (an observation-level random effect, Harrison 2014, PeerJ 2:e616). ' +
+        'If that does not settle it, consult a statistician about a negative binomial model.',
+    )
+  }
+
+  if (facts.edgeCells && facts.edgeCells.length > 0) {
+    const what =
+      facts.family === 'poisson'
+        ? 'has no counts at all'
+        : 'has every observation the same (all yes or all no)'
+    add(
+      'EDGE_CELLS',
+      `${quoteList(facts.edgeCells)} ${what}. The model's estimate there rests on its assumptions more than on the data, ` +
+        'and its ratio and interval can be extreme; read those comparisons with care.',
     )
   }
 

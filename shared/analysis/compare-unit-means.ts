@@ -14,7 +14,8 @@ export interface UnitMeansComparison {
 
 /**
  * The "summarise first" comparison at the outermost level whose units each hold a single design
- * cell: the plain mean of each unit's observations, then Student's t (two conditions), a one-way
+ * cell: the plain mean of each unit's observations (its proportion or rate for a binary or count
+ * response; Σ successes / Σ trials when the rows hold successes out of trials), then Student's t (two conditions), a one-way
  * ANOVA (three or more) or, for two factors, a two-way ANOVA with the model's type III
  * hypotheses on those unit means (Lord et al. 2020, J Cell Biol 219:e202001064; Searle 1971,
  * Linear Models, §3.6). Covariates are not part of this check. For two conditions the
@@ -30,6 +31,7 @@ export interface UnitMeansComparison {
 export function compareUnitMeans(
   design: NestedDesign,
   pair: { a: string; b: string } | null,
+  trials: Float64Array | null = null,
 ): UnitMeansComparison {
   if (design.factors.length === 0) return { test: null, problem: null }
   const what = design.factors.length === 2 ? 'combination of conditions' : design.factors[0].name
@@ -46,7 +48,7 @@ export function compareUnitMeans(
   for (let i = 0; i < design.nObs; i++) {
     const u = level.unitOfObs[i]
     sums[u] += design.y[i]
-    counts[u]++
+    counts[u] += trials ? trials[i] : 1
     cellOfUnit[u] = design.cells.codes[i]
   }
   const unitMeans = Array.from(sums, (s, u) => s / counts[u])

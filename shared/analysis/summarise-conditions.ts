@@ -1,4 +1,5 @@
 import type { GroupSummary } from '../schemas/analysis-result'
+import { unitsPerCell } from './describe-design'
 import type { CellMean } from '../stats/cell-means'
 import { cellMeanRow } from '../stats/cell-mean-row'
 import { contrastDesignEffect } from '../stats/contrast-design-effect'
@@ -39,7 +40,7 @@ export function summariseConditions(
   const mean = Array.from(sum, (s, c) => s / n[c])
   const squares = new Float64Array(k)
   for (let i = 0; i < y.length; i++) squares[cells.codes[i]] += (y[i] - mean[cells.codes[i]]) ** 2
-  const unitsPerCell = design.cellLevel >= 0 ? unitsCarrying(design, design.cellLevel) : null
+  const units = unitsPerCell(design)
   const tail = 1 - (1 - confidence) / 2
 
   return cells.labels.map((label, c) => {
@@ -56,7 +57,7 @@ export function summariseConditions(
     const summary: GroupSummary = {
       condition: label,
       nObs: n[c],
-      nUnits: unitsPerCell ? unitsPerCell[c] : null,
+      nUnits: units ? units[c] : null,
       effectiveN: n[c] / deff,
       designEffect: deff,
       mean: mean[c],
@@ -76,14 +77,4 @@ export function summariseConditions(
     }
     return summary
   })
-}
-
-/** Units of the level that hold each cell (each unit holds one). */
-function unitsCarrying(design: NestedDesign, level: number): number[] {
-  const { unitOfObs, nUnits } = design.randomLevels[level]
-  const cellOfUnit = new Int32Array(nUnits)
-  for (let i = 0; i < design.nObs; i++) cellOfUnit[unitOfObs[i]] = design.cells.codes[i]
-  const counts = new Array<number>(design.cells.labels.length).fill(0)
-  for (let u = 0; u < nUnits; u++) counts[cellOfUnit[u]]++
-  return counts
 }

@@ -56,7 +56,8 @@ export type DesignEffectTerm = z.infer<typeof DesignEffectTerm>
 /** The fields of the older interval form kept in `groups` (the command-line contract). */
 const LegacyInterval = {
   se: z.number().nonnegative(),
-  df: z.number().positive(),
+  /** t degrees of freedom; null for a binary or count model, whose intervals come from the normal (Wald). */
+  df: z.number().positive().nullable(),
   ciLow: z.number(),
   ciHigh: z.number(),
 }
@@ -69,7 +70,8 @@ const LegacyInterval = {
 export const Interval = z.object({
   estimate: z.number(),
   se: z.number().nonnegative(),
-  df: z.number().positive(),
+  /** t degrees of freedom; null for a Wald (normal) interval of a binary or count model. */
+  df: z.number().positive().nullable(),
   ci: z.tuple([z.number(), z.number()]),
 })
 export type Interval = z.infer<typeof Interval>
@@ -207,6 +209,8 @@ export const ModelDescription = z.object({
   random: z.array(RandomTerm),
   /** Level × condition terms left out because their groups are those of another term or of the observations. */
   skipped: z.array(z.object({ name: z.string(), sameAs: z.string() })),
+  /** Binary and count responses: the family in R's notation, to refit with glmer(formula, family = …). */
+  family: z.string().optional(),
 })
 export type ModelDescription = z.infer<typeof ModelDescription>
 
@@ -232,6 +236,58 @@ export const HeadlineQuantity = z.object({
   effectiveN: z.number().positive(),
 })
 export type HeadlineQuantity = z.infer<typeof HeadlineQuantity>
+
+/** A coefficient of a binary or count model: Wald z test on the link scale, as glmer's summary. */
+export const WaldCoefficient = z.object({
+  term: z.string(),
+  level: z.string().nullable(),
+  estimate: z.number(),
+  se: z.number().nonnegative(),
+  z: z.number(),
+  p: probability,
+})
+export type WaldCoefficient = z.infer<typeof WaldCoefficient>
+
+/** A pairwise contrast of a binary or count model: on the link scale, with its odds or rate ratio. */
+export const WaldContrast = z.object({
+  a: z.string(),
+  b: z.string(),
+  /** Difference of the cells' linear predictors (log odds or log rate): a − b. */
+  estimate: z.number(),
+  se: z.number().nonnegative(),
+  z: z.number(),
+  p: probability,
+  pHolm: probability,
+  /** 95 % Wald interval of the estimate (link scale). */
+  ci: z.tuple([z.number(), z.number()]),
+  /** exp(estimate): the odds ratio (binomial) or rate ratio (Poisson) of a against b, with its 95 % interval. */
+  ratio: z.number().positive(),
+  ratioLow: z.number().nonnegative(),
+  ratioHigh: z.number().positive(),
+  /** Variance of the estimate under the model / under the model without units (every observation independent). */
+  designEffect: z.number().positive(),
+  effectiveN: z.number().positive(),
+})
+export type WaldContrast = z.infer<typeof WaldContrast>
+
+/** A Wald chi-square test of one fixed term of a binary or count model (type III hypotheses). */
+export const WaldTermTest = z.object({
+  term: z.string(),
+  df: z.number().positive(),
+  chisq: z.number().nonnegative(),
+  p: probability,
+})
+export type WaldTermTest = z.infer<typeof WaldTermTest>
+
+/** True for a coefficient or contrast of a binary or count model (Wald z), false for one of a normal response (t with df). */
+export function isWald<T extends object>(x: T): x is Extract<T, { z: number }> {
+  return 'z' in x
+}
+
+/** True for a term test of a binary or count model (Wald χ²), false for an F test. */
+export function isWaldTerm(x: TermTest | WaldTermTest): x is WaldTermTest {
+  return 'chisq' in x
+}
 
 export const UnitMeansTest = z.discriminatedUnion('method', [
   z.object({
@@ -294,6 +350,18 @@ export const NaiveTest = z.discriminatedUnion('method', [
     /** Two factors or covariates: the same fixed terms fitted by least squares on all observations, as if independent. */
     method: z.literal('linear-model'),
     terms: z.array(TermTest),
+  }),
+  z.object({
+    /** Binary response, one factor: Pearson's chi-square test of the conditions × outcome table, all observations as if independent. */
+    method: z.literal('chi-square'),
+    chisq: z.number().nonnegative(),
+    df: z.number().positive(),
+    p: probability,
+  }),
+  z.object({
+    /** Binary or count response otherwise: the model's fixed terms in a GLM without units (Wald tests), as if independent. */
+    method: z.literal('glm'),
+    terms: z.array(WaldTermTest),
   }),
 ])
 export type NaiveTest = z.infer<typeof NaiveTest>
@@ -359,7 +427,13 @@ export const AnalysisResult = z.object({
   /** Rows left out because a value was missing. */
   nDropped: count,
   response: z.string(),
-  /** The condition column; for two factors "A:B" (the groups are then the design cells "a:b"). */
+  /**
+   * Engine ≥ 0.3: the response distribution (absent: gaussian). Binary and count responses are
+   * fitted as GLMMs by the Laplace approximation; their variance components, shares and ICC are
+   * on the latent (link) scale, with the latent residual as the "residual" component (Nakagawa,
+   * Johnson & Schielzeth 2017), and their group means are proportions or rates.
+   */
+  family: z.enum(['gaussian', 'binomial', 'poisson']).optional(),
   condition: z.string().nullable(),
   /** Reference condition of the model's treatment coding ("a:b" of the reference levels for two factors). */
   reference: z.string().nullable(),
@@ -385,7 +459,8 @@ export const AnalysisResult = z.object({
   /** True when a variance component is estimated as 0 (a boundary fit, not a failure). */
   singular: z.boolean(),
   converged: z.boolean(),
-  remlCriterion: z.number(),
+  /** −2 × restricted log-likelihood (normal responses); null for binary and count responses, fitted by the Laplace approximation. */
+  remlCriterion: z.number().nullable(),
   /**
    * Engine ≥ 0.2: the design effect of the headline quantity (see `headline`): its variance under
    * the fitted model divided by its variance if all observations were independent (Kish 1965).
@@ -408,12 +483,12 @@ export const AnalysisResult = z.object({
         /** F test of all conditions equal (Satterthwaite); null for fewer than 3 conditions and for two factors. */
         omnibus: FTest.nullable(),
         /** Pairwise differences of the condition means (design cells for two factors), Holm across all pairs. */
-        contrasts: z.array(MixedModelContrast),
+        contrasts: z.array(z.union([MixedModelContrast, WaldContrast])),
         /** Engine ≥ 0.2: every fixed-effect coefficient with Satterthwaite df. */
-        coefficients: z.array(Coefficient).optional(),
+        coefficients: z.array(z.union([Coefficient, WaldCoefficient])).optional(),
         /** Engine ≥ 0.2: type III F test per fixed term. */
-        terms: z.array(TermTest).optional(),
-        /** Engine ≥ 0.2, two factors: each factor within each level of the other. */
+        terms: z.array(z.union([TermTest, WaldTermTest])).optional(),
+        /** Engine ≥ 0.2, two factors of a normal response: each factor within each level of the other. */
         simpleEffects: z.array(SimpleEffect).optional(),
       })
       .nullable(),

@@ -15,6 +15,12 @@ import type {
 export interface PrepareNestedDesignOptions {
   /** Reference label per factor name; a factor left out uses its first label. */
   reference?: Record<string, string>
+  /**
+   * Allow innermost units of one observation each (binary and count models: an observation-level
+   * random intercept is identified there and models overdispersion; in the normal model it would
+   * be the residual itself).
+   */
+  observationLevelUnits?: boolean
 }
 
 /** At most two condition factors (A * B). */
@@ -103,7 +109,7 @@ export function prepareNestedDesign(
   for (const factor of levels) {
     const codes = keep(factor.codes, (n) => new Int32Array(n))
     const level = nestLevel(factor.name, codes, factor.labels, parent)
-    checkLevelSize(level, parent, nObs)
+    checkLevelSize(level, parent, opts.observationLevelUnits ? Infinity : nObs)
     const repeated = labelsUnderSeveralParents(level, codes, factor.labels)
     if (repeated.length > 0) implicitNesting.push({ level: factor.name, labels: repeated })
     randomLevels.push(level)
@@ -153,6 +159,7 @@ export function prepareNestedDesign(
     cellLevel: coded.length > 0 ? carrierLevel(randomLevels, cells.codes) : -1,
     implicitNesting,
     nDropped,
+    rowOfObs,
   }
 }
 

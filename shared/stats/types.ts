@@ -27,6 +27,15 @@ export interface NestedColumns {
   factors?: Factor[]
   /** Numeric covariates (NaN marks a missing value: the row is left out and counted). */
   covariates?: NumericColumn[]
+  /**
+   * The response's distribution: 'gaussian' (default), 'binomial' (the response holds 0/1, or
+   * successes with `trials` beside it) or 'poisson' (counts).
+   */
+  family?: 'gaussian' | 'binomial' | 'poisson'
+  /** Binomial only: trials per row (the response then holds successes); absent: one trial per row. */
+  trials?: Float64Array | null
+  /** The trials column's name (for the model's formula). */
+  trialsName?: string
 }
 
 export interface Warning {
@@ -148,6 +157,8 @@ export interface NestedDesign {
   implicitNesting: { level: string; labels: string[] }[]
   /** Rows left out because the response or a covariate was missing (NaN). */
   nDropped: number
+  /** Input row of each kept observation; null when no row was left out (observation i is row i). */
+  rowOfObs: Int32Array | null
 }
 
 /** An estimate with its standard error, the df of its t distribution and its confidence interval [low, high]. */

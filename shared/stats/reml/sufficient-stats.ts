@@ -36,6 +36,8 @@ export interface NestedSufficientStats {
   nTheta: number
   /** Given levels, outermost first. */
   levels: LevelCells[]
+  /** Innermost cell of each observation. */
+  cellOfObs: Int32Array
   /** Observations per innermost cell. */
   innerN: Float64Array
   /** Mean vector (m entries) of each innermost cell, row-major. */
@@ -128,7 +130,7 @@ function compute(design: NestedDesign): NestedSufficientStats {
     for (let b = 0; b < a; b++) within[rowCols[b] * m + rowCols[a]] = within[rowCols[a] * m + rowCols[b]]
 
   const levels = buildLevels(design, innerCells)
-  return { nObs, p, m, shift, nTheta: design.terms.length, levels, innerN: n, innerMean, within }
+  return { nObs, p, m, shift, nTheta: design.terms.length, levels, cellOfObs, innerN: n, innerMean, within }
 }
 
 function mean(v: Float64Array): number {
