@@ -45,6 +45,32 @@ export const QUICK_SPEC: NestedCsvSpec = {
 }
 
 export const CSV_HEADER = 'lab,animal,treatment,neurite_length_um'
+export const BINARY_HEADER = 'lab,animal,treatment,marker_positive'
+
+/**
+ * The same consortium with a yes/no response per neuron (marker-positive or not) on the logit
+ * scale: baseline log odds, the compound's effect, lab, lab × treatment and mouse SDs.
+ */
+export const BINARY_SPEC = {
+  seed: 'nestwise-bench-binary-1',
+  labs: 12,
+  animalsPerLab: 40,
+  minCells: 1000,
+  maxCells: 3000,
+  baselineLogOdds: -0.6,
+  compoundEffect: 0.35,
+  labSd: 0.5,
+  labTreatmentSd: 0.25,
+  animalSd: 0.4,
+}
+export const BINARY_QUICK_SPEC = {
+  ...BINARY_SPEC,
+  seed: 'nestwise-bench-binary-quick',
+  animalsPerLab: 10,
+  minCells: 100,
+  maxCells: 300,
+}
+export type BinaryCsvSpec = typeof BINARY_SPEC
 
 /** Standard normal draws from a seeded uniform source (Box–Muller, both values used). */
 function normalSource(uniform: () => number): () => number {
@@ -95,6 +121,43 @@ export function writeNestedCsv(path: string, spec: NestedCsvSpec): number {
         const lines: string[] = new Array(cells)
         for (let cell = 0; cell < cells; cell++)
           lines[cell] = prefix + (centre + spec.residualSd * normal()).toFixed(3)
+        writeSync(fd, lines.join('\n') + '\n')
+        rows += cells
+      }
+    }
+  } finally {
+    closeSync(fd)
+  }
+  return rows
+}
+
+/** Writes the yes/no table to `path` and returns the number of data rows. */
+export function writeBinaryCsv(path: string, spec: BinaryCsvSpec): number {
+  const uniform = seedrandom(spec.seed)
+  const normal = normalSource(uniform)
+  const fd = openSync(path, 'w')
+  let rows = 0
+  try {
+    writeSync(fd, BINARY_HEADER + '\n')
+    for (let lab = 1; lab <= spec.labs; lab++) {
+      const labShift = spec.labSd * normal()
+      const armShift = [spec.labTreatmentSd * normal(), spec.labTreatmentSd * normal()]
+      const treatedAnimals = new Set(
+        shuffledIndices(spec.animalsPerLab, uniform).slice(0, Math.floor(spec.animalsPerLab / 2)),
+      )
+      for (let animal = 0; animal < spec.animalsPerLab; animal++) {
+        const treated = treatedAnimals.has(animal)
+        const prefix = `lab-${pad(lab)},m${pad(animal + 1)},${treated ? 'NW-117' : 'vehicle'},`
+        const eta =
+          spec.baselineLogOdds +
+          labShift +
+          armShift[treated ? 1 : 0] +
+          spec.animalSd * normal() +
+          (treated ? spec.compoundEffect : 0)
+        const p = 1 / (1 + Math.exp(-eta))
+        const cells = spec.minCells + Math.floor(uniform() * (spec.maxCells - spec.minCells + 1))
+        const lines: string[] = new Array(cells)
+        for (let cell = 0; cell < cells; cell++) lines[cell] = prefix + (uniform() < p ? '1' : '0')
         writeSync(fd, lines.join('\n') + '\n')
         rows += cells
       }
