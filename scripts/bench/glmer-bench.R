@@ -22,5 +22,8 @@ cat(toJSON(list(
   converged = is.null(fit@optinfo$conv$lme4$messages),
   components = setNames(as.list(vc$vcov), vc$grp),
   beta = unname(coefs[, "Estimate"]), se = unname(coefs[, "Std. Error"]),
+  # On a million rows glmer's finite-difference Hessian (its default vcov) is noisy at its default PIRLS
+  # tolerance and can understate SEs several-fold; the SEs from RX (Cov(beta) given theta) are steady.
+  seRx = unname(sqrt(diag(as.matrix(suppressWarnings(vcov(fit, use.hessian = FALSE)))))),
   versions = list(lme4 = as.character(packageVersion("lme4")))
 ), auto_unbox = TRUE, digits = NA), "\n")

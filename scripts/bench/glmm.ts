@@ -93,8 +93,13 @@ async function main() {
     const worst = (pairs: [number, number][]) =>
       Math.max(...pairs.map(([a, b]) => Math.abs(a - b) / Math.abs(b)))
     console.log(
-      `  largest relative difference: estimates ${worst(coefficients.map((c, i) => [c.estimate, ref.beta[i]])).toExponential(1)}, ` +
-        `SEs ${worst(coefficients.map((c, i) => [c.se, ref.se[i]])).toExponential(1)} (glmer's default tolerances: see glmer-reference.R)`,
+      `  largest relative difference: estimates ${worst(coefficients.map((c, i) => [c.estimate, ref.beta[i]])).toExponential(1)}; ` +
+        `SEs ${worst(coefficients.map((c, i) => [c.se, ref.seRx[i]])).toExponential(1)} against glmer's SEs given θ (vcov from RX), ` +
+        `${worst(coefficients.map((c, i) => [c.se, ref.se[i]])).toExponential(1)} against its default Hessian-based SEs`,
+    )
+    console.log(
+      `  SEs: nestwise ${coefficients.map((c) => c.se.toPrecision(5)).join(', ')}; glmer from RX ${ref.seRx.map((v: number) => v.toPrecision(5)).join(', ')}; ` +
+        `glmer default ${ref.se.map((v: number) => v.toPrecision(5)).join(', ')} (its finite-difference Hessian is noisy on a million rows at lme4's default PIRLS tolerance)`,
     )
     const total = result!.varianceComponents.slice(0, -1).reduce((s, c) => s + c.variance, 0)
     for (const c of result!.varianceComponents.slice(0, -1)) {
