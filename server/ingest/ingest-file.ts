@@ -1,7 +1,7 @@
 import { createReadStream } from 'node:fs'
 import { open } from 'node:fs/promises'
 import type { Knex } from 'knex'
-import { ingestConfig } from './ingest-config'
+import { ingestConfig, type WorkbookLimits } from './ingest-config'
 import { sniffFile, SNIFF_BYTES, type TextSniff } from './sniff'
 import type { ChunkChannel } from './chunk-channel'
 import { FastPathBlocked, NotUtf8, storeCsv, type ByteSource, type CsvMode } from './store-csv'
@@ -81,7 +81,7 @@ export async function ingestFile(
   trx: Knex.Transaction,
   versionId: number,
   file: UploadedFile,
-  options: { sheet?: string; limits?: IntakeLimits; progress: ProgressSink },
+  options: { sheet?: string; limits?: IntakeLimits; workbookLimits?: WorkbookLimits; progress: ProgressSink },
 ): Promise<IngestOutcome> {
   const limits = options.limits ?? defaultLimits()
   const live = file.live
@@ -104,7 +104,14 @@ export async function ingestFile(
     if (sniff.fileType === 'xlsx') {
       if (live) await fromDisk()
       const stored = await trx.transaction((sp) =>
-        storeWorkbook(sp, versionId, file.path, options.sheet, limits, options.progress),
+        storeWorkbook(sp, {
+          versionId,
+          path: file.path,
+          sheet: options.sheet,
+          limits,
+          workbookLimits: options.workbookLimits ?? ingestConfig.workbook,
+          progress: options.progress,
+        }),
       )
       return {
         ...stored,
