@@ -101,7 +101,12 @@ function syntaxToBadFile(error: CsvSyntaxError, intake: TableIntake, limits: Int
         { row, column: name, columnNumber: error.fieldIndex + 1 },
       )
     case 'field-too-long':
-      return intake.fieldTooLong(row, error.fieldIndex, Math.max(error.length, limits.maxFieldChars + 1))
+      return intake.fieldTooLong(
+        row,
+        error.fieldIndex,
+        Math.max(error.length, limits.maxFieldChars + 1),
+        error.unfinished,
+      )
     case 'too-many-fields':
       return row === 1
         ? badFile(

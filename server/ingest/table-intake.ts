@@ -145,11 +145,16 @@ export class TableIntake {
     )
   }
 
-  fieldTooLong(row: number, index: number, length: number): never {
+  /** `unfinished`: reading stopped inside the value, so its whole length is not known. */
+  fieldTooLong(row: number, index: number, length: number, unfinished = false): never {
     const name = this.columnNames?.[index]
+    const limit = formatCount(this.limits.maxFieldChars)
+    const size = unfinished
+      ? `the value is longer than ${limit} characters, the limit (reading stopped there)`
+      : `the value is ${formatCount(length)} characters long; the limit is ${limit}`
     throw badFile(
       'FIELD_TOO_LONG',
-      `Row ${row}, ${describeColumn(index, name)}: the value is ${formatCount(length)} characters long; the limit is ${formatCount(this.limits.maxFieldChars)}. This often means a quote is never closed.`,
+      `Row ${row}, ${describeColumn(index, name)}: ${size}. This often means a quote is never closed.`,
       { row, column: name, columnNumber: index + 1 },
     )
   }

@@ -67,6 +67,9 @@ function sweepOnce(): void {
   })
 }
 
+const MALFORMED_FORM =
+  /^(Malformed part header|Multipart: Boundary not found|Malformed content type|Unsupported content type|Missing Content-Type)/
+
 /** Text tables are ingested while they arrive; workbooks are read once on disk (their zip needs the whole file). */
 const LIVE_EXTENSIONS = new Set(['.csv', '.tsv', '.tab', '.txt'])
 
@@ -133,6 +136,15 @@ function uploadMiddleware(begin: LiveStarter): RequestHandler {
       const message = (err as { message?: string }).message
       if (message === 'Request aborted' || message === 'Request closed')
         return next(new InvalidPayloadError('The upload was cancelled before it was stored.'))
+      // busboy's words for a body that stops before its closing boundary, or is no form at all.
+      if (message === 'Unexpected end of form' || message === 'Unexpected end of file')
+        return next(
+          new InvalidPayloadError('The upload arrived incomplete (the form ended early). Try again.'),
+        )
+      if (message && MALFORMED_FORM.test(message))
+        return next(
+          new InvalidPayloadError('The upload is not a valid form: send it as multipart/form-data.'),
+        )
       if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT')
         return next(new InvalidPayloadError('Send one file, in the form field “file”.'))
       next(err)
