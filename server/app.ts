@@ -8,7 +8,7 @@ import { getSharedSessionStore, sessionMiddleware } from './auth/session'
 import { auditContext } from './middleware/audit-context'
 import { clientApp } from './middleware/client-app'
 import { errorHandler, notFound } from './middleware/error-handler'
-import { loginRateLimits } from './middleware/rate-limits'
+import { anonymousRateLimit, loginRateLimits } from './middleware/rate-limits'
 import { requestId } from './middleware/request-id'
 import { requestLog } from './middleware/request-log'
 import { requireSameOriginWrites } from './middleware/same-origin'
@@ -37,6 +37,8 @@ export interface AppOptions {
   clientDir?: string | null
   /** Failed sign-ins per address + email in 15 minutes; defaults to LOGIN_RATE_LIMIT. */
   loginRateLimit?: number
+  /** Requests per minute and address on the share-link routes; defaults to SHARED_RATE_LIMIT. */
+  sharedRateLimit?: number
   /** Origins allowed to send writes, besides the one each request is addressed to. Defaults to PUBLIC_URL. */
   allowedOrigins?: string[]
   /** Database probe for the health route. */
@@ -92,7 +94,11 @@ export function createApp(options: AppOptions = {}): Express {
   app.use('/api/v1/analyses', analysisReviewRoutes())
   app.use('/api/v1/review-requests', reviewRequestsRoutes())
   app.use('/api/v1/labs', boardRoutes())
-  app.use('/api/v1/shared', sharedRoutes())
+  app.use(
+    '/api/v1/shared',
+    anonymousRateLimit(options.sharedRateLimit ?? config.SHARED_RATE_LIMIT),
+    sharedRoutes(),
+  )
   app.use('/api/v1/analyses', agreementRoutes())
   app.use('/api/v1/plans', plansRoutes())
   app.use('/api', notFound())

@@ -17,6 +17,8 @@ const ConfigSchema = z.object({
   SESSION_SECRET: z.string().min(16).default('dev-only-session-secret-change-me'),
   SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(12),
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
+  /** Requests per minute and address on the routes open without an account (share links). */
+  SHARED_RATE_LIMIT: z.coerce.number().int().positive().default(120),
   UPLOAD_MAX_MB: z.coerce.number().positive().default(250),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().positive().default(2525),

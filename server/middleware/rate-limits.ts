@@ -40,3 +40,20 @@ export function loginRateLimits(limit: number): RequestHandler[] {
     limiter(limit, (req) => `${clientAddress(req)}|${emailOf(req)}`, 'login-account'),
   ]
 }
+
+/**
+ * Requests per address and minute on the routes anyone may call without an account (the share
+ * links). A link holder reads a page a few times; a flood gets 429 RATE_LIMITED with Retry-After.
+ */
+export function anonymousRateLimit(perMinute: number): RequestHandler {
+  return rateLimit({
+    windowMs: 60 * 1000,
+    limit: perMinute,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `anonymous:${clientAddress(req)}`,
+    handler: (_req, _res, next) => {
+      next(new RateLimitedError('Too many requests from this address. Wait a minute and try again.'))
+    },
+  })
+}

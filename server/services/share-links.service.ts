@@ -1,3 +1,4 @@
+import { createHmac } from 'node:crypto'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import { AnalysisSettings } from '../../shared/schemas/analyses'
 import { PlanRecommendation, type PlanSummary } from '../../shared/schemas/plans'
@@ -8,7 +9,8 @@ import type {
   SharedAnalysis,
 } from '../../shared/schemas/share-links'
 import { csvFilename, unitsCsv } from '../analysis/units-csv'
-import { publicUrl } from '../config'
+import { config, publicUrl } from '../config'
+import { currentRequestFacts } from '../middleware/audit-context'
 import { db } from '../db'
 import { ConflictError, ForbiddenError, NotFoundError } from '../errors/app-error'
 import { shareLinkMail } from '../mail/templates/review-mails'
@@ -23,6 +25,7 @@ import {
   insertShareLink,
   listShareLinksOfAnalysis,
   markShareLinkRevoked,
+  recordShareLinkVisit,
   type ShareLinkRecord,
 } from '../repositories/share-links.repo'
 import { recordAudit } from './audit.service'
@@ -192,7 +195,22 @@ function toSharedPlan(plan: PlanRecord): PlanSummary {
   }
 }
 
-/** What someone holding the link sees; counts the opening and records it in the audit log. */
+/**
+ * Who opens a link, as far as the server can tell (the client address), keyed with the session
+ * secret so the visits table holds no address.
+ */
+function visitorKey(): string {
+  const { ip } = currentRequestFacts()
+  return createHmac('sha256', config.SESSION_SECRET)
+    .update(ip ?? 'unknown')
+    .digest('hex')
+    .slice(0, 32)
+}
+
+/**
+ * What someone holding the link sees. Counts the opening on the link, and records it in the audit
+ * log once per visitor and hour.
+ */
 export async function openSharedAnalysis(token: string): Promise<SharedAnalysis> {
   const link = await usableLink(token)
   const version = await findReviewableVersionById(link.analysisVersionId)
@@ -206,6 +224,8 @@ export async function openSharedAnalysis(token: string): Promise<SharedAnalysis>
   if (!result || !chart) throw new NotFoundError(GONE)
   await db.transaction(async (trx) => {
     await countShareLinkOpened(link.id, trx)
+    // Every opening counts on the link; the audit log gets the first of each visitor's hour.
+    if (!(await recordShareLinkVisit(link.id, visitorKey(), trx))) return
     await recordAudit(trx, {
       action: 'share_link.opened',
       actorUserId: null,
