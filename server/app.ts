@@ -2,7 +2,7 @@ import { existsSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import express, { type Express } from 'express'
 import type { Store } from 'express-session'
-import { config, publicUrl } from './config'
+import { config, parseTrustProxy, publicUrl, type TrustProxy } from './config'
 import { createPassport } from './auth/passport'
 import { getSharedSessionStore, sessionMiddleware } from './auth/session'
 import { auditContext } from './middleware/audit-context'
@@ -41,6 +41,8 @@ export interface AppOptions {
   sharedRateLimit?: number
   /** Origins allowed to send writes, besides the one each request is addressed to. Defaults to PUBLIC_URL. */
   allowedOrigins?: string[]
+  /** Reverse proxies to believe (Express "trust proxy"); defaults to TRUST_PROXY. */
+  trustProxy?: TrustProxy
   /** Database probe for the health route. */
   pingDatabase?: () => Promise<void>
 }
@@ -53,9 +55,9 @@ function defaultClient(): string | null {
 export function createApp(options: AppOptions = {}): Express {
   const app = express()
   const https = publicUrl.startsWith('https:')
-  // Behind an https address the app normally sits behind a local reverse proxy that terminates TLS;
-  // trusting it (loopback only) lets secure cookies and client addresses work.
-  if (https) app.set('trust proxy', 'loopback')
+  // Behind a reverse proxy, trusting it (and only it) gives rate limits and the audit log the
+  // client's address and lets secure cookies work; see TRUST_PROXY in docs/deployment.md.
+  app.set('trust proxy', options.trustProxy ?? parseTrustProxy(config.TRUST_PROXY, https))
   app.disable('x-powered-by')
 
   const cookie = { secure: config.NODE_ENV === 'production' && https }

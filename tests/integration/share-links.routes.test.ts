@@ -127,6 +127,21 @@ describe('opening a link without an account', () => {
     expect(JSON.stringify(visits)).not.toContain('127.0.0.1')
   })
 
+  it('audits each visitor (client address, behind a trusted proxy) once an hour', async () => {
+    const proxied = createTestApp({ trustProxy: ['loopback'] })
+    const link = await createLink(team.cookies.pi)
+    for (const address of ['203.0.113.5', '203.0.113.5', '198.51.100.9', '203.0.113.5']) {
+      const res = await request(proxied).get(`/api/v1/shared/${link.token}`).set('X-Forwarded-For', address)
+      expect(res.status).toBe(200)
+    }
+    const opened = await db('audit_events').where({
+      action: 'share_link.opened',
+      subject_id: String(link.id),
+    })
+    expect(opened.map((row) => row.ip).sort()).toEqual(['198.51.100.9', '203.0.113.5'])
+    expect((await db('share_links').where({ id: link.id }).first()).open_count).toBe(4)
+  })
+
   it('answers a flood from one address with 429 and Retry-After', async () => {
     const strict = createTestApp({ sharedRateLimit: 5 })
     const link = await createLink(team.cookies.pi)
