@@ -2,9 +2,10 @@ import { existsSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import express, { type Express } from 'express'
 import type { Store } from 'express-session'
-import { config, parseTrustProxy, publicUrl, type TrustProxy } from './config'
+import { config, ownHostNames, parseTrustProxy, publicUrl, type TrustProxy } from './config'
 import { createPassport } from './auth/passport'
 import { getSharedSessionStore, sessionMiddleware } from './auth/session'
+import { allowedHosts } from './middleware/allowed-hosts'
 import { auditContext } from './middleware/audit-context'
 import { clientApp } from './middleware/client-app'
 import { errorHandler, notFound } from './middleware/error-handler'
@@ -41,6 +42,8 @@ export interface AppOptions {
   sharedRateLimit?: number
   /** Origins allowed to send writes, besides the one each request is addressed to. Defaults to PUBLIC_URL. */
   allowedOrigins?: string[]
+  /** Host names answered (besides IP addresses); defaults to PUBLIC_URL's, HOST, localhost and ALLOWED_HOSTS. */
+  allowedHosts?: string[]
   /** Reverse proxies to believe (Express "trust proxy"); defaults to TRUST_PROXY. */
   trustProxy?: TrustProxy
   /** Database probe for the health route. */
@@ -66,6 +69,7 @@ export function createApp(options: AppOptions = {}): Express {
   app.use(requestId())
   app.use(requestLog())
   app.use(securityHeaders({ https }))
+  app.use(allowedHosts(options.allowedHosts ?? ownHostNames))
 
   app.use('/api', express.json({ limit: '1mb' }))
   app.use('/api', requireSameOriginWrites(options.allowedOrigins ?? [publicUrl]))

@@ -23,6 +23,8 @@ const ConfigSchema = z.object({
    * comma-separated (Express's "trust proxy"). Unset: loopback when PUBLIC_URL is https, else none.
    */
   TRUST_PROXY: z.string().optional(),
+  /** Host names answered besides PUBLIC_URL's, HOST and localhost (comma-separated; see docs/deployment.md). */
+  ALLOWED_HOSTS: z.string().default(''),
   /** Requests per minute and address on the routes open without an account (share links). */
   SHARED_RATE_LIMIT: z.coerce.number().int().positive().default(120),
   UPLOAD_MAX_MB: z.coerce.number().positive().default(250),
@@ -67,3 +69,13 @@ export function parseTrustProxy(value: string | undefined, https: boolean): Trus
     .map((part) => part.trim())
     .filter(Boolean)
 }
+
+/** Host names the app answers for (requests addressed by IP always pass). */
+export const ownHostNames: string[] = [
+  new URL(publicUrl).hostname.replace(/^\[|\]$/g, ''),
+  config.HOST,
+  'localhost',
+  ...config.ALLOWED_HOSTS.split(','),
+]
+  .map((name) => name.trim().toLowerCase())
+  .filter(Boolean)
