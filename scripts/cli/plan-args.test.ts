@@ -180,18 +180,7 @@ describe('parsePlanArgs', () => {
       /give --lab-variance only/,
     ],
     [
-      [
-        '--difference',
-        '1',
-        ...spread,
-        '--labs',
-        '4',
-        '--units',
-        '3',
-        '--obs',
-        '4',
-        '--lab-arm-variance=-1',
-      ],
+      ['--difference', '1', ...spread, '--labs', '4', '--units', '3', '--obs', '4', '--lab-arm-variance=-1'],
       /--lab-arm-variance must be a number of at least 0/,
     ],
   ])('rejects %j', (argv, message) => {
