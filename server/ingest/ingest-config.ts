@@ -47,7 +47,8 @@ const workbookLimits = {
 }
 
 export const ingestConfig = {
-  uploadsDir: join(dataDir, 'uploads'),
+  /** Uploads in transfer: a folder per server process inside (see uploads/temp-files). */
+  uploadsRoot: join(dataDir, 'uploads'),
   // Separate databases (development, tests, e2e, benchmarks) share the data folder but never each other's files.
   originalsDir: join(resolve(settings.ORIGINALS_DIR ?? join(dataDir, 'originals')), config.PGDATABASE),
   uploadMaxBytes,

@@ -3,11 +3,11 @@ import { open } from 'node:fs/promises'
 import type { Knex } from 'knex'
 import { ingestConfig, type WorkbookLimits } from './ingest-config'
 import { sniffFile, SNIFF_BYTES, type TextSniff } from './sniff'
-import type { ChunkChannel } from './chunk-channel'
+import type { ChunkChannel } from '../uploads/chunk-channel'
 import { FastPathBlocked, NotUtf8, storeCsv, type ByteSource, type CsvMode } from './store-csv'
 import { storeWorkbook } from './store-workbook'
 import type { IntakeLimits, IntakeResult } from './table-intake'
-import type { ProgressSink } from './upload-progress'
+import type { ProgressSink } from './progress-sink'
 import type { DecimalMark } from './number-text'
 
 export interface UploadedFile {

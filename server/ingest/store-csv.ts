@@ -8,7 +8,7 @@ import { CsvSyntaxError, CsvTokenizer } from './csv-tokenizer'
 import { badFile, describeColumn } from './ingest-errors'
 import type { TextSniff } from './sniff'
 import { TableIntake, type IntakeLimits, type IntakeResult } from './table-intake'
-import type { ProgressSink } from './upload-progress'
+import type { ProgressSink } from './progress-sink'
 import { Utf8Chunks } from './utf8-chunks'
 
 /** The original bytes could not go to PostgreSQL as they are; store parsed rows instead. */

@@ -1,6 +1,5 @@
 import { recordAudit } from './audit.service'
-import { basename, extname, join } from 'node:path'
-import { rm } from 'node:fs/promises'
+import { basename, extname } from 'node:path'
 import type { Knex } from 'knex'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import type { DatasetDetail, DatasetUploadFields, DatasetVersionDetail } from '../../shared/schemas/datasets'
@@ -9,8 +8,9 @@ import { NotFoundError } from '../errors/app-error'
 import { ingestConfig } from '../ingest/ingest-config'
 import { ingestFile, type UploadedFile } from '../ingest/ingest-file'
 import { discardOriginal, holdHash, keepOriginal, staleFiles } from '../ingest/original-store'
+import { sweepTempUploads } from '../uploads/temp-files'
 import type { IntakeResult } from '../ingest/table-intake'
-import { noProgress, type ProgressSink } from '../ingest/upload-progress'
+import { noProgress, type ProgressSink } from '../ingest/progress-sink'
 import { logger } from '../logger'
 import { currentTagging, insertTagging } from '../repositories/datasets-annotations.repo'
 import {
@@ -285,15 +285,14 @@ export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Pro
   return id
 }
 
-const DAY_MS = 24 * 60 * 60 * 1000
 const HOUR_MS = 60 * 60 * 1000
 
 /**
  * Startup sweep. Ingest commits a version together with its rows table, so a crash leaves nothing
  * behind in the database; this still removes, in one transaction, any version not marked ready and
  * any rows table without a version, and builds row_no indexes a restart cut short. Upload temp
- * files older than a day and stored originals no version refers to (older than an hour, so
- * uploads in flight are safe) are deleted.
+ * files of server processes that are gone (see uploads/temp-files) and stored originals no version
+ * refers to (older than an hour, so uploads in flight are safe) are deleted.
  */
 export async function sweepDatasetLeftovers(): Promise<{
   versions: number
@@ -317,12 +316,11 @@ export async function sweepDatasetLeftovers(): Promise<{
       logger.warn('could not index a rows table', { versionId: id, err }),
     )
   }
-  const temp = await staleFiles(ingestConfig.uploadsDir, DAY_MS)
-  for (const name of temp) await rm(join(ingestConfig.uploadsDir, name), { force: true })
+  const temp = await sweepTempUploads(ingestConfig.uploadsRoot)
   const hashes = await listVersionHashes()
   const unreferenced = (await staleFiles(ingestConfig.originalsDir, HOUR_MS)).filter(
     (name) => /^[0-9a-f]{64}$/.test(name) && !hashes.has(name),
   )
   for (const name of unreferenced) await discardOriginal(name)
-  return { versions, tables, tempFiles: temp.length, originals: unreferenced.length }
+  return { versions, tables, tempFiles: temp.folders + temp.files, originals: unreferenced.length }
 }
