@@ -8,7 +8,7 @@ import { FastPathBlocked, NotUtf8, storeCsv, type ByteSource, type CsvMode } fro
 import { storeWorkbook } from './store-workbook'
 import type { IntakeLimits, IntakeResult } from './table-intake'
 import type { ProgressSink } from './progress-sink'
-import type { DecimalMark } from './number-text'
+import type { DecimalMark } from '../rows-store/number-text'
 
 export interface UploadedFile {
   /** Where the complete file is (for a live upload: where it is being written). */

@@ -3,7 +3,7 @@ import iconv from 'iconv-lite'
 import jschardet from 'jschardet'
 import { guessDecimalMark, guessDelimiter } from './guess-delimiter'
 import { badFile } from './ingest-errors'
-import type { DecimalMark } from './number-text'
+import type { DecimalMark } from '../rows-store/number-text'
 
 /** Bytes read from the start of a file to decide how to read the rest. */
 export const SNIFF_BYTES = 64 * 1024

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { AppError } from '../errors/app-error'
 import seedrandom from 'seedrandom'
 import { CsvTokenizer } from './csv-tokenizer'
-import { isIntegerText, parseNumberText, trimCell } from './number-text'
+import { isIntegerText, parseNumberText, trimCell } from '../rows-store/number-text'
 import { TableIntake } from './table-intake'
 
 const limits = {

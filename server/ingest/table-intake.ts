@@ -3,7 +3,7 @@ import type { ColumnProfile, NestingSuggestion } from '../../shared/schemas/data
 import { ColumnProfiler, type ColumnCodes, type ProfilerOptions } from './column-profiler'
 import { rowFields, type CsvRow } from './csv-tokenizer'
 import { badFile, describeColumn, thinFile } from './ingest-errors'
-import type { DecimalMark } from './number-text'
+import type { DecimalMark } from '../rows-store/number-text'
 
 export interface IntakeLimits {
   maxColumns: number

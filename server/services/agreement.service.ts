@@ -6,7 +6,7 @@ import { crossFactors, referenceCell } from '../analysis/design-cells'
 import { NotFoundError, UnprocessableError } from '../errors/app-error'
 import { findAnalysis, findAnalysisVersion } from '../repositories/analyses.repo'
 import { membershipIn } from './datasets-access.service'
-import { loadNestedColumns } from './datasets-readback.service'
+import { loadNestedColumns } from '../rows-store/read-back'
 
 /**
  * Agreement between the outermost units (labs) of a finished analysis version, recomputed from

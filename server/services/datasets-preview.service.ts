@@ -2,10 +2,10 @@ import type { CurrentUser } from '../../shared/schemas/auth'
 import type { ColumnProfile, RowsPage, RowsQuery } from '../../shared/schemas/datasets'
 import { InvalidPayloadError } from '../errors/app-error'
 import { activeExclusions } from '../repositories/datasets-annotations.repo'
-import { pageRows } from '../repositories/datasets-row-queries.repo'
+import { pageRows } from '../rows-store/row-queries'
 import { listColumns } from '../repositories/datasets.repo'
 import { versionFor } from './datasets-access.service'
-import { fileRow, shapeOf } from './datasets-readback.service'
+import { fileRow, shapeOf } from '../rows-store/read-back'
 
 /** One page of stored rows, sorted on the server, with the exclusions that leave each row out. */
 export async function previewRows(

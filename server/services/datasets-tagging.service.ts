@@ -10,10 +10,10 @@ import {
   insertTagging,
   taggingHistory,
 } from '../repositories/datasets-annotations.repo'
-import { excludedSql, firstNonNumberRow, type RowTableShape } from '../repositories/datasets-row-queries.repo'
-import type { VersionRecord } from '../repositories/datasets.repo'
+import { excludedSql, firstNonNumberRow, type RowTableShape } from '../rows-store/row-queries'
+import { touchDataset, type VersionRecord } from '../repositories/datasets.repo'
 import { versionFor } from './datasets-access.service'
-import { fileRow, readColumns, shapeOf } from './datasets-readback.service'
+import { fileRow, readColumns, shapeOf } from '../rows-store/read-back'
 
 const q = (name: string) => `“${name}”`
 
@@ -185,7 +185,7 @@ export async function saveTagging(
       },
       trx,
     )
-    await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
+    await touchDataset(datasetId, trx)
     await recordAudit(trx, {
       actorUserId: user.id,
       labId: dataset.labId,

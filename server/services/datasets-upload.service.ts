@@ -15,10 +15,11 @@ import { logger } from '../logger'
 import { currentTagging, insertTagging } from '../repositories/datasets-annotations.repo'
 import {
   dropRowsTable,
+  freezeRowsTable,
   indexRowsTable,
   listRowsTables,
   listUnindexedRowsTables,
-} from '../repositories/datasets-rows.repo'
+} from '../rows-store/rows-tables'
 import {
   completeVersion,
   countVersionsWithSha,
@@ -31,6 +32,8 @@ import {
   listVersionHashes,
   listVersions,
   lockDatasetForNewVersion,
+  lockLeftoverSweep,
+  touchDataset,
 } from '../repositories/datasets.repo'
 import { findOrInsertProject, findProject } from '../repositories/projects.repo'
 import { assertCanWriteInLab, datasetFor } from './datasets-access.service'
@@ -42,21 +45,26 @@ interface StoredVersion {
   createdOriginal: boolean
 }
 
+interface StoreVersionInput {
+  datasetId: number
+  versionNo: number
+  userId: number
+  file: UploadedFile
+  /** Sheet of a workbook (name or 1-based number); the first when not given. */
+  sheet?: string
+  progress: ProgressSink
+  /** Told when the original file has been moved into the store (see inUploadTransaction). */
+  onOriginalKept: (sha256: string, created: boolean) => void
+}
+
 /**
  * Stores one upload as version `versionNo` of `datasetId`, inside `trx`: the version row, the rows
- * table (COPY), column profiles, the nesting suggestion, and the original file. When the previous
- * version has a tagging whose columns all exist (responses still numeric), it is carried over.
+ * table (COPY, then frozen), column profiles, the nesting suggestion, and the original file. When
+ * the previous version has a tagging whose columns all exist (responses still numeric), it is
+ * carried over.
  */
-async function storeVersion(
-  trx: Knex.Transaction,
-  datasetId: number,
-  versionNo: number,
-  userId: number,
-  file: UploadedFile,
-  sheet: string | undefined,
-  progress: ProgressSink,
-  onOriginalKept: (sha256: string, created: boolean) => void,
-): Promise<StoredVersion> {
+async function storeVersion(trx: Knex.Transaction, input: StoreVersionInput): Promise<StoredVersion> {
+  const { datasetId, versionNo, userId, file, progress } = input
   const started = performance.now()
   const versionId = await insertVersion(
     {
@@ -69,7 +77,7 @@ async function storeVersion(
     },
     trx,
   )
-  const outcome = await ingestFile(trx, versionId, file, { sheet, progress })
+  const outcome = await ingestFile(trx, versionId, file, { sheet: input.sheet, progress })
   // A live upload is only stored once the whole request arrived and was accepted.
   const byteSize = file.live ? await file.live.accepted : file.size
   progress.update({ phase: 'profiling', bytesRead: file.size, rowsStored: outcome.intake.rowCount })
@@ -93,9 +101,10 @@ async function storeVersion(
     },
     trx,
   )
+  await freezeRowsTable(trx, versionId)
   if (versionNo > 1) await carryOverTagging(trx, datasetId, versionNo, versionId, outcome.intake, userId)
   const created = await keepOriginal(file.path, outcome.sha256)
-  onOriginalKept(outcome.sha256, created)
+  input.onOriginalKept(outcome.sha256, created)
   if (outcome.fallbackReason)
     logger.info('dataset stored from parsed rows', { versionId, reason: outcome.fallbackReason })
   return { versionId, sha256: outcome.sha256, createdOriginal: created }
@@ -201,7 +210,15 @@ export async function createDatasetFromUpload(
       },
       trx,
     )
-    const stored = await storeVersion(trx, id, 1, user.id, file, fields.sheet, progress, onOriginalKept)
+    const stored = await storeVersion(trx, {
+      datasetId: id,
+      versionNo: 1,
+      userId: user.id,
+      file,
+      sheet: fields.sheet,
+      progress,
+      onOriginalKept,
+    })
     await recordAudit(trx, {
       actorUserId: user.id,
       labId: fields.labId,
@@ -227,8 +244,16 @@ export async function addVersionFromUpload(
   const dataset = await datasetFor(user, datasetId, 'write')
   const { versionNo, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
-    const stored = await storeVersion(trx, datasetId, next, user.id, file, sheet, progress, onOriginalKept)
-    await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
+    const stored = await storeVersion(trx, {
+      datasetId,
+      versionNo: next,
+      userId: user.id,
+      file,
+      sheet,
+      progress,
+      onOriginalKept,
+    })
+    await touchDataset(datasetId, trx)
     await recordAudit(trx, {
       actorUserId: user.id,
       labId: dataset.labId,
@@ -273,7 +298,14 @@ export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Pro
       },
       trx,
     )
-    const stored = await storeVersion(trx, id, 1, input.userId, input.file, undefined, noProgress, () => {})
+    const stored = await storeVersion(trx, {
+      datasetId: id,
+      versionNo: 1,
+      userId: input.userId,
+      file: input.file,
+      progress: noProgress,
+      onOriginalKept: () => {},
+    })
     if (input.tagging)
       await insertTagging(
         { versionId: stored.versionId, ...input.tagging, carriedOver: false, createdBy: input.userId },
@@ -302,7 +334,7 @@ export async function sweepDatasetLeftovers(): Promise<{
 }> {
   const { versions, tables } = await db.transaction(async (trx) => {
     // Taken first so two processes starting at once do not sweep each other's work twice.
-    await trx.raw('SELECT pg_advisory_xact_lock(hashtext(?))', ['nestwise-dataset-sweep'])
+    await lockLeftoverSweep(trx)
     const unfinished = await listUnfinishedVersionIds(trx)
     for (const id of unfinished) await dropRowsTable(trx, id)
     await deleteVersions(unfinished, trx)

@@ -12,7 +12,7 @@ import { ingestConfig } from '../../server/ingest/ingest-config'
 import { originalPath } from '../../server/ingest/original-store'
 import { sweepDatasetLeftovers } from '../../server/services/datasets-upload.service'
 import { uploadTemp } from '../../server/uploads/upload-intake'
-import { loadNestedColumns } from '../../server/services/datasets-readback.service'
+import { loadNestedColumns } from '../../server/rows-store/read-back'
 import { appWriteHeaders } from '../support/api'
 import {
   datasetsTestApp,

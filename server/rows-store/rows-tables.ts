@@ -2,7 +2,7 @@ import type { Knex } from 'knex'
 import type pg from 'pg'
 import { from as copyFrom, to as copyTo } from 'pg-copy-streams'
 import type { Readable, Writable } from 'node:stream'
-import { defaultConn, type Conn } from './connection'
+import { defaultConn, type Conn } from '../repositories/connection'
 
 /**
  * The per-version row tables: `dataset_rows_<version id>` with `row_no` (file order, 1-based) and one
@@ -36,6 +36,18 @@ export async function createRowsTable(
   // Identity cache: fewer sequence updates while COPY numbers a million rows.
   await trx.raw(
     `CREATE TABLE ${rowsTable(versionId)} (row_no bigint GENERATED ALWAYS AS IDENTITY (CACHE 1000), ${columns})`,
+  )
+}
+
+/**
+ * Makes a version's rows final: once the upload that wrote them is stored, any INSERT, UPDATE,
+ * DELETE or TRUNCATE on the table fails (the function is made by the migration that introduced
+ * it), as finished analysis versions are frozen. Analyses and sign-offs refer to these exact rows.
+ */
+export async function freezeRowsTable(trx: Knex.Transaction, versionId: number): Promise<void> {
+  const table = rowsTable(versionId)
+  await trx.raw(
+    `CREATE TRIGGER ${table}_frozen BEFORE INSERT OR UPDATE OR DELETE OR TRUNCATE ON ${table} FOR EACH STATEMENT EXECUTE FUNCTION dataset_rows_frozen()`,
   )
 }
 
