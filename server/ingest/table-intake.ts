@@ -25,6 +25,30 @@ export interface IntakeResult {
 
 const formatCount = (n: number) => n.toLocaleString('en-US')
 
+const WRAPPING_QUOTES: [string, string][] = [
+  ['"', '"'],
+  ["'", "'"],
+  ['\u201c', '\u201d'],
+  ['\u201e', '\u201c'],
+  ['\u00ab', '\u00bb'],
+]
+
+/**
+ * A header cell as a column name: trimmed, and without quotes wrapped around the whole name. A
+ * name arrives quoted when the quotes were not read as CSV quoting (a space before the opening
+ * quote, quotes doubled once too often by an export, quotes typed into a spreadsheet cell).
+ */
+export function headerName(raw: string | null): string {
+  let name = (raw ?? '').trim()
+  for (;;) {
+    const pair = WRAPPING_QUOTES.find(
+      ([open, close]) => name.length >= 2 && name.startsWith(open) && name.endsWith(close),
+    )
+    if (!pair) return name
+    name = name.slice(pair[0].length, name.length - pair[1].length).trim()
+  }
+}
+
 /**
  * Receives the rows of a table (from CSV or XLSX), checks the header and the shape of every row,
  * and feeds each cell to its column's profiler. Throws messages a scientist can act on, naming row
@@ -95,7 +119,7 @@ export class TableIntake {
     const names: string[] = []
     const firstIndex = new Map<string, number>()
     values.forEach((raw, k) => {
-      const name = (raw ?? '').trim()
+      const name = headerName(raw)
       if (name === '') {
         const onlyColumn = values.length === 1
         throw badFile(

@@ -303,3 +303,21 @@ describe('an upload that arrives incomplete', () => {
     })
   }
 })
+
+describe('header names in stray quotes', () => {
+  it('are stored without the quotes', async () => {
+    const res = await uploadDataset(
+      app,
+      team.cookies.scientist,
+      Buffer.from('lab, "mouse","""length"""\nNimbus,m1,1.5\nFernhill,m2,2.5\n'),
+      'quoted-header.csv',
+      { labId: team.lab.id },
+    )
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    const names = await db('dataset_columns')
+      .where({ version_id: res.body.data.latestVersion.id })
+      .orderBy('position')
+      .pluck('name')
+    expect(names).toEqual(['lab', 'mouse', 'length'])
+  })
+})
