@@ -3,7 +3,6 @@ import { open } from 'node:fs/promises'
 import type { Knex } from 'knex'
 import { ingestConfig, type WorkbookLimits } from './ingest-config'
 import { sniffFile, SNIFF_BYTES, type TextSniff } from './sniff'
-import type { ChunkChannel } from '../uploads/chunk-channel'
 import { FastPathBlocked, NotUtf8, storeCsv, type ByteSource, type CsvMode } from './store-csv'
 import { storeWorkbook } from './store-workbook'
 import type { IntakeLimits, IntakeResult } from './table-intake'
@@ -19,9 +18,17 @@ export interface UploadedFile {
   live?: LiveUpload
 }
 
+/** The chunks of an upload still in transfer, as the intake hands them over (uploads/chunk-channel). */
+export interface LiveChunks extends AsyncIterable<Buffer> {
+  /** The first `bytes` bytes (fewer when the file is shorter: then `complete`), without consuming them. */
+  peek(bytes: number): Promise<{ head: Buffer; complete: boolean }>
+  /** Stops taking chunks: the transfer goes on to disk only. */
+  detach(): void
+}
+
 /** An upload still in transfer: its chunks as they arrive, and the go-ahead once it completed. */
 export interface LiveUpload {
-  channel: ChunkChannel
+  channel: LiveChunks
   /** Resolves with the final size when the whole file is on disk and the request was accepted; rejects otherwise. */
   accepted: Promise<number>
 }

@@ -17,7 +17,6 @@ import { originalPath } from '../ingest/original-store'
 import { logger } from '../logger'
 import { requireUser } from '../middleware/auth'
 import { validate } from '../middleware/validate'
-import { versionFor } from '../services/datasets-access.service'
 import {
   addExclusion,
   listVersionExclusions,
@@ -35,6 +34,7 @@ import {
   getDatasetDetail,
   getVersionDetail,
   listDatasetsFor,
+  originalOf,
   restoreDataset,
   updateDatasetFor,
 } from '../services/datasets.service'
@@ -204,7 +204,7 @@ export function datasetsRoutes(): Router {
     '/:datasetId/versions/:versionNo/original',
     validate({ params: VersionParams }),
     async (req, res) => {
-      const { version: found } = await versionFor(...version(req), 'read')
+      const found = await originalOf(...version(req))
       await new Promise<void>((resolve, reject) => {
         res.download(originalPath(found.sha256), found.originalFilename, { dotfiles: 'allow' }, (err) => {
           if (!err) return resolve()

@@ -14,7 +14,7 @@ import {
 import { countRowsWhere, exclusionSql, excludedSql, type RowTableShape } from '../rows-store/row-queries'
 import { lockVersion, setExcludedRowCount, type VersionRecord } from '../repositories/datasets.repo'
 import type { Conn } from '../repositories/connection'
-import { versionFor } from './datasets-access.service'
+import { readable, writable } from '../access/records'
 import { shapeOf } from '../rows-store/read-back'
 
 /** Checks a rule against the version's columns; numeric columns get their value as a number. */
@@ -62,7 +62,7 @@ export async function listVersionExclusions(
   datasetId: number,
   versionNo: number,
 ): Promise<Exclusion[]> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   return listExclusions(version.id)
 }
 
@@ -76,7 +76,7 @@ export async function addExclusion(
   versionNo: number,
   input: ExclusionCreate,
 ): Promise<Exclusion> {
-  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await writable(user, 'datasetVersion', { datasetId, versionNo })
   const shape = await shapeOf(version)
   const rule = input.kind === 'rule' ? normaliseRule(shape, version, input.rule) : null
   const unit =
@@ -135,7 +135,7 @@ export async function withdrawExclusion(
   versionNo: number,
   exclusionId: number,
 ): Promise<Exclusion> {
-  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await writable(user, 'datasetVersion', { datasetId, versionNo })
   const shape = await shapeOf(version)
   return db.transaction(async (trx) => {
     await lockVersion(version.id, trx)

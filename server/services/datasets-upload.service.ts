@@ -36,7 +36,7 @@ import {
   touchDataset,
 } from '../repositories/datasets.repo'
 import { findOrInsertProject, findProject } from '../repositories/projects.repo'
-import { assertCanWriteInLab, datasetFor } from './datasets-access.service'
+import { writable } from '../access/records'
 import { getDatasetDetail, getVersionDetail } from './datasets.service'
 
 interface StoredVersion {
@@ -191,7 +191,7 @@ export async function createDatasetFromUpload(
   file: UploadedFile,
   progress: ProgressSink,
 ): Promise<DatasetDetail> {
-  assertCanWriteInLab(user, fields.labId)
+  await writable(user, 'lab', fields.labId, { subject: 'dataset' })
   if (fields.projectId !== undefined) {
     const project = await findProject(fields.projectId)
     if (!project || project.labId !== fields.labId) throw new NotFoundError('Project not found in this lab.')
@@ -241,7 +241,7 @@ export async function addVersionFromUpload(
   file: UploadedFile,
   progress: ProgressSink,
 ): Promise<DatasetVersionDetail> {
-  const dataset = await datasetFor(user, datasetId, 'write')
+  const dataset = await writable(user, 'dataset', datasetId)
   const { versionNo, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
     const stored = await storeVersion(trx, {
