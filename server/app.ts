@@ -75,9 +75,12 @@ export function createApp(options: AppOptions = {}): Express {
   app.use('/api', requireSameOriginWrites(options.allowedOrigins ?? [publicUrl]))
   app.use('/api/health', healthRoutes(options.pingDatabase ?? (() => pingDatabase())))
 
-  app.use('/api/v1', sessionMiddleware(options.sessionStore ?? getSharedSessionStore(), cookie))
+  const [sessions, touch] = sessionMiddleware(options.sessionStore ?? getSharedSessionStore(), cookie)
+  app.use('/api/v1', sessions)
   app.use('/api/v1', passport.initialize())
   app.use('/api/v1', passport.session())
+  // After passport, which tells a signed-in session from an empty one.
+  app.use('/api/v1', touch)
   // After the session store's callbacks, so handlers run inside the request's audit context.
   app.use('/api/v1', auditContext())
   app.use(

@@ -1,8 +1,7 @@
 import type { Knex } from 'knex'
-import type pg from 'pg'
 import { from as copyFrom, to as copyTo } from 'pg-copy-streams'
 import type { Readable, Writable } from 'node:stream'
-import { defaultConn, type Conn } from '../repositories/connection'
+import { defaultConn, transactionClient, withClient, type Conn } from '../repositories/connection'
 
 /**
  * The per-version row tables: `dataset_rows_<version id>` with `row_no` (file order, 1-based) and one
@@ -21,11 +20,6 @@ export function cellColumn(position: number): string {
 }
 
 const columnList = (count: number) => Array.from({ length: count }, (_, k) => cellColumn(k + 1)).join(', ')
-
-/** The node-postgres client behind a knex transaction (the connection the transaction runs on). */
-async function transactionClient(trx: Knex.Transaction): Promise<pg.PoolClient> {
-  return (await trx.client.acquireConnection()) as pg.PoolClient
-}
 
 export async function createRowsTable(
   trx: Knex.Transaction,
@@ -101,19 +95,6 @@ export async function openCopyIn(
   const sql = `COPY ${rowsTable(versionId)} (${columnList(columnCount)}) FROM STDIN (${options})`
   const client = await transactionClient(trx)
   return client.query(copyFrom(sql))
-}
-
-/** Runs `work` on the node-postgres client behind `conn` (the transaction's own, or one from the pool). */
-async function withClient<T>(conn: Conn, work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
-  const isTransaction = 'isTransaction' in conn && (conn as Knex.Transaction).isTransaction
-  const client = isTransaction
-    ? await transactionClient(conn as Knex.Transaction)
-    : ((await conn.client.acquireConnection()) as pg.PoolClient)
-  try {
-    return await work(client)
-  } finally {
-    if (!isTransaction) await conn.client.releaseConnection(client)
-  }
 }
 
 /**

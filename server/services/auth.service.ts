@@ -1,6 +1,9 @@
 import type { CurrentUser, Membership } from '../../shared/schemas/auth'
-import { findActiveUserById, findActiveUserWithHashByEmail, type User } from '../repositories/users.repo'
-import { listMembershipsOfUsers } from '../repositories/memberships.repo'
+import {
+  findActiveUserWithHashByEmail,
+  findActiveUserWithMemberships,
+  type User,
+} from '../repositories/users.repo'
 import { db } from '../db'
 import { recordAudit } from './audit.service'
 import { hashPassword, verifyPassword } from './passwords'
@@ -19,13 +22,8 @@ export function toCurrentUser(user: User, memberships: Membership[]): CurrentUse
 
 /** The signed-in view of a user (with lab memberships), or undefined when the account is gone. */
 export async function loadCurrentUser(userId: number): Promise<CurrentUser | undefined> {
-  const user = await findActiveUserById(userId)
-  if (!user) return undefined
-  const memberships = await listMembershipsOfUsers([user.id])
-  return toCurrentUser(
-    user,
-    memberships.map(({ labId, labName, role }) => ({ labId, labName, role })),
-  )
+  const user = await findActiveUserWithMemberships(userId)
+  return user && toCurrentUser(user, user.memberships)
 }
 
 /** The user whose email and password match, or null. Deleted accounts never match. */
