@@ -36,7 +36,7 @@ const DATABASE = 'nestwise_bench_bombs'
 process.env.PGDATABASE = DATABASE
 process.env.NODE_ENV = 'test'
 const { ensurePostgres } = await import('../lib/postgres')
-const { prepareDatabase } = await import('../lib/database')
+const { dropDatabase, prepareDatabase } = await import('../lib/database')
 
 const dir = resolve('.bench/bombs')
 mkdirSync(dir, { recursive: true })
@@ -151,3 +151,4 @@ console.log(
     .map((l) => l.toFixed(2))
     .join(' ')}`,
 )
+await dropDatabase(DATABASE)
