@@ -1,9 +1,13 @@
 import { defineConfig, devices } from '@playwright/test'
+import { freePortSync } from './scripts/lib/ports'
 
 // Browser tests run against Debian's Chromium (Playwright downloads no browser here) and a server
-// on its own port with a freshly seeded database (scripts/serve-e2e.ts serves the built client).
-// E2E_PORT and E2E_DATABASE let two checkouts on one machine run their browser tests side by side.
-const port = process.env.E2E_PORT ?? '3100'
+// of their own, never one already running: on a free port (E2E_PORT to choose one) with a freshly
+// seeded database named for this run (E2E_DATABASE to choose one), dropped again at the end.
+// The choice is kept in the environment, which Playwright's workers inherit, so they all agree.
+process.env.E2E_PORT ??= String(freePortSync())
+process.env.E2E_DATABASE ??= `nestwise_e2e_${process.pid}`
+const port = process.env.E2E_PORT
 
 export default defineConfig({
   testDir: 'tests/e2e',
@@ -39,10 +43,12 @@ export default defineConfig({
     },
   },
   projects: [{ name: 'chromium', use: { ...devices['Desktop Chrome'] } }],
+  globalTeardown: './scripts/e2e-teardown.ts',
   webServer: {
     command: 'node --import tsx scripts/serve-e2e.ts',
     url: `http://127.0.0.1:${port}/api/health`,
-    reuseExistingServer: !process.env.CI,
+    // Never another instance that happens to answer on this port.
+    reuseExistingServer: false,
     timeout: 120_000,
     stderr: 'pipe',
   },

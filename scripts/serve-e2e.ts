@@ -1,14 +1,33 @@
 export {}
 
 // The server Playwright talks to: its own freshly seeded database and port, serving the built client.
-process.env.PGDATABASE = process.env.E2E_DATABASE ?? 'nestwise_e2e'
-process.env.PORT = process.env.E2E_PORT ?? '3100'
+// playwright.config.ts chooses both for the run (E2E_DATABASE, E2E_PORT) and drops the database after.
+const E2E_PREFIX = 'nestwise_e2e_'
+process.env.PGDATABASE = process.env.E2E_DATABASE ?? `${E2E_PREFIX}${process.ppid}`
+if (!process.env.E2E_PORT)
+  throw new Error('E2E_PORT is not set: start the browser tests with npx playwright test')
+process.env.PORT = process.env.E2E_PORT
 process.env.NODE_ENV = 'test'
 process.env.LOGIN_RATE_LIMIT = '1000'
 
 const { ensurePostgres } = await import('./lib/postgres')
-const { prepareDatabase } = await import('./lib/database')
+const { databasesNamed, dropDatabase, prepareDatabase } = await import('./lib/database')
+
+const isRunning = (pid: number) => {
+  try {
+    process.kill(pid, 0)
+    return true
+  } catch (error) {
+    return (error as NodeJS.ErrnoException).code === 'EPERM'
+  }
+}
 
 ensurePostgres()
+// Databases of earlier runs that were killed before their teardown (named after their runner's pid).
+for (const name of await databasesNamed(E2E_PREFIX)) {
+  const pid = Number(name.slice(E2E_PREFIX.length))
+  if (name !== process.env.PGDATABASE && Number.isInteger(pid) && pid > 0 && !isRunning(pid))
+    await dropDatabase(name)
+}
 await prepareDatabase(process.env.PGDATABASE, { fresh: true, seed: true })
 await import('../server/index')

@@ -1,8 +1,12 @@
-// `npm start`: PostgreSQL on loopback, migrations, demo seed, client build, then one server for app and API.
+// `npm start`: PostgreSQL on loopback, migrations, demo seed, client build, then one server for app
+// and API, started again (with a growing pause) whenever it dies. Ctrl-C stops the server and the
+// database; nothing else does. A production deployment gets the same from its process manager
+// (docs/deployment.md).
 import { spawn } from 'node:child_process'
 import { ensurePostgres, stopPostgres } from './lib/postgres'
 import { prepareDatabase } from './lib/database'
 import { run } from './lib/run'
+import { supervise } from './lib/supervise'
 import { config } from '../server/config'
 import { demoAccounts, demoPassword } from '../seeds/data/demo-accounts'
 
@@ -11,7 +15,15 @@ await prepareDatabase(config.PGDATABASE, { seed: true })
 console.log('[setup] building the client…')
 run('npx', ['vite', 'build', '--logLevel', 'warn'])
 
-const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { stdio: 'inherit' })
+const server = supervise({
+  start: () => spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { stdio: 'inherit' }),
+  onExit: ({ code, signal, restartInMs }) => {
+    const how = signal ? `was stopped by ${signal}` : `exited with code ${code}`
+    console.error(
+      `\n[start] the server ${how}; the database stays up. Starting the server again in ${restartInMs / 1000} s…`,
+    )
+  },
+})
 
 const url = `http://${config.HOST}:${config.PORT}`
 setTimeout(() => {
@@ -22,21 +34,12 @@ setTimeout(() => {
 }, 1500)
 
 let stopping = false
-function shutdown(code: number): void {
+async function shutdown(): Promise<void> {
   if (stopping) return
   stopping = true
-  server.kill('SIGTERM')
-  server.once('exit', () => {
-    stopPostgres()
-    process.exit(code)
-  })
+  await server.stop()
+  stopPostgres()
+  process.exit(0)
 }
-process.on('SIGINT', () => shutdown(0))
-process.on('SIGTERM', () => shutdown(0))
-server.on('exit', (code) => {
-  if (!stopping) {
-    stopping = true
-    stopPostgres()
-    process.exit(code ?? 1)
-  }
-})
+process.on('SIGINT', () => void shutdown())
+process.on('SIGTERM', () => void shutdown())

@@ -1,7 +1,9 @@
 // `npm test`: the same set-up as `npm start`, then type-check, unit, integration and browser tests.
+// The cluster runs on a free port when another checkout's holds the configured one, and is stopped
+// again at the end when this run started it.
 import { spawnSync } from 'node:child_process'
 import { mkdirSync, readFileSync, existsSync, rmSync } from 'node:fs'
-import { ensurePostgres } from './lib/postgres'
+import { ensurePostgres, stopPostgres } from './lib/postgres'
 import { ensureChromium, ensureRReference } from './lib/prerequisites'
 
 interface Counts {
@@ -30,6 +32,11 @@ function stage(
   console.log(`\n=== ${name}: ${command} ${args.join(' ')}`)
   const started = Date.now()
   const result = spawnSync(command, args, { stdio: 'inherit', env: { ...process.env, ...env } })
+  // Ctrl-C reached the stage too: stop here, and stop the cluster this run started.
+  if (result.signal === 'SIGINT') {
+    stopOwnCluster()
+    process.exit(130)
+  }
   const done: Stage = { name, ok: result.status === 0, seconds: (Date.now() - started) / 1000 }
   try {
     done.counts = counts?.()
@@ -59,7 +66,12 @@ function playwrightCounts(file: string): () => Counts {
 
 ensureChromium()
 ensureRReference()
-ensurePostgres()
+const cluster = ensurePostgres({ moveIfTaken: true })
+// Every stage (and the servers they start) talks to the cluster where it actually runs.
+process.env.PGPORT = String(cluster.port)
+const stopOwnCluster = () => {
+  if (cluster.started) stopPostgres()
+}
 
 const vitest = (project: string) => [
   'vitest',
@@ -105,4 +117,5 @@ for (const s of stages) {
 const failedStages = stages.filter((s) => !s.ok).length + (built ? 0 : 1)
 if (failedStages && total.failed === 0) total.failed = failedStages
 console.log(`tests: ${total.passed} passed, ${total.failed} failed, ${total.skipped} skipped`)
+stopOwnCluster()
 process.exit(failedStages ? 1 : 0)

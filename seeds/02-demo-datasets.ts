@@ -1,9 +1,8 @@
-import { mkdir, rm, writeFile } from 'node:fs/promises'
-import { join } from 'node:path'
-import { randomBytes } from 'node:crypto'
+import { rm, writeFile } from 'node:fs/promises'
 import type { Knex } from 'knex'
 import { ingestConfig } from '../server/ingest/ingest-config'
 import { storeSeedDataset } from '../server/services/datasets-upload.service'
+import { tempUploads } from '../server/uploads/temp-files'
 import { demoDatasets } from './data/demo-datasets'
 
 /**
@@ -12,7 +11,7 @@ import { demoDatasets } from './data/demo-datasets'
  * Runs after 01-demo-people, whose labs and people it needs.
  */
 export async function seed(knex: Knex): Promise<void> {
-  await mkdir(ingestConfig.uploadsDir, { recursive: true })
+  const temp = tempUploads(ingestConfig.uploadsRoot)
   for (const dataset of demoDatasets()) {
     const lab: { id: number } | undefined = await knex('labs').where({ slug: dataset.labSlug }).first('id')
     const user: { id: number } | undefined = await knex('users')
@@ -27,7 +26,7 @@ export async function seed(knex: Knex): Promise<void> {
       .whereNull('deleted_at')
       .first('id')
     if (existing) continue
-    const path = join(ingestConfig.uploadsDir, `seed-${randomBytes(6).toString('hex')}.csv`)
+    const path = temp.pathFor(dataset.filename)
     const bytes = Buffer.from(dataset.csv, 'utf8')
     await writeFile(path, bytes)
     try {

@@ -2,13 +2,14 @@ import { existsSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import express, { type Express } from 'express'
 import type { Store } from 'express-session'
-import { config, publicUrl } from './config'
+import { config, ownHostNames, parseTrustProxy, publicUrl, type TrustProxy } from './config'
 import { createPassport } from './auth/passport'
 import { getSharedSessionStore, sessionMiddleware } from './auth/session'
+import { allowedHosts } from './middleware/allowed-hosts'
 import { auditContext } from './middleware/audit-context'
 import { clientApp } from './middleware/client-app'
 import { errorHandler, notFound } from './middleware/error-handler'
-import { loginRateLimits } from './middleware/rate-limits'
+import { anonymousRateLimit, loginRateLimits } from './middleware/rate-limits'
 import { requestId } from './middleware/request-id'
 import { requestLog } from './middleware/request-log'
 import { requireSameOriginWrites } from './middleware/same-origin'
@@ -37,8 +38,14 @@ export interface AppOptions {
   clientDir?: string | null
   /** Failed sign-ins per address + email in 15 minutes; defaults to LOGIN_RATE_LIMIT. */
   loginRateLimit?: number
+  /** Requests per minute and address on the share-link routes; defaults to SHARED_RATE_LIMIT. */
+  sharedRateLimit?: number
   /** Origins allowed to send writes, besides the one each request is addressed to. Defaults to PUBLIC_URL. */
   allowedOrigins?: string[]
+  /** Host names answered (besides IP addresses); defaults to PUBLIC_URL's, HOST, localhost and ALLOWED_HOSTS. */
+  allowedHosts?: string[]
+  /** Reverse proxies to believe (Express "trust proxy"); defaults to TRUST_PROXY. */
+  trustProxy?: TrustProxy
   /** Database probe for the health route. */
   pingDatabase?: () => Promise<void>
 }
@@ -51,9 +58,9 @@ function defaultClient(): string | null {
 export function createApp(options: AppOptions = {}): Express {
   const app = express()
   const https = publicUrl.startsWith('https:')
-  // Behind an https address the app normally sits behind a local reverse proxy that terminates TLS;
-  // trusting it (loopback only) lets secure cookies and client addresses work.
-  if (https) app.set('trust proxy', 'loopback')
+  // Behind a reverse proxy, trusting it (and only it) gives rate limits and the audit log the
+  // client's address and lets secure cookies work; see TRUST_PROXY in docs/deployment.md.
+  app.set('trust proxy', options.trustProxy ?? parseTrustProxy(config.TRUST_PROXY, https))
   app.disable('x-powered-by')
 
   const cookie = { secure: config.NODE_ENV === 'production' && https }
@@ -62,14 +69,18 @@ export function createApp(options: AppOptions = {}): Express {
   app.use(requestId())
   app.use(requestLog())
   app.use(securityHeaders({ https }))
+  app.use(allowedHosts(options.allowedHosts ?? ownHostNames))
 
   app.use('/api', express.json({ limit: '1mb' }))
   app.use('/api', requireSameOriginWrites(options.allowedOrigins ?? [publicUrl]))
   app.use('/api/health', healthRoutes(options.pingDatabase ?? (() => pingDatabase())))
 
-  app.use('/api/v1', sessionMiddleware(options.sessionStore ?? getSharedSessionStore(), cookie))
+  const [sessions, touch] = sessionMiddleware(options.sessionStore ?? getSharedSessionStore(), cookie)
+  app.use('/api/v1', sessions)
   app.use('/api/v1', passport.initialize())
   app.use('/api/v1', passport.session())
+  // After passport, which tells a signed-in session from an empty one.
+  app.use('/api/v1', touch)
   // After the session store's callbacks, so handlers run inside the request's audit context.
   app.use('/api/v1', auditContext())
   app.use(
@@ -92,7 +103,11 @@ export function createApp(options: AppOptions = {}): Express {
   app.use('/api/v1/analyses', analysisReviewRoutes())
   app.use('/api/v1/review-requests', reviewRequestsRoutes())
   app.use('/api/v1/labs', boardRoutes())
-  app.use('/api/v1/shared', sharedRoutes())
+  app.use(
+    '/api/v1/shared',
+    anonymousRateLimit(options.sharedRateLimit ?? config.SHARED_RATE_LIMIT),
+    sharedRoutes(),
+  )
   app.use('/api/v1/analyses', agreementRoutes())
   app.use('/api/v1/plans', plansRoutes())
   app.use('/api', notFound())

@@ -17,6 +17,16 @@ const ConfigSchema = z.object({
   SESSION_SECRET: z.string().min(16).default('dev-only-session-secret-change-me'),
   SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(12),
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
+  /**
+   * Which reverse proxies to believe about the client's address (X-Forwarded-For) and protocol:
+   * "false", a number of hops, or addresses/subnets and the names loopback, linklocal, uniquelocal,
+   * comma-separated (Express's "trust proxy"). Unset: loopback when PUBLIC_URL is https, else none.
+   */
+  TRUST_PROXY: z.string().optional(),
+  /** Host names answered besides PUBLIC_URL's, HOST and localhost (comma-separated; see docs/deployment.md). */
+  ALLOWED_HOSTS: z.string().default(''),
+  /** Requests per minute and address on the routes open without an account (share links). */
+  SHARED_RATE_LIMIT: z.coerce.number().int().positive().default(120),
   UPLOAD_MAX_MB: z.coerce.number().positive().default(250),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().positive().default(2525),
@@ -44,3 +54,28 @@ function loadConfig(): Config {
 export const config = loadConfig()
 
 export const publicUrl = config.PUBLIC_URL ?? `http://${config.HOST}:${config.PORT}`
+
+export type TrustProxy = boolean | number | string[]
+
+/** TRUST_PROXY as Express's "trust proxy" setting. */
+export function parseTrustProxy(value: string | undefined, https: boolean): TrustProxy {
+  if (value === undefined || value.trim() === '') return https ? ['loopback'] : false
+  const text = value.trim()
+  if (text === 'false') return false
+  if (text === 'true') return true
+  if (/^\d+$/.test(text)) return Number(text)
+  return text
+    .split(',')
+    .map((part) => part.trim())
+    .filter(Boolean)
+}
+
+/** Host names the app answers for (requests addressed by IP always pass). */
+export const ownHostNames: string[] = [
+  new URL(publicUrl).hostname.replace(/^\[|\]$/g, ''),
+  config.HOST,
+  'localhost',
+  ...config.ALLOWED_HOSTS.split(','),
+]
+  .map((name) => name.trim().toLowerCase())
+  .filter(Boolean)

@@ -18,6 +18,8 @@ export function startBenchServer(options: {
   database: string
   port: number
   env?: Record<string, string>
+  /** Drop the server's standard output (its request log: a line per request) instead of printing it. */
+  quiet?: boolean
 }): BenchServer {
   const base = `http://127.0.0.1:${options.port}`
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
@@ -33,7 +35,7 @@ export function startBenchServer(options: {
       UPLOAD_MAX_MB: '250',
       ...options.env,
     },
-    stdio: ['ignore', 'inherit', 'inherit'],
+    stdio: ['ignore', options.quiet ? 'ignore' : 'inherit', 'inherit'],
   })
   const stop = () => {
     if (child.exitCode === null) child.kill('SIGTERM')

@@ -203,7 +203,7 @@ try {
   const versionId = ((await tag.json()) as { data: { tagging: { versionId: number } } }).data.tagging
     .versionId
 
-  const { loadNestedColumns } = await import('../../server/services/datasets-readback.service')
+  const { loadNestedColumns } = await import('../../server/rows-store/read-back')
   const { db } = await import('../../server/db')
   const readMs: number[] = []
   let observed = 0

@@ -14,7 +14,7 @@ describe('parseAnalyzeArgs', () => {
       reference: {},
       bootstrap: null,
       delimiter: undefined,
-      decimal: '.',
+      decimal: undefined,
     })
   })
 

@@ -12,7 +12,8 @@ export interface AnalyzeArgs {
   reference: Record<string, string>
   bootstrap: { resamples: number; seed: string } | null
   delimiter: string | undefined
-  decimal: '.' | ','
+  /** Undefined: as sniffed from the file, the way the web upload reads it. */
+  decimal: '.' | ',' | undefined
 }
 
 export const ANALYZE_HELP = `Usage: nestwise analyze FILE --response COL --levels OUTER,INNER[,...] [options]
@@ -37,7 +38,10 @@ Options:
   --bootstrap N           add a hierarchical bootstrap with N resamples (needs --seed)
   --seed S                seed of the bootstrap, so a result can be reproduced
   --delimiter C           field separator: ',' ';' or 'tab' (default: detected from the first rows)
-  --decimal C             decimal mark of the response and covariates: '.' (default) or ','
+  --decimal C             decimal mark of the response and covariates: '.' or ',' (default: detected,
+                          as the web upload does: ',' when a ';' or tab table writes numbers with it)
+The file is decoded as the web upload decodes it: UTF-8, UTF-16, or a legacy encoding such as
+Windows-1252.
   -h, --help              show this help
 
 Exit codes: 0 success; 2 bad input (one line on stderr naming the column, row or file); 1 internal error.
@@ -104,8 +108,8 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
     if (!delimiter)
       throw new CliInputError(`--delimiter must be ',', ';', '|' or 'tab', got "${values.delimiter}".`)
   }
-  const decimal = values.decimal ?? '.'
-  if (decimal !== '.' && decimal !== ',')
+  const decimal = values.decimal
+  if (decimal !== undefined && decimal !== '.' && decimal !== ',')
     throw new CliInputError(`--decimal must be '.' or ',', got "${decimal}".`)
   if (decimal === ',' && delimiter === ',')
     throw new CliInputError('--decimal "," cannot be combined with --delimiter ","; use ";" or tab.')

@@ -212,6 +212,33 @@ describe('readColumnsFromFile', () => {
     expect(columns.levels[0].labels[columns.levels[0].codes[29999]]).toBe('Lab-with-a-much-longer-name-3')
   })
 
+  it('reads a Windows-1252, semicolon, decimal-comma export as the web upload does', async () => {
+    // The same fixture the upload test reads (tests/integration/datasets-encodings.test.ts).
+    const path = join('tests', 'fixtures', 'encodings', 'windows1252-semicolon-decimal-comma.csv')
+    const columns = await readColumnsFromFile(path, {
+      response: 'Neuritenlänge µm',
+      levels: ['Labor', 'Maus'],
+      conditions: ['Behandlung'],
+    })
+    expect(columns.responseName).toBe('Neuritenlänge µm')
+    expect(Array.from(columns.response.subarray(0, 4))).toEqual([100, 101.25, 102.5, 103.75])
+    expect(columns.factors?.[0].labels).toEqual(['Vehikel', 'NW-117'])
+  })
+
+  it('reads again as Windows-1252 a file that is UTF-8 only in its first bytes', async () => {
+    const head = 'lab,animal,treatment,length\n' + 'A,1,v,1\n'.repeat(12_000)
+    const path = join(folder, 'late-latin1.csv')
+    writeFileSync(path, Buffer.concat([Buffer.from(head), iconv.encode('Bä,2,v,2\n', 'windows-1252')]))
+    const columns = await readColumnsFromFile(path, selection)
+    expect(columns.levels[0].labels).toEqual(['A', 'Bä'])
+  })
+
+  it('says a workbook is not a text table', async () => {
+    const path = join(folder, 'book.xlsx')
+    writeFileSync(path, Buffer.from('PK\u0003\u0004rest'))
+    await expect(readColumnsFromFile(path, selection)).rejects.toThrow(/is an Excel workbook/)
+  })
+
   it('reports an unreadable path and the first bad value of a long file', async () => {
     await expect(readColumnsFromFile(join(folder, 'absent.csv'), selection)).rejects.toThrow(
       /Cannot read ".*absent.csv": no such file/,

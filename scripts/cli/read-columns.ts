@@ -1,4 +1,4 @@
-import { closeSync, createReadStream, openSync, readSync, statSync } from 'node:fs'
+import { closeSync, openSync, readSync, statSync } from 'node:fs'
 import { extname } from 'node:path'
 import { CsvSyntaxError, CsvTokenizer, fieldText, type CsvRow } from '../../server/ingest/csv-tokenizer'
 import { guessDelimiter } from '../../server/ingest/guess-delimiter'
@@ -6,6 +6,9 @@ import type { NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
 import { ColumnCollector, type ColumnSelection } from './column-collector'
 import { parseDecimalBytes } from '../../server/ingest/parse-decimal-bytes'
+import { AppError } from '../../server/errors/app-error'
+import { sniffFile, SNIFF_BYTES, type TextSniff } from '../../server/ingest/sniff'
+import { NotUtf8, toUtf8 } from '../../server/ingest/text-decoding'
 
 export interface ReadColumnsOptions extends ColumnSelection {
   /** Field separator; undefined = detected from the first rows (comma, semicolon, tab or bar). */
@@ -204,18 +207,6 @@ export function readColumnsFromText(text: string, options: ReadColumnsOptions): 
   return reader.finish()
 }
 
-type Encoding = 'utf8' | 'utf8-bom' | 'utf16le' | 'utf16be'
-
-/** Byte-order marks tell UTF-16 exports (spreadsheet "Unicode text") apart from UTF-8. */
-function sniffEncoding(fd: number): Encoding {
-  const head = Buffer.alloc(4)
-  const n = readSync(fd, head, 0, 4, 0)
-  if (n >= 2 && head[0] === 0xff && head[1] === 0xfe) return 'utf16le'
-  if (n >= 2 && head[0] === 0xfe && head[1] === 0xff) return 'utf16be'
-  if (n >= 3 && head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf) return 'utf8-bom'
-  return 'utf8'
-}
-
 function openFile(path: string): number {
   try {
     if (statSync(path).isDirectory())
@@ -230,33 +221,64 @@ function openFile(path: string): number {
   }
 }
 
+/** What the web's ingest sniffs from the first bytes, in the command line's words when it refuses. */
+function sniffText(fd: number, path: string, size: number): TextSniff {
+  const head = Buffer.alloc(Math.min(SNIFF_BYTES, size))
+  const n = readSync(fd, head, 0, head.length, 0)
+  let sniff
+  try {
+    sniff = sniffFile(head.subarray(0, n), path, size)
+  } catch (error) {
+    if (error instanceof AppError) throw new CliInputError(error.message)
+    throw error
+  }
+  if (sniff.fileType === 'xlsx')
+    throw new CliInputError(
+      `"${path}" is an Excel workbook; the command line reads text tables. Export the sheet as CSV (or upload the workbook in the app).`,
+    )
+  return sniff
+}
+
+/** Reads the file once, from just after its byte-order mark, turning it into UTF-8 as the web does. */
+function readAs(fd: number, sniff: TextSniff, reader: ColumnReader): NestedColumns {
+  const utf8 = toUtf8(sniff.encoding)
+  const chunk = Buffer.allocUnsafe(READ_BYTES)
+  let position = sniff.bomBytes
+  for (;;) {
+    const n = readSync(fd, chunk, 0, READ_BYTES, position)
+    if (n === 0) break
+    position += n
+    reader.push(utf8.write(chunk.subarray(0, n)))
+  }
+  reader.push(utf8.end())
+  return reader.finish()
+}
+
 /**
- * Reads a CSV/TSV file into engine columns: comma, semicolon, tab or bar (detected unless given),
- * quoted fields, CRLF or LF line ends, a UTF-8 byte-order mark, UTF-16 with a byte-order mark, and a
- * decimal comma on request. Memory stays proportional to the columns kept, not the file.
+ * Reads a CSV/TSV file into engine columns, decoded exactly as the web's upload decodes it
+ * (server/ingest: sniffFile and toUtf8): UTF-8 with or without a byte-order mark, UTF-16, or a
+ * legacy encoding such as Windows-1252, which spreadsheet programs write. The separator (comma,
+ * semicolon, tab or bar) and the decimal mark are the sniffed ones unless given. Quoted fields,
+ * CRLF or LF line ends. Memory stays proportional to the columns kept, not the file.
  */
 export async function readColumnsFromFile(path: string, options: ReadColumnsOptions): Promise<NestedColumns> {
   const fd = openFile(path)
-  const reader = new ColumnReader(options, extname(path).toLowerCase(), statSync(path).size)
   try {
-    const encoding = sniffEncoding(fd)
-    if (encoding === 'utf16le' || encoding === 'utf16be') {
-      // Transcoded to UTF-8 on the way in; iconv keeps characters split across chunks intact and drops the mark.
-      // Loaded only for such files, to keep the start-up of the common case short.
-      const { default: iconv } = await import('iconv-lite')
-      const text = createReadStream('', { fd, autoClose: false }).pipe(iconv.decodeStream(encoding))
-      for await (const chunk of text) reader.push(Buffer.from(chunk as string, 'utf8'))
-      return reader.finish()
+    const size = statSync(path).size
+    let sniff = sniffText(fd, path, size)
+    const settle = (found: TextSniff): ReadColumnsOptions => ({
+      ...options,
+      delimiter: options.delimiter ?? found.delimiter,
+      decimal: options.decimal ?? found.decimalMark,
+    })
+    try {
+      return readAs(fd, sniff, new ColumnReader(settle(sniff), extname(path).toLowerCase(), size))
+    } catch (error) {
+      // UTF-8 in the sniffed bytes but not further on: read again as Windows-1252, as the web does.
+      if (!(error instanceof NotUtf8) || sniff.encoding !== 'utf-8') throw error
+      sniff = { ...sniff, encoding: 'windows-1252', bomBytes: 0 }
+      return readAs(fd, sniff, new ColumnReader(settle(sniff), extname(path).toLowerCase(), size))
     }
-    const chunk = Buffer.allocUnsafe(READ_BYTES)
-    let position = encoding === 'utf8-bom' ? 3 : 0
-    for (;;) {
-      const n = readSync(fd, chunk, 0, READ_BYTES, position)
-      if (n === 0) break
-      position += n
-      reader.push(chunk.subarray(0, n))
-    }
-    return reader.finish()
   } finally {
     closeSync(fd)
   }

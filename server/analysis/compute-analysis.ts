@@ -3,7 +3,7 @@ import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import type { Exclusion } from '../../shared/schemas/datasets'
 import { analyzeNested } from '../../shared/analysis/analyze-nested'
 import type { Conn } from '../repositories/connection'
-import { loadNestedColumns } from '../services/datasets-readback.service'
+import { loadNestedColumns } from '../rows-store/read-back'
 import { buildChartData } from '../../shared/analysis/chart-data'
 
 export interface AnalysisJobInput {

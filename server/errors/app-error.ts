@@ -11,6 +11,8 @@ export type ErrorCode =
   | 'PAYLOAD_TOO_LARGE'
   | 'UNPROCESSABLE'
   | 'RATE_LIMITED'
+  | 'MISDIRECTED_REQUEST'
+  | 'SERVICE_UNAVAILABLE'
   | 'INTERNAL'
 
 export class AppError extends Error {
@@ -71,6 +73,24 @@ export class UnprocessableError extends AppError {
 export class RateLimitedError extends AppError {
   constructor(message = 'Too many attempts. Try again later.', details?: unknown) {
     super(429, 'RATE_LIMITED', message, details)
+  }
+}
+
+/** The request names a host this server does not answer for (see middleware/allowed-hosts). */
+export class MisdirectedRequestError extends AppError {
+  constructor(message: string, details?: unknown) {
+    super(421, 'MISDIRECTED_REQUEST', message, details)
+  }
+}
+
+/** A service the request needs (the database) cannot be reached; the client may try again after `retryAfterSeconds`. */
+export class ServiceUnavailableError extends AppError {
+  constructor(
+    message: string,
+    readonly retryAfterSeconds: number,
+    details?: unknown,
+  ) {
+    super(503, 'SERVICE_UNAVAILABLE', message, details)
   }
 }
 

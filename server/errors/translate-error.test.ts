@@ -38,10 +38,26 @@ describe('translateError', () => {
     expect(translateError(pgError('22P02')).status).toBe(400)
   })
 
-  it('does not mistake a Node system error code for a SQLSTATE', () => {
-    const err = translateError(Object.assign(new Error('connect ECONNREFUSED'), { code: 'ECONNREFUSED' }))
-    expect(err.status).toBe(500)
-    expect(err.code).toBe('INTERNAL')
+  it('answers 503 with a retry time when the database cannot be reached', () => {
+    const refused = translateError(
+      Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:54329'), { code: 'ECONNREFUSED' }),
+    )
+    expect(refused).toMatchObject({ status: 503, code: 'SERVICE_UNAVAILABLE', retryAfterSeconds: 5 })
+    expect(refused.message).toBe('Nestwise cannot reach its database just now. Try again in a few seconds.')
+    // PostgreSQL shutting down (57P01), starting up (57P03), a broken connection (08006), too many clients (53300).
+    for (const code of ['57P01', '57P03', '08006', '53300'])
+      expect(translateError(pgError(code)).status, code).toBe(503)
+    expect(translateError(new Error('Connection terminated unexpectedly')).status).toBe(503)
+    expect(
+      translateError(
+        Object.assign(new Error('Knex: Timeout acquiring a connection.'), { name: 'KnexTimeoutError' }),
+      ).status,
+    ).toBe(503)
+  })
+
+  it('keeps other database errors apart from an outage', () => {
+    expect(translateError(pgError('42P01')).status).toBe(500)
+    expect(translateError(pgError('23505')).status).toBe(409)
   })
 
   it('maps body-parser failures: bad JSON to 400, oversized body to 413', () => {

@@ -5,6 +5,7 @@ import {
   InternalError,
   InvalidPayloadError,
   PayloadTooLargeError,
+  ServiceUnavailableError,
 } from './app-error'
 
 export interface FieldIssue {
@@ -94,9 +95,48 @@ function translateHttpError(err: HttpLikeError & { code?: string; name?: string 
   return undefined
 }
 
+/** Seconds a client is asked to wait (Retry-After) while the database cannot be reached. */
+export const DATABASE_RETRY_SECONDS = 5
+
+// Node's words for a connection that could not be made or was cut.
+const CONNECTION_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'EPIPE',
+  'ENOTFOUND',
+  'EAI_AGAIN',
+])
+// SQLSTATE: class 08 (connection exception), the server shutting down or starting (57P01–57P03),
+// and too many connections (53300).
+const UNAVAILABLE_SQLSTATE = /^(08...|57P0[123]|53300)$/
+// node-postgres and knex say these without a code.
+const CONNECTION_MESSAGES =
+  /^(Connection terminated|Client has encountered a connection error|Client was closed and is not queryable|Knex: Timeout acquiring a connection)/
+
+/**
+ * True when the error means the database cannot be reached (down, restarting, or the network in
+ * between), rather than that it refused what was asked.
+ */
+export function isDatabaseUnavailable(err: unknown): boolean {
+  if (typeof err !== 'object' || err === null) return false
+  const { code, message, name } = err as { code?: unknown; message?: unknown; name?: unknown }
+  if (typeof code === 'string' && (CONNECTION_CODES.has(code) || UNAVAILABLE_SQLSTATE.test(code))) return true
+  if (name === 'KnexTimeoutError') return true
+  return typeof message === 'string' && CONNECTION_MESSAGES.test(message)
+}
+
 /** Map anything thrown inside a request to the error the API answers with. Unknown errors become INTERNAL. */
 export function translateError(err: unknown): AppError {
   if (err instanceof AppError) return err
+  if (isDatabaseUnavailable(err)) {
+    return new ServiceUnavailableError(
+      'Nestwise cannot reach its database just now. Try again in a few seconds.',
+      DATABASE_RETRY_SECONDS,
+    )
+  }
   if (err instanceof ZodError) {
     return new InvalidPayloadError('Some fields are not valid.', { issues: zodIssues(err) })
   }

@@ -1,6 +1,6 @@
 import type { ColumnProfile, ColumnType } from '../../shared/schemas/datasets'
 import { ByteKeyTable } from './byte-key-table'
-import { NumberShape, numberShapeOfBytes, type DecimalMark } from './number-text'
+import { NumberShape, numberShapeOfBytes, type DecimalMark } from '../rows-store/number-text'
 import { parseDecimalBytes } from './parse-decimal-bytes'
 
 /** Code stored for a missing cell in the per-row codes (as the nesting functions expect). */

@@ -30,6 +30,8 @@ export class CsvSyntaxError extends Error {
     readonly fieldIndex: number,
     readonly line: number,
     readonly length = 0,
+    /** The field had not ended where reading stopped: it is at least `length` long. */
+    readonly unfinished = false,
   ) {
     super(`${kind} at record ${recordNo}, field ${fieldIndex + 1}`)
     this.name = 'CsvSyntaxError'
@@ -155,8 +157,8 @@ export class CsvTokenizer {
     this.rowStart = 0
   }
 
-  private syntaxError(kind: CsvSyntaxKind, length = 0): CsvSyntaxError {
-    return new CsvSyntaxError(kind, this.recordsDone + 1, this.row.count, this.row.line, length)
+  private syntaxError(kind: CsvSyntaxKind, length = 0, unfinished = false): CsvSyntaxError {
+    return new CsvSyntaxError(kind, this.recordsDone + 1, this.row.count, this.row.line, length, unfinished)
   }
 
   private noteEol(style: string): void {
@@ -190,7 +192,7 @@ export class CsvTokenizer {
     const limit = this.options.maxFieldChars + slack
     if (this.length - valueStart > limit) {
       const length = utf16Length(this.buffer, valueStart, this.length)
-      if (length > limit) throw this.syntaxError('field-too-long', length)
+      if (length > limit) throw this.syntaxError('field-too-long', length, true)
     }
     this.resumeAt = fieldStart
   }

@@ -1,5 +1,5 @@
 import { CsvTokenizer, fieldText } from './csv-tokenizer'
-import type { DecimalMark } from './number-text'
+import type { DecimalMark } from '../rows-store/number-text'
 
 /*
  * Kept apart from sniff.ts (which also detects encodings) so the command line can guess a table's

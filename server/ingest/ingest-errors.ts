@@ -10,6 +10,8 @@ export type BadFileReason =
   | 'WORKBOOK_AS_TEXT'
   | 'OLD_EXCEL_FORMAT'
   | 'BROKEN_WORKBOOK'
+  | 'ENCRYPTED_WORKBOOK'
+  | 'WORKBOOK_LIMIT'
   | 'SHEET_NOT_FOUND'
   | 'RAGGED_ROW'
   | 'BLANK_ROW'
@@ -31,6 +33,8 @@ export interface BadFileDetails {
   column?: string
   /** 1-based column position. */
   columnNumber?: number
+  /** Which workbook limit was hit (see ingestConfig.workbook): partBytes, totalBytes, statedSize, … */
+  limit?: string
 }
 
 /** A file that cannot be stored as a table: 400 with the row and column in the message and details. */

@@ -1,14 +1,14 @@
 import { createReadStream } from 'node:fs'
 import { open } from 'node:fs/promises'
 import type { Knex } from 'knex'
-import { ingestConfig } from './ingest-config'
+import { ingestConfig, type WorkbookLimits } from './ingest-config'
 import { sniffFile, SNIFF_BYTES, type TextSniff } from './sniff'
-import type { ChunkChannel } from './chunk-channel'
-import { FastPathBlocked, NotUtf8, storeCsv, type ByteSource, type CsvMode } from './store-csv'
+import { FastPathBlocked, storeCsv, type ByteSource, type CsvMode } from './store-csv'
+import { NotUtf8 } from './text-decoding'
 import { storeWorkbook } from './store-workbook'
 import type { IntakeLimits, IntakeResult } from './table-intake'
-import type { ProgressSink } from './upload-progress'
-import type { DecimalMark } from './number-text'
+import type { ProgressSink } from './progress-sink'
+import type { DecimalMark } from '../rows-store/number-text'
 
 export interface UploadedFile {
   /** Where the complete file is (for a live upload: where it is being written). */
@@ -19,9 +19,17 @@ export interface UploadedFile {
   live?: LiveUpload
 }
 
+/** The chunks of an upload still in transfer, as the intake hands them over (uploads/chunk-channel). */
+export interface LiveChunks extends AsyncIterable<Buffer> {
+  /** The first `bytes` bytes (fewer when the file is shorter: then `complete`), without consuming them. */
+  peek(bytes: number): Promise<{ head: Buffer; complete: boolean }>
+  /** Stops taking chunks: the transfer goes on to disk only. */
+  detach(): void
+}
+
 /** An upload still in transfer: its chunks as they arrive, and the go-ahead once it completed. */
 export interface LiveUpload {
-  channel: ChunkChannel
+  channel: LiveChunks
   /** Resolves with the final size when the whole file is on disk and the request was accepted; rejects otherwise. */
   accepted: Promise<number>
 }
@@ -81,7 +89,7 @@ export async function ingestFile(
   trx: Knex.Transaction,
   versionId: number,
   file: UploadedFile,
-  options: { sheet?: string; limits?: IntakeLimits; progress: ProgressSink },
+  options: { sheet?: string; limits?: IntakeLimits; workbookLimits?: WorkbookLimits; progress: ProgressSink },
 ): Promise<IngestOutcome> {
   const limits = options.limits ?? defaultLimits()
   const live = file.live
@@ -104,7 +112,14 @@ export async function ingestFile(
     if (sniff.fileType === 'xlsx') {
       if (live) await fromDisk()
       const stored = await trx.transaction((sp) =>
-        storeWorkbook(sp, versionId, file.path, options.sheet, limits, options.progress),
+        storeWorkbook(sp, {
+          versionId,
+          path: file.path,
+          sheet: options.sheet,
+          limits,
+          workbookLimits: options.workbookLimits ?? ingestConfig.workbook,
+          progress: options.progress,
+        }),
       )
       return {
         ...stored,

@@ -44,6 +44,8 @@ describe('sniffFile', () => {
     expect(refusalReason(Buffer.from('PK\u0003\u0004rest'))).toBe('WORKBOOK_AS_TEXT')
     expect(refusalReason(Buffer.from([0xd0, 0xcf, 0x11, 0xe0, 1, 2]))).toBe('OLD_EXCEL_FORMAT')
     expect(refusalReason(Buffer.from('a,b\n'), 'x.xlsx')).toBe('BROKEN_WORKBOOK')
+    // An .xlsx saved with a password is an encrypted compound file, not a zip.
+    expect(refusalReason(Buffer.from([0xd0, 0xcf, 0x11, 0xe0, 1, 2]), 'x.xlsx')).toBe('ENCRYPTED_WORKBOOK')
     expect(refusalReason(Buffer.from('a,b\n'), 'x.pdf')).toBe('UNSUPPORTED_FILE_TYPE')
     expect(refusalReason(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0, 0, 0, 13, 1, 2, 3, 0, 0]))).toBe(
       'BINARY_FILE',

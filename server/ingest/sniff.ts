@@ -3,7 +3,7 @@ import iconv from 'iconv-lite'
 import jschardet from 'jschardet'
 import { guessDecimalMark, guessDelimiter } from './guess-delimiter'
 import { badFile } from './ingest-errors'
-import type { DecimalMark } from './number-text'
+import type { DecimalMark } from '../rows-store/number-text'
 
 /** Bytes read from the start of a file to decide how to read the rest. */
 export const SNIFF_BYTES = 64 * 1024
@@ -52,6 +52,13 @@ export function sniffFile(head: Buffer, filename: string, totalBytes: number): S
   const ext = extname(filename).toLowerCase()
   const isZip = startsWith(head, [0x50, 0x4b, 0x03, 0x04])
   const isOle = startsWith(head, [0xd0, 0xcf, 0x11, 0xe0])
+  // A workbook saved with a password is wrapped, encrypted, in the older compound-file container.
+  if (ext === '.xlsx' && isOle) {
+    throw badFile(
+      'ENCRYPTED_WORKBOOK',
+      `"${filename}" is protected with a password. Save it again without a password, or export the sheet as CSV, then upload that.`,
+    )
+  }
   if (ext === '.xls' || isOle) {
     throw badFile(
       'OLD_EXCEL_FORMAT',

@@ -1,21 +1,17 @@
 import { createHash } from 'node:crypto'
 import { finished } from 'node:stream/promises'
-import iconv from 'iconv-lite'
 import type { Knex } from 'knex'
-import { createRowsTable, openCopyIn } from '../repositories/datasets-rows.repo'
-import { CopyTextBuilder } from './copy-text'
+import { createRowsTable, openCopyIn } from '../rows-store/rows-tables'
+import { CopyTextBuilder } from '../rows-store/copy-text'
 import { CsvSyntaxError, CsvTokenizer } from './csv-tokenizer'
 import { badFile, describeColumn } from './ingest-errors'
 import type { TextSniff } from './sniff'
 import { TableIntake, type IntakeLimits, type IntakeResult } from './table-intake'
-import type { ProgressSink } from './upload-progress'
-import { Utf8Chunks } from './utf8-chunks'
+import type { ProgressSink } from './progress-sink'
+import { toUtf8 } from './text-decoding'
 
 /** The original bytes could not go to PostgreSQL as they are; store parsed rows instead. */
 export class FastPathBlocked extends Error {}
-
-/** The file is not valid UTF-8 after all (the sample was); read it again as Windows-1252. */
-export class NotUtf8 extends Error {}
 
 export type CsvMode = 'original-bytes' | 'parsed-rows'
 
@@ -26,38 +22,6 @@ export interface ByteSource {
   chunks(): AsyncIterable<Buffer>
   /** Exact size on disk, or the size announced by the request while the upload is in transfer. */
   expectedBytes: number
-}
-
-/** Turns the file's bytes into UTF-8 bytes (the CSV reader's input and what COPY is told to expect). */
-interface ToUtf8 {
-  write(bytes: Buffer): Buffer
-  end(): Buffer
-}
-
-// Transcoded in small pieces: V8 keeps strings under ~128 KB in its young generation, whose memory
-// is reused, while each larger string takes fresh pages (several times slower on this machine).
-const DECODE_BYTES = 64 * 1024
-
-function toUtf8(encoding: string): ToUtf8 {
-  if (encoding === 'utf-8') {
-    // Already UTF-8: only checked, never copied (a chunk may be joined with a character cut short before it).
-    const checker = new Utf8Chunks()
-    const valid = (bytes: Buffer | null) => {
-      if (bytes === null) throw new NotUtf8()
-      return bytes
-    }
-    return { write: (bytes) => valid(checker.write(bytes)), end: () => valid(checker.end()) }
-  }
-  const decoder = iconv.getDecoder(encoding)
-  return {
-    write: (bytes) => {
-      const pieces: Buffer[] = []
-      for (let at = 0; at < bytes.length; at += DECODE_BYTES)
-        pieces.push(Buffer.from(decoder.write(bytes.subarray(at, at + DECODE_BYTES)), 'utf8'))
-      return Buffer.concat(pieces)
-    },
-    end: () => Buffer.from(decoder.end() ?? '', 'utf8'),
-  }
 }
 
 const CR = 0x0d
@@ -101,7 +65,12 @@ function syntaxToBadFile(error: CsvSyntaxError, intake: TableIntake, limits: Int
         { row, column: name, columnNumber: error.fieldIndex + 1 },
       )
     case 'field-too-long':
-      return intake.fieldTooLong(row, error.fieldIndex, Math.max(error.length, limits.maxFieldChars + 1))
+      return intake.fieldTooLong(
+        row,
+        error.fieldIndex,
+        Math.max(error.length, limits.maxFieldChars + 1),
+        error.unfinished,
+      )
     case 'too-many-fields':
       return row === 1
         ? badFile(

@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest'
 import { AppError } from '../errors/app-error'
 import seedrandom from 'seedrandom'
 import { CsvTokenizer } from './csv-tokenizer'
-import { isIntegerText, parseNumberText, trimCell } from './number-text'
-import { TableIntake } from './table-intake'
+import { isIntegerText, parseNumberText, trimCell } from '../rows-store/number-text'
+import { headerName, TableIntake } from './table-intake'
 
 const limits = {
   maxColumns: 5,
@@ -28,6 +28,28 @@ function refusal(rows: (string | null)[][]): AppError {
   }
   throw new Error('expected the table to be refused')
 }
+
+describe('header names', () => {
+  it('lose quotes wrapped around the whole name, as an export leaves them', () => {
+    const result = intakeOf([
+      [' "lab"', '""mouse""', '“soma area”', "'cell'", 'a "b" c'],
+      ['Nimbus', 'm1', '1.5', 'c1', 'x'],
+      ['Fernhill', 'm2', '2.5', 'c2', 'y'],
+    ])
+    expect(result.columnNames).toEqual(['lab', 'mouse', 'soma area', 'cell', 'a "b" c'])
+    expect(headerName('"')).toBe('"')
+  })
+
+  it('are checked for duplicates after the quotes go', () => {
+    expect(
+      refusal([
+        ['lab', '"lab"'],
+        ['a', 'b'],
+        ['c', 'd'],
+      ]).details,
+    ).toMatchObject({ reason: 'DUPLICATE_HEADER' })
+  })
+})
 
 describe('TableIntake', () => {
   it('profiles types, missing values, distinct counts, range, mean and SD', () => {

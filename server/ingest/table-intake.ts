@@ -3,7 +3,7 @@ import type { ColumnProfile, NestingSuggestion } from '../../shared/schemas/data
 import { ColumnProfiler, type ColumnCodes, type ProfilerOptions } from './column-profiler'
 import { rowFields, type CsvRow } from './csv-tokenizer'
 import { badFile, describeColumn, thinFile } from './ingest-errors'
-import type { DecimalMark } from './number-text'
+import type { DecimalMark } from '../rows-store/number-text'
 
 export interface IntakeLimits {
   maxColumns: number
@@ -24,6 +24,30 @@ export interface IntakeResult {
 }
 
 const formatCount = (n: number) => n.toLocaleString('en-US')
+
+const WRAPPING_QUOTES: [string, string][] = [
+  ['"', '"'],
+  ["'", "'"],
+  ['\u201c', '\u201d'],
+  ['\u201e', '\u201c'],
+  ['\u00ab', '\u00bb'],
+]
+
+/**
+ * A header cell as a column name: trimmed, and without quotes wrapped around the whole name. A
+ * name arrives quoted when the quotes were not read as CSV quoting (a space before the opening
+ * quote, quotes doubled once too often by an export, quotes typed into a spreadsheet cell).
+ */
+export function headerName(raw: string | null): string {
+  let name = (raw ?? '').trim()
+  for (;;) {
+    const pair = WRAPPING_QUOTES.find(
+      ([open, close]) => name.length >= 2 && name.startsWith(open) && name.endsWith(close),
+    )
+    if (!pair) return name
+    name = name.slice(pair[0].length, name.length - pair[1].length).trim()
+  }
+}
 
 /**
  * Receives the rows of a table (from CSV or XLSX), checks the header and the shape of every row,
@@ -95,7 +119,7 @@ export class TableIntake {
     const names: string[] = []
     const firstIndex = new Map<string, number>()
     values.forEach((raw, k) => {
-      const name = (raw ?? '').trim()
+      const name = headerName(raw)
       if (name === '') {
         const onlyColumn = values.length === 1
         throw badFile(
@@ -145,11 +169,16 @@ export class TableIntake {
     )
   }
 
-  fieldTooLong(row: number, index: number, length: number): never {
+  /** `unfinished`: reading stopped inside the value, so its whole length is not known. */
+  fieldTooLong(row: number, index: number, length: number, unfinished = false): never {
     const name = this.columnNames?.[index]
+    const limit = formatCount(this.limits.maxFieldChars)
+    const size = unfinished
+      ? `the value is longer than ${limit} characters, the limit (reading stopped there)`
+      : `the value is ${formatCount(length)} characters long; the limit is ${limit}`
     throw badFile(
       'FIELD_TOO_LONG',
-      `Row ${row}, ${describeColumn(index, name)}: the value is ${formatCount(length)} characters long; the limit is ${formatCount(this.limits.maxFieldChars)}. This often means a quote is never closed.`,
+      `Row ${row}, ${describeColumn(index, name)}: ${size}. This often means a quote is never closed.`,
       { row, column: name, columnNumber: index + 1 },
     )
   }

@@ -1,4 +1,5 @@
 import type { RequestHandler } from 'express'
+import { membershipIn } from '../../shared/access'
 import type { Role } from '../../shared/schemas/auth'
 import { ForbiddenError, NotFoundError, UnauthenticatedError } from '../errors/app-error'
 
@@ -34,7 +35,7 @@ export function requireLabRole(roles: readonly Role[] | 'any', options: LabRoleO
     if (!user) throw new UnauthenticatedError()
     const labId = Number(req.params[param])
     if (options.allowAdmin && user.isAdmin) return next()
-    const membership = Number.isInteger(labId) ? user.memberships.find((m) => m.labId === labId) : undefined
+    const membership = Number.isInteger(labId) ? membershipIn(user, labId) : undefined
     if (!membership) throw new NotFoundError('Lab not found.')
     if (roles !== 'any' && !roles.includes(membership.role)) {
       throw new ForbiddenError(`This needs the role ${roles.join(' or ')} in ${membership.labName}.`, {

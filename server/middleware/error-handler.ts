@@ -1,5 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express'
-import { NotFoundError } from '../errors/app-error'
+import { NotFoundError, ServiceUnavailableError } from '../errors/app-error'
 import { translateError } from '../errors/translate-error'
 import { logger } from '../logger'
 
@@ -17,7 +17,10 @@ export function notFound(): RequestHandler {
 export function errorHandler(): ErrorRequestHandler {
   return (err, req, res, next) => {
     const appError = translateError(err)
-    if (appError.status >= 500) {
+    if (appError instanceof ServiceUnavailableError) {
+      // Expected while the database restarts; one line, not a stack per request.
+      logger.warn('request answered 503', { requestId: req.id, path: req.originalUrl, reason: String(err) })
+    } else if (appError.status >= 500) {
       logger.error('request failed', { requestId: req.id, method: req.method, path: req.originalUrl, err })
     }
     if (res.headersSent) {
@@ -25,6 +28,8 @@ export function errorHandler(): ErrorRequestHandler {
       return next(err)
     }
     const details = appError.status >= 500 ? { requestId: req.id } : appError.details
+    if (appError instanceof ServiceUnavailableError)
+      res.setHeader('Retry-After', String(appError.retryAfterSeconds))
     res.status(appError.status).json({
       error: {
         code: appError.code,

@@ -19,7 +19,8 @@ function originOf(url: string | undefined): string | undefined {
  * every non-GET request must come from one of our own origins (Origin header, or Referer when a
  * browser omits Origin) and carry `X-Requested-With: nestwise`. A cross-site form cannot set that
  * header, and a cross-site script cannot without a CORS pre-flight, which this API never grants.
- * `allowedOrigins` are added to the origin the request itself was addressed to (its Host).
+ * `allowedOrigins` are added to the origin the request itself was addressed to (its Host, which
+ * middleware/allowed-hosts has checked against our own names before this runs).
  */
 export function requireSameOriginWrites(allowedOrigins: readonly string[]): RequestHandler {
   const allowed = new Set(allowedOrigins.map((o) => originOf(o)).filter((o): o is string => Boolean(o)))

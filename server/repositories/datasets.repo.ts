@@ -428,3 +428,18 @@ export async function listColumns(versionId: number, conn: Conn = defaultConn): 
     topValues: r.top_values,
   }))
 }
+
+/** Marks a dataset as changed now (the list sorts by it). */
+export async function touchDataset(id: number, conn: Conn = defaultConn): Promise<void> {
+  await conn('datasets').where({ id }).update({ updated_at: conn.fn.now() })
+}
+
+/** Locks a version's row until the transaction ends, so changes to its exclusions happen one at a time. */
+export async function lockVersion(id: number, conn: Conn): Promise<void> {
+  await conn('dataset_versions').where({ id }).forUpdate().first('id')
+}
+
+/** Takes the lock that keeps two processes from sweeping leftovers at once (until the transaction ends). */
+export async function lockLeftoverSweep(conn: Conn): Promise<void> {
+  await conn.raw('SELECT pg_advisory_xact_lock(hashtext(?))', ['nestwise-dataset-sweep'])
+}

@@ -171,3 +171,18 @@ export async function findSharedVersionFacts(versionId: number, conn: Conn = def
     chart: row.chart ? readStoredChart(row.chart) : null,
   }
 }
+
+/**
+ * Counts an opening of the link by `visitor` in the current hour; true when it is the visitor's
+ * first opening of that hour. Visits older than two days are forgotten on the way.
+ */
+export async function recordShareLinkVisit(linkId: number, visitor: string, conn: Conn): Promise<boolean> {
+  await conn('share_link_visits').where('hour', '<', conn.raw("now() - interval '2 days'")).delete()
+  const result = await conn.raw(
+    `INSERT INTO share_link_visits (share_link_id, visitor, hour) VALUES (?, ?, date_trunc('hour', now()))
+     ON CONFLICT (share_link_id, visitor, hour) DO UPDATE SET opens = share_link_visits.opens + 1
+     RETURNING opens`,
+    [linkId, visitor],
+  )
+  return (result.rows as { opens: number }[])[0].opens === 1
+}

@@ -1,4 +1,5 @@
-import { defaultConn, type Conn } from './connection'
+import type { Membership } from '../../shared/schemas/auth'
+import { defaultConn, preparedQuery, type Conn } from './connection'
 
 export interface User {
   id: number
@@ -89,4 +90,29 @@ export async function insertUser(user: NewUser, conn: Conn = defaultConn): Promi
 
 export async function softDeleteUser(id: number, conn: Conn = defaultConn): Promise<void> {
   await conn('users').where({ id }).update({ deleted_at: conn.fn.now(), updated_at: conn.fn.now() })
+}
+
+/** A user with their lab memberships (lab name order), as every signed-in request needs them. */
+export interface UserWithMemberships extends User {
+  memberships: Membership[]
+}
+
+// One round trip, planned once per connection: it runs on every signed-in request.
+const selectUserWithMemberships = preparedQuery<PublicUserRow & { memberships: Membership[] }>(
+  'users.with-memberships',
+  `SELECT u.id, u.email, u.name, u.is_admin, u.created_at, u.updated_at,
+          coalesce((SELECT json_agg(json_build_object('labId', m.lab_id, 'labName', l.name, 'role', m.role)
+                                    ORDER BY l.name, m.lab_id)
+                      FROM memberships m JOIN labs l ON l.id = m.lab_id
+                     WHERE m.user_id = u.id), '[]'::json) AS memberships
+     FROM users u
+    WHERE u.id = $1 AND u.deleted_at IS NULL`,
+)
+
+export async function findActiveUserWithMemberships(
+  id: number,
+  conn: Conn = defaultConn,
+): Promise<UserWithMemberships | undefined> {
+  const [row] = await selectUserWithMemberships([id], conn)
+  return row ? { ...toUser(row), memberships: row.memberships } : undefined
 }

@@ -6,8 +6,7 @@ import { SESSION_COOKIE, cookieOptions, type CookieSettings } from '../auth/sess
 import { UnauthenticatedError } from '../errors/app-error'
 import { requireUser } from '../middleware/auth'
 import { validate } from '../middleware/validate'
-import { db } from '../db'
-import { recordAudit } from '../services/audit.service'
+import { recordFailedSignIn, recordSignIn, recordSignOut } from '../services/auth.service'
 
 export interface AuthRoutesOptions {
   passport: ReturnType<typeof createPassport>
@@ -23,22 +22,18 @@ export function authRoutes({ passport, loginLimits, cookie }: AuthRoutesOptions)
     const user = await authenticateWithPassword(passport, req, res)
     // One message for unknown email and wrong password: it must not reveal which accounts exist.
     if (!user) {
-      await recordAudit(db, {
-        action: 'auth.sign_in_failed',
-        actorUserId: null,
-        details: { email: (req.body as LoginRequest).email },
-      })
+      await recordFailedSignIn((req.body as LoginRequest).email)
       throw new UnauthenticatedError('The email or password is not right.')
     }
     await logIn(req, user)
-    await recordAudit(db, { action: 'auth.signed_in', actorUserId: user.id })
+    await recordSignIn(user.id)
     res.json({ data: user })
   })
 
   router.post('/logout', async (req, res) => {
     const userId = req.user?.id
     await destroySession(req)
-    if (userId !== undefined) await recordAudit(db, { action: 'auth.signed_out', actorUserId: userId })
+    if (userId !== undefined) await recordSignOut(userId)
     res.clearCookie(SESSION_COOKIE, cookieOptions(cookie))
     res.status(204).end()
   })

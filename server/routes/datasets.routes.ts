@@ -1,9 +1,4 @@
-import { mkdirSync } from 'node:fs'
-import { rm } from 'node:fs/promises'
-import { randomBytes } from 'node:crypto'
-import { extname } from 'node:path'
-import { Router, type ErrorRequestHandler, type Request, type RequestHandler, type Response } from 'express'
-import multer from 'multer'
+import { Router, type Request } from 'express'
 import {
   DatasetListQuery,
   DatasetParams,
@@ -13,23 +8,15 @@ import {
   ExclusionParams,
   RowsQuery,
   TaggingInput,
-  UPLOAD_TOKEN_HEADER,
   UploadTokenParams,
   VersionParams,
   VersionUploadFields,
 } from '../../shared/schemas/datasets'
-import { InvalidPayloadError, NotFoundError, PayloadTooLargeError } from '../errors/app-error'
-import { translateError } from '../errors/translate-error'
-import { ChunkChannel } from '../ingest/chunk-channel'
-import { ingestConfig } from '../ingest/ingest-config'
-import { liveDiskStorage } from '../ingest/live-upload-storage'
-import type { UploadedFile } from '../ingest/ingest-file'
+import { NotFoundError } from '../errors/app-error'
 import { originalPath } from '../ingest/original-store'
-import { noProgress, uploadProgress, type ProgressSink } from '../ingest/upload-progress'
 import { logger } from '../logger'
 import { requireUser } from '../middleware/auth'
 import { validate } from '../middleware/validate'
-import { versionFor } from '../services/datasets-access.service'
 import {
   addExclusion,
   listVersionExclusions,
@@ -47,9 +34,12 @@ import {
   getDatasetDetail,
   getVersionDetail,
   listDatasetsFor,
+  originalOf,
   restoreDataset,
   updateDatasetFor,
 } from '../services/datasets.service'
+import { uploadRoute } from '../uploads/upload-intake'
+import { uploadProgress } from '../uploads/upload-progress'
 
 let sweptOnce = false
 
@@ -67,165 +57,6 @@ function sweepOnce(): void {
   })
 }
 
-/** Text tables are ingested while they arrive; workbooks are read once on disk (their zip needs the whole file). */
-const LIVE_EXTENSIONS = new Set(['.csv', '.tsv', '.tab', '.txt'])
-
-/** Random names: the original name is kept in the database, never used as a path. */
-const tempName = (file: Express.Multer.File) =>
-  `${Date.now()}-${randomBytes(8).toString('hex')}${extname(file.originalname).toLowerCase().slice(0, 8)}`
-
-/**
- * An upload being ingested while it arrives: the storing runs alongside the transfer and waits,
- * before it commits, for the request to complete (`accept`) — or gives up when it fails (`reject`).
- */
-interface LiveIngest {
-  channel: ChunkChannel
-  accept: (size: number) => void
-  reject: (error: Error) => void
-  result: Promise<unknown>
-}
-
-/**
- * The route's use case for an upload that may run live: `begin` checks the text fields that came
- * before the file and returns the work to start, or null to wait for the whole file instead.
- */
-type LiveStarter = (req: Request) => ((file: UploadedFile, progress: ProgressSink) => Promise<unknown>) | null
-
-function uploadMiddleware(begin: LiveStarter): RequestHandler {
-  mkdirSync(ingestConfig.uploadsDir, { recursive: true })
-  const upload = multer({
-    storage: liveDiskStorage(ingestConfig.uploadsDir, tempName, (req, file, path) => {
-      if (!LIVE_EXTENSIONS.has(extname(file.originalname).toLowerCase())) return null
-      const work = begin(req)
-      if (!work) return null
-      const res = req.res!
-      const channel = new ChunkChannel()
-      let accept!: (size: number) => void
-      let reject!: (error: Error) => void
-      const accepted = new Promise<number>((resolve, fail) => {
-        accept = resolve
-        reject = fail
-      })
-      accepted.catch(() => {})
-      const size = Number(req.get('content-length')) || 0
-      const result = runUpload(res, (progress) =>
-        work({ path, originalName: file.originalname, size, live: { channel, accepted } }, progress),
-      )
-      // Awaited by the route handler; this only keeps an early failure from counting as unhandled.
-      result.catch(() => {})
-      res.locals.live = { channel, accept, reject, result } satisfies LiveIngest
-      return channel
-    }),
-    limits: { fileSize: ingestConfig.uploadMaxBytes, files: 1, fields: 20, fieldSize: 16 * 1024, parts: 25 },
-  }).single('file')
-  return (req, res, next) => {
-    upload(req, res, (err?: unknown) => {
-      if (!err) return next()
-      const code = (err as { code?: string }).code
-      if (code === 'LIMIT_FILE_SIZE') {
-        return next(
-          new PayloadTooLargeError(
-            `The file is larger than the upload limit of ${ingestConfig.uploadMaxMb} MB. Split it, or ask the administrator to raise UPLOAD_MAX_MB.`,
-            { limitMb: ingestConfig.uploadMaxMb },
-          ),
-        )
-      }
-      const message = (err as { message?: string }).message
-      if (message === 'Request aborted' || message === 'Request closed')
-        return next(new InvalidPayloadError('The upload was cancelled before it was stored.'))
-      if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT')
-        return next(new InvalidPayloadError('Send one file, in the form field “file”.'))
-      next(err)
-    })
-  }
-}
-
-/** Starts progress reporting when the client sent an upload token (X-Upload-Token). */
-const startProgress: RequestHandler = (req, res, next) => {
-  const token = req.get(UPLOAD_TOKEN_HEADER)
-  if (token !== undefined) {
-    if (!UploadTokenParams.shape.token.safeParse(token).success)
-      throw new InvalidPayloadError('The upload token must be 8–64 letters, digits, - or _.')
-    res.locals.uploadToken = token
-    res.locals.progress = uploadProgress.start(token, req.user!.id, Number(req.get('content-length')) || 0)
-  }
-  next()
-}
-
-function finishProgress(req: Request, res: Response, error: unknown | null): void {
-  const token = res.locals.uploadToken as string | undefined
-  if (!token) return
-  uploadProgress.finish(
-    token,
-    req.user!.id,
-    error ? 'failed' : 'done',
-    error ? translateError(error).message : null,
-  )
-}
-
-/** A failed multipart transfer stops a live ingest (nothing is stored) and is reported to the progress entry. */
-const failProgress: ErrorRequestHandler = (err, req, res, next) => {
-  const live = res.locals.live as LiveIngest | undefined
-  if (live) {
-    const error = err instanceof Error ? err : new Error(String(err))
-    live.channel.fail(error)
-    live.reject(error)
-  }
-  finishProgress(req, res, err)
-  next(err)
-}
-
-function uploadedFile(req: Request): UploadedFile {
-  if (!req.file) throw new InvalidPayloadError('Choose a file to upload (form field “file”).')
-  return { path: req.file.path, originalName: req.file.originalname, size: req.file.size }
-}
-
-/** Runs an upload's use case with progress reporting and cancellation when the uploader goes away. */
-async function runUpload<T>(res: Response, work: (progress: ProgressSink) => Promise<T>): Promise<T> {
-  const reported = (res.locals.progress as ProgressSink | undefined) ?? noProgress
-  // A closed connection before the answer means the uploader cancelled: stop, roll back, store nothing.
-  const cancel = new AbortController()
-  const onClose = () => {
-    if (!res.writableEnded)
-      cancel.abort(new InvalidPayloadError('The upload was cancelled before it was stored.'))
-  }
-  res.on('close', onClose)
-  try {
-    return await work({ update: (change) => reported.update(change), signal: cancel.signal })
-  } finally {
-    res.off('close', onClose)
-  }
-}
-
-/**
- * After multer: lets a live ingest commit and waits for it, or runs the use case on the complete
- * file. Reports the end to the progress entry and removes the temp file whatever happens.
- */
-async function completeUpload<T>(
-  req: Request,
-  res: Response,
-  work: (file: UploadedFile, progress: ProgressSink) => Promise<T>,
-): Promise<T> {
-  const live = res.locals.live as LiveIngest | undefined
-  try {
-    let result: T
-    if (live) {
-      live.accept(req.file?.size ?? 0)
-      result = (await live.result) as T
-    } else {
-      const file = uploadedFile(req)
-      result = await runUpload(res, (progress) => work(file, progress))
-    }
-    finishProgress(req, res, null)
-    return result
-  } catch (error) {
-    finishProgress(req, res, error)
-    throw error
-  } finally {
-    if (req.file) await rm(req.file.path, { force: true })
-  }
-}
-
 /**
  * /api/v1/datasets — upload, list, preview, tag, exclude. Documented in docs/api-datasets.md.
  * Uploads are parsed and stored within the request (201 when ready, 4xx naming row and column when
@@ -235,20 +66,6 @@ export function datasetsRoutes(): Router {
   sweepOnce()
   const router = Router()
   router.use(requireUser)
-  // Fields sent before the file (as the client does) let the ingest start while the file arrives.
-  const createLive: LiveStarter = (req) => {
-    const fields = DatasetUploadFields.safeParse(req.body ?? {})
-    if (!fields.success) return null
-    return (file, progress) => createDatasetFromUpload(req.user!, fields.data, file, progress)
-  }
-  const versionLive: LiveStarter = (req) => {
-    const fields = VersionUploadFields.safeParse(req.body ?? {})
-    if (!fields.success) return null
-    return (file, progress) =>
-      addVersionFromUpload(req.user!, Number(req.params.datasetId), fields.data.sheet, file, progress)
-  }
-  const uploadDatasetFile = uploadMiddleware(createLive)
-  const uploadVersionFile = uploadMiddleware(versionLive)
 
   router.get('/uploads/:token', validate({ params: UploadTokenParams }), (req, res) => {
     const progress = uploadProgress.get(req.params.token as string, req.user!.id)
@@ -261,13 +78,13 @@ export function datasetsRoutes(): Router {
     res.json({ data: await listDatasetsFor(req.user!, query) })
   })
 
-  router.post('/', startProgress, uploadDatasetFile, failProgress, async (req: Request, res: Response) => {
-    const detail = await completeUpload(req, res, async (file, progress) => {
-      const fields = DatasetUploadFields.parse(req.body ?? {})
-      return createDatasetFromUpload(req.user!, fields, file, progress)
-    })
-    res.status(201).json({ data: detail })
-  })
+  router.post(
+    '/',
+    ...uploadRoute({
+      fields: DatasetUploadFields,
+      store: (req, fields, file, progress) => createDatasetFromUpload(req.user!, fields, file, progress),
+    }),
+  )
 
   router.get('/:datasetId', validate({ params: DatasetParams }), async (req, res) => {
     res.json({ data: await getDatasetDetail(req.user!, Number(req.params.datasetId)) })
@@ -289,16 +106,11 @@ export function datasetsRoutes(): Router {
   router.post(
     '/:datasetId/versions',
     validate({ params: DatasetParams }),
-    startProgress,
-    uploadVersionFile,
-    failProgress,
-    async (req: Request, res: Response) => {
-      const detail = await completeUpload(req, res, async (file, progress) => {
-        const fields = VersionUploadFields.parse(req.body ?? {})
-        return addVersionFromUpload(req.user!, Number(req.params.datasetId), fields.sheet, file, progress)
-      })
-      res.status(201).json({ data: detail })
-    },
+    ...uploadRoute({
+      fields: VersionUploadFields,
+      store: (req, fields, file, progress) =>
+        addVersionFromUpload(req.user!, Number(req.params.datasetId), fields.sheet, file, progress),
+    }),
   )
 
   const version = (req: Request) =>
@@ -392,7 +204,7 @@ export function datasetsRoutes(): Router {
     '/:datasetId/versions/:versionNo/original',
     validate({ params: VersionParams }),
     async (req, res) => {
-      const { version: found } = await versionFor(...version(req), 'read')
+      const found = await originalOf(...version(req))
       await new Promise<void>((resolve, reject) => {
         res.download(originalPath(found.sha256), found.originalFilename, { dotfiles: 'allow' }, (err) => {
           if (!err) return resolve()

@@ -2,10 +2,8 @@ import { Router, type RequestHandler } from 'express'
 import { InvitationAccept, InvitationTokenBody } from '../../shared/schemas/invitations'
 import { logIn } from '../auth/passport'
 import { validate } from '../middleware/validate'
-import { recordAudit } from '../services/audit.service'
-import { loadCurrentUser } from '../services/auth.service'
+import { loadCurrentUser, recordSignIn } from '../services/auth.service'
 import { acceptInvitation, previewInvitation } from '../services/invitations.service'
-import { db } from '../db'
 
 export interface InvitationsRoutesOptions {
   /** The sign-in rate limits: accepting may check a password, and failed tries count. */
@@ -29,11 +27,7 @@ export function invitationsRoutes({ limits }: InvitationsRoutesOptions): Router 
     const user = (await loadCurrentUser(outcome.userId))!
     if (!req.user) {
       await logIn(req, user)
-      await recordAudit(db, {
-        action: 'auth.signed_in',
-        actorUserId: user.id,
-        details: { via: 'invitation' },
-      })
+      await recordSignIn(user.id, 'invitation')
     }
     res.json({ data: { user, labId: outcome.labId, labName: outcome.labName, role: outcome.role } })
   })

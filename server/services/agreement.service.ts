@@ -4,9 +4,9 @@ import { EngineInputError } from '../../shared/stats/engine-input-error'
 import { labAgreement } from '../../shared/analysis/lab-agreement'
 import { crossFactors, referenceCell } from '../analysis/design-cells'
 import { NotFoundError, UnprocessableError } from '../errors/app-error'
-import { findAnalysis, findAnalysisVersion } from '../repositories/analyses.repo'
-import { membershipIn } from './datasets-access.service'
-import { loadNestedColumns } from './datasets-readback.service'
+import { findAnalysisVersion } from '../repositories/analyses.repo'
+import { readable } from '../access/records'
+import { loadNestedColumns } from '../rows-store/read-back'
 
 /**
  * Agreement between the outermost units (labs) of a finished analysis version, recomputed from
@@ -19,8 +19,7 @@ export async function agreementFor(
   analysisId: number,
   versionNo: number,
 ): Promise<AgreementResult> {
-  const analysis = await findAnalysis(analysisId)
-  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
+  await readable(user, 'analysis', analysisId)
   const version = await findAnalysisVersion(analysisId, versionNo)
   if (!version) throw new NotFoundError(`Version ${versionNo} of this analysis not found.`)
   if (version.status !== 'done') throw new UnprocessableError('This analysis version has not finished yet.')

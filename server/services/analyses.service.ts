@@ -14,10 +14,9 @@ import type { CurrentUser } from '../../shared/schemas/auth'
 import { ENGINE_VERSION } from '../../shared/stats/engine-version'
 import { unitsCsv, csvFilename } from '../analysis/units-csv'
 import { db } from '../db'
-import { ConflictError, ForbiddenError, NotFoundError, UnprocessableError } from '../errors/app-error'
+import { ConflictError, NotFoundError, UnprocessableError } from '../errors/app-error'
 import { wakeAnalysisRunner } from '../jobs/analysis-runner'
 import {
-  findAnalysis,
   findAnalysisVersion,
   findAnalysisVersionResult,
   findAnalysisVersionStatus,
@@ -27,7 +26,6 @@ import {
   listAnalysisVersions,
   lockAnalysisForNewVersion,
   renameAnalysis,
-  type AnalysisRecord,
   type AnalysisVersionRecord,
   type RecordedExclusion,
 } from '../repositories/analyses.repo'
@@ -42,46 +40,14 @@ import {
   mergeSettings,
   settingsFromTagging,
 } from './analysis-settings.service'
-import { datasetFor, membershipIn, readableLabIds, WRITER_ROLES } from './datasets-access.service'
+import { canWrite, readableLabIds } from '../../shared/access'
+import { readable, writable } from '../access/records'
 
 /**
  * Analyses: who may see and run them, their immutable versions, and what a finished version
  * serves. Permissions follow the dataset's lab: every member reads; scientists and PIs create,
  * run and rename; outside the caller's labs everything is 404.
  */
-
-// ---------------------------------------------------------------- access
-
-function canRun(user: CurrentUser, labId: number): boolean {
-  const membership = membershipIn(user, labId)
-  return !!membership && WRITER_ROLES.includes(membership.role)
-}
-
-function assertCanRun(user: CurrentUser, labId: number): void {
-  const membership = membershipIn(user, labId)
-  if (!membership) throw new NotFoundError('Analysis not found.')
-  if (!WRITER_ROLES.includes(membership.role)) {
-    throw new ForbiddenError(
-      `Creating and running analyses needs the role scientist or PI in ${membership.labName}.`,
-      {
-        requiredRoles: WRITER_ROLES,
-        yourRole: membership.role,
-      },
-    )
-  }
-}
-
-async function analysisFor(
-  user: CurrentUser,
-  analysisId: number,
-  action: 'read' | 'run',
-  conn: Conn = db,
-): Promise<AnalysisRecord> {
-  const analysis = await findAnalysis(analysisId, conn)
-  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
-  if (action === 'run') assertCanRun(user, analysis.labId)
-  return analysis
-}
 
 async function versionOf(analysisId: number, versionNo: number): Promise<AnalysisVersionRecord> {
   const version = await findAnalysisVersion(analysisId, versionNo)
@@ -144,9 +110,9 @@ export async function listAnalysesFor(
 }
 
 export async function getAnalysisDetail(user: CurrentUser, analysisId: number): Promise<AnalysisDetail> {
-  const analysis = await analysisFor(user, analysisId, 'read')
+  const analysis = await readable(user, 'analysis', analysisId)
   const versions = await listAnalysisVersions(analysisId)
-  const run = canRun(user, analysis.labId)
+  const run = canWrite(user, analysis.labId)
   return { ...analysis, versions: versions.map(publicVersion), permissions: { run, rename: run } }
 }
 
@@ -155,7 +121,7 @@ export async function getAnalysisVersion(
   analysisId: number,
   versionNo: number,
 ): Promise<AnalysisVersionDetail> {
-  await analysisFor(user, analysisId, 'read')
+  await readable(user, 'analysis', analysisId)
   const version = await versionOf(analysisId, versionNo)
   const { result, chart } =
     version.status === 'done' ? await findAnalysisVersionResult(version.id) : { result: null, chart: null }
@@ -167,7 +133,7 @@ export async function getAnalysisVersionStatus(
   analysisId: number,
   versionNo: number,
 ): Promise<AnalysisVersionStatus> {
-  await analysisFor(user, analysisId, 'read')
+  await readable(user, 'analysis', analysisId)
   const status = await findAnalysisVersionStatus(analysisId, versionNo)
   if (!status) throw new NotFoundError(`Version ${versionNo} of this analysis not found.`)
   return status
@@ -179,7 +145,7 @@ export async function getAnalysisDefaults(
   datasetId: number,
   datasetVersionNo: number | undefined,
 ): Promise<AnalysisDefaults> {
-  await datasetFor(user, datasetId, 'read')
+  await readable(user, 'dataset', datasetId)
   const version = await readyDatasetVersion(datasetId, datasetVersionNo)
   const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
   return {
@@ -202,7 +168,7 @@ export async function exportUnitsCsv(
   analysisId: number,
   versionNo: number,
 ): Promise<UnitsCsvFile> {
-  const analysis = await analysisFor(user, analysisId, 'read')
+  const analysis = await readable(user, 'analysis', analysisId)
   const version = await versionOf(analysisId, versionNo)
   if (version.status === 'failed') {
     if (version.error?.code === 'UNPROCESSABLE')
@@ -228,8 +194,8 @@ export async function exportUnitsCsv(
  * covariates and a second factor against its kept rows (400 / 422, see checkSettingsAgainstRows).
  */
 export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate): Promise<AnalysisDetail> {
-  const dataset = await datasetFor(user, input.datasetId, 'read')
-  assertCanRun(user, dataset.labId)
+  const dataset = await readable(user, 'dataset', input.datasetId)
+  await writable(user, 'lab', dataset.labId, { subject: 'analysis' })
   const version = await readyDatasetVersion(dataset.id, input.datasetVersionNo)
   const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
   const settings = mergeSettings(settingsFromTagging(tagging), input.settings)
@@ -286,7 +252,7 @@ export async function createAnalysisVersionFor(
   analysisId: number,
   input: AnalysisVersionCreate,
 ): Promise<AnalysisVersionSummary> {
-  const analysis = await analysisFor(user, analysisId, 'run')
+  const analysis = await writable(user, 'analysis', analysisId)
   const [newest] = await listAnalysisVersions(analysisId)
   const datasetVersion = await readyDatasetVersion(
     analysis.dataset.id,
@@ -342,7 +308,7 @@ export async function renameAnalysisFor(
   analysisId: number,
   name: string,
 ): Promise<AnalysisDetail> {
-  const analysis = await analysisFor(user, analysisId, 'run')
+  const analysis = await writable(user, 'analysis', analysisId)
   await db.transaction(async (trx) => {
     await renameAnalysis(analysisId, name, trx)
     await recordAudit(trx, {

@@ -6,10 +6,10 @@ import {
   excludedSql,
   firstNonNumberRow,
   type RowTableShape,
-} from '../repositories/datasets-row-queries.repo'
+} from '../rows-store/row-queries'
 import type { VersionRecord } from '../repositories/datasets.repo'
 import type { Conn } from '../repositories/connection'
-import { fileRow, shapeOf } from './datasets-readback.service'
+import { fileRow, shapeOf } from '../rows-store/read-back'
 
 const q = (name: string) => `“${name}”`
 

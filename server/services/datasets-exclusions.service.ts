@@ -3,7 +3,7 @@ import type { CurrentUser } from '../../shared/schemas/auth'
 import type { Exclusion, ExclusionCreate, ExclusionRule } from '../../shared/schemas/datasets'
 import { db } from '../db'
 import { ConflictError, InvalidPayloadError, NotFoundError, UnprocessableError } from '../errors/app-error'
-import { parseNumberText } from '../ingest/number-text'
+import { parseNumberText } from '../rows-store/number-text'
 import {
   activeExclusions,
   findExclusion,
@@ -11,16 +11,11 @@ import {
   listExclusions,
   markExclusionRemoved,
 } from '../repositories/datasets-annotations.repo'
-import {
-  countRowsWhere,
-  exclusionSql,
-  excludedSql,
-  type RowTableShape,
-} from '../repositories/datasets-row-queries.repo'
-import { setExcludedRowCount, type VersionRecord } from '../repositories/datasets.repo'
+import { countRowsWhere, exclusionSql, excludedSql, type RowTableShape } from '../rows-store/row-queries'
+import { lockVersion, setExcludedRowCount, type VersionRecord } from '../repositories/datasets.repo'
 import type { Conn } from '../repositories/connection'
-import { versionFor } from './datasets-access.service'
-import { shapeOf } from './datasets-readback.service'
+import { readable, writable } from '../access/records'
+import { shapeOf } from '../rows-store/read-back'
 
 /** Checks a rule against the version's columns; numeric columns get their value as a number. */
 function normaliseRule(shape: RowTableShape, version: VersionRecord, rule: ExclusionRule): ExclusionRule {
@@ -67,7 +62,7 @@ export async function listVersionExclusions(
   datasetId: number,
   versionNo: number,
 ): Promise<Exclusion[]> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   return listExclusions(version.id)
 }
 
@@ -81,7 +76,7 @@ export async function addExclusion(
   versionNo: number,
   input: ExclusionCreate,
 ): Promise<Exclusion> {
-  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await writable(user, 'datasetVersion', { datasetId, versionNo })
   const shape = await shapeOf(version)
   const rule = input.kind === 'rule' ? normaliseRule(shape, version, input.rule) : null
   const unit =
@@ -97,7 +92,7 @@ export async function addExclusion(
     }
   }
   return db.transaction(async (trx) => {
-    await trx('dataset_versions').where({ id: version.id }).forUpdate().first('id')
+    await lockVersion(version.id, trx)
     const matchedRows = await countRowsWhere(
       shape,
       `coalesce(${exclusionSql(shape, { kind: input.kind, rule, unit })}, false)`,
@@ -140,10 +135,10 @@ export async function withdrawExclusion(
   versionNo: number,
   exclusionId: number,
 ): Promise<Exclusion> {
-  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await writable(user, 'datasetVersion', { datasetId, versionNo })
   const shape = await shapeOf(version)
   return db.transaction(async (trx) => {
-    await trx('dataset_versions').where({ id: version.id }).forUpdate().first('id')
+    await lockVersion(version.id, trx)
     const exclusion = await findExclusion(version.id, exclusionId, trx)
     if (!exclusion) throw new NotFoundError('Exclusion not found.')
     if (exclusion.removedAt) throw new ConflictError('This exclusion was already withdrawn.')

@@ -2,10 +2,10 @@ import type { CurrentUser } from '../../shared/schemas/auth'
 import type { ColumnProfile, RowsPage, RowsQuery } from '../../shared/schemas/datasets'
 import { InvalidPayloadError } from '../errors/app-error'
 import { activeExclusions } from '../repositories/datasets-annotations.repo'
-import { pageRows } from '../repositories/datasets-row-queries.repo'
+import { pageRows } from '../rows-store/row-queries'
 import { listColumns } from '../repositories/datasets.repo'
-import { versionFor } from './datasets-access.service'
-import { fileRow, shapeOf } from './datasets-readback.service'
+import { readable } from '../access/records'
+import { fileRow, shapeOf } from '../rows-store/read-back'
 
 /** One page of stored rows, sorted on the server, with the exclusions that leave each row out. */
 export async function previewRows(
@@ -14,7 +14,7 @@ export async function previewRows(
   versionNo: number,
   query: RowsQuery,
 ): Promise<RowsPage> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   const shape = await shapeOf(version)
   let sortPosition: number | null = null
   let sortNumeric = false
@@ -65,6 +65,6 @@ export async function columnSummary(
   datasetId: number,
   versionNo: number,
 ): Promise<ColumnProfile[]> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   return listColumns(version.id)
 }

@@ -10,10 +10,10 @@ import {
   insertTagging,
   taggingHistory,
 } from '../repositories/datasets-annotations.repo'
-import { excludedSql, firstNonNumberRow, type RowTableShape } from '../repositories/datasets-row-queries.repo'
-import type { VersionRecord } from '../repositories/datasets.repo'
-import { versionFor } from './datasets-access.service'
-import { fileRow, readColumns, shapeOf } from './datasets-readback.service'
+import { excludedSql, firstNonNumberRow, type RowTableShape } from '../rows-store/row-queries'
+import { touchDataset, type VersionRecord } from '../repositories/datasets.repo'
+import { readable, writable } from '../access/records'
+import { fileRow, readColumns, shapeOf } from '../rows-store/read-back'
 
 const q = (name: string) => `“${name}”`
 
@@ -150,7 +150,7 @@ export async function getTagging(
   datasetId: number,
   versionNo: number,
 ): Promise<Tagging | null> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   return currentTagging(version.id)
 }
 
@@ -159,7 +159,7 @@ export async function getTaggingHistory(
   datasetId: number,
   versionNo: number,
 ): Promise<Tagging[]> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   return taggingHistory(version.id)
 }
 
@@ -170,7 +170,7 @@ export async function saveTagging(
   versionNo: number,
   input: TaggingInput,
 ): Promise<TaggingResult> {
-  const { dataset, version } = await versionFor(user, datasetId, versionNo, 'write')
+  const { dataset, version } = await writable(user, 'datasetVersion', { datasetId, versionNo })
   const shape = await shapeOf(version)
   const facts = await validate(version, shape, input)
   const tagging = await db.transaction(async (trx) => {
@@ -185,7 +185,7 @@ export async function saveTagging(
       },
       trx,
     )
-    await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
+    await touchDataset(datasetId, trx)
     await recordAudit(trx, {
       actorUserId: user.id,
       labId: dataset.labId,
@@ -205,7 +205,7 @@ export async function getDesign(
   datasetId: number,
   versionNo: number,
 ): Promise<DesignSummary> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   const tagging = await currentTagging(version.id)
   if (!tagging) throw new NotFoundError('This version has no tagging yet.')
   const shape = await shapeOf(version)

@@ -1,6 +1,5 @@
 import { recordAudit } from './audit.service'
-import { basename, extname, join } from 'node:path'
-import { rm } from 'node:fs/promises'
+import { basename, extname } from 'node:path'
 import type { Knex } from 'knex'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import type { DatasetDetail, DatasetUploadFields, DatasetVersionDetail } from '../../shared/schemas/datasets'
@@ -9,16 +8,18 @@ import { NotFoundError } from '../errors/app-error'
 import { ingestConfig } from '../ingest/ingest-config'
 import { ingestFile, type UploadedFile } from '../ingest/ingest-file'
 import { discardOriginal, holdHash, keepOriginal, staleFiles } from '../ingest/original-store'
+import { sweepTempUploads } from '../uploads/temp-files'
 import type { IntakeResult } from '../ingest/table-intake'
-import { noProgress, type ProgressSink } from '../ingest/upload-progress'
+import { noProgress, type ProgressSink } from '../ingest/progress-sink'
 import { logger } from '../logger'
 import { currentTagging, insertTagging } from '../repositories/datasets-annotations.repo'
 import {
   dropRowsTable,
+  freezeRowsTable,
   indexRowsTable,
   listRowsTables,
   listUnindexedRowsTables,
-} from '../repositories/datasets-rows.repo'
+} from '../rows-store/rows-tables'
 import {
   completeVersion,
   countVersionsWithSha,
@@ -31,9 +32,11 @@ import {
   listVersionHashes,
   listVersions,
   lockDatasetForNewVersion,
+  lockLeftoverSweep,
+  touchDataset,
 } from '../repositories/datasets.repo'
 import { findOrInsertProject, findProject } from '../repositories/projects.repo'
-import { assertCanWriteInLab, datasetFor } from './datasets-access.service'
+import { writable } from '../access/records'
 import { getDatasetDetail, getVersionDetail } from './datasets.service'
 
 interface StoredVersion {
@@ -42,21 +45,26 @@ interface StoredVersion {
   createdOriginal: boolean
 }
 
+interface StoreVersionInput {
+  datasetId: number
+  versionNo: number
+  userId: number
+  file: UploadedFile
+  /** Sheet of a workbook (name or 1-based number); the first when not given. */
+  sheet?: string
+  progress: ProgressSink
+  /** Told when the original file has been moved into the store (see inUploadTransaction). */
+  onOriginalKept: (sha256: string, created: boolean) => void
+}
+
 /**
  * Stores one upload as version `versionNo` of `datasetId`, inside `trx`: the version row, the rows
- * table (COPY), column profiles, the nesting suggestion, and the original file. When the previous
- * version has a tagging whose columns all exist (responses still numeric), it is carried over.
+ * table (COPY, then frozen), column profiles, the nesting suggestion, and the original file. When
+ * the previous version has a tagging whose columns all exist (responses still numeric), it is
+ * carried over.
  */
-async function storeVersion(
-  trx: Knex.Transaction,
-  datasetId: number,
-  versionNo: number,
-  userId: number,
-  file: UploadedFile,
-  sheet: string | undefined,
-  progress: ProgressSink,
-  onOriginalKept: (sha256: string, created: boolean) => void,
-): Promise<StoredVersion> {
+async function storeVersion(trx: Knex.Transaction, input: StoreVersionInput): Promise<StoredVersion> {
+  const { datasetId, versionNo, userId, file, progress } = input
   const started = performance.now()
   const versionId = await insertVersion(
     {
@@ -69,7 +77,7 @@ async function storeVersion(
     },
     trx,
   )
-  const outcome = await ingestFile(trx, versionId, file, { sheet, progress })
+  const outcome = await ingestFile(trx, versionId, file, { sheet: input.sheet, progress })
   // A live upload is only stored once the whole request arrived and was accepted.
   const byteSize = file.live ? await file.live.accepted : file.size
   progress.update({ phase: 'profiling', bytesRead: file.size, rowsStored: outcome.intake.rowCount })
@@ -93,9 +101,10 @@ async function storeVersion(
     },
     trx,
   )
+  await freezeRowsTable(trx, versionId)
   if (versionNo > 1) await carryOverTagging(trx, datasetId, versionNo, versionId, outcome.intake, userId)
   const created = await keepOriginal(file.path, outcome.sha256)
-  onOriginalKept(outcome.sha256, created)
+  input.onOriginalKept(outcome.sha256, created)
   if (outcome.fallbackReason)
     logger.info('dataset stored from parsed rows', { versionId, reason: outcome.fallbackReason })
   return { versionId, sha256: outcome.sha256, createdOriginal: created }
@@ -182,7 +191,7 @@ export async function createDatasetFromUpload(
   file: UploadedFile,
   progress: ProgressSink,
 ): Promise<DatasetDetail> {
-  assertCanWriteInLab(user, fields.labId)
+  await writable(user, 'lab', fields.labId, { subject: 'dataset' })
   if (fields.projectId !== undefined) {
     const project = await findProject(fields.projectId)
     if (!project || project.labId !== fields.labId) throw new NotFoundError('Project not found in this lab.')
@@ -201,7 +210,15 @@ export async function createDatasetFromUpload(
       },
       trx,
     )
-    const stored = await storeVersion(trx, id, 1, user.id, file, fields.sheet, progress, onOriginalKept)
+    const stored = await storeVersion(trx, {
+      datasetId: id,
+      versionNo: 1,
+      userId: user.id,
+      file,
+      sheet: fields.sheet,
+      progress,
+      onOriginalKept,
+    })
     await recordAudit(trx, {
       actorUserId: user.id,
       labId: fields.labId,
@@ -224,11 +241,19 @@ export async function addVersionFromUpload(
   file: UploadedFile,
   progress: ProgressSink,
 ): Promise<DatasetVersionDetail> {
-  const dataset = await datasetFor(user, datasetId, 'write')
+  const dataset = await writable(user, 'dataset', datasetId)
   const { versionNo, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
-    const stored = await storeVersion(trx, datasetId, next, user.id, file, sheet, progress, onOriginalKept)
-    await trx('datasets').where({ id: datasetId }).update({ updated_at: trx.fn.now() })
+    const stored = await storeVersion(trx, {
+      datasetId,
+      versionNo: next,
+      userId: user.id,
+      file,
+      sheet,
+      progress,
+      onOriginalKept,
+    })
+    await touchDataset(datasetId, trx)
     await recordAudit(trx, {
       actorUserId: user.id,
       labId: dataset.labId,
@@ -273,7 +298,14 @@ export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Pro
       },
       trx,
     )
-    const stored = await storeVersion(trx, id, 1, input.userId, input.file, undefined, noProgress, () => {})
+    const stored = await storeVersion(trx, {
+      datasetId: id,
+      versionNo: 1,
+      userId: input.userId,
+      file: input.file,
+      progress: noProgress,
+      onOriginalKept: () => {},
+    })
     if (input.tagging)
       await insertTagging(
         { versionId: stored.versionId, ...input.tagging, carriedOver: false, createdBy: input.userId },
@@ -285,15 +317,14 @@ export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Pro
   return id
 }
 
-const DAY_MS = 24 * 60 * 60 * 1000
 const HOUR_MS = 60 * 60 * 1000
 
 /**
  * Startup sweep. Ingest commits a version together with its rows table, so a crash leaves nothing
  * behind in the database; this still removes, in one transaction, any version not marked ready and
  * any rows table without a version, and builds row_no indexes a restart cut short. Upload temp
- * files older than a day and stored originals no version refers to (older than an hour, so
- * uploads in flight are safe) are deleted.
+ * files of server processes that are gone (see uploads/temp-files) and stored originals no version
+ * refers to (older than an hour, so uploads in flight are safe) are deleted.
  */
 export async function sweepDatasetLeftovers(): Promise<{
   versions: number
@@ -303,7 +334,7 @@ export async function sweepDatasetLeftovers(): Promise<{
 }> {
   const { versions, tables } = await db.transaction(async (trx) => {
     // Taken first so two processes starting at once do not sweep each other's work twice.
-    await trx.raw('SELECT pg_advisory_xact_lock(hashtext(?))', ['nestwise-dataset-sweep'])
+    await lockLeftoverSweep(trx)
     const unfinished = await listUnfinishedVersionIds(trx)
     for (const id of unfinished) await dropRowsTable(trx, id)
     await deleteVersions(unfinished, trx)
@@ -317,12 +348,11 @@ export async function sweepDatasetLeftovers(): Promise<{
       logger.warn('could not index a rows table', { versionId: id, err }),
     )
   }
-  const temp = await staleFiles(ingestConfig.uploadsDir, DAY_MS)
-  for (const name of temp) await rm(join(ingestConfig.uploadsDir, name), { force: true })
+  const temp = await sweepTempUploads(ingestConfig.uploadsRoot)
   const hashes = await listVersionHashes()
   const unreferenced = (await staleFiles(ingestConfig.originalsDir, HOUR_MS)).filter(
     (name) => /^[0-9a-f]{64}$/.test(name) && !hashes.has(name),
   )
   for (const name of unreferenced) await discardOriginal(name)
-  return { versions, tables, tempFiles: temp.length, originals: unreferenced.length }
+  return { versions, tables, tempFiles: temp.folders + temp.files, originals: unreferenced.length }
 }

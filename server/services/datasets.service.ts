@@ -6,7 +6,7 @@ import type {
   DatasetVersionDetail,
 } from '../../shared/schemas/datasets'
 import { db } from '../db'
-import { ForbiddenError, NotFoundError } from '../errors/app-error'
+import { NotFoundError } from '../errors/app-error'
 import { currentTagging, listExclusions } from '../repositories/datasets-annotations.repo'
 import {
   findDataset,
@@ -19,7 +19,8 @@ import {
   updateDataset,
 } from '../repositories/datasets.repo'
 import { findProject } from '../repositories/projects.repo'
-import { canDelete, canWrite, datasetFor, readableLabIds, versionFor } from './datasets-access.service'
+import { canDeleteDataset, canRestoreDatasets, canWrite, readableLabIds } from '../../shared/access'
+import { allowOnly, readable, writable } from '../access/records'
 
 export interface DatasetListFilter {
   labId?: number
@@ -37,7 +38,7 @@ export async function listDatasetsFor(
 ): Promise<DatasetSummary[]> {
   let labIds: number[] | 'all'
   if (filter.deleted) {
-    if (!user.isAdmin) throw new ForbiddenError('Only instance administrators can list deleted datasets.')
+    allowOnly(canRestoreDatasets(user), 'Only instance administrators can list deleted datasets.')
     labIds = filter.labId !== undefined ? [filter.labId] : 'all'
   } else {
     labIds = readableLabIds(user)
@@ -49,7 +50,7 @@ export async function listDatasetsFor(
 }
 
 export async function getDatasetDetail(user: CurrentUser, datasetId: number): Promise<DatasetDetail> {
-  const dataset = await datasetFor(user, datasetId, 'read')
+  const dataset = await readable(user, 'dataset', datasetId)
   const versions = await listVersions(datasetId)
   return {
     ...dataset,
@@ -58,7 +59,7 @@ export async function getDatasetDetail(user: CurrentUser, datasetId: number): Pr
     permissions: {
       upload: canWrite(user, dataset.labId),
       edit: canWrite(user, dataset.labId),
-      delete: canDelete(user, dataset),
+      delete: canDeleteDataset(user, { labId: dataset.labId, createdById: dataset.createdBy.id }),
     },
   }
 }
@@ -68,7 +69,7 @@ export async function getVersionDetail(
   datasetId: number,
   versionNo: number,
 ): Promise<DatasetVersionDetail> {
-  const { version } = await versionFor(user, datasetId, versionNo, 'read')
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
   const [columns, suggestion, tagging, exclusions] = await Promise.all([
     listColumns(version.id),
     getSuggestion(version.id),
@@ -84,7 +85,7 @@ export async function updateDatasetFor(
   datasetId: number,
   changes: DatasetUpdate,
 ): Promise<DatasetDetail> {
-  const dataset = await datasetFor(user, datasetId, 'write')
+  const dataset = await writable(user, 'dataset', datasetId)
   if (changes.projectId !== undefined) {
     const project = await findProject(changes.projectId)
     if (!project || project.labId !== dataset.labId) throw new NotFoundError('Project not found in this lab.')
@@ -95,12 +96,16 @@ export async function updateDatasetFor(
 
 /** Soft delete: the dataset disappears for its lab; rows, versions and originals stay for a restore. */
 export async function deleteDatasetFor(user: CurrentUser, datasetId: number): Promise<void> {
-  await datasetFor(user, datasetId, 'delete')
+  const dataset = await readable(user, 'dataset', datasetId)
+  allowOnly(
+    canDeleteDataset(user, { labId: dataset.labId, createdById: dataset.createdBy.id }),
+    'Only the person who uploaded this dataset or a PI of the lab can delete it.',
+  )
   await setDatasetDeleted(datasetId, user.id)
 }
 
 export async function restoreDataset(user: CurrentUser, datasetId: number): Promise<DatasetSummary> {
-  if (!user.isAdmin) throw new ForbiddenError('Only instance administrators can restore deleted datasets.')
+  allowOnly(canRestoreDatasets(user), 'Only instance administrators can restore deleted datasets.')
   return db.transaction(async (trx) => {
     const dataset = await findDataset(datasetId, trx)
     if (!dataset) throw new NotFoundError('Dataset not found.')
@@ -109,4 +114,14 @@ export async function restoreDataset(user: CurrentUser, datasetId: number): Prom
     const latest = await latestVersions([datasetId], trx)
     return { ...restored, latestVersion: latest.get(datasetId) ?? null }
   })
+}
+
+/** The stored original file of a version the user may read: its SHA-256 and the name it was uploaded as. */
+export async function originalOf(
+  user: CurrentUser,
+  datasetId: number,
+  versionNo: number,
+): Promise<{ sha256: string; originalFilename: string }> {
+  const { version } = await readable(user, 'datasetVersion', { datasetId, versionNo })
+  return { sha256: version.sha256, originalFilename: version.originalFilename }
 }

@@ -1,3 +1,4 @@
+import { LEAD_ROLE } from '../../shared/access'
 import type { CurrentUser, Role } from '../../shared/schemas/auth'
 import type { LabMember } from '../../shared/schemas/labs'
 import { db } from '../db'
@@ -42,7 +43,7 @@ export async function changeMemberRole(
   return db.transaction(async (trx) => {
     const { membership, piIds, email } = await memberToChange(trx, labId, userId)
     if (membership.role !== role) {
-      if (membership.role === 'pi') assertNotLastPi(piIds, userId, 'This is the last PI of the lab')
+      if (membership.role === LEAD_ROLE) assertNotLastPi(piIds, userId, 'This is the last PI of the lab')
       await updateMembershipRole(userId, labId, role, trx)
       await recordAudit(trx, {
         action: 'member.role_changed',
@@ -60,7 +61,7 @@ export async function changeMemberRole(
 export async function removeMember(actor: CurrentUser, labId: number, userId: number): Promise<void> {
   await db.transaction(async (trx) => {
     const { membership, piIds, email } = await memberToChange(trx, labId, userId)
-    if (membership.role === 'pi') assertNotLastPi(piIds, userId, 'The last PI cannot be removed')
+    if (membership.role === LEAD_ROLE) assertNotLastPi(piIds, userId, 'The last PI cannot be removed')
     await deleteMembership(userId, labId, trx)
     await recordAudit(trx, {
       action: 'member.removed',

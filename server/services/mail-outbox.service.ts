@@ -1,16 +1,8 @@
 import type { Knex } from 'knex'
-import type { MailKind } from '../../shared/schemas/mail'
+import type { OutgoingMail } from '../mail/outgoing-mail'
 import { signalMailQueued } from '../mail/outbox-signal'
 import type { Conn } from '../repositories/connection'
 import { insertOutboxMessage } from '../repositories/mail-outbox.repo'
-
-export interface OutgoingMail {
-  to: string
-  subject: string
-  text: string
-  html?: string
-  kind: MailKind
-}
 
 function isTransaction(conn: Conn): conn is Knex.Transaction {
   return (conn as Knex.Transaction).isTransaction === true

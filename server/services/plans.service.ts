@@ -13,18 +13,12 @@ import type {
 import { EngineInputError } from '../../shared/stats/engine-input-error'
 import { db } from '../db'
 import { NotFoundError, UnprocessableError } from '../errors/app-error'
-import { findAnalysis, findAnalysisVersion, findAnalysisVersionResult } from '../repositories/analyses.repo'
+import { findAnalysisVersion, findAnalysisVersionResult } from '../repositories/analyses.repo'
 import { findProject } from '../repositories/projects.repo'
-import {
-  deletePlan,
-  findPlan,
-  insertPlan,
-  listPlans,
-  updatePlan,
-  type PlanRecord,
-} from '../repositories/plans.repo'
+import { deletePlan, insertPlan, listPlans, updatePlan, type PlanRecord } from '../repositories/plans.repo'
 import { recordAudit } from './audit.service'
-import { assertCanWriteInLab, canWrite, membershipIn, readableLabIds } from './datasets-access.service'
+import { canWrite, readableLabIds } from '../../shared/access'
+import { readable, writable } from '../access/records'
 
 /**
  * Experiment plans. Lab members read a lab's plans; scientists and PIs create, rename, attach and
@@ -34,13 +28,6 @@ import { assertCanWriteInLab, canWrite, membershipIn, readableLabIds } from './d
 
 function toPublic(user: CurrentUser, plan: PlanRecord): Plan {
   return { ...plan, permissions: { write: canWrite(user, plan.labId) } }
-}
-
-async function planFor(user: CurrentUser, planId: number, action: 'read' | 'write'): Promise<PlanRecord> {
-  const plan = await findPlan(planId)
-  if (!plan || !membershipIn(user, plan.labId)) throw new NotFoundError('Plan not found.')
-  if (action === 'write') assertCanWriteInLab(user, plan.labId, 'Plan')
-  return plan
 }
 
 /** The engine's answer, or 422 with its message for inputs no design can satisfy. */
@@ -62,8 +49,7 @@ async function projectInLab(projectId: number | null, labId: number): Promise<nu
 
 /** A finished analysis version the user may read, with its stored result. */
 async function finishedVersion(user: CurrentUser, analysisId: number, versionNo: number) {
-  const analysis = await findAnalysis(analysisId)
-  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
+  const analysis = await readable(user, 'analysis', analysisId)
   const version = await findAnalysisVersion(analysisId, versionNo)
   if (!version) throw new NotFoundError(`Version ${versionNo} of this analysis not found.`)
   const { result } =
@@ -103,11 +89,11 @@ export async function listPlansFor(user: CurrentUser, query: PlanListQuery): Pro
 }
 
 export async function getPlanFor(user: CurrentUser, planId: number): Promise<Plan> {
-  return toPublic(user, await planFor(user, planId, 'read'))
+  return toPublic(user, await readable(user, 'plan', planId))
 }
 
 export async function createPlanFor(user: CurrentUser, input: PlanCreate): Promise<Plan> {
-  assertCanWriteInLab(user, input.labId)
+  await writable(user, 'lab', input.labId, { subject: 'plan' })
   const projectId = await projectInLab(input.projectId, input.labId)
   let analysisVersionId: number | null = null
   if (input.source) {
@@ -150,7 +136,7 @@ export async function createPlanFor(user: CurrentUser, input: PlanCreate): Promi
 }
 
 export async function updatePlanFor(user: CurrentUser, planId: number, changes: PlanUpdate): Promise<Plan> {
-  const plan = await planFor(user, planId, 'write')
+  const plan = await writable(user, 'plan', planId)
   const projectId =
     changes.projectId === undefined ? undefined : await projectInLab(changes.projectId, plan.labId)
   await db.transaction(async (trx) => {
@@ -182,7 +168,7 @@ function changedFields(
 }
 
 export async function deletePlanFor(user: CurrentUser, planId: number): Promise<void> {
-  const plan = await planFor(user, planId, 'write')
+  const plan = await writable(user, 'plan', planId)
   await db.transaction(async (trx) => {
     await deletePlan(planId, trx)
     await recordAudit(trx, {

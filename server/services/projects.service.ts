@@ -1,7 +1,7 @@
 import type { CurrentUser } from '../../shared/schemas/auth'
 import type { Project, ProjectCreate, ProjectUpdate } from '../../shared/schemas/datasets'
 import { db } from '../db'
-import { ConflictError, NotFoundError } from '../errors/app-error'
+import { ConflictError } from '../errors/app-error'
 import {
   findProject,
   findProjectByName,
@@ -9,7 +9,8 @@ import {
   listProjects,
   updateProject,
 } from '../repositories/projects.repo'
-import { assertCanWriteInLab, membershipIn, readableLabIds } from './datasets-access.service'
+import { readableLabIds } from '../../shared/access'
+import { writable } from '../access/records'
 
 /** Projects group a lab's datasets. Members read them; scientists and PIs create and rename them. */
 export async function listProjectsFor(user: CurrentUser, labId?: number): Promise<Project[]> {
@@ -18,7 +19,7 @@ export async function listProjectsFor(user: CurrentUser, labId?: number): Promis
 }
 
 export async function createProjectFor(user: CurrentUser, input: ProjectCreate): Promise<Project> {
-  assertCanWriteInLab(user, input.labId)
+  await writable(user, 'lab', input.labId, { subject: 'project' })
   return db.transaction(async (trx) => {
     if (await findProjectByName(input.labId, input.name, trx))
       throw new ConflictError(`The lab already has a project named “${input.name}”.`)
@@ -35,9 +36,7 @@ export async function updateProjectFor(
   projectId: number,
   changes: ProjectUpdate,
 ): Promise<Project> {
-  const project = await findProject(projectId)
-  if (!project || !membershipIn(user, project.labId)) throw new NotFoundError('Project not found.')
-  assertCanWriteInLab(user, project.labId, 'Project')
+  const project = await writable(user, 'project', projectId)
   if (changes.name !== undefined && changes.name !== project.name) {
     const clash = await findProjectByName(project.labId, changes.name)
     if (clash) throw new ConflictError(`The lab already has a project named “${changes.name}”.`)

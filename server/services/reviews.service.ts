@@ -11,7 +11,7 @@ import type {
 } from '../../shared/schemas/reviews'
 import { publicUrl } from '../config'
 import { db } from '../db'
-import { ConflictError, ForbiddenError, InvalidPayloadError, NotFoundError } from '../errors/app-error'
+import { ConflictError, InvalidPayloadError } from '../errors/app-error'
 import { reviewDecisionMail, reviewRequestMail } from '../mail/templates/review-mails'
 import type { Conn } from '../repositories/connection'
 import { listMembersOfLab } from '../repositories/memberships.repo'
@@ -35,7 +35,16 @@ import {
 } from '../repositories/reviews.repo'
 import { findActiveUserById } from '../repositories/users.repo'
 import { recordAudit } from './audit.service'
-import { membershipIn, readableLabIds, WRITER_ROLES } from './datasets-access.service'
+import {
+  canComment,
+  canRequestReview,
+  canSignOff,
+  canWithdrawReview,
+  membershipIn,
+  readableLabIds,
+  REVIEWER_ROLE,
+} from '../../shared/access'
+import { allowOnly, assertWriter, readable } from '../access/records'
 import { enqueueMail } from './mail-outbox.service'
 import { signOffHash } from './sign-off-hash'
 
@@ -55,11 +64,7 @@ function isAuthor(userId: number, version: ReviewableVersion): boolean {
   return version.analysisCreatedBy === userId || version.versionCreatedBy === userId
 }
 
-async function versionFor(user: CurrentUser, analysisId: number, versionNo: number, conn: Conn = db) {
-  const version = await findReviewableVersion(analysisId, versionNo, conn)
-  if (!version || !membershipIn(user, version.labId)) throw new NotFoundError('Analysis version not found.')
-  return version
-}
+const authorsOf = (version: ReviewableVersion) => [version.analysisCreatedBy, version.versionCreatedBy]
 
 function toRequest(record: ReviewRequestRecord): ReviewRequest {
   return {
@@ -125,7 +130,7 @@ export async function signOffStateOf(
 async function reviewersOf(version: ReviewableVersion): Promise<{ id: number; name: string }[]> {
   const members = await listMembersOfLab(version.labId)
   return members
-    .filter((m) => m.role === 'biostatistician' && !isAuthor(m.userId, version))
+    .filter((m) => m.role === REVIEWER_ROLE && !isAuthor(m.userId, version))
     .map((m) => ({ id: m.userId, name: m.name }))
 }
 
@@ -134,14 +139,13 @@ export async function getReviewState(
   analysisId: number,
   versionNo: number,
 ): Promise<ReviewState> {
-  const version = await versionFor(user, analysisId, versionNo)
+  const version = await readable(user, 'analysisVersion', { analysisId, versionNo })
   const [signOff, requests, comments, reviewers] = await Promise.all([
     signOffStateOf(analysisId, versionNo),
     listRequestsOfVersion(version.id),
     listCommentsOfVersion(version.id),
     reviewersOf(version),
   ])
-  const role = membershipIn(user, version.labId)!.role
   return {
     signOff,
     requests: requests.map(toRequest),
@@ -153,7 +157,10 @@ export async function getReviewState(
       createdAt: c.createdAt,
     })),
     reviewers,
-    permissions: { requestReview: WRITER_ROLES.includes(role) && version.status === 'done', comment: true },
+    permissions: {
+      requestReview: canRequestReview(user, version.labId) && version.status === 'done',
+      comment: canComment(user, version.labId),
+    },
   }
 }
 
@@ -162,7 +169,7 @@ export async function getSignOffState(
   analysisId: number,
   versionNo: number,
 ): Promise<SignOffState> {
-  await versionFor(user, analysisId, versionNo)
+  await readable(user, 'analysisVersion', { analysisId, versionNo })
   return signOffStateOf(analysisId, versionNo)
 }
 
@@ -180,19 +187,13 @@ export async function requestReview(
   input: ReviewRequestCreate,
 ): Promise<ReviewRequest> {
   return db.transaction(async (trx) => {
-    const version = await versionFor(user, analysisId, versionNo, trx)
-    const membership = membershipIn(user, version.labId)!
-    if (!WRITER_ROLES.includes(membership.role)) {
-      throw new ForbiddenError(`Asking for a review needs the role scientist or PI in ${version.labName}.`, {
-        requiredRoles: WRITER_ROLES,
-        yourRole: membership.role,
-      })
-    }
+    const version = await readable(user, 'analysisVersion', { analysisId, versionNo }, trx)
+    assertWriter(user, version.labId, 'review')
     if (version.status !== 'done') {
       throw new ConflictError('Only a finished version can be reviewed.', { status: version.status })
     }
     const reviewer = (await listMembersOfLab(version.labId, trx)).find((m) => m.userId === input.reviewerId)
-    if (!reviewer || reviewer.role !== 'biostatistician') {
+    if (!reviewer || reviewer.role !== REVIEWER_ROLE) {
       throw new InvalidPayloadError('Choose a biostatistician of this lab as reviewer.', {
         field: 'reviewerId',
       })
@@ -273,7 +274,7 @@ export async function addComment(
   input: ReviewCommentCreate,
 ): Promise<ReviewComment> {
   return db.transaction(async (trx) => {
-    const version = await versionFor(user, analysisId, versionNo, trx)
+    const version = await readable(user, 'analysisVersion', { analysisId, versionNo }, trx)
     const parentId = input.parentId ?? null
     if (parentId !== null && (await findCommentVersionId(parentId, trx)) !== version.id) {
       throw new InvalidPayloadError('A reply must answer a comment on the same version.', {
@@ -293,26 +294,20 @@ export async function decideReview(
   input: ReviewDecision,
 ): Promise<{ request: ReviewRequest; signOff: SignOffState }> {
   return db.transaction(async (trx) => {
-    const request = await findReviewRequest(requestId, trx)
-    const membership = request ? membershipIn(user, request.labId) : undefined
-    if (!request || !membership) throw new NotFoundError('Review request not found.')
+    const request = await readable(user, 'reviewRequest', requestId, trx)
     await lockReviewRequest(request.id, trx)
     const version = (await findReviewableVersion(request.analysisId, request.versionNo, trx))!
-    if (membership.role !== 'biostatistician') {
-      throw new ForbiddenError(
-        `Only a biostatistician of ${version.labName} can sign off or ask for changes.`,
-        {
-          requiredRoles: ['biostatistician'],
-          yourRole: membership.role,
-        },
-      )
-    }
-    if (request.reviewer.id !== user.id) {
-      throw new ForbiddenError(`This request is addressed to ${request.reviewer.name}.`)
-    }
-    if (isAuthor(user.id, version)) {
-      throw new ForbiddenError('Nobody signs off their own analysis.')
-    }
+    const role = membershipIn(user, request.labId)!.role
+    allowOnly(
+      role === REVIEWER_ROLE,
+      `Only a biostatistician of ${version.labName} can sign off or ask for changes.`,
+      { requiredRoles: [REVIEWER_ROLE], yourRole: role },
+    )
+    allowOnly(request.reviewer.id === user.id, `This request is addressed to ${request.reviewer.name}.`)
+    allowOnly(
+      canSignOff(user, { labId: version.labId, authorIds: authorsOf(version) }),
+      'Nobody signs off their own analysis.',
+    )
     const current = (await findReviewRequest(requestId, trx))!
     if (current.status !== 'open') {
       throw new ConflictError('This request is already closed.', { status: current.status })
@@ -377,13 +372,12 @@ export async function decideReview(
 /** The requester (or a PI of the lab) takes back an open request. */
 export async function withdrawReview(user: CurrentUser, requestId: number): Promise<ReviewRequest> {
   return db.transaction(async (trx) => {
-    const request = await findReviewRequest(requestId, trx)
-    const membership = request ? membershipIn(user, request.labId) : undefined
-    if (!request || !membership) throw new NotFoundError('Review request not found.')
+    const request = await readable(user, 'reviewRequest', requestId, trx)
     await lockReviewRequest(request.id, trx)
-    if (request.requestedBy.id !== user.id && membership.role !== 'pi') {
-      throw new ForbiddenError('Only the person who asked, or a PI of the lab, can withdraw a request.')
-    }
+    allowOnly(
+      canWithdrawReview(user, { labId: request.labId, requestedById: request.requestedBy.id }),
+      'Only the person who asked, or a PI of the lab, can withdraw a request.',
+    )
     const current = (await findReviewRequest(requestId, trx))!
     if (current.status !== 'open')
       throw new ConflictError('This request is already closed.', { status: current.status })

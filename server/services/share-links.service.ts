@@ -1,3 +1,4 @@
+import { createHmac } from 'node:crypto'
 import type { CurrentUser } from '../../shared/schemas/auth'
 import { AnalysisSettings } from '../../shared/schemas/analyses'
 import { PlanRecommendation, type PlanSummary } from '../../shared/schemas/plans'
@@ -8,11 +9,12 @@ import type {
   SharedAnalysis,
 } from '../../shared/schemas/share-links'
 import { csvFilename, unitsCsv } from '../analysis/units-csv'
-import { publicUrl } from '../config'
+import { config, publicUrl } from '../config'
+import { currentRequestFacts } from '../middleware/audit-context'
 import { db } from '../db'
-import { ConflictError, ForbiddenError, NotFoundError } from '../errors/app-error'
+import { ConflictError, NotFoundError } from '../errors/app-error'
 import { shareLinkMail } from '../mail/templates/review-mails'
-import { findAnalysis, findAnalysisVersionResult } from '../repositories/analyses.repo'
+import { findAnalysisVersionResult } from '../repositories/analyses.repo'
 import { listPlansOfVersion, type PlanRecord } from '../repositories/plans.repo'
 import { findReviewableVersion, findReviewableVersionById } from '../repositories/reviews.repo'
 import {
@@ -23,10 +25,12 @@ import {
   insertShareLink,
   listShareLinksOfAnalysis,
   markShareLinkRevoked,
+  recordShareLinkVisit,
   type ShareLinkRecord,
 } from '../repositories/share-links.repo'
 import { recordAudit } from './audit.service'
-import { membershipIn } from './datasets-access.service'
+import { canShare } from '../../shared/access'
+import { allowOnly, readable } from '../access/records'
 import { hashInvitationToken, newInvitationToken } from './invitation-tokens'
 import { enqueueMail } from './mail-outbox.service'
 import { signOffStateOf } from './reviews.service'
@@ -67,23 +71,10 @@ function toShareLink(link: ShareLinkRecord): ShareLink {
   }
 }
 
-async function analysisFor(user: CurrentUser, analysisId: number) {
-  const analysis = await findAnalysis(analysisId)
-  if (!analysis || !membershipIn(user, analysis.labId)) throw new NotFoundError('Analysis not found.')
-  return analysis
-}
-
-function assertMayShare(user: CurrentUser, labId: number, authorIds: number[]): void {
-  const membership = membershipIn(user, labId)!
-  if (membership.role !== 'pi' && !authorIds.includes(user.id)) {
-    throw new ForbiddenError('Only a PI of the lab or the analysis’ author can share or withdraw links.', {
-      yourRole: membership.role,
-    })
-  }
-}
+const SHARE_REFUSAL = 'Only a PI of the lab or the analysis’ author can share or withdraw links.'
 
 export async function listShareLinks(user: CurrentUser, analysisId: number): Promise<ShareLink[]> {
-  await analysisFor(user, analysisId)
+  await readable(user, 'analysis', analysisId)
   return (await listShareLinksOfAnalysis(analysisId)).map(toShareLink)
 }
 
@@ -92,10 +83,16 @@ export async function createShareLink(
   analysisId: number,
   input: ShareLinkCreate,
 ): Promise<CreatedShareLink> {
-  const analysis = await analysisFor(user, analysisId)
+  const analysis = await readable(user, 'analysis', analysisId)
   const version = await findReviewableVersion(analysisId, input.versionNo)
   if (!version) throw new NotFoundError(`Version ${input.versionNo} of this analysis not found.`)
-  assertMayShare(user, analysis.labId, [version.analysisCreatedBy, version.versionCreatedBy])
+  allowOnly(
+    canShare(user, {
+      labId: analysis.labId,
+      authorIds: [version.analysisCreatedBy, version.versionCreatedBy],
+    }),
+    SHARE_REFUSAL,
+  )
   if (version.status !== 'done') throw new ConflictError('Only a finished version can be shared.')
 
   const token = newInvitationToken()
@@ -148,16 +145,18 @@ export async function revokeShareLink(
   analysisId: number,
   linkId: number,
 ): Promise<ShareLink> {
-  const analysis = await analysisFor(user, analysisId)
+  const analysis = await readable(user, 'analysis', analysisId)
   return db.transaction(async (trx) => {
     const link = await findShareLink(linkId, trx)
     if (!link || link.analysisId !== analysis.id) throw new NotFoundError('Share link not found.')
     const version = (await findReviewableVersionById(link.analysisVersionId, trx))!
-    assertMayShare(user, analysis.labId, [
-      version.analysisCreatedBy,
-      version.versionCreatedBy,
-      link.createdBy.id,
-    ])
+    allowOnly(
+      canShare(user, {
+        labId: analysis.labId,
+        authorIds: [version.analysisCreatedBy, version.versionCreatedBy, link.createdBy.id],
+      }),
+      SHARE_REFUSAL,
+    )
     if (!(await markShareLinkRevoked(link.id, user.id, trx))) {
       throw new ConflictError('This link was already withdrawn.')
     }
@@ -192,7 +191,22 @@ function toSharedPlan(plan: PlanRecord): PlanSummary {
   }
 }
 
-/** What someone holding the link sees; counts the opening and records it in the audit log. */
+/**
+ * Who opens a link, as far as the server can tell (the client address), keyed with the session
+ * secret so the visits table holds no address.
+ */
+function visitorKey(): string {
+  const { ip } = currentRequestFacts()
+  return createHmac('sha256', config.SESSION_SECRET)
+    .update(ip ?? 'unknown')
+    .digest('hex')
+    .slice(0, 32)
+}
+
+/**
+ * What someone holding the link sees. Counts the opening on the link, and records it in the audit
+ * log once per visitor and hour.
+ */
 export async function openSharedAnalysis(token: string): Promise<SharedAnalysis> {
   const link = await usableLink(token)
   const version = await findReviewableVersionById(link.analysisVersionId)
@@ -206,6 +220,8 @@ export async function openSharedAnalysis(token: string): Promise<SharedAnalysis>
   if (!result || !chart) throw new NotFoundError(GONE)
   await db.transaction(async (trx) => {
     await countShareLinkOpened(link.id, trx)
+    // Every opening counts on the link; the audit log gets the first of each visitor's hour.
+    if (!(await recordShareLinkVisit(link.id, visitorKey(), trx))) return
     await recordAudit(trx, {
       action: 'share_link.opened',
       actorUserId: null,

@@ -4,13 +4,27 @@ import { z } from 'zod'
 export const Role = z.enum(['scientist', 'pi', 'biostatistician'])
 export type Role = z.infer<typeof Role>
 
-// Emails are compared lower-cased everywhere, so normalise before the format check.
+/**
+ * An e-mail address, internationalised ones included (RFC 6531: `jörg@example.org`, a domain in
+ * any script such as `müller.de`, or its xn-- form). The local part has no spaces, quotes, angle
+ * brackets or control characters, and no leading, trailing or doubled dot; the domain is labels of
+ * letters, digits and hyphens, the last of two or more letters (or xn-- punycode).
+ */
+const LOCAL_CHAR = '[^\\s@"(),:;<>\\[\\]\\\\.\\u0000-\\u001f\\u007f]'
+const LABEL = '[\\p{L}\\p{N}](?:[\\p{L}\\p{N}-]{0,61}[\\p{L}\\p{N}])?'
+export const EMAIL_PATTERN = new RegExp(
+  `^${LOCAL_CHAR}+(?:\\.${LOCAL_CHAR}+)*@(?:${LABEL}\\.)+(?:\\p{L}{2,}|xn--[a-z0-9-]{2,})$`,
+  'u',
+)
+
+// Emails are compared lower-cased everywhere (and in one Unicode form), so normalise before the check.
 export const Email = z
   .string()
   .trim()
+  .normalize('NFC')
   .toLowerCase()
   .max(254)
-  .pipe(z.email({ error: 'Enter a valid email address' }))
+  .pipe(z.email({ pattern: EMAIL_PATTERN, error: 'Enter a valid email address' }))
 
 export const LoginRequest = z.object({
   email: Email,

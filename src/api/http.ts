@@ -40,6 +40,10 @@ const fallbackByStatus: Record<number, { code: string; message: string }> = {
   413: { code: 'PAYLOAD_TOO_LARGE', message: 'This upload is larger than the server accepts.' },
   422: { code: 'UNPROCESSABLE', message: 'The data is too thin for this calculation.' },
   429: { code: 'RATE_LIMITED', message: 'Too many attempts. Wait a little and try again.' },
+  503: {
+    code: 'SERVICE_UNAVAILABLE',
+    message: 'The server cannot answer just now. Try again in a few seconds.',
+  },
 }
 
 type UnauthenticatedHandler = (error: ApiError) => void

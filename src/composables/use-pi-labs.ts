@@ -1,4 +1,5 @@
 import { computed } from 'vue'
+import { ledLabs } from '../../shared/access'
 import { useSessionStore } from '@/stores/session'
 
 /**
@@ -7,6 +8,6 @@ import { useSessionStore } from '@/stores/session'
  */
 export function usePiLabs() {
   const session = useSessionStore()
-  const piLabs = computed(() => (session.user?.memberships ?? []).filter((m) => m.role === 'pi'))
+  const piLabs = computed(() => ledLabs(session.user))
   return { piLabs }
 }

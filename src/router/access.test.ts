@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { beaBiostatistician, orlaAdmin, petraPi, samiScientist } from '@/testing/users'
-import { decideAccess, hasAnyRole, rolesOf, safeRedirect } from './access'
+import { rolesOf } from '../../shared/access'
+import { decideAccess, hasAnyRole, safeRedirect } from './access'
 
 describe('rolesOf / hasAnyRole', () => {
   it('collects roles across labs', () => {

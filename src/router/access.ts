@@ -1,10 +1,6 @@
 import type { RouteMeta } from 'vue-router'
+import { rolesOf } from '../../shared/access'
 import type { CurrentUser, Role } from '../../shared/schemas/auth'
-
-/** Roles the user holds in any lab; the server still checks each lab on every request. */
-export function rolesOf(user: CurrentUser | null): Set<Role> {
-  return new Set(user?.memberships.map((m) => m.role) ?? [])
-}
 
 export function hasAnyRole(user: CurrentUser | null, roles: readonly Role[]): boolean {
   const held = rolesOf(user)

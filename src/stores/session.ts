@@ -3,7 +3,8 @@ import { computed, ref } from 'vue'
 import type { CurrentUser, LoginRequest, Role } from '../../shared/schemas/auth'
 import * as authApi from '@/api/auth'
 import { ApiError, asApiError } from '@/api/http'
-import { hasAnyRole, rolesOf } from '@/router/access'
+import { rolesOf } from '../../shared/access'
+import { hasAnyRole } from '@/router/access'
 
 /**
  * Who is signed in. `loaded` becomes true after the first answer from /auth/me so the router

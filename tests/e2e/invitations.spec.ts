@@ -60,7 +60,8 @@ test('a PI invites a new scientist, who joins the lab through the e-mailed link'
   const link = message.locator('a[href*="/join#"]')
   await expect(link).toHaveCount(1)
   const href = await link.getAttribute('href')
-  expect(href).toMatch(/^http:\/\/127\.0\.0\.1:3100\/join#[A-Za-z0-9_-]{43}$/)
+  // The link is built from PUBLIC_URL, which is the server's own address in the browser tests.
+  expect(href).toMatch(new RegExp(`^http://127\\.0\\.0\\.1:${process.env.E2E_PORT}/join#[A-Za-z0-9_-]{43}$`))
   await attachScreenshot(admin, testInfo, 'admin: the invitation e-mail in the Outbox')
   await adminContext.close()
 

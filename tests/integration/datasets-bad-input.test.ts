@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
-import { closeConnections, createTestApp } from '../support/api'
+import request from 'supertest'
+import { appWriteHeaders, closeConnections, createTestApp } from '../support/api'
 import { putAs, signedInTeam, uploadDataset } from './datasets-support'
 
 afterAll(closeConnections)
@@ -155,6 +156,15 @@ describe('bad files are refused with a message naming row and column', () => {
     expect(res.body.error.message).toContain('Row 3, column 2 ("note"): the value is 10,001 characters long')
   })
 
+  it('does not guess the length of a field it stopped reading (a million characters is not "65,036")', async () => {
+    const huge = 'a'.repeat(1_000_000)
+    const res = await refused(Buffer.from(`lab,note\nNimbus,${huge}\nFernhill,short\n`), 'huge-note.csv')
+    expect(res.status).toBe(400)
+    expect(res.body.error.message).toBe(
+      'Row 2, column 2 ("note"): the value is longer than 10,000 characters, the limit (reading stopped there). This often means a quote is never closed.',
+    )
+  })
+
   it('stops reading a never-closed quote at the field limit instead of swallowing the file', async () => {
     const rest = Array.from({ length: 2000 }, (_, k) => `Nimbus,m${k % 4},vehicle,${k}`).join('\n')
     const res = await refused(
@@ -246,5 +256,68 @@ describe('bad taggings are refused with the first offending row', () => {
     })
     expect(res.status).toBe(422)
     expect(res.body.error.message).toContain('“treatment” does not split “mouse”')
+  })
+})
+
+describe('an upload that arrives incomplete', () => {
+  /** A multipart body as the browser sends it, cut off before the closing boundary. */
+  function truncatedBody(boundary: string, fileName: string): Buffer {
+    return Buffer.from(
+      [
+        `--${boundary}`,
+        'Content-Disposition: form-data; name="labId"',
+        '',
+        String(team.lab.id),
+        `--${boundary}`,
+        'Content-Disposition: form-data; name="projectName"',
+        '',
+        'Cut off',
+        `--${boundary}`,
+        `Content-Disposition: form-data; name="file"; filename="${fileName}"`,
+        'Content-Type: text/csv',
+        '',
+        'lab,mouse,length',
+        'Nimbus,m1,1.5',
+        'Fernhill,m2,2.5',
+      ].join('\r\n'),
+    )
+  }
+
+  for (const fileName of ['cells.csv', 'cells.xlsx']) {
+    it(`answers 400 for a body without its closing boundary (${fileName}) and stores nothing`, async () => {
+      const boundary = 'nestwise-cut-off-boundary'
+      const before = await db('datasets').where({ lab_id: team.lab.id }).count<{ n: number }[]>('* as n')
+      const res = await request(app)
+        .post('/api/v1/datasets')
+        .set(appWriteHeaders)
+        .set('Cookie', team.cookies.scientist)
+        .set('Content-Type', `multipart/form-data; boundary=${boundary}`)
+        .send(truncatedBody(boundary, fileName))
+      expect(res.status, JSON.stringify(res.body)).toBe(400)
+      expect(res.body.error).toMatchObject({
+        code: 'INVALID_PAYLOAD',
+        message: 'The upload arrived incomplete (the form ended early). Try again.',
+      })
+      const after = await db('datasets').where({ lab_id: team.lab.id }).count<{ n: number }[]>('* as n')
+      expect(Number(after[0].n)).toBe(Number(before[0].n))
+    })
+  }
+})
+
+describe('header names in stray quotes', () => {
+  it('are stored without the quotes', async () => {
+    const res = await uploadDataset(
+      app,
+      team.cookies.scientist,
+      Buffer.from('lab, "mouse","""length"""\nNimbus,m1,1.5\nFernhill,m2,2.5\n'),
+      'quoted-header.csv',
+      { labId: team.lab.id },
+    )
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    const names = await db('dataset_columns')
+      .where({ version_id: res.body.data.latestVersion.id })
+      .orderBy('position')
+      .pluck('name')
+    expect(names).toEqual(['lab', 'mouse', 'length'])
   })
 })

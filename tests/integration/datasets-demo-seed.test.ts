@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
-import { loadNestedColumns } from '../../server/services/datasets-readback.service'
+import { loadNestedColumns } from '../../server/rows-store/read-back'
 import { seed as seedPeople } from '../../seeds/01-demo-people'
 import { seed as seedDatasets } from '../../seeds/02-demo-datasets'
 import { unitMeansTest } from '../../shared/stats/unit-means-test'

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs'
 import iconv from 'iconv-lite'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { loadNestedColumns } from '../../server/services/datasets-readback.service'
+import { loadNestedColumns } from '../../server/rows-store/read-back'
 import { closeConnections, createTestApp } from '../support/api'
 import { getAs, signedInTeam, uploadDataset } from './datasets-support'
 

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { loadNestedColumns } from '../../server/services/datasets-readback.service'
+import { loadNestedColumns } from '../../server/rows-store/read-back'
 import { closeConnections, createTestApp } from '../support/api'
 import {
   deleteAs,

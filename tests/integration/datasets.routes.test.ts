@@ -1,14 +1,18 @@
 import { createHash } from 'node:crypto'
 import { request as httpRequest } from 'node:http'
 import type { AddressInfo } from 'node:net'
-import { existsSync, readdirSync } from 'node:fs'
+import { spawnSync } from 'node:child_process'
+import { existsSync, mkdirSync, readdirSync, rmSync, writeFileSync } from 'node:fs'
+import { hostname } from 'node:os'
+import { join } from 'node:path'
 import request from 'supertest'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
 import { ingestConfig } from '../../server/ingest/ingest-config'
 import { originalPath } from '../../server/ingest/original-store'
 import { sweepDatasetLeftovers } from '../../server/services/datasets-upload.service'
-import { loadNestedColumns } from '../../server/services/datasets-readback.service'
+import { uploadTemp } from '../../server/uploads/upload-intake'
+import { loadNestedColumns } from '../../server/rows-store/read-back'
 import { appWriteHeaders } from '../support/api'
 import {
   datasetsTestApp,
@@ -112,7 +116,7 @@ describe('upload and profile', () => {
     expect(original.headers['content-disposition']).toContain('again.csv')
     expect(Buffer.compare(original.body as Buffer, csv)).toBe(0)
     // The temporary upload is gone once the request is over.
-    expect(readdirSync(ingestConfig.uploadsDir).filter((n) => n.endsWith('.csv'))).toEqual([])
+    expect(readdirSync(uploadTemp.dir).filter((n) => n.endsWith('.csv'))).toEqual([])
   })
 
   it('reports progress to the uploader under the token the client chose, and to nobody else', async () => {
@@ -135,6 +139,23 @@ describe('upload and profile', () => {
     expect(bad.status).toBe(400)
     const failed = await getAs(app, team.cookies.scientist, `/api/v1/datasets/uploads/${failing}`)
     expect(failed.body.data).toMatchObject({ phase: 'failed', message: bad.body.error.message })
+  })
+
+  it('takes a field sent after the file (the live ingest started without it is dropped, nothing stored twice)', async () => {
+    const res = await request(app)
+      .post('/api/v1/datasets')
+      .set(appWriteHeaders)
+      .set('Cookie', team.cookies.scientist)
+      .field('labId', String(team.lab.id))
+      .field('projectName', 'Late fields')
+      .attach('file', csv, 'early.csv')
+      .field('name', 'Named after the file arrived')
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    expect(res.body.data.name).toBe('Named after the file arrived')
+    const project = await db('projects').where({ lab_id: team.lab.id, name: 'Late fields' }).first('id')
+    expect(await db('datasets').where({ project_id: project.id }).count<{ n: number }[]>('* as n')).toEqual([
+      { n: 1 },
+    ])
   })
 
   it('asks for a file and for a project', async () => {
@@ -386,5 +407,20 @@ describe('startup sweep', () => {
       `SELECT tablename FROM pg_tables WHERE tablename IN ('dataset_rows_${version.id}', 'dataset_rows_987654321')`,
     )
     expect(tables.rows).toEqual([])
+  })
+
+  it('removes at once the temp uploads of a server process that is gone, not those of one still running', async () => {
+    const gone = spawnSync(process.execPath, ['-e', '']).pid!
+    const crashed = join(ingestConfig.uploadsRoot, `${hostname()}-${gone}`)
+    const running = join(ingestConfig.uploadsRoot, `${hostname()}-${process.ppid}`)
+    for (const dir of [crashed, running]) {
+      mkdirSync(dir, { recursive: true })
+      writeFileSync(join(dir, 'half-received.csv'), 'lab,mouse\nNimbus,m1\n')
+    }
+    const swept = await sweepDatasetLeftovers()
+    expect(swept.tempFiles).toBeGreaterThanOrEqual(1)
+    expect(existsSync(crashed)).toBe(false)
+    expect(existsSync(join(running, 'half-received.csv'))).toBe(true)
+    rmSync(running, { recursive: true, force: true })
   })
 })

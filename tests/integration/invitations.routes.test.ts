@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
-import { closeConnections, createTestApp, sessionCookieFrom, signIn } from '../support/api'
+import { closeConnections, createTestApp, postLogin, sessionCookieFrom, signIn } from '../support/api'
 import { asUser } from '../support/as-user'
 import { createLab, createLabWithTeam, createUser, uniqueEmail, type TestUser } from '../support/factories'
 import { invitationTokenIn, latestOutboxRowTo } from '../support/mail'
@@ -33,6 +33,23 @@ async function auditActions(labId: number): Promise<string[]> {
 let team: Awaited<ReturnType<typeof createLabWithTeam>>
 beforeAll(async () => {
   team = await createLabWithTeam()
+})
+
+describe('internationalised addresses', () => {
+  it('invites jörg@müller.de, who joins and signs in with the address as typed', async () => {
+    const email = `jörg.${Date.now().toString(36)}@müller.de`
+    const { token } = await invite(team.pi, team.lab.id, email)
+    const accepted = await anonymous().post('/api/v1/invitations/accept', {
+      token,
+      name: 'Jörg Test',
+      password: 'a long new password',
+    })
+    expect(accepted.status, JSON.stringify(accepted.body)).toBe(200)
+    expect(accepted.body.data.user.email).toBe(email)
+    // Typed with a capital and a combining diaeresis, it is still the same account.
+    const typed = email.replace('jörg', 'Jo\u0308rg')
+    expect((await postLogin(app, typed, 'a long new password')).status).toBe(200)
+  })
 })
 
 describe('creating invitations', () => {

@@ -173,6 +173,11 @@ describe('saving plans', () => {
       inputs: clusterPowerExample,
     })
     expect(create.status).toBe(403)
+    // The refusal is about plans, not about uploading.
+    for (const refusal of [rename, create])
+      expect(refusal.body.error.message).toBe(
+        `Saving, changing and deleting plans needs the role scientist or PI in ${team.lab.name}.`,
+      )
   })
 
   it('hides plans of other labs (404) and keeps them out of lists', async () => {

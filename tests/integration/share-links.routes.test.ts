@@ -83,7 +83,7 @@ describe('creating a link', () => {
 })
 
 describe('opening a link without an account', () => {
-  it('shows the version’s result, chart and name; counts each opening and audits it', async () => {
+  it('shows the version’s result, chart and name; counts each opening, and audits the first of the hour', async () => {
     const link = await createLink(team.cookies.pi)
     const first = await shared(link.token)
     expect(first.status, JSON.stringify(first.body)).toBe(200)
@@ -103,8 +103,56 @@ describe('opening a link without an account', () => {
       action: 'share_link.opened',
       subject_id: String(link.id),
     })
-    expect(opened).toHaveLength(2)
+    expect(opened).toHaveLength(1)
     expect(opened[0].actor_user_id).toBeNull()
+  })
+
+  it('200 openings in a row from one visitor add one audit entry, and all 200 count on the link', async () => {
+    // A limit high enough for the 200 to pass: the flood limit has its own test below.
+    const roomy = createTestApp({ sharedRateLimit: 10_000 })
+    const link = await createLink(team.cookies.pi)
+    for (let k = 0; k < 200; k++) {
+      const res = await request(roomy).get(`/api/v1/shared/${link.token}`)
+      expect(res.status).toBe(200)
+    }
+    const opened = await db('audit_events').where({
+      action: 'share_link.opened',
+      subject_id: String(link.id),
+    })
+    expect(opened.length).toBeLessThanOrEqual(10)
+    expect(opened).toHaveLength(1)
+    expect((await db('share_links').where({ id: link.id }).first()).open_count).toBe(200)
+    const visits = await db('share_link_visits').where({ share_link_id: link.id })
+    expect(visits.map((v) => v.opens)).toEqual([200])
+    expect(JSON.stringify(visits)).not.toContain('127.0.0.1')
+  })
+
+  it('audits each visitor (client address, behind a trusted proxy) once an hour', async () => {
+    const proxied = createTestApp({ trustProxy: ['loopback'] })
+    const link = await createLink(team.cookies.pi)
+    for (const address of ['203.0.113.5', '203.0.113.5', '198.51.100.9', '203.0.113.5']) {
+      const res = await request(proxied).get(`/api/v1/shared/${link.token}`).set('X-Forwarded-For', address)
+      expect(res.status).toBe(200)
+    }
+    const opened = await db('audit_events').where({
+      action: 'share_link.opened',
+      subject_id: String(link.id),
+    })
+    expect(opened.map((row) => row.ip).sort()).toEqual(['198.51.100.9', '203.0.113.5'])
+    expect((await db('share_links').where({ id: link.id }).first()).open_count).toBe(4)
+  })
+
+  it('answers a flood from one address with 429 and Retry-After', async () => {
+    const strict = createTestApp({ sharedRateLimit: 5 })
+    const link = await createLink(team.cookies.pi)
+    for (let k = 0; k < 5; k++)
+      expect((await request(strict).get(`/api/v1/shared/${link.token}`)).status).toBe(200)
+    const flooded = await request(strict).get(`/api/v1/shared/${link.token}`)
+    expect(flooded.status).toBe(429)
+    expect(flooded.body.error.code).toBe('RATE_LIMITED')
+    expect(Number(flooded.headers['retry-after'])).toBeGreaterThan(0)
+    // Unknown tokens count too, so guessing is slowed as much as reading.
+    expect((await request(strict).get('/api/v1/shared/not-a-token')).status).toBe(429)
   })
 
   it('answers 404 with a plain message for a tampered, expired or revoked link', async () => {

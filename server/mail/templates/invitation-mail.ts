@@ -1,5 +1,5 @@
 import type { Role } from '../../../shared/schemas/auth'
-import type { OutgoingMail } from '../../services/mail-outbox.service'
+import type { OutgoingMail } from '../outgoing-mail'
 
 const roleNames: Record<Role, string> = {
   scientist: 'scientist',

@@ -1,4 +1,4 @@
-import type { OutgoingMail } from '../../services/mail-outbox.service'
+import type { OutgoingMail } from '../outgoing-mail'
 
 function escapeHtml(text: string): string {
   return text.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`)

@@ -1,8 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { ApiError } from '@/api/http'
-import { samiScientist, beaBiostatistician, petraPi } from '@/testing/users'
 import { badFileWhere } from './bad-file'
-import { writableLabs } from './lab-access'
 import { moveItem } from './move-item'
 import { operatorsFor, placementWords, ruleWords, unitWords } from './nesting-words'
 import { sameTagging } from './same-tagging'
@@ -78,15 +76,6 @@ describe('unitAdequacy', () => {
       'adequate',
       'adequate',
     ])
-  })
-})
-
-describe('writableLabs', () => {
-  it('lists the labs where the person is a scientist or PI', () => {
-    expect(writableLabs(samiScientist).map((m) => m.labName)).toEqual(['Nimbus Neurite Lab'])
-    expect(writableLabs(petraPi)).toHaveLength(1)
-    expect(writableLabs(beaBiostatistician)).toEqual([])
-    expect(writableLabs(null)).toEqual([])
   })
 })
 

@@ -1,5 +1,5 @@
 import type { CurrentUser } from '../../../shared/schemas/auth'
-import { writableLabs } from '@/components/dataset/lab-access'
+import { writableLabs } from '../../../shared/access'
 
 export interface NextStep {
   id: 'upload-first-table' | 'read-lab-datasets' | 'join-a-lab' | 'instance-admin'

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { CopyTextBuilder, CopyTextLines, decodeCopyTextField, encodeCopyTextRow, fieldEnd } from './copy-text'
-import { CsvTokenizer } from './csv-tokenizer'
+import { CsvTokenizer } from '../ingest/csv-tokenizer'
 
 describe('COPY text format', () => {
   it('escapes backslashes, tabs and line breaks and writes NULL for empty cells', () => {

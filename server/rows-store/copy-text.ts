@@ -4,7 +4,6 @@
  * Format: fields split by tab, rows by newline, \N for NULL, backslash escapes for \ tab LF CR.
  * https://www.postgresql.org/docs/current/sql-copy.html#id-1.9.3.55.9.2
  */
-import type { CsvRow } from './csv-tokenizer'
 
 const NEEDS_ESCAPE = /[\\\t\n\r]/
 const ESCAPES: Record<string, string> = { '\\': '\\\\', '\t': '\\t', '\n': '\\n', '\r': '\\r' }
@@ -28,6 +27,14 @@ const BACKSLASH = 92
 const NUL = 0
 const NULL_MARK = [BACKSLASH, 78] // \N
 
+/** A row as byte ranges (the CSV reader's rows have this shape). */
+export interface ByteRow {
+  bytes: Buffer
+  starts: ArrayLike<number>
+  ends: ArrayLike<number>
+  count: number
+}
+
 /**
  * Builds COPY text lines from the CSV reader's byte rows, as encodeCopyTextRow does from strings,
  * without making a string of any field on the way.
@@ -37,7 +44,7 @@ export class CopyTextBuilder {
   private used = 0
 
   /** Appends one row; returns the index of a field holding a NUL byte (COPY cannot store it), or -1. */
-  addRow(row: CsvRow): number {
+  addRow(row: ByteRow): number {
     const { bytes, starts, ends, count } = row
     let size = count + 2
     for (let k = 0; k < count; k++) size += 2 * (ends[k] - starts[k])

@@ -1,19 +1,7 @@
 import type { UploadProgress } from '../../shared/schemas/datasets'
+import type { ProgressSink } from '../ingest/progress-sink'
 
 type Phase = UploadProgress['phase']
-
-/**
- * Where ingest reports how far it got (the HTTP layer shows it to the uploader while the request
- * runs), and learns through `signal` that the uploader went away, so it stops and rolls back.
- */
-export interface ProgressSink {
-  signal?: AbortSignal
-  update(
-    change: Partial<Pick<UploadProgress, 'phase' | 'bytesRead' | 'bytesTotal' | 'rowsStored' | 'message'>>,
-  ): void
-}
-
-export const noProgress: ProgressSink = { update: () => {} }
 
 // Keyed by user as well, so two people choosing the same token never see or overwrite each other's entry.
 const keyOf = (token: string, userId: number) => `${userId}:${token}`

@@ -1,7 +1,7 @@
 import type { ColumnType, Exclusion, ExclusionRule, ExclusionUnit } from '../../shared/schemas/datasets'
-import { numberPatternSql, TRIM_CHARS_SQL, type DecimalMark } from '../ingest/number-text'
-import { cellColumn, queryBuilt, rowsTable } from './datasets-rows.repo'
-import { defaultConn, type Conn } from './connection'
+import { numberPatternSql, TRIM_CHARS_SQL, type DecimalMark } from './number-text'
+import { cellColumn, queryBuilt, rowsTable } from './rows-tables'
+import { defaultConn, type Conn } from '../repositories/connection'
 
 /**
  * SQL over a version's row table. Everything here is built from column positions (integers) and

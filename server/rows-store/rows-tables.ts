@@ -1,8 +1,7 @@
 import type { Knex } from 'knex'
-import type pg from 'pg'
 import { from as copyFrom, to as copyTo } from 'pg-copy-streams'
 import type { Readable, Writable } from 'node:stream'
-import { defaultConn, type Conn } from './connection'
+import { defaultConn, transactionClient, withClient, type Conn } from '../repositories/connection'
 
 /**
  * The per-version row tables: `dataset_rows_<version id>` with `row_no` (file order, 1-based) and one
@@ -22,11 +21,6 @@ export function cellColumn(position: number): string {
 
 const columnList = (count: number) => Array.from({ length: count }, (_, k) => cellColumn(k + 1)).join(', ')
 
-/** The node-postgres client behind a knex transaction (the connection the transaction runs on). */
-async function transactionClient(trx: Knex.Transaction): Promise<pg.PoolClient> {
-  return (await trx.client.acquireConnection()) as pg.PoolClient
-}
-
 export async function createRowsTable(
   trx: Knex.Transaction,
   versionId: number,
@@ -36,6 +30,18 @@ export async function createRowsTable(
   // Identity cache: fewer sequence updates while COPY numbers a million rows.
   await trx.raw(
     `CREATE TABLE ${rowsTable(versionId)} (row_no bigint GENERATED ALWAYS AS IDENTITY (CACHE 1000), ${columns})`,
+  )
+}
+
+/**
+ * Makes a version's rows final: once the upload that wrote them is stored, any INSERT, UPDATE,
+ * DELETE or TRUNCATE on the table fails (the function is made by the migration that introduced
+ * it), as finished analysis versions are frozen. Analyses and sign-offs refer to these exact rows.
+ */
+export async function freezeRowsTable(trx: Knex.Transaction, versionId: number): Promise<void> {
+  const table = rowsTable(versionId)
+  await trx.raw(
+    `CREATE TRIGGER ${table}_frozen BEFORE INSERT OR UPDATE OR DELETE OR TRUNCATE ON ${table} FOR EACH STATEMENT EXECUTE FUNCTION dataset_rows_frozen()`,
   )
 }
 
@@ -89,19 +95,6 @@ export async function openCopyIn(
   const sql = `COPY ${rowsTable(versionId)} (${columnList(columnCount)}) FROM STDIN (${options})`
   const client = await transactionClient(trx)
   return client.query(copyFrom(sql))
-}
-
-/** Runs `work` on the node-postgres client behind `conn` (the transaction's own, or one from the pool). */
-async function withClient<T>(conn: Conn, work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
-  const isTransaction = 'isTransaction' in conn && (conn as Knex.Transaction).isTransaction
-  const client = isTransaction
-    ? await transactionClient(conn as Knex.Transaction)
-    : ((await conn.client.acquireConnection()) as pg.PoolClient)
-  try {
-    return await work(client)
-  } finally {
-    if (!isTransaction) await conn.client.releaseConnection(client)
-  }
 }
 
 /**

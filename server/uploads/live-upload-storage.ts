@@ -1,6 +1,6 @@
 import { createWriteStream } from 'node:fs'
 import { rm } from 'node:fs/promises'
-import { basename, join } from 'node:path'
+import { basename, dirname } from 'node:path'
 import type { Request } from 'express'
 import type { StorageEngine } from 'multer'
 import type { ChunkChannel } from './chunk-channel'
@@ -19,13 +19,12 @@ export type StartLiveIngest = (
  * its chunks to a live ingest. The slower of the two sets the pace (the file stream pauses).
  */
 export function liveDiskStorage(
-  dir: string,
-  fileName: (file: Express.Multer.File) => string,
+  pathFor: (file: Express.Multer.File) => string,
   startLive: StartLiveIngest,
 ): StorageEngine {
   return {
     _handleFile(req, file, done) {
-      const path = join(dir, fileName(file))
+      const path = pathFor(file)
       let channel: ChunkChannel | null
       try {
         channel = startLive(req, file, path)
@@ -81,7 +80,7 @@ export function liveDiskStorage(
         out.end()
       })
       out.on('error', fail)
-      out.on('finish', () => done(null, { path, size, filename: basename(path), destination: dir }))
+      out.on('finish', () => done(null, { path, size, filename: basename(path), destination: dirname(path) }))
     },
     _removeFile(_req, file, done) {
       rm(file.path, { force: true }).then(
