@@ -69,7 +69,7 @@ describe('exclusion wording', () => {
 })
 
 describe('unitAdequacy', () => {
-  it('follows the badge rule: under 3 too few, 3 to 5 few, 6 or more enough (common practice, no source)', () => {
+  it('follows the badge rule: under 3 too few, 3 to 5 thin, 6 or more the minimum for a variance estimate (common practice, no source)', () => {
     expect([0, 2, 3, 5, 6, 40].map(unitAdequacy)).toEqual([
       'too-few',
       'too-few',
