@@ -34,7 +34,8 @@ test('a saved plan shows on the read-only link and in the printed report', async
     labId: analysis.labId,
     name: PLAN,
     source: { analysisId: analysis.id, versionNo: 1 },
-    inputs,
+    // The suggestion leaves the difference to the person planning: an invented 15 µm here.
+    inputs: { ...inputs, difference: 15 },
   })
   const link = await post<{ url: string }>(page, `/api/v1/analyses/${analysis.id}/share-links`, {
     versionNo: 1,
