@@ -45,7 +45,10 @@ export async function checkPage(page: Page, name: string, testInfo: TestInfo): P
   // AXE_DUMP=folder writes every page's full findings there, for reading outside the report.
   if (process.env.AXE_DUMP) {
     mkdirSync(process.env.AXE_DUMP, { recursive: true })
-    writeFileSync(join(process.env.AXE_DUMP, `${name.replace(/\W+/g, '-')}.json`), JSON.stringify(violations, null, 2))
+    writeFileSync(
+      join(process.env.AXE_DUMP, `${name.replace(/\W+/g, '-')}.json`),
+      JSON.stringify(violations, null, 2),
+    )
   }
   return check
 }
