@@ -3,6 +3,7 @@ import {
   buildPaths,
   childrenPerParent,
   conditionDepth,
+  reusedLabelCount,
   reusedLabels,
   rowsPerUnit,
   type CodedColumn,
@@ -17,7 +18,7 @@ export interface DesignInput {
   condition: CodedColumn | null
 }
 
-export interface DesignFacts extends DesignSummary {
+export interface DesignFacts extends Omit<DesignSummary, 'missingValues'> {
   /** First row (0-based) without a label at some level, or null. */
   missingLabel: { column: string; rowIndex: number } | null
   /** First row (0-based) without a condition value, or null. */
@@ -169,6 +170,7 @@ export function describeDesign(input: DesignInput): DesignFacts {
       unitCount: level.count,
       perParent: d === 0 ? null : childrenPerParent(level, paths[d - 1].count),
       reusedLabels: d === 0 ? [] : reusedLabels(level),
+      reusedLabelCount: d === 0 ? 0 : reusedLabelCount(level),
     })),
     conditionLevel,
     conditionPlacement,

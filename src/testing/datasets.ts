@@ -187,6 +187,7 @@ export const neuriteDesign: DesignSummary = {
     { value: 'NW-117', unitCount: 2, observationCount: 38 },
   ],
   explanation: ['“lab” has 3 units.'],
+  missingValues: [],
 }
 
 export function exclusion(overrides: Partial<Exclusion> = {}): Exclusion {
