@@ -116,6 +116,13 @@ test('labels with markup in a shared chart’s tooltip stay text', async ({ page
   await expect(tooltip.first()).toContainText(MARKUP)
   expect(await guest.locator('img[src="x"]').count()).toBe(0)
   expect(await chart.locator('img').count()).toBe(0)
+  // The unit table is shared, so "Check in R" is offered: the script refits the stored model.
+  await guest.getByTestId('r-export').click()
+  const scriptHref = await guest.getByTestId('r-export-script').getAttribute('href')
+  const script = await guest.request.get(scriptHref!)
+  expect(script.status()).toBe(200)
+  expect(await script.text()).toContain('model <- lmer(neurite_length_um ~ treatment')
+  await guest.keyboard.press('Escape')
   // The legend and the key name the lab as it was written.
   await expect(guest.getByTestId('unit-key')).toContainText(`Nimbus ${MARKUP}`)
   await guestContext.close()
