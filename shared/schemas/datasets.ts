@@ -243,6 +243,8 @@ export const DatasetVersionSummary = z.object({
   createdAt: z.string(),
   /** How long parsing and storing took on the server, in milliseconds. */
   ingestMs: z.number().int().nonnegative(),
+  /** Whether a nesting has been saved for this version (analyses need one). */
+  tagged: z.boolean().default(false),
 })
 export type DatasetVersionSummary = z.infer<typeof DatasetVersionSummary>
 

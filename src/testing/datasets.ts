@@ -53,6 +53,7 @@ export function versionSummary(overrides: Partial<DatasetVersionSummary> = {}): 
     createdBy: sami,
     createdAt: when,
     ingestMs: 116,
+    tagged: true,
     ...overrides,
   }
 }

@@ -69,6 +69,16 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
   await expect(bio).toHaveURL(/\/sign-in/)
   await signIn(bio, 'bea@example.org')
   await expect(bio.getByTestId('analysis-name')).toHaveText(ANALYSIS)
+  // Her overview says what waits for her: this review, linked.
+  await bio.getByTestId('nav-overview').click()
+  const waiting = bio.locator('[data-testid="next-step"][data-step="reviews-waiting"]')
+  await expect(waiting).toContainText(ANALYSIS)
+  await attachScreenshot(bio, testInfo, 'biostatistician: the overview with a review waiting')
+  await waiting
+    .getByRole('link', { name: new RegExp(ANALYSIS) })
+    .first()
+    .click()
+  await expect(bio.getByTestId('analysis-name')).toHaveText(ANALYSIS)
   const bioReview = bio.getByTestId('review-panel')
   await bioReview
     .getByTestId('new-comment')
