@@ -109,8 +109,12 @@ test('the sign-in page and the read-only link have no critical or serious violat
   browser,
 }, testInfo) => {
   const checks: PageCheck[] = []
+  // Nobody signed in is not an error: these pages ask no question that answers 401.
+  const refused: string[] = []
+  page.on('response', (r) => void (r.status() === 401 && refused.push(r.url())))
   await open(page, '/sign-in')
   checks.push(await checkPage(page, 'anonymous sign-in', testInfo))
+  expect(refused, 'requests answered 401 on the sign-in page').toEqual([])
 
   await signIn(page, 'petra@example.org')
   await expect(page.getByTestId('nav-overview')).toBeVisible({ timeout: 30_000 })
@@ -124,9 +128,11 @@ test('the sign-in page and the read-only link have no critical or serious violat
 
   const guestContext = await browser.newContext()
   const guest = await guestContext.newPage()
+  guest.on('response', (r) => void (r.status() === 401 && refused.push(r.url())))
   await guest.goto(new URL(url).pathname)
   await expect(guest.getByTestId('shared-name')).toHaveText(SINGLE_LAB, { timeout: 90_000 })
   checks.push(await checkPage(guest, 'anonymous read-only link', testInfo))
+  expect(refused, 'requests answered 401 on the read-only link').toEqual([])
   await guestContext.close()
   expectNoSeriousViolations(checks)
 })

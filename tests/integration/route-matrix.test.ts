@@ -186,6 +186,8 @@ const cases: Case[] = [
   }],
   ['POST /api/v1/auth/logout',                                 [204, 204, 204, 204, 204, 204], async (c) => (await c.freshApi()).post('/api/v1/auth/logout')],
   ['GET /api/v1/auth/me',                                      [401, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/auth/me')],
+  // who is signed in, if anyone: nobody is an answer, not an error
+  ['GET /api/v1/auth/session',                                 [200, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/auth/session')],
 
   // labs, members, invitations, audit
   ['GET /api/v1/labs',                                         [401, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/labs')],
