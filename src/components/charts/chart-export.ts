@@ -5,6 +5,7 @@ export function fileStem(name: string): string {
   const stem = name
     .normalize('NFKD')
     .replace(/[^A-Za-z0-9_-]+/g, '-')
+    .replace(/-{2,}/g, '-')
     .replace(/^-+|-+$/g, '')
   return stem.slice(0, 80) || 'chart'
 }
