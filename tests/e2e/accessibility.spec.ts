@@ -63,10 +63,6 @@ test('PI pages have no critical or serious accessibility violations', async ({ p
   await visit('lab board', '/lab/board', 'lab-board')
   await visit('lab members', '/lab/members', 'lab-name')
   await visit('audit log', '/lab/audit', 'audit-table')
-  // Entries read as sentences, not as raw action keys or key: value dumps.
-  const sentences = page.getByTestId('audit-sentence')
-  await expect(sentences.first()).toHaveText(/^[A-Z].*\.$/)
-  await expect(page.getByTestId('audit-table')).not.toContainText('analysis.created')
   await visit('agreement', `/analyses/${threeLabs.id}/versions/1/agreement`, 'agreement-findings')
   await visit('print view', `/analyses/${threeLabs.id}/versions/1/print`, 'print-page')
   expectNoSeriousViolations(checks)

@@ -131,6 +131,18 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
   await expect(share.getByTestId('share-links-table')).toContainText('active')
   await share.scrollIntoViewIfNeeded()
   await attachScreenshot(pi, testInfo, 'PI: a read-only link created')
+  // The lab's audit log says so in a sentence, with a link to the analysis; no raw keys.
+  await pi.getByTestId('nav-lab-audit').click()
+  const entries = pi.getByTestId('audit-sentence')
+  await expect(
+    entries.filter({ hasText: 'Created a read-only link to version 1 of the analysis' }).first(),
+  ).toBeVisible()
+  await expect(
+    entries.filter({ hasText: 'Signed off version 1 of the analysis (fingerprint ' }).first(),
+  ).toBeVisible()
+  await expect(pi.getByTestId('audit-table')).not.toContainText('share_link.created')
+  await attachScreenshot(pi, testInfo, 'PI: the audit log in sentences')
+  await pi.goBack()
 
   // A collaborator without an account opens the link.
   const guestContext = await browser.newContext()
