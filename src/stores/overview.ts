@@ -5,6 +5,7 @@ import { listAnalyses } from '@/api/analyses'
 import { listDatasets } from '@/api/datasets'
 import { listMyReviews } from '@/api/reviews'
 import { overviewSteps, type OverviewFacts } from '@/components/overview/next-step'
+import { labsWhereRole } from '@/components/overview/role-checks'
 
 /**
  * What the overview shows each person: their next steps by role, from their labs' datasets and
@@ -28,7 +29,7 @@ export const useOverviewStore = defineStore('overview', () => {
       return
     }
     loading.value = true
-    const reviewer = who.memberships.some((m) => m.role === 'biostatistician')
+    const reviewer = labsWhereRole(who, 'biostatistician').size > 0
     const settle = async <T>(work: Promise<T>): Promise<T | null> => {
       try {
         return await work

@@ -5,6 +5,7 @@ import type { DatasetSummary } from '../../../shared/schemas/datasets'
 import type { ReviewRequest } from '../../../shared/schemas/reviews'
 import { writableLabs } from '@/components/dataset/lab-access'
 import { unitAdequacy } from '@/components/dataset/unit-badge'
+import { labsWhereRole } from './role-checks'
 
 export interface NextStep {
   id:
@@ -86,7 +87,6 @@ export interface OverviewFacts {
 
 /** How many things a step lists before "and n more". */
 const LISTED = 4
-const PI_ROLE = 'pi'
 
 function plural(n: number, one: string, many: string): string {
   return `${n} ${n === 1 ? one : many}`
@@ -102,8 +102,8 @@ function plural(n: number, one: string, many: string): string {
 export function overviewSteps(user: CurrentUser, facts: OverviewFacts): NextStep[] {
   const steps: NextStep[] = []
   const memberOf = new Set(user.memberships.map((m) => m.labId))
-  const writable = new Set(writableLabs(user).map((m) => m.labId))
-  const piLabs = new Set(user.memberships.filter((m) => m.role === PI_ROLE).map((m) => m.labId))
+  const writable = labsWhereRole(user, 'scientist', 'pi')
+  const piLabs = labsWhereRole(user, 'pi')
 
   const reviews = (facts.reviews ?? []).filter((r) => r.status === 'open')
   if (reviews.length) {
