@@ -12,6 +12,8 @@ const DEMO_PLAN = {
   labSlug: 'nimbus-neurite-lab',
   authorEmail: 'sami@example.org',
   name: 'Follow-up outgrowth run, NW-117 vs vehicle',
+  /** Invented: the change in neurite length (µm) the lab would call biologically meaningful. */
+  difference: 15,
   /** Invented prices: a mouse through the whole protocol, and one traced neuron. */
   costPerUnit: 400,
   costPerObs: 3,
@@ -37,6 +39,7 @@ export async function seed(knex: Knex): Promise<void> {
   // Rounded as the planner form rounds the numbers it suggests.
   const inputs = PlanInputs.parse({
     ...roundInputs(suggested.inputs),
+    difference: DEMO_PLAN.difference,
     costPerUnit: DEMO_PLAN.costPerUnit,
     costPerObs: DEMO_PLAN.costPerObs,
   })

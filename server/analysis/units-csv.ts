@@ -1,3 +1,4 @@
+import { fileStem } from './file-stem'
 import type { ChartData } from '../../shared/schemas/analyses'
 import type { FactorSummary, GroupSummary } from '../../shared/schemas/analysis-result'
 
@@ -86,11 +87,5 @@ export function unitsCsv(chart: Pick<ChartData, 'unitLevels'>, design?: UnitsCsv
 
 /** A download name from the analysis name: letters, digits, - and _ only, never empty. */
 export function csvFilename(analysisName: string, versionNo: number): string {
-  const base = analysisName
-    .normalize('NFKD')
-    .replace(/[\u0300-\u036f]/g, '')
-    .replace(/[^A-Za-z0-9_-]+/g, '-')
-    .replace(/^-+|-+$/g, '')
-    .slice(0, 80)
-  return `${base || 'analysis'}-v${versionNo}-units.csv`
+  return `${fileStem(analysisName)}-v${versionNo}-units.csv`
 }

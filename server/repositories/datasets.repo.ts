@@ -177,6 +177,7 @@ interface VersionRow {
   created_by: number
   creator_name: string
   created_at: Date
+  tagged: boolean
 }
 
 export type VersionRecord = DatasetVersionSummary
@@ -204,13 +205,18 @@ function toVersion(row: VersionRow): VersionRecord {
     createdBy: { id: row.created_by, name: row.creator_name },
     createdAt: iso(row.created_at),
     ingestMs: row.ingest_ms,
+    tagged: row.tagged,
   }
 }
 
 const versionQuery = (conn: Conn) =>
   conn('dataset_versions as v')
     .join('users as u', 'u.id', 'v.created_by')
-    .select('v.*', 'u.name as creator_name')
+    .select(
+      'v.*',
+      'u.name as creator_name',
+      conn.raw('exists (select 1 from dataset_taggings t where t.version_id = v.id) as tagged'),
+    )
 
 export async function insertVersion(
   values: {

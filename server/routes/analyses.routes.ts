@@ -21,6 +21,8 @@ import {
   listAnalysesFor,
   renameAnalysisFor,
 } from '../services/analyses.service'
+import { rExportFor } from '../services/r-export.service'
+import { sendRRows, sendRScript } from './r-export-responses'
 
 /** The parsed (numeric) ids of a version route. */
 const version = (params: unknown) => {
@@ -101,6 +103,22 @@ export function analysesRoutes(): Router {
       res.attachment(file.filename)
       // A byte-order mark so spreadsheet programs read the UTF-8 labels correctly.
       res.send(`\uFEFF${file.body}`)
+    },
+  )
+
+  router.get(
+    '/:analysisId/versions/:versionNo/r/script.R',
+    validate({ params: AnalysisVersionParams }),
+    async (req, res) => {
+      sendRScript(res, (await rExportFor(req.user!, ...version(req.params))).script)
+    },
+  )
+
+  router.get(
+    '/:analysisId/versions/:versionNo/r/rows.csv',
+    validate({ params: AnalysisVersionParams }),
+    async (req, res) => {
+      await sendRRows(res, (await rExportFor(req.user!, ...version(req.params))).rows)
     },
   )
 

@@ -43,5 +43,12 @@ export function authRoutes({ passport, loginLimits, cookie }: AuthRoutesOptions)
     res.json({ data: req.user })
   })
 
+  // "Who is signed in, if anyone": what the app asks when it starts. Nobody is an answer (200 with
+  // null), not an error, so the sign-in page and a read-only link log no failed request.
+  router.get('/session', (req, res) => {
+    res.setHeader('Cache-Control', 'no-store')
+    res.json({ data: req.user ?? null })
+  })
+
   return router
 }

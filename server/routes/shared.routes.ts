@@ -1,7 +1,9 @@
 import { Router, type Response } from 'express'
 import { SharedTokenParams } from '../../shared/schemas/share-links'
 import { NotFoundError } from '../errors/app-error'
+import { sharedRExport } from '../services/r-export.service'
 import { openSharedAnalysis, sharedUnitsCsv } from '../services/share-links.service'
+import { sendRRows, sendRScript } from './r-export-responses'
 
 /** A malformed token gets the same plain 404 as an unknown one: nothing to tell apart. */
 function tokenOf(params: unknown): string {
@@ -37,6 +39,17 @@ export function sharedRoutes(): Router {
     res.set('Content-Type', 'text/csv; charset=utf-8')
     res.attachment(file.filename)
     res.send(`\uFEFF${file.body}`)
+  })
+
+  // "Check it in R": the script and the exact rows, under the same condition as the unit table.
+  router.get('/:token/r/script.R', async (req, res) => {
+    privateAnswer(res)
+    sendRScript(res, (await sharedRExport(tokenOf(req.params))).script)
+  })
+
+  router.get('/:token/r/rows.csv', async (req, res) => {
+    privateAnswer(res)
+    await sendRRows(res, (await sharedRExport(tokenOf(req.params))).rows)
   })
 
   return router

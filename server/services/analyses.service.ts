@@ -26,6 +26,7 @@ import {
   listAnalysisVersions,
   lockAnalysisForNewVersion,
   renameAnalysis,
+  type AnalysisRecord,
   type AnalysisVersionRecord,
   type RecordedExclusion,
 } from '../repositories/analyses.repo'
@@ -162,25 +163,38 @@ export interface UnitsCsvFile {
   body: string
 }
 
+/**
+ * A finished version the caller may read, for its exports ("the unit table", "the R export" name
+ * what is asked for in the messages): 404 outside the caller's labs, 409 while it runs, 422 (the
+ * engine's words) when it failed as too thin.
+ */
+export async function finishedVersionFor(
+  user: CurrentUser,
+  analysisId: number,
+  versionNo: number,
+  what: string,
+): Promise<{ analysis: AnalysisRecord; version: AnalysisVersionRecord }> {
+  const analysis = await readable(user, 'analysis', analysisId)
+  const version = await versionOf(analysisId, versionNo)
+  if (version.status === 'failed') {
+    if (version.error?.code === 'UNPROCESSABLE')
+      throw new UnprocessableError(version.error.message, version.error.details)
+    throw new ConflictError(`This version failed, so it has no ${what}. Create a new version to try again.`)
+  }
+  if (version.status !== 'done')
+    throw new ConflictError(`This version is still running; the ${what} is ready when it is done.`, {
+      status: version.status,
+    })
+  return { analysis, version }
+}
+
 /** The unit-level table of a finished version; 409 while it runs, 422 (the engine's words) when it failed as too thin. */
 export async function exportUnitsCsv(
   user: CurrentUser,
   analysisId: number,
   versionNo: number,
 ): Promise<UnitsCsvFile> {
-  const analysis = await readable(user, 'analysis', analysisId)
-  const version = await versionOf(analysisId, versionNo)
-  if (version.status === 'failed') {
-    if (version.error?.code === 'UNPROCESSABLE')
-      throw new UnprocessableError(version.error.message, version.error.details)
-    throw new ConflictError(
-      'This version failed, so it has no unit table. Create a new version to try again.',
-    )
-  }
-  if (version.status !== 'done')
-    throw new ConflictError('This version is still running; the unit table is ready when it is done.', {
-      status: version.status,
-    })
+  const { analysis, version } = await finishedVersionFor(user, analysisId, versionNo, 'unit table')
   const { result, chart } = await findAnalysisVersionResult(version.id)
   if (!chart) throw new ConflictError('This version has no unit table.')
   return { filename: csvFilename(analysis.name, versionNo), body: unitsCsv(chart, result) }

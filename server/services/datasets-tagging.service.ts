@@ -10,7 +10,13 @@ import {
   insertTagging,
   taggingHistory,
 } from '../repositories/datasets-annotations.repo'
-import { excludedSql, firstNonNumberRow, type RowTableShape } from '../rows-store/row-queries'
+import {
+  countRowsWhere,
+  excludedSql,
+  exclusionSql,
+  firstNonNumberRow,
+  type RowTableShape,
+} from '../rows-store/row-queries'
 import { touchDataset, type VersionRecord } from '../repositories/datasets.repo'
 import { readable, writable } from '../access/records'
 import { fileRow, readColumns, shapeOf } from '../rows-store/read-back'
@@ -48,9 +54,29 @@ async function designOf(
   return { facts, read }
 }
 
-function publicDesign(facts: DesignFacts): DesignSummary {
+/**
+ * The design as the screens show it, with how many kept rows each response column leaves empty:
+ * the dataset's count and an analysis's count then add up ("3 rows have no soma_area_um2").
+ */
+async function publicDesign(
+  facts: DesignFacts,
+  shape: RowTableShape,
+  exclusions: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
+  responseColumns: readonly string[],
+): Promise<DesignSummary> {
   const { missingLabel: _label, missingCondition: _condition, ...design } = facts
-  return design
+  const kept = `NOT ${excludedSql(shape, exclusions)}`
+  const missingValues: DesignSummary['missingValues'] = []
+  for (const column of responseColumns) {
+    const missing = exclusionSql(shape, {
+      kind: 'rule',
+      rule: { column, operator: 'missing', value: null },
+      unit: null,
+    })
+    const rows = await countRowsWhere(shape, `${kept} AND coalesce(${missing}, false)`)
+    if (rows > 0) missingValues.push({ column, rows })
+  }
+  return { ...design, missingValues }
 }
 
 /**
@@ -196,7 +222,8 @@ export async function saveTagging(
     })
     return (await currentTagging(version.id, trx))!
   })
-  return { tagging, design: publicDesign(facts) }
+  const exclusions = await activeExclusions(version.id)
+  return { tagging, design: await publicDesign(facts, shape, exclusions, input.responseColumns) }
 }
 
 /** The current tagging's design over the rows kept now (exclusions may have changed since tagging). */
@@ -211,5 +238,5 @@ export async function getDesign(
   const shape = await shapeOf(version)
   const exclusions = await activeExclusions(version.id)
   const { facts } = await designOf(version, shape, exclusions, tagging.levels, tagging.conditionColumn)
-  return publicDesign(facts)
+  return publicDesign(facts, shape, exclusions, tagging.responseColumns)
 }

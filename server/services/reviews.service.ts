@@ -140,14 +140,16 @@ export async function getReviewState(
   versionNo: number,
 ): Promise<ReviewState> {
   const version = await readable(user, 'analysisVersion', { analysisId, versionNo })
-  const [signOff, requests, comments, reviewers] = await Promise.all([
+  const [signOff, requests, comments, reviewers, content] = await Promise.all([
     signOffStateOf(analysisId, versionNo),
     listRequestsOfVersion(version.id),
     listCommentsOfVersion(version.id),
     reviewersOf(version),
+    findSignableContent(version.id),
   ])
   return {
     signOff,
+    fingerprint: signOffHash(content),
     requests: requests.map(toRequest),
     comments: comments.map((c): ReviewComment => ({
       id: c.id,

@@ -257,3 +257,17 @@ export async function sharedUnitsCsv(token: string): Promise<{ filename: string;
   if (!version || !chart) throw new NotFoundError(GONE)
   return { filename: csvFilename(version.analysisName, version.versionNo), body: unitsCsv(chart, result) }
 }
+
+/**
+ * The version behind a link whose creator allowed the unit table, for exports of its rows (404
+ * otherwise, like any unknown path: the rows are at least as private as the unit table).
+ */
+export async function sharedVersionWithRows(
+  token: string,
+): Promise<{ analysisId: number; versionNo: number; analysisName: string }> {
+  const link = await usableLink(token)
+  if (!link.allowUnitTable) throw new NotFoundError('The rows are not shared through this link.')
+  const version = await findReviewableVersionById(link.analysisVersionId)
+  if (!version || version.status !== 'done') throw new NotFoundError(GONE)
+  return { analysisId: version.analysisId, versionNo: version.versionNo, analysisName: version.analysisName }
+}

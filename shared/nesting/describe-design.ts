@@ -3,6 +3,7 @@ import {
   buildPaths,
   childrenPerParent,
   conditionDepth,
+  reusedLabelCount,
   reusedLabels,
   rowsPerUnit,
   type CodedColumn,
@@ -17,7 +18,7 @@ export interface DesignInput {
   condition: CodedColumn | null
 }
 
-export interface DesignFacts extends DesignSummary {
+export interface DesignFacts extends Omit<DesignSummary, 'missingValues'> {
   /** First row (0-based) without a label at some level, or null. */
   missingLabel: { column: string; rowIndex: number } | null
   /** First row (0-based) without a condition value, or null. */
@@ -83,8 +84,14 @@ export function placementSentence(
     return `${c} changes within every ${inner} unit: each unit is compared with itself, and the comparison rests on the variation between observations inside the units.`
   }
   const level = q(paths[depth].column.name)
+  if (depth === 0 && paths.length === 1) {
+    // The usual design (animals or cultures assigned to conditions): nothing to warn about.
+    return `Each ${level} unit has a single ${c} value: the comparison is between ${level} units, so they are the independent units for it, and the differences between them are what the ${c} effect is tested against. This is the usual design.`
+  }
   if (depth === 0) {
-    return `Each ${level} unit has a single ${c} value: the comparison is between ${level} units, so they are the independent units for it (and ${level} differences cannot be told apart from the ${c} effect).`
+    // The outermost level carries the condition while levels sit inside it (each lab ran one arm).
+    const inner = q(paths[1].column.name)
+    return `Each ${level} unit has a single ${c} value: the comparison is between ${level} units, so they are the independent units for it, not the ${inner} units inside them; ${level} differences and the ${c} effect cannot be separated.`
   }
   const parent = q(paths[depth - 1].column.name)
   const crossedParents = countParentsWithBothArms(paths, depth, condition)
@@ -169,6 +176,7 @@ export function describeDesign(input: DesignInput): DesignFacts {
       unitCount: level.count,
       perParent: d === 0 ? null : childrenPerParent(level, paths[d - 1].count),
       reusedLabels: d === 0 ? [] : reusedLabels(level),
+      reusedLabelCount: d === 0 ? 0 : reusedLabelCount(level),
     })),
     conditionLevel,
     conditionPlacement,

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { countPaths, extendPaths, reusedLabels, type CodedColumn } from './unit-paths'
+import { countPaths, extendPaths, reusedLabelCount, reusedLabels, type CodedColumn } from './unit-paths'
 
 const column = (name: string, codes: number[], labelCount: number): CodedColumn => ({
   name,
@@ -17,6 +17,14 @@ describe('unit paths', () => {
     expect(Array.from(animal.parent)).toEqual([0, 0, 1])
     expect(reusedLabels(animal)).toEqual(['m0'])
     expect(countPaths(lab, animal.column, 5)).toBe(3)
+  })
+
+  it('lists the first five reused labels and counts them all', () => {
+    // Invented: two labs, eight mice each under the same labels m0…m7: all eight are reused.
+    const lab = extendPaths(null, column('lab', [...Array(8).fill(0), ...Array(8).fill(1)], 2), 16)
+    const mouse = extendPaths(lab, column('m', [0, 1, 2, 3, 4, 5, 6, 7, 0, 1, 2, 3, 4, 5, 6, 7], 8), 16)
+    expect(reusedLabels(mouse)).toEqual(['m0', 'm1', 'm2', 'm3', 'm4'])
+    expect(reusedLabelCount(mouse)).toBe(8)
   })
 
   it('counts the same units with the flat table and with the map used for huge label products', () => {

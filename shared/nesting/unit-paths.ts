@@ -161,6 +161,15 @@ export function rowsPerUnit(level: PathLevel): Spread | null {
 }
 
 /** Labels that name units under more than one parent ("m01" in two labs), up to `limit`, in label order. */
+/** How many labels of this level appear under more than one parent unit (reusedLabels lists the first few). */
+export function reusedLabelCount(level: PathLevel): number {
+  const unitsPerLabel = new Int32Array(level.column.labels.length)
+  for (let u = 0; u < level.count; u++) unitsPerLabel[level.label[u]]++
+  let count = 0
+  for (const n of unitsPerLabel) if (n > 1) count++
+  return count
+}
+
 export function reusedLabels(level: PathLevel, limit = 5): string[] {
   const unitsPerLabel = new Int32Array(level.column.labels.length)
   for (let u = 0; u < level.count; u++) unitsPerLabel[level.label[u]]++

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { PlanInputs, PlanResult, PlanSummary, SINGLE_LAB } from '../schemas/plans'
+import { planFewestUnits } from '../stats/plan-fewest-units'
 import { planThreeLevel } from '../stats/plan-three-level'
 import { threeLevelPower } from '../stats/three-level-power'
 import { computePlan } from './compute-plan'
@@ -200,5 +201,63 @@ describe('computePlan', () => {
     expect(single.labs).toBe(1)
     expect(single.labArmVariance).toBe(0)
     expect(single.notes.join(' ')).toMatch(/the plan is for this lab alone/)
+  })
+
+  it('without costs counts: the fewest units, then the fewest observations, and no cost anywhere', () => {
+    const inputs = PlanInputs.parse({
+      icc: 20 / 120,
+      spread: { kind: 'total', sdTotal: Math.sqrt(120) },
+      difference: 8,
+    })
+    expect([inputs.costPerUnit, inputs.costPerObs, inputs.outer.costPerLab]).toEqual([null, null, null])
+    const plan = computePlan(inputs)
+    // The same numbers straight into the engine's count-based search.
+    const direct = planFewestUnits({
+      labArmVariance: 0,
+      unitVariance: 20,
+      residualVariance: 100,
+      difference: 8,
+      minLabs: 1,
+      maxLabs: 1,
+    })
+    expect([plan.unitsPerArm, plan.obsPerUnit]).toEqual([direct.unitsPerLabArm, direct.obsPerUnit])
+    expect(plan).toMatchObject({ objective: 'counts', cost: null, mStar: null, kStar: null })
+    expect(plan.table.every((row) => row.cost === null)).toBe(true)
+    // Each row: more units, the fewest observations that reach the target with them.
+    const rows = plan.table.filter((r) => r.labs === 1)
+    expect(rows[0]).toMatchObject({
+      unitsPerArm: plan.unitsPerArm,
+      obsPerUnit: plan.obsPerUnit,
+      recommended: true,
+    })
+    for (const row of rows) {
+      expect(row.power).toBeGreaterThanOrEqual(0.8)
+      if (row.obsPerUnit > 1) {
+        const fewer = threeLevelPower({
+          labs: 1,
+          unitsPerLabArm: row.unitsPerArm,
+          obsPerUnit: row.obsPerUnit - 1,
+          labArmVariance: 0,
+          unitVariance: 20,
+          residualVariance: 100,
+          difference: 8,
+        })
+        expect(fewer.power).toBeLessThan(0.8)
+      }
+    }
+    expect(rows.map((r) => r.obsPerUnit)).toEqual([...rows.map((r) => r.obsPerUnit)].sort((a, b) => b - a))
+    expect(PlanResult.parse(plan).objective).toBe('counts')
+  })
+
+  it('refuses a cost per lab alone, and a zero cost per unit and observation', () => {
+    const base = { icc: 0.2, spread: { kind: 'total', sdTotal: 10 }, difference: 5 } as const
+    expect(PlanInputs.safeParse({ ...base, outer: { costPerLab: 500 } }).success).toBe(false)
+    expect(PlanInputs.safeParse({ ...base, costPerUnit: 0, costPerObs: 0 }).success).toBe(false)
+    expect(PlanInputs.safeParse({ ...base, costPerUnit: 0 }).success).toBe(false)
+    expect(PlanInputs.safeParse({ ...base, costPerObs: 2 }).success).toBe(true)
+  })
+
+  it('reads a result stored with costs as a cost plan', () => {
+    expect(PlanResult.parse(stored.result).objective).toBe('cost')
   })
 })

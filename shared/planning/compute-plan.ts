@@ -1,5 +1,6 @@
-import type { PlanInputs, PlanLabCurve, PlanResult } from '../schemas/plans'
+import { hasCosts, type PlanInputs, type PlanLabCurve, type PlanResult } from '../schemas/plans'
 import { ENGINE_VERSION } from '../stats/engine-version'
+import { planFewestUnits } from '../stats/plan-fewest-units'
 import { planThreeLevel } from '../stats/plan-three-level'
 import { threeLevelPower } from '../stats/three-level-power'
 import { pluralOf } from './plural-of'
@@ -43,10 +44,42 @@ function labValues(first: number, recommended: number, fewest: number | null): n
     .slice(0, 6)
 }
 
+/** The design search: the cheapest with costs (planThreeLevel), the fewest units without (planFewestUnits). */
+function searchDesign(inputs: PlanInputs, levels: ReturnType<typeof resolveLevels>) {
+  const { outer } = inputs
+  const common = {
+    design: levels.design,
+    labArmVariance: levels.labArmVariance,
+    labVariance: levels.labVariance,
+    unitVariance: levels.unitVariance,
+    residualVariance: levels.residualVariance,
+    difference: inputs.difference,
+    alpha: inputs.alpha,
+    power: inputs.targetPower,
+    arms: inputs.arms,
+    minLabs: outer.minLabs,
+    maxLabs: outer.maxLabs,
+    ...(inputs.maxUnitsPerArm === null ? {} : { maxUnitsPerLabArm: inputs.maxUnitsPerArm }),
+    ...(inputs.maxObsPerUnit === null ? {} : { maxObsPerUnit: inputs.maxObsPerUnit }),
+    labWords: { one: outer.name, many: pluralOf(outer.name) },
+  }
+  if (!hasCosts(inputs)) {
+    const plan = planFewestUnits(common)
+    return { ...plan, cost: null, mStar: null, kStar: null }
+  }
+  return planThreeLevel({
+    ...common,
+    costPerLab: outer.costPerLab ?? 0,
+    costPerUnit: inputs.costPerUnit ?? 0,
+    costPerObs: inputs.costPerObs ?? 0,
+  })
+}
+
 /**
  * The planner's whole answer from its inputs: the cheapest design reaching the target power over
  * labs, units per lab and arm and observations per unit (planThreeLevel; with one lab, the
- * two-level plan exactly), power curves against units for several observations per unit, what more
+ * two-level plan exactly), or without costs the design with the fewest independent units
+ * (planFewestUnits), power curves against units for several observations per unit, what more
  * observations buy at the recommended units, power for several numbers of labs with the ceiling
  * each can reach, and a small table of designs around the recommendation. Throws the engine's
  * EngineInputError for impossible inputs.
@@ -61,21 +94,8 @@ export function computePlan(inputs: PlanInputs): PlanResult {
     unitVariance: levels.unitVariance,
     residualVariance: levels.residualVariance,
   }
-  const design = planThreeLevel({
-    ...variances,
-    difference: inputs.difference,
-    alpha: inputs.alpha,
-    power: inputs.targetPower,
-    arms: inputs.arms,
-    minLabs: outer.minLabs,
-    maxLabs: outer.maxLabs,
-    costPerLab: outer.costPerLab,
-    costPerUnit: inputs.costPerUnit,
-    costPerObs: inputs.costPerObs,
-    ...(inputs.maxUnitsPerArm === null ? {} : { maxUnitsPerLabArm: inputs.maxUnitsPerArm }),
-    ...(inputs.maxObsPerUnit === null ? {} : { maxObsPerUnit: inputs.maxObsPerUnit }),
-    labWords: { one: outer.name, many: pluralOf(outer.name) },
-  })
+  const design = searchDesign(inputs, levels)
+  const counts = design.cost === null
   const alpha = design.alphaPerComparison
   const L = design.labs
   const k = design.unitsPerLabArm
@@ -90,12 +110,14 @@ export function computePlan(inputs: PlanInputs): PlanResult {
       alpha,
     })
   const costOf = (labs: number, units: number, obs: number) =>
-    (levels.design === 'one-arm' ? inputs.arms : 1) *
-    labs *
-    (outer.costPerLab +
-      (levels.design === 'one-arm' ? 1 : inputs.arms) *
-        units *
-        (inputs.costPerUnit + obs * inputs.costPerObs))
+    counts
+      ? null
+      : (levels.design === 'one-arm' ? inputs.arms : 1) *
+        labs *
+        ((outer.costPerLab ?? 0) +
+          (levels.design === 'one-arm' ? 1 : inputs.arms) *
+            units *
+            ((inputs.costPerUnit ?? 0) + obs * (inputs.costPerObs ?? 0)))
   const minUnits = (labs: number) => (labs === 1 && levels.design === 'every-arm' ? 2 : 1)
 
   const curveObs = curveObsValues(m)
@@ -147,7 +169,35 @@ export function computePlan(inputs: PlanInputs): PlanResult {
     })
   }
   const halfM = Math.max(1, Math.round(m / 2))
-  if (!levels.multiLab) {
+  if (counts) {
+    // Without costs the trade-off to show is units against observations: each row has the fewest
+    // observations per unit that reach the target with that many units.
+    const cap = design.searchedUpToObsPerUnit
+    const fewestObs = (labs: number, units: number): number | null => {
+      if (units < minUnits(labs) || powerAt(labs, units, cap).power < inputs.targetPower) return null
+      let low = 0
+      let high = cap
+      while (high - low > 1) {
+        const mid = Math.floor((low + high) / 2)
+        if (powerAt(labs, units, mid).power >= inputs.targetPower) high = mid
+        else low = mid
+      }
+      return high
+    }
+    addRow(L, k, m)
+    for (const units of [k + 1, k + 2, k + 3, k + 5]) {
+      const obs = fewestObs(L, units)
+      if (obs !== null) addRow(L, units, obs)
+    }
+    if (levels.multiLab) {
+      for (const labs of [L - 1, L + 1]) {
+        if (labs < outer.minLabs || labs > outer.maxLabs || labs < 1) continue
+        const obs = fewestObs(labs, k)
+        if (obs !== null) addRow(labs, k, obs)
+      }
+    }
+    table.sort((a, b) => a.labs - b.labs || a.unitsPerArm - b.unitsPerArm || a.obsPerUnit - b.obsPerUnit)
+  } else if (!levels.multiLab) {
     for (const units of [k - 2, k - 1, k, k + 1, k + 2])
       for (const obs of [halfM, m, m * 2]) addRow(L, units, obs)
   } else {
@@ -176,6 +226,7 @@ export function computePlan(inputs: PlanInputs): PlanResult {
     totalUnits: design.totalUnits,
     totalObs: design.totalObs,
     cost: design.cost,
+    objective: counts ? 'counts' : 'cost',
     power: design.achievedPower,
     alphaPerComparison: alpha,
     designEffect: design.deff,

@@ -1,4 +1,4 @@
-import type { PlanInputsInput } from '../schemas/plans'
+import type { PlanDraftInput } from '../schemas/plans'
 
 const significant = (v: number, digits = 4) => Number(v.toPrecision(digits))
 const maybe = (v: number | null | undefined) => (v === null || v === undefined ? v : significant(v))
@@ -7,7 +7,7 @@ const maybe = (v: number | null | undefined) => (v === null || v === undefined ?
  * Numbers suggested by an analysis, rounded for the form: an estimate carries no more than three or
  * four meaningful digits, and 19.299919646047865 only looks more certain than it is.
  */
-export function roundInputs(inputs: PlanInputsInput): PlanInputsInput {
+export function roundInputs<T extends PlanDraftInput>(inputs: T): T {
   const spread =
     inputs.spread.kind === 'total'
       ? { kind: 'total' as const, sdTotal: significant(inputs.spread.sdTotal) }
@@ -27,7 +27,7 @@ export function roundInputs(inputs: PlanInputsInput): PlanInputsInput {
     ...inputs,
     icc: Number(inputs.icc.toFixed(3)),
     spread,
-    difference: significant(inputs.difference),
+    difference: inputs.difference === null ? null : significant(inputs.difference),
     ...(outer ? { outer } : {}),
   }
 }

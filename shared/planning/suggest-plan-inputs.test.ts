@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import type { AnalysisResult } from '../schemas/analysis-result'
 import demo from '../report/fixtures/single-lab-demo.json'
-import { PlanInputs, SINGLE_LAB } from '../schemas/plans'
+import { PlanDraftInputs, PlanInputs, SINGLE_LAB } from '../schemas/plans'
 import { v01, v02 } from './fixtures/multi-lab-results'
 import { suggestPlanInputs } from './suggest-plan-inputs'
 
@@ -9,7 +9,7 @@ import { suggestPlanInputs } from './suggest-plan-inputs'
 const result = demo.result as AnalysisResult
 
 describe('suggestPlanInputs', () => {
-  it('splits the total variance by the ICC of the mouse level and takes the observed difference', () => {
+  it('splits the total variance by the ICC of the mouse level, and leaves difference and costs to the person', () => {
     const suggested = suggestPlanInputs(result)!
     const icc = result.icc.find((e) => e.level === 'mouse')!.icc
     const total = result.varianceComponents.reduce((s, c) => s + c.variance, 0)
@@ -20,10 +20,22 @@ describe('suggestPlanInputs', () => {
       sdBetween: expect.closeTo(Math.sqrt(icc * total), 12),
       sdWithin: expect.closeTo(Math.sqrt((1 - icc) * total), 12),
     })
-    expect(suggested.inputs.difference).toBeCloseTo(
-      Math.abs(result.comparisons.mixedModel!.contrasts[0].estimate),
-      12,
-    )
+    // The difference that matters is asked for; the observed one is a reference beside the field.
+    expect(suggested.inputs.difference).toBeNull()
+    expect(suggested.inputs.costPerUnit).toBeNull()
+    expect(suggested.inputs.costPerObs).toBeNull()
+    const contrast = result.comparisons.mixedModel!.contrasts[0]
+    expect(suggested.observed).toMatchObject({
+      what: 'NW-117 − vehicle',
+      estimate: contrast.estimate,
+      p: contrast.p,
+    })
+    // R: 7.619431734895755 + c(-1, 1) * qt(0.975, 8.056916622693118) * 12.459186086713249 → -21.08, 36.32
+    expect(suggested.observed!.ci[0]).toBeCloseTo(-21.08, 2)
+    expect(suggested.observed!.ci[1]).toBeCloseTo(36.32, 2)
+    expect(PlanDraftInputs.safeParse(suggested.inputs).success).toBe(true)
+    // Once the person gives a difference, the suggestion is a valid plan without costs.
+    expect(PlanInputs.safeParse({ ...suggested.inputs, difference: 10 }).success).toBe(true)
     expect(suggested.inputs.arms).toBe(2)
     expect(suggested.unitsInData).toBe(5)
     // One level: a plan for one lab, as before.
@@ -43,9 +55,10 @@ describe('suggestPlanInputs', () => {
       maxLabs: 4,
       effectSd: 2,
       sdBetweenLabs: null,
+      costPerLab: null,
     })
     expect(suggested).toMatchObject({ outerLevel: 'lab', labsInData: 4, labArmVarianceSource: 'analysis' })
-    expect(PlanInputs.safeParse(suggested.inputs).success).toBe(true)
+    expect(PlanInputs.safeParse({ ...suggested.inputs, difference: 5 }).success).toBe(true)
   })
 
   it('leaves the effect SD between labs unknown for an engine 0.1 result, and says so', () => {
@@ -57,11 +70,10 @@ describe('suggestPlanInputs', () => {
     expect(suggested.inputs.spread).toEqual({ kind: 'components', sdBetween: Math.sqrt(20), sdWithin: 10 })
   })
 
-  it('gives half an SD as the difference without a contrast, and nothing without variation', () => {
+  it('has no observed reference without a contrast, and nothing without variation', () => {
     const noContrast = { ...result, comparisons: { ...result.comparisons, mixedModel: null } }
-    const total = result.varianceComponents.reduce((s, c) => s + c.variance, 0)
-    // Half an SD: a common default, no source.
-    expect(suggestPlanInputs(noContrast)!.inputs.difference).toBeCloseTo(0.5 * Math.sqrt(total), 12)
+    expect(suggestPlanInputs(noContrast)).toMatchObject({ observed: null, observedDifference: null })
+    expect(suggestPlanInputs(noContrast)!.inputs.difference).toBeNull()
     const flat = {
       ...result,
       varianceComponents: result.varianceComponents.map((c) => ({ ...c, variance: 0 })),

@@ -1,3 +1,4 @@
+import { contrastInterval } from '../report/contrast-interval'
 import type { AnalysisResult } from '../schemas/analysis-result'
 import { SINGLE_LAB, type PlanDefaults } from '../schemas/plans'
 import { threeLevelComponents } from './three-level-components'
@@ -9,8 +10,15 @@ export type SuggestedPlan = Omit<PlanDefaults, 'source' | 'labId' | 'projectId'>
  * spread between units of one lab and arm and inside a unit (as two SDs), the outer level with its
  * number of units in the data as a fixed number of labs, and how much the effect differs between
  * labs (the SD of the difference between two arms from lab to lab, √(2 σ²_lab×arm); null when the
- * analysis did not estimate it, so the form asks). The difference is the first mixed-model
- * contrast's. Null when the analysis found no variation inside the labs (nothing to plan with).
+ * analysis did not estimate it, so the form asks). Null when the analysis found no variation
+ * inside the labs (nothing to plan with).
+ *
+ * The difference to detect is left empty: it is the one that matters biologically, which only the
+ * person planning can say. The observed difference (the first mixed-model contrast, with its
+ * interval and p) comes along as a reference only: planning on an observed effect repeats its
+ * chance error (a small, non-significant estimate gives a huge, needless experiment; a lucky large
+ * one an underpowered one), which is the "post hoc power" trap (Hoenig & Heisey 2001, Am Stat
+ * 55:19). Costs are left empty too: without them the plan counts units.
  */
 export function suggestPlanInputs(result: AnalysisResult): SuggestedPlan | null {
   const components = threeLevelComponents(result)
@@ -19,7 +27,6 @@ export function suggestPlanInputs(result: AnalysisResult): SuggestedPlan | null 
   if (!(within > 0)) return null
   const icc = components.unitVariance / within
   const contrast = result.comparisons.mixedModel?.contrasts[0] ?? null
-  const observed = contrast ? Math.abs(contrast.estimate) : null
   const { outer } = components
   const level = result.levels.find((l) => l.name === components.unitLevel)
   const conditions = Math.max(1, result.groups.length)
@@ -35,13 +42,12 @@ export function suggestPlanInputs(result: AnalysisResult): SuggestedPlan | null 
         sdBetween: Math.sqrt(components.unitVariance),
         sdWithin: Math.sqrt(components.residualVariance),
       },
-      // Without an observed difference, half an SD is a common default, no source.
-      difference: observed && observed > 0 ? observed : 0.5 * Math.sqrt(within),
+      difference: null,
       alpha: 0.05,
       targetPower: 0.8,
       arms: Math.min(8, Math.max(2, result.groups.length)),
-      costPerUnit: 100,
-      costPerObs: 1,
+      costPerUnit: null,
+      costPerObs: null,
       maxUnitsPerArm: null,
       maxObsPerUnit: null,
       outer: multiLab
@@ -50,8 +56,7 @@ export function suggestPlanInputs(result: AnalysisResult): SuggestedPlan | null 
             design: outer.design,
             minLabs: outer.design === 'one-arm' ? Math.max(2, Math.round(labs / conditions)) : labs,
             maxLabs: outer.design === 'one-arm' ? Math.max(2, Math.round(labs / conditions)) : labs,
-            // Invented default: a lab costs as much as ten units.
-            costPerLab: 1000,
+            costPerLab: null,
             effectSd:
               outer.design === 'every-arm' && components.labArmVariance !== null
                 ? Math.sqrt(2 * components.labArmVariance)
@@ -64,6 +69,14 @@ export function suggestPlanInputs(result: AnalysisResult): SuggestedPlan | null 
         : SINGLE_LAB,
     },
     observedDifference: contrast ? contrast.estimate : null,
+    observed: contrast
+      ? {
+          what: `${contrast.a} − ${contrast.b}`,
+          estimate: contrast.estimate,
+          ci: contrast.ci ?? contrastInterval(contrast.estimate, contrast.se, contrast.df),
+          p: contrast.p,
+        }
+      : null,
     unitsInData: Math.round((level?.nUnits ?? 0) / conditions),
     meanObsPerUnit: level?.meanUnitSize ?? 0,
     outerLevel: multiLab ? outer.name : null,

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import type { AnalysisResult } from '../schemas/analysis-result'
 import demo from './fixtures/single-lab-demo.json'
 import { twoFactorResult } from './fixtures/two-factor-result'
-import { comparisonRows, hasPerComparisonDesignEffect } from './comparison-rows'
+import { comparisonRows, hasPerComparisonDesignEffect, METHOD_WEIGHTS } from './comparison-rows'
 
 // Fixture: the engine's stored result of the seeded single-lab demo; wording rules are the
 // product's number style (common practice, no source).
@@ -24,6 +24,26 @@ describe('comparison rows', () => {
     expect(rows[0]).toMatchObject({ what: 'NW-117 − vehicle', estimate: '7.62', df: '8.1', p: 'p = 0.56' })
     // R: 7.619431734895755 + c(-1, 1) * qt(0.975, 8.056916622693118) * 12.459186086713249 → -21.08, 36.32
     expect(rows[0].interval).toBe('[-21.1, 36.3]')
+  })
+
+  it('says once per method what it weights: model, unit means, bootstrap (cell-weighted), naive', () => {
+    expect(rows.map((r) => r.weights)).toEqual([
+      METHOD_WEIGHTS.mixedModel,
+      METHOD_WEIGHTS.unitMeans,
+      METHOD_WEIGHTS.bootstrap,
+      METHOD_WEIGHTS.naive,
+    ])
+    expect(METHOD_WEIGHTS.bootstrap).toContain('cell-weighted')
+    expect(METHOD_WEIGHTS.unitMeans).toContain('every unit equally')
+  })
+
+  it('gives the weights line to the first row of a method only', () => {
+    const two = comparisonRows(twoFactorResult)
+    for (const prefix of ['model-', 'unit-means', 'naive']) {
+      const block = two.filter((r) => r.id.startsWith(prefix))
+      if (block.length === 0) continue
+      expect(block.filter((r) => r.weights).length, prefix).toBe(1)
+    }
   })
 
   it('marks only the naive test as wrong, and says why', () => {

@@ -21,7 +21,22 @@ export interface ComparisonRow {
   /** The reason is shown under this row: the last row of the naive block. */
   reasonBelow?: boolean
   note?: string
+  /** One line saying what the method weights, so that estimates that differ can be told apart. */
+  weights?: string
 }
+
+/**
+ * What each method weights. The three estimates differ when units hold different numbers of
+ * observations: the model sits between the other two, as its variance components say.
+ */
+export const METHOD_WEIGHTS = {
+  mixedModel:
+    'Weights each unit by the information it carries: between equal weights (when units differ much) and weights by observation count (when they differ little).',
+  unitMeans: 'Weights every unit equally, whatever its number of observations.',
+  bootstrap:
+    'Weights every observation equally (the cell-weighted difference), so units with more observations pull harder; the interval resamples units, then observations.',
+  naive: 'Weights every observation equally and treats them all as independent.',
+} as const
 
 const NONE = { estimate: '—', interval: '—', designEffect: '—', effectiveN: '—' }
 
@@ -38,6 +53,7 @@ function contrastRow(c: MixedModelContrast, adjusted: boolean): ComparisonRow {
     p: adjusted ? `${formatP(c.pHolm)} (Holm)` : formatP(c.p),
     designEffect: c.designEffect === undefined ? '—' : formatNumber(c.designEffect),
     effectiveN: c.effectiveN === undefined ? '—' : formatNumber(c.effectiveN),
+    weights: METHOD_WEIGHTS.mixedModel,
   }
 }
 
@@ -60,7 +76,9 @@ function unitMeansRows(result: AnalysisResult): ComparisonRow[] {
   const id = 'unit-means'
   const method = `Test on unit means (${unitMeans.nUnits} units of “${unitMeans.level}”)`
   if (unitMeans.method === 'two-way-anova')
-    return termTestRows(id, method.replace('Test on', 'Two-way ANOVA on'), unitMeans.terms)
+    return termTestRows(id, method.replace('Test on', 'Two-way ANOVA on'), unitMeans.terms).map((row, i) =>
+      i === 0 ? { ...row, weights: METHOD_WEIGHTS.unitMeans } : row,
+    )
   if (unitMeans.method === 'student-t') {
     const [low, high] = contrastInterval(unitMeans.estimate, unitMeans.se, unitMeans.df)
     return [
@@ -74,6 +92,7 @@ function unitMeansRows(result: AnalysisResult): ComparisonRow[] {
         statistic: `t = ${formatNumber(unitMeans.t)}`,
         df: formatDf(unitMeans.df),
         p: formatP(unitMeans.p),
+        weights: METHOD_WEIGHTS.unitMeans,
       },
     ]
   }
@@ -86,6 +105,7 @@ function unitMeansRows(result: AnalysisResult): ComparisonRow[] {
       statistic: `F = ${formatNumber(unitMeans.f)}`,
       df: `${formatDf(unitMeans.df1)}, ${formatDf(unitMeans.df2)}`,
       p: formatP(unitMeans.p),
+      weights: METHOD_WEIGHTS.unitMeans,
     },
   ]
 }
@@ -98,7 +118,12 @@ function naiveRows(result: AnalysisResult): ComparisonRow[] {
   if (naive.method === 'linear-model') {
     const rows = termTestRows('naive', 'Naive linear model (every observation independent)', naive.terms)
     // One reason under the whole block: the last row carries it.
-    return rows.map((row, i) => ({ ...row, wrongBecause, reasonBelow: i === rows.length - 1 }))
+    return rows.map((row, i) => ({
+      ...row,
+      wrongBecause,
+      reasonBelow: i === rows.length - 1,
+      ...(i === 0 ? { weights: METHOD_WEIGHTS.naive } : {}),
+    }))
   }
   if (naive.method === 'welch') {
     const [low, high] = contrastInterval(naive.estimate, naive.se, naive.df)
@@ -115,6 +140,7 @@ function naiveRows(result: AnalysisResult): ComparisonRow[] {
         p: formatP(naive.p),
         wrongBecause,
         reasonBelow: true,
+        weights: METHOD_WEIGHTS.naive,
       },
     ]
   }
@@ -129,6 +155,7 @@ function naiveRows(result: AnalysisResult): ComparisonRow[] {
       p: formatP(naive.p),
       wrongBecause,
       reasonBelow: true,
+      weights: METHOD_WEIGHTS.naive,
     },
   ]
 }
@@ -152,11 +179,16 @@ export function comparisonRows(result: AnalysisResult): ComparisonRow[] {
       statistic: `F = ${formatNumber(f.f)}`,
       df: `${formatDf(f.df1)}, ${formatDf(f.df2)}`,
       p: formatP(f.p),
+      weights: METHOD_WEIGHTS.mixedModel,
     })
   }
-  for (const c of contrasts) rows.push(contrastRow(c, result.groups.length > 2))
+  // The weights line once per method: on the first row of the model's block.
+  contrasts.forEach((c, i) => {
+    const row = contrastRow(c, result.groups.length > 2)
+    rows.push(i === 0 && !mixedModel?.omnibus ? row : { ...row, weights: undefined })
+  })
   rows.push(...unitMeansRows(result))
-  for (const c of bootstrap?.contrasts ?? []) {
+  for (const [i, c] of (bootstrap?.contrasts ?? []).entries()) {
     rows.push({
       ...NONE,
       id: `bootstrap-${c.a}-${c.b}`,
@@ -168,6 +200,7 @@ export function comparisonRows(result: AnalysisResult): ComparisonRow[] {
       df: '—',
       p: formatP(c.p),
       note: 'Percentile interval; its p is a resampling summary, not an exact test.',
+      ...(i === 0 ? { weights: METHOD_WEIGHTS.bootstrap } : {}),
     })
   }
   rows.push(...naiveRows(result))

@@ -73,6 +73,8 @@ export const NestingLevelSuggestion = z.object({
   perParent: z.object({ min: z.number(), median: z.number(), max: z.number() }).nullable(),
   /** Labels used under more than one parent (e.g. "m01" in two labs), up to five examples. */
   reusedLabels: z.array(z.string()),
+  /** How many labels are reused in all (reusedLabels lists the first few); absent in older records. */
+  reusedLabelCount: z.number().int().nonnegative().optional(),
 })
 export type NestingLevelSuggestion = z.infer<typeof NestingLevelSuggestion>
 
@@ -122,6 +124,8 @@ export const DesignLevel = z.object({
   unitCount: z.number().int().nonnegative(),
   perParent: z.object({ min: z.number(), median: z.number(), max: z.number() }).nullable(),
   reusedLabels: z.array(z.string()),
+  /** How many labels are reused in all (reusedLabels lists the first few); absent in older records. */
+  reusedLabelCount: z.number().int().nonnegative().optional(),
 })
 
 /** What the tagged nesting means for the data as it stands (exclusions applied). */
@@ -135,6 +139,11 @@ export const DesignSummary = z.object({
     z.object({ value: z.string(), unitCount: z.number().int(), observationCount: z.number().int() }),
   ),
   explanation: z.array(z.string()),
+  /**
+   * Response columns with no value in some kept rows: an analysis of that response leaves those
+   * rows out, so its count of observations is smaller than the rows here ("3 rows have no …").
+   */
+  missingValues: z.array(z.object({ column: z.string(), rows: z.number().int().positive() })).default([]),
 })
 export type DesignSummary = z.infer<typeof DesignSummary>
 
@@ -234,6 +243,8 @@ export const DatasetVersionSummary = z.object({
   createdAt: z.string(),
   /** How long parsing and storing took on the server, in milliseconds. */
   ingestMs: z.number().int().nonnegative(),
+  /** Whether a nesting has been saved for this version (analyses need one). */
+  tagged: z.boolean().default(false),
 })
 export type DatasetVersionSummary = z.infer<typeof DatasetVersionSummary>
 

@@ -10,6 +10,10 @@ import { z } from 'zod'
  * since has a default that reads an old plan as what it was, a plan for one lab (one lab, no lab
  * cost, no lab × arm variance; units per arm are then units per lab and arm). The stored JSON is
  * never rewritten.
+ *
+ * Costs are optional: with none given (every cost null) the plan counts instead, keeping the number
+ * of independent units as small as it can (planFewestUnits). Plans saved before that always had
+ * costs, and read as they were.
  */
 
 const Id = z.coerce.number().int().positive()
@@ -42,8 +46,8 @@ export const PlanOuterLevel = z
     /** Fewest and most labs to consider (labs per arm for 'one-arm'); equal for a fixed number. */
     minLabs: LabCount.default(1),
     maxLabs: LabCount.default(1),
-    /** Cost of one more lab (set-up, travel, shipping), on the scale of the other costs. */
-    costPerLab: nonNegative.default(0),
+    /** Cost of one more lab (set-up, travel, shipping), on the scale of the other costs; null: none given. */
+    costPerLab: nonNegative.nullable().default(null),
     /**
      * 'every-arm': how much the effect (the difference between two arms) differs from lab to lab,
      * as an SD: √(2 σ²_lab×arm). Null: unknown, planned as 0 with a caution (optimistic).
@@ -64,31 +68,47 @@ export const SINGLE_LAB: PlanOuterLevel = {
   design: 'every-arm',
   minLabs: 1,
   maxLabs: 1,
-  costPerLab: 0,
+  costPerLab: null,
   effectSd: null,
   sdBetweenLabs: null,
 }
 
-export const PlanInputs = z
-  .object({
-    /** ICC of the units that are assigned to arms; ignored (derived) when the spread is given as components. */
-    icc: z.number().min(0).max(1),
-    spread: PlanSpread,
-    /** Smallest difference between two arm means worth detecting, in the response's unit. */
-    difference: positive,
-    alpha: z.number().gt(0).lt(0.5).default(0.05),
-    targetPower: z.number().gt(0.5).lt(1).default(0.8),
-    arms: z.number().int().min(2).max(8).default(2),
-    costPerUnit: nonNegative,
-    costPerObs: nonNegative,
-    /** Limit on units per lab and arm (with one lab: per arm, at least 2). */
-    maxUnitsPerArm: z.number().int().min(1).max(100_000).nullable().default(null),
-    maxObsPerUnit: z.number().int().min(1).max(100_000).nullable().default(null),
-    /** The outer level; absent in plans saved before it existed, which were plans for one lab. */
-    outer: PlanOuterLevel.default(SINGLE_LAB),
-  })
-  .refine((i) => i.costPerUnit > 0 || i.costPerObs > 0, {
-    error: 'Give a cost per unit or per observation (at least one above 0)',
+const PlanInputsShape = z.object({
+  /** ICC of the units that are assigned to arms; ignored (derived) when the spread is given as components. */
+  icc: z.number().min(0).max(1),
+  spread: PlanSpread,
+  /**
+   * Smallest difference between two arm means worth detecting, in the response's unit: the
+   * difference that matters biologically, which the person planning gives (never an observed one).
+   */
+  difference: positive,
+  alpha: z.number().gt(0).lt(0.5).default(0.05),
+  targetPower: z.number().gt(0.5).lt(1).default(0.8),
+  arms: z.number().int().min(2).max(8).default(2),
+  /** Costs on one scale of the person's choosing; all null: no costs, the plan counts units. */
+  costPerUnit: nonNegative.nullable().default(null),
+  costPerObs: nonNegative.nullable().default(null),
+  /** Limit on units per lab and arm (with one lab: per arm, at least 2). */
+  maxUnitsPerArm: z.number().int().min(1).max(100_000).nullable().default(null),
+  maxObsPerUnit: z.number().int().min(1).max(100_000).nullable().default(null),
+  /** The outer level; absent in plans saved before it existed, which were plans for one lab. */
+  outer: PlanOuterLevel.default(SINGLE_LAB),
+})
+
+/** Whether the inputs give costs: a cost per unit or per observation (a cost per lab alone is not enough). */
+export function hasCosts(i: { costPerUnit?: number | null; costPerObs?: number | null }): boolean {
+  return (i.costPerUnit ?? null) !== null || (i.costPerObs ?? null) !== null
+}
+
+export const PlanInputs = PlanInputsShape.refine(
+  (i) => !hasCosts(i) || (i.costPerUnit ?? 0) > 0 || (i.costPerObs ?? 0) > 0,
+  {
+    error: 'Give a cost per unit or per observation above 0, or leave the costs empty to count units instead',
+    path: ['costPerUnit'],
+  },
+)
+  .refine((i) => hasCosts(i) || i.outer.costPerLab === null || i.outer.costPerLab === 0, {
+    error: 'A cost per lab needs a cost per unit or per observation beside it',
     path: ['costPerUnit'],
   })
   .refine((i) => i.maxUnitsPerArm === null || i.maxUnitsPerArm >= 2 || i.outer.maxLabs > 1, {
@@ -97,6 +117,14 @@ export const PlanInputs = z
   })
 export type PlanInputs = z.infer<typeof PlanInputs>
 export type PlanInputsInput = z.input<typeof PlanInputs>
+
+/**
+ * The planner's form before the person has said what difference matters: the same numbers, with
+ * the difference still empty (null). An analysis suggests this shape, never a difference.
+ */
+export const PlanDraftInputs = PlanInputsShape.extend({ difference: positive.nullable() })
+export type PlanDraftInputs = z.infer<typeof PlanDraftInputs>
+export type PlanDraftInput = z.input<typeof PlanDraftInputs>
 
 export const PlanCurve = z.object({
   obsPerUnit: z.number().int().positive(),
@@ -133,10 +161,16 @@ export const PlanResult = z.object({
   obsPerUnit: z.number().int(),
   totalUnits: z.number().int(),
   totalObs: z.number().int(),
-  cost: z.number(),
+  /** Total cost on the costs' scale; null without costs. */
+  cost: z.number().nullable(),
   power: z.number().min(0).max(1),
   alphaPerComparison: z.number(),
   designEffect: z.number(),
+  /**
+   * 'cost': the cheapest design for the costs given; 'counts': no costs were given, the fewest
+   * independent units (then observations) reaching the target. Plans saved before it: 'cost'.
+   */
+  objective: z.enum(['cost', 'counts']).default('cost'),
   /** Observations per design effect: what one unit is worth in independent observations. */
   effectivePerUnit: z.number(),
   /** Cost-optimal observations per unit m* before rounding; null without a finite optimum. */
@@ -169,7 +203,7 @@ export const PlanResult = z.object({
       unitsPerArm: z.number().int(),
       obsPerUnit: z.number().int(),
       power: z.number(),
-      cost: z.number(),
+      cost: z.number().nullable(),
       recommended: z.boolean(),
     }),
   ),
@@ -244,9 +278,23 @@ export const PlanDefaults = z.object({
   /** The level whose units were assigned to conditions (its ICC is used), e.g. "mouse". */
   unitLevel: z.string(),
   responseName: z.string(),
-  inputs: PlanInputs,
+  /** Everything but the difference, which the person gives, and the costs, left empty. */
+  inputs: PlanDraftInputs,
   /** The observed difference of the first mixed-model contrast, null without a condition. */
   observedDifference: z.number().nullable(),
+  /**
+   * That contrast as a reference beside the difference field: what it compares, its 95 %
+   * interval and p. Null without a condition (and in answers of older servers).
+   */
+  observed: z
+    .object({
+      what: z.string(),
+      estimate: z.number(),
+      ci: z.tuple([z.number(), z.number()]),
+      p: z.number(),
+    })
+    .nullable()
+    .default(null),
   /** Units per arm in the analysed data, a hint of how certain the ICC is. */
   unitsInData: z.number().int(),
   meanObsPerUnit: z.number(),
@@ -277,6 +325,7 @@ export const PlanRecommendation = PlanResult.pick({
   totalObs: true,
   power: true,
   cost: true,
+  objective: true,
   designEffect: true,
 })
 export type PlanRecommendation = z.infer<typeof PlanRecommendation>

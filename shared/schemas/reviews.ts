@@ -53,6 +53,11 @@ export type SignOffState = z.infer<typeof SignOffState>
 
 export const ReviewState = z.object({
   signOff: SignOffState,
+  /**
+   * The version's fingerprint as stored now: the SHA-256 a sign-off would vouch for (data
+   * checksum, settings, engine version, result). The sign-off confirmation names it.
+   */
+  fingerprint: z.string(),
   requests: z.array(ReviewRequest),
   /** Oldest first; replies carry parentId. */
   comments: z.array(ReviewComment),

@@ -71,6 +71,8 @@ export { unitsNeeded } from './units-needed'
 export { costOptimalObsPerUnit } from './cost-optimal-obs-per-unit'
 /** Cheapest design reaching a target power. */
 export { planDesign } from './plan-design'
+/** Design with the fewest independent units reaching a target power (a plan without costs). */
+export { planFewestUnits } from './plan-fewest-units'
 /** Power over a grid of designs. */
 export { powerCurve } from './power-curve'
 

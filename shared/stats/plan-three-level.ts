@@ -6,6 +6,7 @@ import { threeLevelPower } from './three-level-power'
 import type { LabDesign, ThreeLevelVariances } from './three-level-variance'
 import { twoSidedTPower } from './two-sided-t-power'
 import { normalQuantile } from './normal-quantile'
+import { fewestLabsFor } from './planning/fewest-labs-for'
 
 export interface PlanThreeLevelInput extends ThreeLevelVariances {
   /** Default 'every-arm': every lab runs every arm. 'one-arm': each lab runs one arm (L labs per arm). */
@@ -68,7 +69,6 @@ export interface PlanThreeLevelResult {
 }
 
 const MAX_LABS = 1000
-const FEWEST_LABS_LIMIT = 10_000
 const DEFAULT_OBS_CAP = 1000
 
 interface Candidate {
@@ -426,27 +426,4 @@ function requiredNcp(df: number, alpha: number, goal: number): number {
     }
   }
   return high
-}
-
-/** Fewest labs (from `first`) whose ceiling reaches the goal: doubling, then bisection; null past 10 000. */
-function fewestLabsFor(ceilingOf: (labs: number) => number, first: number, goal: number): number | null {
-  if (ceilingOf(first) >= goal) return first
-  let low = first
-  let high = Math.max(first + 1, first * 2)
-  while (ceilingOf(high) < goal) {
-    low = high
-    high *= 2
-    if (high > FEWEST_LABS_LIMIT)
-      return ceilingOf(FEWEST_LABS_LIMIT) >= goal ? bisect(low, FEWEST_LABS_LIMIT) : null
-  }
-  return bisect(low, high)
-
-  function bisect(below: number, atLeast: number): number {
-    while (atLeast - below > 1) {
-      const mid = Math.floor((below + atLeast) / 2)
-      if (ceilingOf(mid) >= goal) atLeast = mid
-      else below = mid
-    }
-    return atLeast
-  }
 }

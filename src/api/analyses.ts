@@ -64,3 +64,9 @@ export function getVersionStatus(
 export function unitsCsvUrl(analysisId: number, versionNo: number): string {
   return `${versionPath(analysisId, versionNo)}/units.csv`
 }
+
+/** Where the browser downloads "check it in R": the script and the exact rows it reads. */
+export function rExportUrls(analysisId: number, versionNo: number): { script: string; rows: string } {
+  const base = `${versionPath(analysisId, versionNo)}/r`
+  return { script: `${base}/script.R`, rows: `${base}/rows.csv` }
+}

@@ -1,8 +1,9 @@
 import type { CurrentUser, LoginRequest } from '../../shared/schemas/auth'
 import { request } from './http'
 
-export function fetchCurrentUser(): Promise<CurrentUser> {
-  return request<CurrentUser>('/api/v1/auth/me', { skipUnauthenticatedHandler: true })
+/** Who is signed in, or null: asked without a 401 for nobody (the sign-in page, a read-only link). */
+export function fetchCurrentUser(): Promise<CurrentUser | null> {
+  return request<CurrentUser | null>('/api/v1/auth/session', { skipUnauthenticatedHandler: true })
 }
 
 export function login(credentials: LoginRequest): Promise<CurrentUser> {

@@ -109,3 +109,24 @@ describe('asApiError', () => {
     expect(asApiError(new Error('boom'))).toMatchObject({ status: 0, code: 'CLIENT', message: 'boom' })
   })
 })
+
+describe('isRetryable', () => {
+  it('offers a retry for no answer, timeouts, conflicts and server failures, not for a request that is wrong', async () => {
+    const { isRetryable } = await import('./http')
+    expect([0, 408, 409, 429, 500, 503].map((status) => isRetryable({ status }))).toEqual([
+      true,
+      true,
+      true,
+      true,
+      true,
+      true,
+    ])
+    expect([400, 401, 403, 404, 422].map((status) => isRetryable({ status }))).toEqual([
+      false,
+      false,
+      false,
+      false,
+      false,
+    ])
+  })
+})

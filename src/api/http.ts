@@ -30,6 +30,21 @@ export class ApiError extends Error implements ApiErrorShape {
   }
 }
 
+/**
+ * Whether trying the same request again can help: no answer at all (status 0), a timeout, too
+ * many requests, a conflict with something still running, or a server-side failure. A 4xx that
+ * says the request itself is wrong (400, 403, 404, 422) answers the same every time.
+ */
+export function isRetryable(error: Pick<ApiError, 'status'>): boolean {
+  return (
+    error.status === 0 ||
+    error.status === 408 ||
+    error.status === 409 ||
+    error.status === 429 ||
+    error.status >= 500
+  )
+}
+
 /** Used when the server's answer is not our JSON error shape (proxy pages, crashes). */
 const fallbackByStatus: Record<number, { code: string; message: string }> = {
   400: { code: 'INVALID_PAYLOAD', message: 'The server did not accept this request.' },

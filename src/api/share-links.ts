@@ -32,3 +32,9 @@ export function openShared(token: string): Promise<SharedAnalysis> {
 export function sharedUnitsCsvUrl(token: string): string {
   return `/api/v1/shared/${encodeURIComponent(token)}/units.csv`
 }
+
+/** "Check it in R" through a link that shares the unit table. */
+export function sharedRExportUrls(token: string): { script: string; rows: string } {
+  const base = `/api/v1/shared/${encodeURIComponent(token)}/r`
+  return { script: `${base}/script.R`, rows: `${base}/rows.csv` }
+}

@@ -21,11 +21,14 @@ export const nestwiseLight: ThemeDefinition = {
     primary: '#1d5e66',
     'primary-darken-1': '#144a51',
     secondary: '#4b5f66',
-    warning: '#a86200',
+    // Dark enough for 4.5:1 as text on the page and on its own tonal chips (WCAG 1.4.3).
+    warning: '#8f5200',
     error: '#b3261e',
     success: '#2e7d4f',
     info: '#35607a',
   },
+  // Vuetify's 0.6 makes field labels, hints and subtitles #7a7a7a: below 4.5:1 on the page.
+  variables: { 'medium-emphasis-opacity': 0.7 },
 }
 
 export const nestwiseDark: ThemeDefinition = {
@@ -45,4 +48,5 @@ export const nestwiseDark: ThemeDefinition = {
     success: '#84d1a4',
     info: '#9cc3dc',
   },
+  variables: { 'medium-emphasis-opacity': 0.74 },
 }

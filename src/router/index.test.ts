@@ -15,7 +15,7 @@ function signedInAs(user: CurrentUser | null) {
   vi.stubGlobal(
     'fetch',
     fakeFetch({
-      'GET /api/v1/auth/me': user
+      'GET /api/v1/auth/session': user
         ? { status: 200, body: { data: user } }
         : { status: 401, body: { error: { code: 'UNAUTHENTICATED', message: 'Sign in first.' } } },
     }).fetch,

@@ -1,7 +1,14 @@
 import { defineStore } from 'pinia'
 import { ref } from 'vue'
 import type { Project } from '../../shared/schemas/datasets'
-import type { Plan, PlanCreate, PlanDefaults, PlanInputsInput, PlanResult } from '../../shared/schemas/plans'
+import type {
+  Plan,
+  PlanCreate,
+  PlanDefaults,
+  PlanDraftInput,
+  PlanInputsInput,
+  PlanResult,
+} from '../../shared/schemas/plans'
 import * as plansApi from '@/api/plans'
 import { listProjects } from '@/api/projects'
 import { asApiError, type ApiError } from '@/api/http'
@@ -71,32 +78,58 @@ export const usePlansStore = defineStore('plans', () => {
 
   let pending: AbortController | null = null
   let timer: ReturnType<typeof setTimeout> | null = null
-  /** Asks the server for the answer to these inputs, after a short pause; the latest request wins. */
+  /**
+   * Asks the server for the answer to these inputs, after a short pause; the latest request wins.
+   * `computing` is set at once, so the page shows progress from the first moment, not only once
+   * the request leaves.
+   */
   function preview(inputs: PlanInputsInput, delay = PREVIEW_DELAY_MS): Promise<void> {
     if (timer) clearTimeout(timer)
+    computing.value = true
     return new Promise((resolve) => {
       timer = setTimeout(async () => {
         timer = null
         pending?.abort()
         const controller = (pending = new AbortController())
-        computing.value = true
         try {
           result.value = await plansApi.previewPlan(inputs, controller.signal)
           previewError.value = null
         } catch (error) {
           if (!controller.signal.aborted) previewError.value = asApiError(error)
         } finally {
-          if (pending === controller) computing.value = false
+          if (pending === controller && timer === null) computing.value = false
           resolve()
         }
       }, delay)
     })
   }
 
+  /** True while the form has no difference to detect: there is nothing to plan yet. */
+  const needsDifference = ref(false)
+  /**
+   * The form's numbers: previewed once they hold a difference; until then no answer is shown (an
+   * answer to the previous difference would mislead) and the page asks for one.
+   */
+  function previewDraft(draft: PlanDraftInput, delay = PREVIEW_DELAY_MS): Promise<void> {
+    const difference = draft.difference
+    needsDifference.value = difference === null || difference === undefined || !(difference > 0)
+    if (!needsDifference.value) return preview({ ...draft, difference: difference as number }, delay)
+    if (timer) clearTimeout(timer)
+    timer = null
+    pending?.abort()
+    pending = null
+    computing.value = false
+    result.value = null
+    previewError.value = null
+    return Promise.resolve()
+  }
+
   /** Saves new inputs as a plan, or renames and moves the open saved plan. The saved plan, or null. */
   async function save(
-    input: Omit<PlanCreate, 'inputs' | 'source'> & { inputs: PlanInputsInput },
+    input: Omit<PlanCreate, 'inputs' | 'source'> & { inputs: PlanDraftInput },
   ): Promise<Plan | null> {
+    const difference = input.inputs.difference
+    if (difference === null || difference === undefined) return null
     saving.value = true
     saveError.value = null
     try {
@@ -109,7 +142,7 @@ export const usePlansStore = defineStore('plans', () => {
         const source = defaults.value
           ? { analysisId: defaults.value.source.analysisId, versionNo: defaults.value.source.versionNo }
           : null
-        saved.value = await plansApi.createPlan({ ...input, source })
+        saved.value = await plansApi.createPlan({ ...input, inputs: { ...input.inputs, difference }, source })
       }
       list.value = await plansApi.listPlans()
       return saved.value
@@ -145,6 +178,7 @@ export const usePlansStore = defineStore('plans', () => {
     result,
     previewError,
     computing,
+    needsDifference,
     saving,
     saveError,
     loadList,
@@ -152,6 +186,7 @@ export const usePlansStore = defineStore('plans', () => {
     startFromAnalysis,
     startBlank,
     preview,
+    previewDraft,
     save,
     remove,
   }

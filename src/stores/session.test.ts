@@ -16,7 +16,7 @@ describe('useSessionStore', () => {
   it('load() keeps the current user and exposes role helpers', async () => {
     vi.stubGlobal(
       'fetch',
-      fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: beaBiostatistician } } }).fetch,
+      fakeFetch({ 'GET /api/v1/auth/session': { status: 200, body: { data: beaBiostatistician } } }).fetch,
     )
     const session = useSessionStore()
     await session.load()
@@ -28,7 +28,7 @@ describe('useSessionStore', () => {
   })
 
   it('load() treats 401 as "nobody signed in", not as an error', async () => {
-    vi.stubGlobal('fetch', fakeFetch({ 'GET /api/v1/auth/me': unauthenticated }).fetch)
+    vi.stubGlobal('fetch', fakeFetch({ 'GET /api/v1/auth/session': unauthenticated }).fetch)
     const session = useSessionStore()
     await session.load()
     expect(session.user).toBeNull()
@@ -36,11 +36,22 @@ describe('useSessionStore', () => {
     expect(session.loaded).toBe(true)
   })
 
+  it('load() reads "nobody" from a plain answer of null', async () => {
+    vi.stubGlobal(
+      'fetch',
+      fakeFetch({ 'GET /api/v1/auth/session': { status: 200, body: { data: null } } }).fetch,
+    )
+    const session = useSessionStore()
+    await session.load()
+    expect(session.user).toBeNull()
+    expect(session.loadError).toBeNull()
+  })
+
   it('load() keeps any other failure so the page can show it', async () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': {
+        'GET /api/v1/auth/session': {
           status: 503,
           body: { error: { code: 'INTERNAL', message: 'Database unavailable.' } },
         },
@@ -52,7 +63,7 @@ describe('useSessionStore', () => {
   })
 
   it('ensureLoaded() asks the server only once', async () => {
-    const fake = fakeFetch({ 'GET /api/v1/auth/me': unauthenticated })
+    const fake = fakeFetch({ 'GET /api/v1/auth/session': unauthenticated })
     vi.stubGlobal('fetch', fake.fetch)
     const session = useSessionStore()
     await session.ensureLoaded()

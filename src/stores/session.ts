@@ -7,7 +7,7 @@ import { rolesOf } from '../../shared/access'
 import { hasAnyRole } from '@/router/access'
 
 /**
- * Who is signed in. `loaded` becomes true after the first answer from /auth/me so the router
+ * Who is signed in. `loaded` becomes true after the first answer from /auth/session so the router
  * waits for it once; errors are kept per action so each screen shows the one that concerns it.
  */
 export const useSessionStore = defineStore('session', () => {

@@ -27,5 +27,10 @@ export const useSharedAnalysisStore = defineStore('shared-analysis', () => {
     return token ? shareApi.sharedUnitsCsvUrl(token) : ''
   }
 
-  return { shared, error, open, unitsCsvUrl }
+  /** Where the browser downloads "check it in R", when the unit table is shared. */
+  function rExportUrls(): { script: string; rows: string } | null {
+    return token ? shareApi.sharedRExportUrls(token) : null
+  }
+
+  return { shared, error, open, unitsCsvUrl, rExportUrls }
 })

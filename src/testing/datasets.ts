@@ -53,6 +53,7 @@ export function versionSummary(overrides: Partial<DatasetVersionSummary> = {}): 
     createdBy: sami,
     createdAt: when,
     ingestMs: 116,
+    tagged: true,
     ...overrides,
   }
 }
@@ -187,6 +188,7 @@ export const neuriteDesign: DesignSummary = {
     { value: 'NW-117', unitCount: 2, observationCount: 38 },
   ],
   explanation: ['“lab” has 3 units.'],
+  missingValues: [],
 }
 
 export function exclusion(overrides: Partial<Exclusion> = {}): Exclusion {

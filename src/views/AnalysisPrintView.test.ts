@@ -67,7 +67,7 @@ async function openPrint(path: string) {
   vi.stubGlobal(
     'fetch',
     fakeFetch({
-      'GET /api/v1/auth/me': ok(samiScientist),
+      'GET /api/v1/auth/session': ok(samiScientist),
       'GET /api/v1/analyses/1': ok(analysis),
       'GET /api/v1/analyses/1/versions/1': ok(version),
       'GET /api/v1/plans?analysisId=1&versionNo=1': ok([]),

@@ -18,7 +18,7 @@ const v1 = '/api/v1/datasets/1/versions/1'
 const v2 = '/api/v1/datasets/1/versions/2'
 
 function server(user: CurrentUser, answers: Record<string, { status: number; body?: unknown }>) {
-  const fake = fakeFetch({ 'GET /api/v1/auth/me': ok(user), ...answers })
+  const fake = fakeFetch({ 'GET /api/v1/auth/session': ok(user), ...answers })
   vi.stubGlobal('fetch', fake.fetch)
   return fake
 }

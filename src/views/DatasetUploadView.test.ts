@@ -22,7 +22,7 @@ function server(user: CurrentUser) {
   vi.stubGlobal(
     'fetch',
     fakeFetch({
-      'GET /api/v1/auth/me': { status: 200, body: { data: user } },
+      'GET /api/v1/auth/session': { status: 200, body: { data: user } },
       'GET /api/v1/projects': { status: 200, body: { data: [project({ id: 4, name: 'Neurite pilot' })] } },
     }).fetch,
   )

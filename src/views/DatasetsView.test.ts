@@ -15,7 +15,7 @@ afterEach(() => {
 
 function server(user: CurrentUser, datasets: unknown, projects: unknown[] = []) {
   const fake = fakeFetch({
-    'GET /api/v1/auth/me': { status: 200, body: { data: user } },
+    'GET /api/v1/auth/session': { status: 200, body: { data: user } },
     'GET /api/v1/datasets': datasets as { status: number; body: unknown },
     'GET /api/v1/projects': { status: 200, body: { data: projects } },
   })

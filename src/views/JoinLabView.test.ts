@@ -52,7 +52,7 @@ describe('JoinLabView', () => {
   it('lets a new person choose a name and a password, join, and land on the overview signed in', async () => {
     let joined = false
     const fake = scriptedFetch((method, path) => {
-      if (path === '/api/v1/auth/me') return joined ? { status: 200, body: { data: nell } } : anonymous
+      if (path === '/api/v1/auth/session') return joined ? { status: 200, body: { data: nell } } : anonymous
       if (path === '/api/v1/invitations/lookup') return { status: 200, body: { data: preview } }
       if (path === '/api/v1/invitations/accept') {
         joined = true
@@ -88,7 +88,7 @@ describe('JoinLabView', () => {
 
   it('does not send two different passwords', async () => {
     const fake = scriptedFetch((_method, path) =>
-      path === '/api/v1/auth/me' ? anonymous : { status: 200, body: { data: preview } },
+      path === '/api/v1/auth/session' ? anonymous : { status: 200, body: { data: preview } },
     )
     vi.stubGlobal('fetch', fake.fetch)
     const { wrapper } = await mountWithApp(JoinLabView, { path: `/join#${TOKEN}` })
@@ -105,7 +105,7 @@ describe('JoinLabView', () => {
 
   it('explains a link that can no longer be used, in the server’s words', async () => {
     const fake = scriptedFetch((_method, path) =>
-      path === '/api/v1/auth/me'
+      path === '/api/v1/auth/session'
         ? anonymous
         : {
             status: 404,
@@ -127,7 +127,7 @@ describe('JoinLabView', () => {
 
   it('asks someone signed in with another account to sign out first', async () => {
     const fake = scriptedFetch((_method, path) =>
-      path === '/api/v1/auth/me'
+      path === '/api/v1/auth/session'
         ? { status: 200, body: { data: samiScientist } }
         : { status: 200, body: { data: preview } },
     )

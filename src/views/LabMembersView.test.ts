@@ -32,7 +32,7 @@ describe('LabMembersView', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': { status: 200, body: { data: petraPi } },
+        'GET /api/v1/auth/session': { status: 200, body: { data: petraPi } },
         'GET /api/v1/labs/1/members': { status: 200, body: { data: members } },
         'GET /api/v1/labs/1/invitations': { status: 200, body: { data: [invitation] } },
       }).fetch,
@@ -50,7 +50,7 @@ describe('LabMembersView', () => {
 
   it('invites by e-mail with the chosen role and confirms it', async () => {
     const fake = fakeFetch({
-      'GET /api/v1/auth/me': { status: 200, body: { data: petraPi } },
+      'GET /api/v1/auth/session': { status: 200, body: { data: petraPi } },
       'GET /api/v1/labs/1/members': { status: 200, body: { data: members } },
       'GET /api/v1/labs/1/invitations': { status: 200, body: { data: [] } },
       'POST /api/v1/labs/1/invitations': {
@@ -83,7 +83,7 @@ describe('LabMembersView', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': { status: 200, body: { data: petraPi } },
+        'GET /api/v1/auth/session': { status: 200, body: { data: petraPi } },
         'GET /api/v1/labs/1/members': { status: 200, body: { data: members } },
         'GET /api/v1/labs/1/invitations': { status: 200, body: { data: [] } },
         'PATCH /api/v1/labs/1/members/2': {

@@ -14,7 +14,7 @@ describe('NotAvailableView', () => {
   it('says who the refused page is for and which roles the person holds', async () => {
     vi.stubGlobal(
       'fetch',
-      fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: samiScientist } } }).fetch,
+      fakeFetch({ 'GET /api/v1/auth/session': { status: 200, body: { data: samiScientist } } }).fetch,
     )
     const { wrapper } = await mountWithApp(NotAvailableView, {
       path: '/not-available?page=/lab/board',
@@ -28,7 +28,7 @@ describe('NotAvailableView', () => {
   it('ignores a page parameter that points off-site', async () => {
     vi.stubGlobal(
       'fetch',
-      fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: samiScientist } } }).fetch,
+      fakeFetch({ 'GET /api/v1/auth/session': { status: 200, body: { data: samiScientist } } }).fetch,
     )
     const { wrapper } = await mountWithApp(NotAvailableView, {
       path: '/not-available?page=//elsewhere.example',

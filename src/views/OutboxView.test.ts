@@ -41,7 +41,7 @@ afterEach(() => {
 describe('OutboxView', () => {
   it('lists queued and sent mail, opens the caught copy with its link, and re-sends a failed message', async () => {
     const fake = fakeFetch({
-      'GET /api/v1/auth/me': { status: 200, body: { data: orlaAdmin } },
+      'GET /api/v1/auth/session': { status: 200, body: { data: orlaAdmin } },
       'GET /api/v1/admin/mail/delivery': {
         status: 200,
         body: {

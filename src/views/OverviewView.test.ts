@@ -14,7 +14,10 @@ afterEach(() => {
 })
 
 function serverKnows(user: CurrentUser) {
-  vi.stubGlobal('fetch', fakeFetch({ 'GET /api/v1/auth/me': { status: 200, body: { data: user } } }).fetch)
+  vi.stubGlobal(
+    'fetch',
+    fakeFetch({ 'GET /api/v1/auth/session': { status: 200, body: { data: user } } }).fetch,
+  )
 }
 
 describe('OverviewView', () => {

@@ -31,7 +31,7 @@ describe('SignInView', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': anonymous,
+        'GET /api/v1/auth/session': anonymous,
         'POST /api/v1/auth/login': {
           status: 401,
           body: { error: { code: 'UNAUTHENTICATED', message: 'Wrong email or password.' } },
@@ -54,7 +54,7 @@ describe('SignInView', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': anonymous,
+        'GET /api/v1/auth/session': anonymous,
         'POST /api/v1/auth/login': {
           status: 429,
           body: { error: { code: 'RATE_LIMITED', message: 'Too many sign-in attempts. Wait 15 minutes.' } },
@@ -70,7 +70,7 @@ describe('SignInView', () => {
   })
 
   it('does not call the API when the fields are empty', async () => {
-    const fake = fakeFetch({ 'GET /api/v1/auth/me': anonymous })
+    const fake = fakeFetch({ 'GET /api/v1/auth/session': anonymous })
     vi.stubGlobal('fetch', fake.fetch)
     const { wrapper } = await mountWithApp(SignInView, { path: '/sign-in' })
 
@@ -85,7 +85,7 @@ describe('SignInView', () => {
 
   it('goes back to the requested page after signing in', async () => {
     const fake = fakeFetch({
-      'GET /api/v1/auth/me': anonymous,
+      'GET /api/v1/auth/session': anonymous,
       'POST /api/v1/auth/login': { status: 200, body: { data: samiScientist } },
     })
     vi.stubGlobal('fetch', fake.fetch)
@@ -105,7 +105,7 @@ describe('SignInView', () => {
     vi.stubGlobal(
       'fetch',
       fakeFetch({
-        'GET /api/v1/auth/me': {
+        'GET /api/v1/auth/session': {
           status: 503,
           body: { error: { code: 'INTERNAL', message: 'Database unavailable.' } },
         },

@@ -12,9 +12,12 @@ test('the consortium lead sees which lab disagrees, in spread or effect', async 
 
   // The result page offers the agreement page because the outermost level has 3 units.
   await page.goto(`/analyses/${analysis.id}`)
+  // The tab says which analysis it is; the button names the level as the data do.
+  await expect(page).toHaveTitle('Neurite length across three labs · Nestwise', { timeout: 30_000 })
+  await expect(page.getByTestId('agreement-link')).toHaveText('Agreement between units of “lab”')
   await page.getByTestId('agreement-link').click({ timeout: 30_000 })
   await expect(page).toHaveURL(new RegExp(`/analyses/${analysis.id}/versions/1/agreement$`))
-  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Agreement between labs', {
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Agreement between the units of “lab”', {
     timeout: 30_000,
   })
   // Invented demo data, flag expected by construction: Larkspur's neurons vary twice as much.

@@ -28,7 +28,7 @@ test('reads the seeded single-lab analysis, switches error bars, exports and pri
   // Full-page screenshots and downloads are slow on a busy two-core machine.
   test.setTimeout(180_000)
   await signInAsScientist(page)
-  await page.getByRole('link', { name: 'Analyses' }).click()
+  await page.getByTestId('nav-analyses').click()
   await page.getByText(SINGLE_LAB).click()
   await mainChartDrawn(page)
 

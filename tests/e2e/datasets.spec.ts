@@ -117,6 +117,9 @@ test('a scientist uploads a table, takes the suggested nesting, pages and sorts 
 
   await page.getByTestId('nesting-save').click()
   await expect(page.getByTestId('nesting-status')).toHaveText('Nesting saved')
+  // Saved as suggested: the suggestion no longer repeats what the summary below says.
+  await expect(suggestion.getByTestId('suggestion-compact')).toBeVisible()
+  await expect(suggestion.getByTestId('suggestion-explanation')).toHaveCount(0)
   const arms = page.getByTestId('design-arm')
   await expect(arms).toHaveCount(2)
   // Two of the four mice in each of the three labs get each condition in the fixture: 6 per arm.

@@ -18,9 +18,12 @@ test('typed-in numbers over labs: more mice cannot beat lab-to-lab differences, 
   await input(page, 'input-icc').fill('0.1667')
   await input(page, 'input-sd-total').fill('10.95')
   await input(page, 'input-difference').fill('6')
-  await input(page, 'input-cost-lab').fill('2000')
   await input(page, 'input-labs-max').fill('4')
   await input(page, 'input-labs-min').fill('4')
+  // Invented costs: a lab 2000, a mouse 100, a cell 1 (without them the plan counts mice instead).
+  await input(page, 'input-cost-lab').fill('2000')
+  await input(page, 'input-cost-unit').fill('100')
+  await input(page, 'input-cost-obs').fill('1')
   await expect(page.getByTestId('plan-labs')).toHaveText('4')
 
   // Not yet known how much labs differ: planned as 0, with a visible caution.
@@ -82,6 +85,9 @@ test('from the three-lab demo analysis: the labs come from the data, the effect 
   )
   await page.goto(`/planner?analysisId=${id}&versionNo=1`)
   await expect(page.getByTestId('plan-source')).toContainText('with its 3 labs', { timeout: 30_000 })
+  // The planner asks for the difference that matters before it shows a plan.
+  await expect(page.getByTestId('plan-needs-difference')).toBeVisible()
+  await input(page, 'input-difference').fill('10')
   await expect(page.getByTestId('plan-labs')).toHaveText('3')
   await expect(input(page, 'input-outer-name')).toHaveValue('lab')
   // An analysis without a lab × treatment term (engine 0.1) leaves it unknown: the form asks, the result warns.

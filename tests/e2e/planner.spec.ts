@@ -19,20 +19,34 @@ test('a PI plans the next experiment from the single-lab demo analysis and saves
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Plan an experiment', { timeout: 30_000 })
   await expect(page.getByTestId('plan-source')).toContainText('Neurite length, NW-117 vs vehicle')
   await expect(page.getByTestId('plan-source')).toContainText('ICC of the mice')
+  // No difference is filled in from the analysis: the planner asks for the one that matters, and
+  // shows the observed one beside the field as a reference only.
+  const difference = page.getByTestId('input-difference').locator('input')
+  await expect(difference).toHaveValue('')
+  await expect(page.getByTestId('plan-needs-difference')).toBeVisible()
+  await expect(page.getByTestId('observed-reference')).toContainText('NW-117 − vehicle')
+  await expect(page.getByTestId('plan-units')).toHaveCount(0)
+  // No costs either: the plan counts mice until someone enters a cost.
+  await expect(page.getByTestId('input-cost-unit').locator('input')).toHaveValue('')
+  await difference.fill('15')
   const units = page.getByTestId('plan-units')
   await expect(units).toHaveText(/^\d+$/)
   await expect(page.getByTestId('plan-power-chart')).toHaveAttribute('data-chart-ready', 'true')
   await expect(page.getByTestId('plan-obs-chart')).toHaveAttribute('data-chart-ready', 'true')
   await expect(page.getByTestId('plan-cautions')).toContainText('The numbers come from 5 mice per arm')
   await expect(page.getByTestId('plan-table').locator('tbody tr')).not.toHaveCount(0)
+  await expect(page.getByTestId('plan-sentence')).toContainText('The design with the fewest mice')
+  await expect(page.getByTestId('plan-cost')).toHaveText(/^\d+$/)
   await attachScreenshot(page, testInfo, 'planner-from-analysis')
 
-  // A larger difference worth detecting needs fewer mice.
+  // A larger difference that matters needs fewer mice.
   const before = Number(await units.textContent())
-  const difference = page.getByTestId('input-difference').locator('input')
-  const current = Number(await difference.inputValue())
-  await difference.fill(String(current * 3))
+  await difference.fill('45')
   await expect.poll(async () => Number(await units.textContent())).toBeLessThan(before)
+  // With costs, the cheapest design instead.
+  await page.getByTestId('input-cost-unit').locator('input').fill('400')
+  await page.getByTestId('input-cost-obs').locator('input').fill('3')
+  await expect(page.getByTestId('plan-sentence')).toContainText('The cheapest design')
 
   await page.getByTestId('plan-name').locator('input').fill('Next outgrowth run (e2e)')
   await page.getByTestId('plan-save-button').click()
@@ -58,6 +72,8 @@ test('typed-in numbers: the clusterPower worked example gives 16 units per arm w
     .locator('input')
     .fill(String(Math.sqrt(5)))
   await page.getByTestId('input-difference').locator('input').fill('1')
+  await page.getByTestId('input-cost-unit').locator('input').fill('1000')
+  await page.getByTestId('input-cost-obs').locator('input').fill('1')
   await page.getByTestId('input-max-obs').locator('input').fill('10')
   await expect(page.getByTestId('plan-obs')).toHaveText('10')
   await expect(page.getByTestId('plan-units')).toHaveText('16')

@@ -32,10 +32,19 @@ test('an unknown address shows a page-not-found message, not a blank page', asyn
   await attachScreenshot(page, testInfo, 'overview after not-found')
 })
 
-test('the overview tells a new lab member what to do first', async ({ page }) => {
+test('the overview tells a scientist what waits, not to upload a first table when the lab has data', async ({
+  page,
+}, testInfo) => {
   await page.goto('/sign-in')
   await signIn(page, 'sami@example.org')
-  const step = page.getByTestId('next-step')
-  await expect(step).toContainText('Upload a per-cell table to start')
+  // Sami made the seeded single-lab analysis: his newest results are listed, linked.
+  const results = page.locator('[data-testid="next-step"][data-step="results-to-read"]')
+  await expect(results).toContainText('Neurite length, NW-117 vs vehicle')
+  await expect(
+    page.getByTestId('next-step').filter({ hasText: 'Upload a per-cell table to start' }),
+  ).toHaveCount(0)
   await expect(page.getByTestId('lab-roles')).toContainText('Nimbus Neurite Lab')
+  await attachScreenshot(page, testInfo, 'overview of a scientist with data')
+  await results.getByRole('link', { name: /Neurite length, NW-117 vs vehicle/ }).click()
+  await expect(page.getByTestId('analysis-name')).toHaveText('Neurite length, NW-117 vs vehicle')
 })

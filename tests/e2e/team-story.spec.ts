@@ -69,6 +69,16 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
   await expect(bio).toHaveURL(/\/sign-in/)
   await signIn(bio, 'bea@example.org')
   await expect(bio.getByTestId('analysis-name')).toHaveText(ANALYSIS)
+  // Her overview says what waits for her: this review, linked.
+  await bio.getByTestId('nav-overview').click()
+  const waiting = bio.locator('[data-testid="next-step"][data-step="reviews-waiting"]')
+  await expect(waiting).toContainText(ANALYSIS)
+  await attachScreenshot(bio, testInfo, 'biostatistician: the overview with a review waiting')
+  await waiting
+    .getByRole('link', { name: new RegExp(ANALYSIS) })
+    .first()
+    .click()
+  await expect(bio.getByTestId('analysis-name')).toHaveText(ANALYSIS)
   const bioReview = bio.getByTestId('review-panel')
   await bioReview
     .getByTestId('new-comment')
@@ -82,8 +92,17 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
     .locator('textarea')
     .first()
     .fill('Model, units and warnings checked.')
+  await expect(bio.getByTestId('sign-off-chip')).toContainText('Not signed off')
   await bioReview.getByTestId('sign-off').click()
+  // Signing off asks first, naming the version and the fingerprint it vouches for.
+  const confirm = bio.getByRole('dialog')
+  await expect(confirm).toContainText(`Sign off version 1 of “${ANALYSIS}”?`)
+  await expect(bio.getByTestId('sign-off-confirm-fingerprint')).toHaveText(/^([0-9a-f]{8} ){7}[0-9a-f]{8}$/)
+  await attachScreenshot(bio, testInfo, 'biostatistician: the sign-off confirmation')
+  await bio.getByTestId('sign-off-confirm-button').click()
   await expect(bioReview.getByTestId('sign-off-status')).toContainText('signed off by Bea Stone')
+  // The chip by the version selector says so at the top of the page.
+  await expect(bio.getByTestId('sign-off-chip')).toContainText('Signed off by Bea Stone')
   await bio.getByTestId('nav-reviews').click()
   await expect(bio.getByTestId('my-reviews')).toContainText(ANALYSIS)
   await expect(bio.getByTestId('my-reviews')).toContainText('signed off')
@@ -98,8 +117,8 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
   await pi.getByTestId('nav-lab-board').click()
   await expect(pi.getByRole('heading', { level: 1 })).toHaveText('Lab board')
   const row = pi.getByTestId('lab-board').locator('tr', { hasText: ANALYSIS })
-  // 5 mice per arm in the demo table: the amber "few" badge, with its number.
-  await expect(row.getByTestId('unit-count-badge')).toHaveText(/5 units · few/)
+  // 5 mice per arm in the demo table: the amber badge, with its number and what it means.
+  await expect(row.getByTestId('unit-count-badge')).toHaveText(/5 units · 3–5 per arm/)
   await expect(row.getByTestId('unit-count-badge')).toHaveAttribute('data-adequacy', 'thin')
   await expect(row.getByTestId('board-review-status')).toHaveText('signed off')
   await attachScreenshot(pi, testInfo, 'PI: the lab board')
@@ -112,6 +131,18 @@ test('review, sign-off, lab board and a read-only link, across five people', asy
   await expect(share.getByTestId('share-links-table')).toContainText('active')
   await share.scrollIntoViewIfNeeded()
   await attachScreenshot(pi, testInfo, 'PI: a read-only link created')
+  // The lab's audit log says so in a sentence, with a link to the analysis; no raw keys.
+  await pi.getByTestId('nav-lab-audit').click()
+  const entries = pi.getByTestId('audit-sentence')
+  await expect(
+    entries.filter({ hasText: 'Created a read-only link to version 1 of the analysis' }).first(),
+  ).toBeVisible()
+  await expect(
+    entries.filter({ hasText: 'Signed off version 1 of the analysis (fingerprint ' }).first(),
+  ).toBeVisible()
+  await expect(pi.getByTestId('audit-table')).not.toContainText('share_link.created')
+  await attachScreenshot(pi, testInfo, 'PI: the audit log in sentences')
+  await pi.goBack()
 
   // A collaborator without an account opens the link.
   const guestContext = await browser.newContext()

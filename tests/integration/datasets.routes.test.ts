@@ -18,6 +18,7 @@ import {
   datasetsTestApp,
   getAs,
   patchAs,
+  postAs,
   putAs,
   signedInTeam,
   smallCellTable,
@@ -85,12 +86,13 @@ describe('upload and profile', () => {
       responseColumns: ['neurite_length_um'],
     })
     expect(suggestion.levels).toEqual([
-      { column: 'lab', unitCount: 2, perParent: null, reusedLabels: [] },
+      { column: 'lab', unitCount: 2, perParent: null, reusedLabels: [], reusedLabelCount: 0 },
       {
         column: 'mouse',
         unitCount: 8,
         perParent: { min: 4, median: 4, max: 4 },
         reusedLabels: ['m1', 'm2', 'm3', 'm4'],
+        reusedLabelCount: 4,
       },
     ])
     expect(suggestion.explanation.length).toBeGreaterThan(3)
@@ -236,6 +238,43 @@ describe('cancelled uploads', () => {
     } finally {
       await new Promise((resolve) => server.close(resolve))
     }
+  })
+})
+
+describe('nesting summary', () => {
+  it('says how many kept rows have no response value, so the dataset and analysis counts add up', async () => {
+    const team = await signedInTeam(app)
+    // Invented: the small table with three response cells emptied (rows 3, 5 and 9 of the file).
+    const lines = smallCellTable().trimEnd().split('\n')
+    for (const row of [2, 4, 8]) lines[row] = lines[row].replace(/,[^,]*$/, ',')
+    const upload = await uploadDataset(
+      app,
+      team.cookies.scientist,
+      Buffer.from(lines.join('\n') + '\n'),
+      'gaps.csv',
+      {
+        labId: team.lab.id,
+      },
+    )
+    expect(upload.status, JSON.stringify(upload.body)).toBe(201)
+    const id = upload.body.data.id
+    const tag = await putAs(app, team.cookies.scientist, `/api/v1/datasets/${id}/versions/1/tagging`, {
+      responseColumns: ['neurite_length_um'],
+      conditionColumn: 'treatment',
+      levels: ['lab', 'mouse'],
+    })
+    expect(tag.status, JSON.stringify(tag.body)).toBe(200)
+    expect(tag.body.data.design.missingValues).toEqual([{ column: 'neurite_length_um', rows: 3 }])
+    // Excluding one of those rows leaves two.
+    const rule = await postAs(app, team.cookies.scientist, `/api/v1/datasets/${id}/versions/1/exclusions`, {
+      kind: 'rule',
+      rule: { column: 'cell', operator: 'eq', value: lines[2].split(',')[3] },
+      reason: 'Invented: a cell traced twice',
+    })
+    expect(rule.status, JSON.stringify(rule.body)).toBe(201)
+    const design = await getAs(app, team.cookies.biostatistician, `/api/v1/datasets/${id}/versions/1/design`)
+    // The rule leaves out every cell 2, among them one of the three rows without a value.
+    expect(design.body.data.missingValues).toEqual([{ column: 'neurite_length_um', rows: 2 }])
   })
 })
 

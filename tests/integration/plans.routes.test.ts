@@ -98,7 +98,7 @@ describe('plan preview', () => {
 })
 
 describe('plans from an analysis', () => {
-  it('suggests inputs from the finished version: ICC of the mouse level, its spread and observed difference', async () => {
+  it('suggests inputs from the finished version: ICC of the mouse level and its spread; the observed difference only as a reference', async () => {
     const res = await getAs(
       app,
       team.cookies.biostatistician,
@@ -118,7 +118,10 @@ describe('plans from an analysis', () => {
       sdWithin: expect.closeTo(Math.sqrt((1 - icc) * total), 9),
     })
     expect(defaults.observedDifference).toBeCloseTo(result.comparisons.mixedModel.contrasts[0].estimate, 12)
-    expect(defaults.inputs.difference).toBeCloseTo(Math.abs(defaults.observedDifference!), 12)
+    // The difference that matters is the person's to give; costs stay empty until given.
+    expect(defaults.inputs.difference).toBeNull()
+    expect([defaults.inputs.costPerUnit, defaults.inputs.costPerObs]).toEqual([null, null])
+    expect(defaults.observed).toMatchObject({ estimate: defaults.observedDifference })
     expect(defaults.unitsInData).toBe(4)
   })
 
@@ -144,7 +147,7 @@ describe('saving plans', () => {
       projectId: defaults.projectId,
       name: 'Next outgrowth experiment',
       source: { analysisId, versionNo: 1 },
-      inputs: { ...defaults.inputs, costPerUnit: 250, costPerObs: 2 },
+      inputs: { ...defaults.inputs, difference: 10, costPerUnit: 250, costPerObs: 2 },
       // A result sent by a client is not a field of the request and is ignored.
       result: { unitsPerArm: 1 },
     })

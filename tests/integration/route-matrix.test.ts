@@ -186,6 +186,8 @@ const cases: Case[] = [
   }],
   ['POST /api/v1/auth/logout',                                 [204, 204, 204, 204, 204, 204], async (c) => (await c.freshApi()).post('/api/v1/auth/logout')],
   ['GET /api/v1/auth/me',                                      [401, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/auth/me')],
+  // who is signed in, if anyone: nobody is an answer, not an error
+  ['GET /api/v1/auth/session',                                 [200, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/auth/session')],
 
   // labs, members, invitations, audit
   ['GET /api/v1/labs',                                         [401, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/labs')],
@@ -263,6 +265,9 @@ const cases: Case[] = [
   // No runner in this test, so the version is still queued: members pass the permission check and
   // get 409 "not done yet"; outsiders never learn that much.
   ['GET /api/v1/analyses/:analysisId/versions/:versionNo/units.csv', [401, 409, 409, 409, 404, 404], (c) => c.api.get(an('/versions/1/units.csv'))],
+  // "check it in R": every member of the lab, for a finished version
+  ['GET /api/v1/analyses/:analysisId/versions/:versionNo/r/script.R', [401, 200, 200, 200, 404, 404], (c) => c.api.get(done('/versions/1/r/script.R'))],
+  ['GET /api/v1/analyses/:analysisId/versions/:versionNo/r/rows.csv', [401, 200, 200, 200, 404, 404], (c) => c.api.get(done('/versions/1/r/rows.csv'))],
 
   // review and sign-off: members read and comment; scientists and PIs ask a biostatistician;
   // only the addressed biostatistician decides; the requester or a PI withdraws
@@ -284,6 +289,8 @@ const cases: Case[] = [
   // the link holder's read-only namespace: only a valid token opens anything
   ['GET /api/v1/shared/:token',                                [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}`)],
   ['GET /api/v1/shared/:token/units.csv',                      [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}/units.csv`)],
+  ['GET /api/v1/shared/:token/r/script.R',                     [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}/r/script.R`)],
+  ['GET /api/v1/shared/:token/r/rows.csv',                     [404, 404, 404, 404, 404, 404, 200], (c) => c.api.get(`/api/v1/shared/${c.shareToken}/r/rows.csv`)],
 
   // experiment plans: members read; scientists and PIs save, rename, attach and delete; anyone signed in may preview numbers
   ['GET /api/v1/plans',                                        [401, 200, 200, 200, 200, 200], (c) => c.api.get('/api/v1/plans')],

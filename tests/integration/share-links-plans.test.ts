@@ -80,7 +80,11 @@ beforeAll(async () => {
   )
   expect(defaults.status).toBe(200)
   // Saved one after another so that created_at orders them.
-  await savePlan('first', { analysisId: sharedId, versionNo: 1 }, defaults.body.data.inputs)
+  await savePlan(
+    'first',
+    { analysisId: sharedId, versionNo: 1 },
+    { ...defaults.body.data.inputs, difference: 10 },
+  )
   await savePlan('second', { analysisId: sharedId, versionNo: 1 })
   await savePlan('version-two', { analysisId: sharedId, versionNo: 2 })
   await savePlan('other-analysis', { analysisId: otherId, versionNo: 1 })

@@ -1,6 +1,7 @@
 // @vitest-environment happy-dom
 import { afterEach, describe, expect, it } from 'vitest'
 import { mount } from '@vue/test-utils'
+import { createMemoryHistory, createRouter } from 'vue-router'
 import type { AnalysisResult } from '../../../shared/schemas/analysis-result'
 import demo from '../../../shared/report/fixtures/single-lab-demo.json'
 import { createNestwiseVuetify } from '@/plugins/vuetify'
@@ -28,7 +29,7 @@ describe('AnalysisBadges', () => {
     const wrapper = mountBadges(result)
     const units = wrapper.get('[data-testid="badge-units-mouse"]')
     expect(units.text()).toContain('10')
-    expect(units.text()).toContain('few')
+    expect(units.text()).toContain('3–5 units per arm: a rough variance estimate')
     expect(units.attributes('data-adequacy')).toBe('thin')
     expect(wrapper.get('[data-testid="badge-observations"]').text()).toContain('412')
   })
@@ -38,6 +39,37 @@ describe('AnalysisBadges', () => {
     const units = mountBadges(thin).get('[data-testid="badge-units-mouse"]')
     expect(units.attributes('data-adequacy')).toBe('too-few')
     expect(units.text()).toContain('too few to compare')
+  })
+
+  it('says what a green unit count means, that it is no power check, and links to the planner', () => {
+    const many = { ...result, groups: result.groups.map((g) => ({ ...g, nUnits: 8 })) }
+    stubMissingBrowserApis()
+    const router = createRouter({
+      history: createMemoryHistory(),
+      routes: [{ path: '/planner', name: 'planner', component: { template: '<div />' } }],
+    })
+    const wrapper = mount(AnalysisBadges, {
+      props: { result: many, planLink: { name: 'planner', query: { analysisId: '7', versionNo: '2' } } },
+      global: { plugins: [createNestwiseVuetify(), router] },
+      attachTo: document.body,
+    })
+    const units = wrapper.get('[data-testid="badge-units-mouse"]')
+    expect(units.attributes('data-adequacy')).toBe('adequate')
+    expect(wrapper.get('[data-testid="badge-units-mouse-words"]').text()).toBe(
+      '6+ units per arm: the minimum for a usable variance estimate',
+    )
+    expect(units.text()).not.toContain('enough')
+    expect(wrapper.get('[data-testid="badge-units-mouse-rule"]').text()).toContain('not a power check')
+    expect(wrapper.get('[data-testid="badge-units-mouse-rule-why"]').attributes('aria-label')).toContain(
+      'common practice, no source',
+    )
+    expect(wrapper.get('[data-testid="badge-units-mouse-plan"]').attributes('href')).toBe(
+      '/planner?analysisId=7&versionNo=2',
+    )
+  })
+
+  it('offers no planner link where none is given (paper, shared link)', () => {
+    expect(mountBadges(result).find('[data-testid="badge-units-mouse-plan"]').exists()).toBe(false)
   })
 
   it('labels per-arm effective n as each arm’s mean, with a hover saying why they do not add up', () => {

@@ -1,7 +1,7 @@
 import type { AnalysisResult } from '../../../shared/schemas/analysis-result'
 import { formatNumber } from '../../../shared/report/number-format'
 import { formatCount } from '@/components/dataset/format'
-import { unitAdequacy, type UnitAdequacy } from '@/components/dataset/unit-badge'
+import { ADEQUACY_RULE, adequacyLook, unitAdequacy, type UnitAdequacy } from '@/components/dataset/unit-badge'
 
 /** A line under a badge's number, with its own one-sentence hover when it needs one. */
 export interface BadgeDetail {
@@ -18,7 +18,18 @@ export interface Badge {
   explain: string
   /** Null: a count to read, not a judgement. */
   adequacy: UnitAdequacy | null
+  /** What the colour means, in words (null without a colour). */
+  adequacyWords: string | null
+  /** True where the colour is the unit rule: the badge says it is no power check and offers the planner. */
+  powerNote: boolean
   details: BadgeDetail[]
+}
+
+/** The line under a coloured unit count: where the rule comes from and what it does not say. */
+export const POWER_NOTE: BadgeDetail = {
+  id: 'rule',
+  text: 'common practice; not a power check',
+  explain: ADEQUACY_RULE,
 }
 
 /** Per-arm effective n are for each arm's mean; why they do not sum to the comparison's. */
@@ -51,12 +62,15 @@ function unitBadges(result: AnalysisResult): Badge[] {
         ? `Independent units: each “${level.name}” carries one ${what}, so comparisons count these, not the rows.`
         : `Units at the “${level.name}” level, ${formatNumber(level.meanUnitSize)} observations each on average.`,
       adequacy: fewest === null ? null : unitAdequacy(fewest),
+      adequacyWords: fewest === null ? null : adequacyLook[unitAdequacy(fewest)].words,
+      powerNote: fewest !== null,
       details: carriesCondition
         ? [
             {
               id: 'per-arm',
               text: `${cells ? 'per design cell' : 'per arm'}: ${result.groups.map((g) => `${g.nUnits ?? 0} ${g.condition}`).join(' · ')}`,
             },
+            POWER_NOTE,
           ]
         : [],
     }
@@ -77,6 +91,7 @@ export function resultBadges(result: AnalysisResult): Badge[] {
   const observationsBehind = Math.round(headline.effectiveN * headline.designEffect)
   const perArmEffective = result.groups.map((g) => g.effectiveN)
   const arm = result.groups.some((g) => g.factorLevels) ? 'design cell' : 'arm'
+  const effectiveAdequacy = unitAdequacy(Math.floor(Math.min(...perArmEffective)))
   return [
     {
       id: 'observations',
@@ -85,6 +100,8 @@ export function resultBadges(result: AnalysisResult): Badge[] {
       explain:
         'Rows that went into the analysis. They are not independent: rows from one unit resemble each other.',
       adequacy: null,
+      adequacyWords: null,
+      powerNote: false,
       details: result.nDropped
         ? [{ id: 'dropped', text: `${formatCount(result.nDropped)} left out for missing values` }]
         : [],
@@ -96,6 +113,8 @@ export function resultBadges(result: AnalysisResult): Badge[] {
       value: formatNumber(headline.designEffect),
       explain: `How many times larger the variance of ${quantity} is under the model than if every observation were independent${isMean ? '' : '; variance that both sides share cancels out of a difference'}.`,
       adequacy: null,
+      adequacyWords: null,
+      powerNote: false,
       details: [{ id: 'quantity', text: forWhat(headline.label) }],
     },
     {
@@ -103,7 +122,9 @@ export function resultBadges(result: AnalysisResult): Badge[] {
       label: 'effective n',
       value: formatNumber(headline.effectiveN),
       explain: `The number of independent observations ${quantity} is worth: its observations divided by its design effect.`,
-      adequacy: unitAdequacy(Math.floor(Math.min(...perArmEffective))),
+      adequacy: effectiveAdequacy,
+      adequacyWords: `smallest ${arm}: ${adequacyLook[effectiveAdequacy].short}, on the units’ scale`,
+      powerNote: false,
       details: [
         {
           id: 'quantity',

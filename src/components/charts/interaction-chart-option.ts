@@ -7,6 +7,7 @@ import type { EChartsCoreOption } from 'echarts/core'
 import type { AnalysisResult, GroupSummary } from '../../../shared/schemas/analysis-result'
 import { formatInterval, formatNumber } from '../../../shared/report/number-format'
 import type { ChartColors } from './main-chart-option'
+import { chartHtml, joinHtml } from './chart-text'
 import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'
 
 /** One design cell as the chart draws it: x index of the first factor's level, line of the second's. */
@@ -138,9 +139,11 @@ export function interactionChartOption(
         const point = points[p.value[2]]
         if (!point) return ''
         const g = point.group.clustered
-        return `${xFactor} = ${xLevels[point.x]}, ${lineFactor} = ${lineLevels[point.line]}<br>model mean ${formatNumber(g.estimate)}, nested 95% CI ${formatInterval(g.ciLow, g.ciHigh)}${
-          point.group.nUnits === null ? '' : `<br>${point.group.nUnits} independent units`
-        }`
+        return joinHtml([
+          chartHtml`${xFactor} = ${xLevels[point.x]}, ${lineFactor} = ${lineLevels[point.line]}`,
+          chartHtml`model mean ${formatNumber(g.estimate)}, nested 95% CI ${formatInterval(g.ciLow, g.ciHigh)}`,
+          ...(point.group.nUnits === null ? [] : [chartHtml`${point.group.nUnits} independent units`]),
+        ])
       },
     },
     xAxis: {

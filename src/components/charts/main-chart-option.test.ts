@@ -1,7 +1,16 @@
 import { describe, expect, it } from 'vitest'
 import type { ChartData } from '../../../shared/schemas/analyses'
-import { mainChartOption, placeUnits, SERIES_NAMES, SLOT, type ChartColors } from './main-chart-option'
-import { unitStyle, UNIT_HUES } from './unit-style'
+import {
+  chartCounts,
+  groupStyle,
+  groupsOf,
+  mainChartOption,
+  placeUnits,
+  SERIES_NAMES,
+  SLOT,
+  type ChartColors,
+} from './main-chart-option'
+import { UNIT_HUES } from './unit-style'
 
 const colors: ChartColors = {
   text: '#000',
@@ -63,7 +72,40 @@ const chart: ChartData = {
   variance: { components: [], icc: [] },
 }
 
-type Series = { name: string; type: string; data: unknown[] }
+type Series = { name: string; id?: string; type: string; data: unknown[]; itemStyle?: { color: string } }
+
+/** Invented: 24 mice in 3 sites, 4 per site and arm, two observations each. */
+function threeSites(siteNames = ['Nimbus', 'Fernhill', 'Larkspur']): ChartData {
+  const units = siteNames.flatMap((site, s) =>
+    ['vehicle', 'drug'].flatMap((condition, c) =>
+      [0, 1, 2, 3].map((k) => ({
+        path: [site, `m${s}${c}${k}`],
+        label: `${site} / m${s}${c}${k}`,
+        condition,
+        n: 2,
+        mean: 10 + c + k / 10,
+        sd: 1,
+      })),
+    ),
+  )
+  return {
+    ...chart,
+    conditionLevel: 'mouse',
+    unitLevels: [
+      { level: 'site', roles: ['outer'], units: [] },
+      { level: 'mouse', roles: ['condition-level', 'innermost'], units },
+    ],
+    points: {
+      level: 'mouse',
+      limit: 5000,
+      nTotal: 48,
+      nShown: 48,
+      seed: 's',
+      y: units.flatMap((u) => [u.mean - 0.5, u.mean + 0.5]),
+      cell: units.flatMap((_, i) => [i, i]),
+    },
+  }
+}
 
 describe('main chart option', () => {
   it('places each unit inside its own condition’s slot', () => {
@@ -77,7 +119,7 @@ describe('main chart option', () => {
 
   it('draws every sampled point, every unit mean, and naive beside nested bars', () => {
     const series = mainChartOption(chart, 'sem', colors).series as Series[]
-    const points = series.filter((s) => s.name === SERIES_NAMES.observations)
+    const points = series.filter((s) => s.id?.startsWith('observations'))
     expect(points.reduce((n, s) => n + s.data.length, 0)).toBe(12)
     expect(series.find((s) => s.name === SERIES_NAMES.unitMeans)!.data).toHaveLength(4)
     const naive = series.find((s) => s.name === SERIES_NAMES.naive)!.data as number[][]
@@ -92,10 +134,71 @@ describe('main chart option', () => {
   })
 })
 
-describe('unit styles', () => {
-  it('repeat hues with a new shape past the palette', () => {
-    expect(unitStyle(0).color).toBe(unitStyle(UNIT_HUES.length).color)
-    expect(unitStyle(0).symbol).not.toBe(unitStyle(UNIT_HUES.length).symbol)
-    expect(new Set(Array.from({ length: 28 }, (_, i) => unitStyle(i).styleIndex)).size).toBe(28)
+describe('colour by the outer level', () => {
+  it('gives 24 mice in 3 sites three colours and a legend of three sites and two bars', () => {
+    const data = threeSites()
+    expect(groupsOf(data)).toEqual({ level: 'site', labels: ['Nimbus', 'Fernhill', 'Larkspur'] })
+    const option = mainChartOption(data, 'sem', colors) as {
+      series: Series[]
+      legend: { data: { name: string }[]; formatter: (name: string) => string }
+    }
+    const observations = option.series.filter((s) => s.id?.startsWith('observations'))
+    expect(observations.map((s) => [s.name, s.itemStyle!.color])).toEqual([
+      ['Nimbus', UNIT_HUES[0]],
+      ['Fernhill', UNIT_HUES[1]],
+      ['Larkspur', UNIT_HUES[2]],
+    ])
+    expect(option.legend.data.map((d) => d.name)).toEqual([
+      'Nimbus',
+      'Fernhill',
+      'Larkspur',
+      SERIES_NAMES.naive,
+      SERIES_NAMES.nested,
+    ])
+    expect(option.legend.formatter('Fernhill')).toBe('site: Fernhill')
+    // Each site's means are drawn in its own colour, so the legend hides a site's marks and means.
+    const means = option.series.filter((s) => s.id?.startsWith('unit-means'))
+    expect(means.map((s) => s.name)).toEqual(['Nimbus', 'Fernhill', 'Larkspur'])
+    expect(means.reduce((n, s) => n + s.data.length, 0)).toBe(24)
+    expect(chartCounts(data)).toEqual({ observations: 48, units: 24, groups: 3 })
+  })
+
+  it('puts the mice of one site side by side in each condition, a gap between sites', () => {
+    const placed = placeUnits(threeSites()).filter((p) => p.unit.condition === 'vehicle')
+    const inOrder = [...placed].sort((a, b) => a.x - b.x)
+    expect(inOrder.map((p) => p.group)).toEqual([
+      ...Array(4).fill('Nimbus'),
+      ...Array(4).fill('Fernhill'),
+      ...Array(4).fill('Larkspur'),
+    ])
+    const steps = inOrder.slice(1).map((p, i) => p.x - inOrder[i].x)
+    expect(steps[3]).toBeGreaterThan(steps[0] * 1.5)
+    for (const p of placed) {
+      expect(p.x).toBeGreaterThanOrEqual(SLOT.unitsFrom)
+      expect(p.x).toBeLessThanOrEqual(SLOT.unitsTo)
+    }
+  })
+
+  it('uses one colour and plain names without an outer level', () => {
+    const option = mainChartOption(chart, 'sem', colors) as { series: Series[] }
+    const names = new Set(option.series.map((s) => s.name))
+    expect(names).toEqual(
+      new Set([SERIES_NAMES.observations, SERIES_NAMES.unitMeans, SERIES_NAMES.naive, SERIES_NAMES.nested]),
+    )
+  })
+
+  it('repeats hues with a new shape past seven groups', () => {
+    expect(groupStyle(0).color).toBe(groupStyle(UNIT_HUES.length).color)
+    expect(groupStyle(0).symbol).not.toBe(groupStyle(UNIT_HUES.length).symbol)
+  })
+
+  it('escapes labels from the table in its tooltips', () => {
+    const data = threeSites(['<img src=x onerror=alert(1)>', 'B', 'C'])
+    const option = mainChartOption(data, 'sem', colors) as {
+      tooltip: { formatter: (p: object) => string }
+    }
+    const html = option.tooltip.formatter({ seriesName: 'x', seriesId: 'unit-means-0', value: [0, 10, 0] })
+    expect(html).toContain('&lt;img src=x onerror=alert(1)&gt;')
+    expect(html).not.toContain('<img')
   })
 })

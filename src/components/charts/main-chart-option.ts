@@ -8,7 +8,8 @@ import type { ChartData, ErrorBarType, UnitSummary } from '../../../shared/schem
 import { formatNumber } from '../../../shared/report/number-format'
 import { termLabel } from '../../../shared/report/words'
 import { ERROR_BAR_WORDS, naiveBar, nestedBar, type Bar } from './error-bars'
-import { unitStyle } from './unit-style'
+import { chartHtml } from './chart-text'
+import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'
 
 export interface ChartColors {
   text: string
@@ -21,9 +22,11 @@ export interface ChartColors {
 
 /** Where things sit within a condition's slot of width 1 centred on its index. */
 export const SLOT = { unitsFrom: -0.34, unitsTo: 0.04, jitter: 0.035, naive: 0.18, nested: 0.32 } as const
+/** Room left between the units of two outer groups (a share of the units' span). */
+const GROUP_GAP = 0.6
 
 export const SERIES_NAMES = {
-  observations: 'Observations (colour = unit)',
+  observations: 'Observations',
   unitMeans: 'Unit means',
   naive: 'Naive error bar',
   nested: 'Nested error bar',
@@ -37,27 +40,80 @@ function jitter(i: number): number {
 
 export interface PlacedUnit {
   unit: UnitSummary
+  /** Index into the units of the points' level (what the points' `cell` refers to). */
   index: number
   x: number
+  /** The unit's outer group (its label at the outermost level), or null without an outer level. */
+  group: string | null
+  /** Index of that group in `groupsOf(chart).labels`; 0 without an outer level. */
+  groupIndex: number
 }
 
-/** The units of the points' level, each at an x inside its condition's slot. */
+export interface ChartGroups {
+  /** The outermost level's name ("site"), or null when the points' level is the outermost. */
+  level: string | null
+  /** Its labels in order of first appearance: each gets one colour (and shape past seven). */
+  labels: string[]
+}
+
+/**
+ * How the chart colours units: by the outermost level above the points' level (site, lab, day),
+ * so 24 mice in 3 sites read as 3 colours, each mouse a column of marks inside its site's block.
+ * Without a level above, one colour: position alone tells units apart.
+ */
+export function groupsOf(chart: ChartData): ChartGroups {
+  const names = chart.unitLevels.map((l) => l.level)
+  const own = names.indexOf(chart.points.level)
+  const level = own > 0 ? names[0] : null
+  const units = chart.unitLevels[Math.max(0, own)]?.units ?? []
+  const labels = level === null ? [] : [...new Set(units.map((u) => u.path[0] ?? ''))]
+  return { level, labels }
+}
+
+/** Colour and marker of an outer group: seven colour-blind-safe hues, then the hues again with another shape. */
+export function groupStyle(index: number): { color: string; symbol: string } {
+  return {
+    color: UNIT_HUES[index % UNIT_HUES.length],
+    symbol: UNIT_SYMBOLS[Math.floor(index / UNIT_HUES.length) % UNIT_SYMBOLS.length],
+  }
+}
+
+/**
+ * The units of the points' level, each at an x inside its condition's slot; the units of one
+ * outer group sit next to each other, with a gap between groups.
+ */
 export function placeUnits(chart: ChartData): PlacedUnit[] {
   const level = chart.unitLevels.find((l) => l.level === chart.points.level)
   if (!level) return []
+  const { level: outer, labels } = groupsOf(chart)
+  const groupIndex = new Map(labels.map((label, i) => [label, i]))
   const conditionIndex = new Map(chart.conditions.map((c, i) => [c.condition, i]))
-  const perCondition = new Map<number, number>()
-  const counts = new Map<number, number>()
   const slotOf = (u: UnitSummary) => conditionIndex.get(u.condition ?? 'all') ?? 0
-  for (const u of level.units) counts.set(slotOf(u), (counts.get(slotOf(u)) ?? 0) + 1)
-  return level.units.map((unit, index) => {
-    const slot = slotOf(unit)
-    const k = perCondition.get(slot) ?? 0
-    perCondition.set(slot, k + 1)
-    const n = counts.get(slot) ?? 1
-    const x = slot + SLOT.unitsFrom + ((k + 0.5) / n) * (SLOT.unitsTo - SLOT.unitsFrom)
-    return { unit, index, x }
-  })
+  const placed: PlacedUnit[] = level.units.map((unit, index) => ({
+    unit,
+    index,
+    x: 0,
+    group: outer === null ? null : (unit.path[0] ?? ''),
+    groupIndex: outer === null ? 0 : (groupIndex.get(unit.path[0] ?? '') ?? 0),
+  }))
+  const bySlot = new Map<number, PlacedUnit[]>()
+  for (const p of placed) {
+    const slot = slotOf(p.unit)
+    bySlot.set(slot, [...(bySlot.get(slot) ?? []), p])
+  }
+  for (const [slot, members] of bySlot) {
+    // Stable sort: by group, then as listed.
+    members.sort((a, b) => a.groupIndex - b.groupIndex || a.index - b.index)
+    const gaps = new Set(members.map((m) => m.groupIndex)).size - 1
+    const steps = members.length + gaps * GROUP_GAP
+    let position = 0.5
+    members.forEach((m, k) => {
+      if (k > 0 && m.groupIndex !== members[k - 1].groupIndex) position += GROUP_GAP
+      m.x = slot + SLOT.unitsFrom + (position / steps) * (SLOT.unitsTo - SLOT.unitsFrom)
+      position += 1
+    })
+  }
+  return placed
 }
 
 type BarDatum = [x: number, low: number, high: number, mean: number]
@@ -119,9 +175,18 @@ function errorBarSeries(
   }
 }
 
+/** How many units and observations the chart rests on, for exported figures: "n = 1,341 observations in 24 units of “mouse”". */
+export function chartCounts(chart: ChartData): { observations: number; units: number; groups: number } {
+  const level = chart.unitLevels.find((l) => l.level === chart.points.level)
+  const units = new Set((level?.units ?? []).map((u) => u.label)).size
+  return { observations: chart.points.nTotal, units, groups: groupsOf(chart).labels.length }
+}
+
 /**
- * The main chart: every sampled observation coloured by its unit, each unit's mean as a larger
- * marker, and per condition the naive bar beside the nested one. Pure: data in, option out.
+ * The main chart: every sampled observation, each unit's mean as a larger outlined marker, and
+ * per condition the naive bar beside the nested one. Colour is the outer group (site, lab) with a
+ * short legend that hides or shows a group; a column of marks is one unit. Tooltips name the unit
+ * and its group, escaped (chartHtml). Pure: data in, option out.
  */
 export function mainChartOption(
   chart: ChartData,
@@ -129,21 +194,23 @@ export function mainChartOption(
   colors: ChartColors,
 ): EChartsCoreOption {
   const placed = placeUnits(chart)
+  const groups = groupsOf(chart)
   const words = ERROR_BAR_WORDS[type].short
+  const grouped = groups.level !== null
+  /** Series (and legend) name of a group: its label, or the plain names without groups. */
+  const nameOf = (groupIndex: number, kind: 'observations' | 'unitMeans') =>
+    grouped ? groups.labels[groupIndex] : SERIES_NAMES[kind]
+  const styleOf = (groupIndex: number) =>
+    grouped ? groupStyle(groupIndex) : { color: UNIT_HUES[0], symbol: 'circle' }
 
-  // Observations grouped by look (colour × shape) so a thousand points are a few plain arrays.
-  const byStyle = new Map<number, { color: string; symbol: string; data: [number, number, number][] }>()
+  const observations = new Map<number, [number, number, number][]>()
   const { y, cell } = chart.points
   for (let i = 0; i < y.length; i++) {
     const unit = placed[cell[i]]
     if (!unit) continue
-    const look = unitStyle(unit.index)
-    let group = byStyle.get(look.styleIndex)
-    if (!group) {
-      group = { color: look.color, symbol: look.symbol, data: [] }
-      byStyle.set(look.styleIndex, group)
-    }
-    group.data.push([unit.x + jitter(i) * SLOT.jitter, y[i], unit.index])
+    const list = observations.get(unit.groupIndex) ?? []
+    list.push([unit.x + jitter(i) * SLOT.jitter, y[i], unit.index])
+    observations.set(unit.groupIndex, list)
   }
 
   const naive: BarDatum[] = []
@@ -156,34 +223,56 @@ export function mainChartOption(
     push(nested, SLOT.nested, nestedBar(c, type))
   })
 
-  const observationSeries = [...byStyle.values()].map((g) => ({
+  const groupIndices = grouped ? groups.labels.map((_, i) => i) : [0]
+  const observationSeries = groupIndices.map((g) => {
+    const data = observations.get(g) ?? []
+    return {
+      type: 'scatter',
+      name: nameOf(g, 'observations'),
+      id: `observations-${g}`,
+      data,
+      symbol: styleOf(g).symbol,
+      symbolSize: 5,
+      itemStyle: { color: styleOf(g).color, opacity: 0.45 },
+      emphasis: { disabled: true },
+      large: data.length > 2000,
+      animation: false,
+    }
+  })
+  const unitMeanSeries = groupIndices.map((g) => ({
     type: 'scatter',
-    name: SERIES_NAMES.observations,
-    data: g.data,
-    symbol: g.symbol,
-    symbolSize: 5,
-    itemStyle: { color: g.color, opacity: 0.45 },
-    emphasis: { disabled: true },
-    large: g.data.length > 2000,
+    name: nameOf(g, 'unitMeans'),
+    id: `unit-means-${g}`,
+    symbolSize: 13,
+    symbol: styleOf(g).symbol,
+    z: 4,
+    data: placed.filter((p) => p.groupIndex === g).map((p) => [p.x, p.unit.mean, p.index]),
+    itemStyle: { color: styleOf(g).color, borderColor: colors.text, borderWidth: 1.5 },
     animation: false,
   }))
 
-  const unitMeanSeries = {
-    type: 'scatter',
-    name: SERIES_NAMES.unitMeans,
-    symbolSize: 13,
-    z: 4,
-    data: placed.map((p) => {
-      const look = unitStyle(p.index)
-      return {
-        value: [p.x, p.unit.mean, p.index],
-        symbol: look.symbol,
-        itemStyle: { color: look.color, borderColor: colors.text, borderWidth: 1.5 },
-      }
-    }),
-    itemStyle: { color: colors.muted, borderColor: colors.text, borderWidth: 1.5 },
-    animation: false,
-  }
+  const legendData = [
+    ...(grouped
+      ? groups.labels.map((label, g) => ({
+          name: label,
+          icon: styleOf(g).symbol,
+          itemStyle: { color: styleOf(g).color },
+        }))
+      : [
+          {
+            name: SERIES_NAMES.observations,
+            icon: 'circle',
+            itemStyle: { color: UNIT_HUES[0], opacity: 0.45 },
+          },
+          {
+            name: SERIES_NAMES.unitMeans,
+            icon: 'circle',
+            itemStyle: { color: UNIT_HUES[0], borderColor: colors.text },
+          },
+        ]),
+    { name: SERIES_NAMES.naive, icon: 'rect', itemStyle: { color: colors.naive } },
+    { name: SERIES_NAMES.nested, icon: 'rect', itemStyle: { color: colors.nested } },
+  ]
 
   const conditionNames = chart.conditions.map((c) => c.condition)
   return {
@@ -193,29 +282,26 @@ export function mainChartOption(
     grid: { left: 64, right: 24, top: 56, bottom: 48 },
     legend: {
       top: 4,
+      type: 'scroll',
       textStyle: { color: colors.text },
-      data: [
-        { name: SERIES_NAMES.observations, icon: 'circle', itemStyle: { color: colors.muted } },
-        {
-          name: SERIES_NAMES.unitMeans,
-          icon: 'circle',
-          itemStyle: { color: colors.muted, borderColor: colors.text },
-        },
-        { name: SERIES_NAMES.naive, icon: 'rect', itemStyle: { color: colors.naive } },
-        { name: SERIES_NAMES.nested, icon: 'rect', itemStyle: { color: colors.nested } },
-      ],
+      // Groups first, titled by their level ("site: Nimbus"), then the two error bars.
+      formatter: (name: string) =>
+        grouped && groups.labels.includes(name) ? `${groups.level}: ${name}` : name,
+      data: legendData,
     },
     tooltip: {
       trigger: 'item',
-      formatter: (p: { seriesName: string; value: number[] }) => {
+      formatter: (p: { seriesName: string; seriesId?: string; value: number[] }) => {
         if (p.seriesName === SERIES_NAMES.naive || p.seriesName === SERIES_NAMES.nested) {
           const [, low, high, mean] = p.value
-          return `${p.seriesName} (${words})<br>mean ${formatNumber(mean)}, ${formatNumber(low)} to ${formatNumber(high)}`
+          return chartHtml`${p.seriesName} (${words})<br>mean ${formatNumber(mean)}, ${formatNumber(low)} to ${formatNumber(high)}`
         }
-        const unit = placed[p.value[2]]?.unit
-        const what =
-          p.seriesName === SERIES_NAMES.unitMeans ? `mean of ${unit?.n ?? '?'} observations` : 'observation'
-        return `${unit?.label ?? ''}${unit?.condition ? ` · ${unit.condition}` : ''}<br>${what}: ${formatNumber(p.value[1])}`
+        const place = placed[p.value[2]]
+        const unit = place?.unit
+        const what = p.seriesId?.startsWith('unit-means')
+          ? `mean of ${unit?.n ?? '?'} observations`
+          : 'observation'
+        return chartHtml`${unit?.label ?? ''}${unit?.condition ? ` · ${unit.condition}` : ''}<br>${what}: ${formatNumber(p.value[1])}`
       },
     },
     xAxis: {
@@ -251,7 +337,7 @@ export function mainChartOption(
     },
     series: [
       ...observationSeries,
-      unitMeanSeries,
+      ...unitMeanSeries,
       errorBarSeries('naive', naive, colors, 1.5, words, 5),
       errorBarSeries('nested', nested, colors, 3, words, 6),
     ],

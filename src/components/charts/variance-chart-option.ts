@@ -1,3 +1,4 @@
+import { chartHtml, joinHtml } from './chart-text'
 import type { EChartsCoreOption } from 'echarts/core'
 import type { ChartData } from '../../../shared/schemas/analyses'
 import type { RandomTerm } from '../../../shared/schemas/analysis-result'
@@ -41,9 +42,11 @@ export function varianceChartOption(
         const c = rows[p.dataIndex]
         const i = icc.get(c.level)
         const meaning = componentMeaning(c.level, random)
-        return `${label(c.level)}: ${formatShare(c.share)} of the variance (${formatNumber(c.variance)})${
-          meaning ? `<br>${meaning}` : ''
-        }${i === undefined ? '' : `<br>ICC ${formatNumber(i, 2)}`}`
+        return joinHtml([
+          chartHtml`${label(c.level)}: ${formatShare(c.share)} of the variance (${formatNumber(c.variance)})`,
+          ...(meaning ? [chartHtml`${meaning}`] : []),
+          ...(i === undefined ? [] : [chartHtml`ICC ${formatNumber(i, 2)}`]),
+        ])
       },
     },
     xAxis: {

@@ -67,6 +67,14 @@ describe('ExclusionsPanel', () => {
     ).toBe('')
   })
 
+  it('shows the rule in words before any column is chosen, never a raw code', async () => {
+    const { wrapper } = panel()
+    const select = field(wrapper, 'exclusion-operator')
+    const { items, modelValue } = select.props() as { items: { value: string }[]; modelValue: string }
+    expect(items.map((i) => i.value)).toContain(modelValue)
+    expect(wrapper.find('[data-testid="exclusion-operator"]').text()).not.toMatch(/\bgt\b/)
+  })
+
   it('offers only equality rules for text columns', async () => {
     const { wrapper } = panel()
     await choose(wrapper, 'exclusion-column', 'mouse')

@@ -81,7 +81,7 @@ describe('NestingEditor', () => {
     expect(arms.map((a) => a.find('td').text())).toEqual(['vehicle', 'NW-117'])
     const badges = wrapper.findAll('[data-testid="unit-count-badge"]')
     expect(badges.map((b) => b.attributes('data-adequacy'))).toEqual(['adequate', 'too-few'])
-    expect(badges.map((b) => b.text())).toEqual(['6 units · enough', '2 units · too few to compare'])
+    expect(badges.map((b) => b.text())).toEqual(['6 units · 6+ per arm', '2 units · too few to compare'])
     expect(wrapper.find('[data-testid="design-placement"]').text()).toContain('between “mouse” units')
   })
 

@@ -25,19 +25,8 @@ export function formatBytes(bytes: number): string {
   return `${value >= 100 ? Math.round(value) : value.toFixed(1)} ${units[unit]}`
 }
 
-const dateTime = new Intl.DateTimeFormat('en-GB', {
-  day: 'numeric',
-  month: 'short',
-  year: 'numeric',
-  hour: '2-digit',
-  minute: '2-digit',
-})
-
-/** "2 Dec 2026, 09:14" in the reader's time zone. */
-export function formatDateTime(iso: string): string {
-  const date = new Date(iso)
-  return Number.isNaN(date.getTime()) ? iso : dateTime.format(date)
-}
+/** Dates have one format, in src/formatting/dates.ts; re-exported for the dataset screens. */
+export { formatDateTime } from '@/formatting/dates'
 
 /** Column summary numbers: up to four significant digits, no trailing zeros, plain notation. */
 export function formatStat(value: number | null): string {

@@ -2,7 +2,14 @@ import { describe, expect, it } from 'vitest'
 import { ApiError } from '@/api/http'
 import { badFileWhere } from './bad-file'
 import { moveItem } from './move-item'
-import { operatorsFor, placementWords, ruleWords, unitWords } from './nesting-words'
+import {
+  labelList,
+  missingValueWords,
+  operatorsFor,
+  placementWords,
+  ruleWords,
+  unitWords,
+} from './nesting-words'
 import { sameTagging } from './same-tagging'
 import { unitAdequacy } from './unit-badge'
 
@@ -67,7 +74,7 @@ describe('exclusion wording', () => {
 })
 
 describe('unitAdequacy', () => {
-  it('follows the badge rule: under 3 too few, 3 to 5 few, 6 or more enough (common practice, no source)', () => {
+  it('follows the badge rule: under 3 too few, 3 to 5 thin, 6 or more the minimum for a variance estimate (common practice, no source)', () => {
     expect([0, 2, 3, 5, 6, 40].map(unitAdequacy)).toEqual([
       'too-few',
       'too-few',
@@ -90,5 +97,23 @@ describe('badFileWhere', () => {
     expect(badFileWhere(refusal({ reason: 'BLANK_HEADER', columnNumber: 2 }))).toEqual(['Column 2'])
     expect(badFileWhere(refusal({ reason: 'EMPTY_FILE' }))).toEqual([])
     expect(badFileWhere(refusal(undefined))).toEqual([])
+  })
+})
+
+describe('labelList', () => {
+  it('says how many more labels there are than it lists', () => {
+    expect(labelList(['M1', 'M2', 'M3', 'M4', 'M5'], 8)).toBe('M1, M2, M3, M4, M5 and 3 more')
+    expect(labelList(['M1', 'M2'])).toBe('M1, M2')
+  })
+})
+
+describe('missingValueWords', () => {
+  it('says how many kept rows lack the response, so the counts add up', () => {
+    expect(missingValueWords('soma_area_um2', 3)).toBe(
+      '3 rows have no value in “soma_area_um2”: analyses of it leave those rows out, so they count fewer observations than this table.',
+    )
+    expect(missingValueWords('length', 1)).toMatch(
+      /^1 row has no value in “length”: analyses of it leave that row out/,
+    )
   })
 })

@@ -4,6 +4,7 @@ import type {
   ExclusionRule,
   RuleOperator,
 } from '../../../shared/schemas/datasets'
+import { formatCount } from './format'
 
 /** Where the condition changes, in a few words for a chip ("between mouse units, within lab"). */
 export function placementWords(
@@ -61,4 +62,15 @@ export function ruleWords(rule: ExclusionRule): string {
 /** lab “nimbus” › mouse “m2” */
 export function unitWords(path: readonly { column: string; value: string }[]): string {
   return path.map((step) => `${step.column} “${step.value}”`).join(' › ')
+}
+
+/** The first few labels and how many more there are: "M1, M2, M3, M4, M5 and 3 more". */
+export function labelList(labels: readonly string[], total = labels.length): string {
+  const more = total - labels.length
+  return more > 0 ? `${labels.join(', ')} and ${more} more` : labels.join(', ')
+}
+
+/** A response column's empty cells among the kept rows, as the nesting summary says them. */
+export function missingValueWords(column: string, rows: number): string {
+  return `${formatCount(rows)} ${rows === 1 ? 'row has' : 'rows have'} no value in “${column}”: analyses of it leave ${rows === 1 ? 'that row' : 'those rows'} out, so they count fewer observations than this table.`
 }

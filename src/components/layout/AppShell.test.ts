@@ -16,7 +16,7 @@ afterEach(() => {
 
 function serverKnows(user: CurrentUser, logout: { status: number; body?: unknown } = { status: 204 }) {
   const fake = fakeFetch({
-    'GET /api/v1/auth/me': { status: 200, body: { data: user } },
+    'GET /api/v1/auth/session': { status: 200, body: { data: user } },
     'POST /api/v1/auth/logout': logout,
   })
   vi.stubGlobal('fetch', fake.fetch)

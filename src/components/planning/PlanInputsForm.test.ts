@@ -2,7 +2,7 @@
 import { afterEach, describe, expect, it } from 'vitest'
 import { mount } from '@vue/test-utils'
 import { nextTick, ref } from 'vue'
-import { PlanInputs, type PlanInputsInput } from '../../../shared/schemas/plans'
+import { PlanInputs, type PlanDraftInput } from '../../../shared/schemas/plans'
 import { createNestwiseVuetify } from '@/plugins/vuetify'
 import { stubMissingBrowserApis } from '@/testing/mount-with-app'
 import PlanInputsForm from './PlanInputsForm.vue'
@@ -12,7 +12,7 @@ afterEach(() => {
 })
 
 /** A plan for one lab, as a plan saved before the outer level existed (no `outer`). */
-const oneLab: PlanInputsInput = {
+const oneLab: PlanDraftInput = {
   icc: 0.2,
   spread: { kind: 'total', sdTotal: 25 },
   difference: 10,
@@ -20,18 +20,19 @@ const oneLab: PlanInputsInput = {
   costPerObs: 1,
 }
 
-function mountForm(start: PlanInputsInput) {
+function mountForm(start: PlanDraftInput, observed: Record<string, unknown> | null = null) {
   stubMissingBrowserApis()
-  const model = ref<PlanInputsInput>(start)
+  const model = ref<PlanDraftInput>(start)
   const wrapper = mount(PlanInputsForm, {
     props: {
       modelValue: model.value,
-      'onUpdate:modelValue': (value: PlanInputsInput) => {
+      'onUpdate:modelValue': (value: PlanDraftInput) => {
         model.value = value
         void wrapper.setProps({ modelValue: value })
       },
       unitWord: 'mouse',
       responseName: 'neurite length',
+      observed: observed as never,
     },
     global: { plugins: [createNestwiseVuetify()] },
     attachTo: document.body,
@@ -77,5 +78,41 @@ describe('PlanInputsForm', () => {
     await field(wrapper, 'input-outer-name').setValue('day')
     expect(model.value.outer?.name).toBe('day')
     expect(wrapper.get('[data-testid="input-labs-min"]').text()).toContain('days from')
+  })
+
+  it('asks for the difference that matters, with the observed one beside it as a reference only', async () => {
+    const { wrapper, model } = mountForm(
+      { ...oneLab, difference: null, costPerUnit: null, costPerObs: null },
+      { what: 'NW-117 − vehicle', estimate: 7.6194, ci: [-21.08, 36.32], p: 0.5577 },
+    )
+    const difference = wrapper.get('[data-testid="input-difference"]')
+    expect(difference.text()).toContain('Difference that matters biologically')
+    expect(field(wrapper, 'input-difference').element).toHaveProperty('value', '')
+    expect(wrapper.get('[data-testid="observed-reference"]').text()).toBe(
+      'For reference, observed: NW-117 − vehicle: 7.62, 95 % interval [-21.1, 36.3], p = 0.56',
+    )
+    expect(wrapper.get('[data-testid="observed-why"]').text()).toContain(
+      'Why not plan on the observed difference?',
+    )
+    await field(wrapper, 'input-difference').setValue('12')
+    expect(model.value.difference).toBe(12)
+    await field(wrapper, 'input-difference').setValue('')
+    expect(model.value.difference).toBeNull()
+  })
+
+  it('leaves the costs empty and says the plan then counts units; a cost typed and cleared is empty again', async () => {
+    const { wrapper, model } = mountForm({ ...oneLab, costPerUnit: null, costPerObs: null })
+    expect(wrapper.get('[data-testid="costs-hint"]').text()).toMatch(
+      /^No costs: the plan keeps the number of mice/,
+    )
+    expect(field(wrapper, 'input-cost-unit').element).toHaveProperty('value', '')
+    // One lab: no cost per lab to give.
+    expect(wrapper.find('[data-testid="input-cost-lab"]').exists()).toBe(false)
+    await field(wrapper, 'input-cost-unit').setValue('400')
+    expect(model.value.costPerUnit).toBe(400)
+    expect(wrapper.get('[data-testid="costs-hint"]').text()).toMatch(/empty them all to count instead/)
+    await field(wrapper, 'input-cost-unit').setValue('')
+    expect(model.value.costPerUnit).toBeNull()
+    expect(PlanInputs.safeParse(model.value).success).toBe(true)
   })
 })

@@ -237,7 +237,7 @@ export function planTableText(result: PlanResult, arms: number): string {
       r.unitsPerArm * arms * (multiLab ? r.labs : 1),
       r.unitsPerArm * arms * (multiLab ? r.labs : 1) * r.obsPerUnit,
       r.power.toFixed(3),
-      Math.round(r.cost),
+      r.cost === null ? '' : Math.round(r.cost),
       r.recommended ? 'yes' : '',
     ].join('\t'),
   )

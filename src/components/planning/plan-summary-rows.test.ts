@@ -25,6 +25,7 @@ function plan(overrides: Partial<PlanSummary> = {}): PlanSummary {
       totalObs: 1680,
       power: 0.8123,
       cost: 4116,
+      objective: 'cost',
       designEffect: 4.96,
     },
     ...overrides,
@@ -38,7 +39,7 @@ describe('planSummaryRow', () => {
     expect(row.assumptions).toEqual([
       'ICC 0.36',
       'SD between mice 3.00, within a mouse 4.00',
-      'difference worth detecting 6.00',
+      'difference that matters 6.00',
       '2 arms, α 0.05, target power 80 %',
     ])
     expect(row.constraints).toEqual(['cost 250 per mouse + 2 per observation'])
@@ -123,5 +124,17 @@ describe('planSummaryRows', () => {
     )
     expect(rows.map((r) => r.name)).toEqual(['first', 'second'])
     expect(new Set(rows.map((r) => r.key)).size).toBe(2)
+  })
+})
+
+describe('a plan without costs', () => {
+  it('says it counted units and shows no cost', () => {
+    const inputs = PlanInputs.parse({ icc: 0.2, spread: { kind: 'total', sdTotal: 11 }, difference: 8 })
+    const row = planSummaryRow(
+      plan({ inputs, result: { ...plan().result, cost: null, objective: 'counts' } }),
+      'mouse',
+    )
+    expect(row.constraints).toEqual(['no costs: the fewest mice'])
+    expect(row.cost).toBe('—')
   })
 })

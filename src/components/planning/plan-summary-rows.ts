@@ -1,4 +1,4 @@
-import type { PlanSummary } from '../../../shared/schemas/plans'
+import { hasCosts, type PlanSummary } from '../../../shared/schemas/plans'
 import { resolveSpread } from '../../../shared/planning/resolve-spread'
 import { formatNumber } from '../../../shared/report/number-format'
 import { pluralOf } from './unit-words'
@@ -29,6 +29,8 @@ export const percent = (v: number): string => `${(v * 100).toFixed(v > 0.995 && 
 /** Whole numbers with thousands separators: costs and totals ("100,352"). */
 export const money = (v: number): string =>
   new Intl.NumberFormat('en-US', { maximumFractionDigits: 0 }).format(v)
+/** A cost, or "—" for a plan without costs (it counts units instead). */
+export const costText = (v: number | null): string => (v === null ? '—' : money(v))
 
 function spreadWords(inputs: PlanSummary['inputs'], unitWord: string): { icc: number; sd: string } {
   const { icc } = resolveSpread(inputs)
@@ -63,7 +65,9 @@ function outerWords(plan: PlanSummary): { assumption: string; constraints: strin
     assumption,
     constraints: [
       `${range}${outer.design === 'one-arm' ? ' per arm' : ''}`,
-      `cost ${money(outer.costPerLab)} per ${outer.name}`,
+      ...(outer.costPerLab === null || !hasCosts(plan.inputs)
+        ? []
+        : [`cost ${money(outer.costPerLab)} per ${outer.name}`]),
     ],
   }
 }
@@ -75,7 +79,9 @@ export function planSummaryRow(plan: PlanSummary, unitWord: string, index = 0): 
   const outer = multiLab ? outerWords(plan) : null
   const constraints = [
     ...(outer?.constraints ?? []),
-    `cost ${money(inputs.costPerUnit)} per ${unitWord} + ${money(inputs.costPerObs)} per observation`,
+    hasCosts(inputs)
+      ? `cost ${money(inputs.costPerUnit ?? 0)} per ${unitWord} + ${money(inputs.costPerObs ?? 0)} per observation`
+      : `no costs: the fewest ${pluralOf(unitWord)}`,
   ]
   if (inputs.maxUnitsPerArm !== null)
     constraints.push(
@@ -91,7 +97,7 @@ export function planSummaryRow(plan: PlanSummary, unitWord: string, index = 0): 
       `ICC ${spread.icc.toFixed(2)}`,
       spread.sd,
       ...(outer ? [outer.assumption] : []),
-      `difference worth detecting ${formatNumber(inputs.difference)}`,
+      `difference that matters ${formatNumber(inputs.difference)}`,
       `${inputs.arms} arms, α ${inputs.alpha}, target power ${percent(inputs.targetPower)}`,
     ],
     constraints,
@@ -103,7 +109,7 @@ export function planSummaryRow(plan: PlanSummary, unitWord: string, index = 0): 
     obsPerUnit: String(result.obsPerUnit),
     totalObs: `${money(result.totalObs)} in all`,
     power: percent(result.power),
-    cost: money(result.cost),
+    cost: costText(result.cost),
     shortfall: result.feasible
       ? null
       : `No design within the limits reaches ${percent(inputs.targetPower)}; this is the most powerful one.`,

@@ -36,10 +36,5 @@ export const boardStatusLook: Record<BoardReviewStatus, { text: string; color: s
   },
 }
 
-export function formatDateTime(iso: string): string {
-  return new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })
-}
-
-export function formatDate(iso: string): string {
-  return new Date(iso).toLocaleDateString(undefined, { dateStyle: 'medium' })
-}
+/** Dates have one format, in src/formatting/dates.ts. */
+export { formatDate, formatDateTime } from '@/formatting/dates'
