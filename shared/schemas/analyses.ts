@@ -216,9 +216,12 @@ export const UnitSummary = z.object({
   /** The condition of this unit's observations; a unit spanning conditions appears once per condition. Null without a condition. */
   condition: z.string().nullable(),
   n: count,
+  /** Mean of the unit's observations: a proportion of yes or a rate per observation for binary and count responses. */
   mean: z.number(),
-  /** Sample SD (n − 1) of the unit's observations; null for a single observation. */
+  /** Sample SD (n − 1) of the unit's observations; null for a single observation (and with trials). */
   sd: z.number().nonnegative().nullable(),
+  /** Successes out of trials: the unit's trials (its `mean` is then its successes over these). */
+  trials: z.number().nonnegative().optional(),
 })
 export type UnitSummary = z.infer<typeof UnitSummary>
 
@@ -248,6 +251,11 @@ export const ChartPoints = z.object({
 export type ChartPoints = z.infer<typeof ChartPoints>
 
 export const ChartData = z.object({
+  /**
+   * Binary and count responses (engine ≥ 0.3): the points and unit means are proportions or rates,
+   * the bars the model's Wald intervals on that scale. Absent for a normal response.
+   */
+  family: z.enum(['binomial', 'poisson']).optional(),
   response: z.string(),
   condition: z.string().nullable(),
   /** Level whose units carry a single condition (from the result); null when none does. */
