@@ -2,9 +2,8 @@ import { closeSync, createReadStream, openSync, readSync, statSync } from 'node:
 import { extname } from 'node:path'
 import { CsvSyntaxError, CsvTokenizer, fieldText, type CsvRow } from '../../server/ingest/csv-tokenizer'
 import { guessDelimiter } from '../../server/ingest/guess-delimiter'
-import type { NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
-import { ColumnCollector, type ColumnSelection } from './column-collector'
+import { ColumnCollector, type CollectedColumns, type ColumnSelection } from './column-collector'
 import { parseDecimalBytes } from '../../server/ingest/parse-decimal-bytes'
 
 export interface ReadColumnsOptions extends ColumnSelection {
@@ -62,7 +61,7 @@ class ColumnReader {
     if (this.pendingBytes >= GUESS_BYTES) this.startScanning()
   }
 
-  finish(): NestedColumns {
+  finish(): CollectedColumns {
     if (!this.tokenizer) this.startScanning()
     this.read(() => this.tokenizer!.end())
     return this.collector.finish()
@@ -123,7 +122,13 @@ class ColumnReader {
     if (missing && isBlank(record)) return
     const column = collector.responseColumn
     let response = NaN
-    if (!missing && column < record.count) {
+    let responseCode = -1
+    if (!missing && collector.responseAsLabels) {
+      // A yes/no response is read as values; 0 stands in until they become 0/1 at the end.
+      response = 0
+      if (column < record.count)
+        responseCode = collector.responseLabelCode(fieldText(record, column), collector.rowCount, record.line)
+    } else if (!missing && column < record.count) {
       response = parseDecimalBytes(
         record.bytes,
         record.starts[column],
@@ -135,7 +140,23 @@ class ColumnReader {
     }
     const covariates = this.covariates
     if (covariates.length) this.readCovariates(record, missing)
-    collector.addRow(codes, response, covariates)
+    const trials = missing ? NaN : this.readTrials(record)
+    collector.addRow(codes, response, covariates, { trials, responseCode, line: record.line })
+  }
+
+  /** The row's trials (binomial with trials), NaN when missing or when there is no trials column. */
+  private readTrials(record: CsvRow): number {
+    const collector = this.collector
+    const field = collector.trialsColumn
+    if (field < 0 || field >= record.count) return NaN
+    const value = parseDecimalBytes(
+      record.bytes,
+      record.starts[field],
+      record.ends[field],
+      collector.decimalComma,
+    )
+    if (!Number.isNaN(value)) return value
+    return collector.parseTrials(fieldText(record, field), collector.rowCount, record.line)
   }
 
   /** Each covariate of the row as a number (NaN when missing); a row left out for a missing label is not read. */
@@ -198,7 +219,7 @@ function isBlank(record: CsvRow): boolean {
 }
 
 /** Reads a CSV/TSV text held in memory (small inputs, tests). */
-export function readColumnsFromText(text: string, options: ReadColumnsOptions): NestedColumns {
+export function readColumnsFromText(text: string, options: ReadColumnsOptions): CollectedColumns {
   const reader = new ColumnReader(options, '.csv')
   reader.push(Buffer.from(text.replace(/^\uFEFF/, ''), 'utf8'))
   return reader.finish()
@@ -235,7 +256,10 @@ function openFile(path: string): number {
  * quoted fields, CRLF or LF line ends, a UTF-8 byte-order mark, UTF-16 with a byte-order mark, and a
  * decimal comma on request. Memory stays proportional to the columns kept, not the file.
  */
-export async function readColumnsFromFile(path: string, options: ReadColumnsOptions): Promise<NestedColumns> {
+export async function readColumnsFromFile(
+  path: string,
+  options: ReadColumnsOptions,
+): Promise<CollectedColumns> {
   const fd = openFile(path)
   const reader = new ColumnReader(options, extname(path).toLowerCase(), statSync(path).size)
   try {
