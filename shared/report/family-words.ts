@@ -49,3 +49,20 @@ export function latentScaleNote(family: GlmmFamily): string {
     ? 'These shares are on the latent (log-odds) scale: the variance within units is the logistic distribution’s π²/3 ≈ 3.29, after Nakagawa, Johnson & Schielzeth (2017). They are not shares of the 0/1 values themselves.'
     : 'These shares are on the latent (log) scale: the variance within units is ln(1 + 1/λ) at the mean count λ, after Nakagawa, Johnson & Schielzeth (2017). They are not shares of the counts themselves.'
 }
+
+/**
+ * What a unit's point and a group's bar show, as the y axis of the main chart: "proportion
+ * “positive” in “marker”", "proportion of successes (“positive_neurons” of “neurons_counted”)",
+ * "“puncta” per observation (rate)". Null for a normal response (its column name says it).
+ */
+export function responseScaleName(
+  result: Pick<AnalysisResult, 'family' | 'response' | 'outcome'>,
+  trials?: string | null,
+): string | null {
+  const family = glmmFamily(result)
+  if (!family) return null
+  if (family === 'poisson') return `“${result.response}” per observation (rate)`
+  if (trials) return `proportion “${result.response}” of “${trials}”`
+  if (result.outcome) return `proportion “${result.outcome.positive}” in “${result.response}”`
+  return `proportion of 1 in “${result.response}”`
+}

@@ -62,6 +62,17 @@ export function placeUnits(chart: ChartData): PlacedUnit[] {
 
 type BarDatum = [x: number, low: number, high: number, mean: number]
 
+/** A unit mean's hover: "mean of 12 observations", "proportion of 30 observations", "7 of 40 trials". */
+function unitMeanWords(chart: ChartData, unit: UnitSummary | undefined): string {
+  const n = unit?.n ?? '?'
+  if (chart.family === 'binomial')
+    return unit?.trials !== undefined
+      ? `${Math.round(unit.mean * unit.trials)} of ${unit.trials} trials`
+      : `proportion of ${n} observations`
+  if (chart.family === 'poisson') return `rate per observation, over ${n} observations`
+  return `mean of ${n} observations`
+}
+
 function errorBarRenderer(color: string, width: number, label: string) {
   return (
     _params: CustomSeriesRenderItemParams,
@@ -119,22 +130,42 @@ function errorBarSeries(
   }
 }
 
+/** What the y axis shows, when the response's name alone would not say it (binary and count responses). */
+export interface MainChartWords {
+  /** The y axis name, e.g. "proportion “positive” of marker" or "puncta per observation". */
+  yName?: string
+}
+
 /**
  * The main chart: every sampled observation coloured by its unit, each unit's mean as a larger
  * marker, and per condition the naive bar beside the nested one. Pure: data in, option out.
+ *
+ * Binary and count responses (chart.family): each unit is drawn as its proportion or rate, single
+ * yes/no observations are not drawn (they are all 0 or 1), and the bars are always the 95 %
+ * intervals on the response scale (the model's Wald interval, back-transformed), whatever `type`
+ * says: an SEM or SD on the proportion scale would not be the interval the model gives.
  */
 export function mainChartOption(
   chart: ChartData,
-  type: ErrorBarType,
+  requested: ErrorBarType,
   colors: ChartColors,
+  text: MainChartWords = {},
 ): EChartsCoreOption {
   const placed = placeUnits(chart)
+  const type: ErrorBarType = chart.family ? 'ci95' : requested
   const words = ERROR_BAR_WORDS[type].short
+  const proportion = chart.family === 'binomial'
+  const unitSeriesName =
+    chart.family === 'binomial'
+      ? 'Unit proportions'
+      : chart.family === 'poisson'
+        ? 'Unit rates'
+        : SERIES_NAMES.unitMeans
 
   // Observations grouped by look (colour × shape) so a thousand points are a few plain arrays.
   const byStyle = new Map<number, { color: string; symbol: string; data: [number, number, number][] }>()
   const { y, cell } = chart.points
-  for (let i = 0; i < y.length; i++) {
+  for (let i = 0; i < (proportion ? 0 : y.length); i++) {
     const unit = placed[cell[i]]
     if (!unit) continue
     const look = unitStyle(unit.index)
@@ -170,7 +201,7 @@ export function mainChartOption(
 
   const unitMeanSeries = {
     type: 'scatter',
-    name: SERIES_NAMES.unitMeans,
+    name: unitSeriesName,
     symbolSize: 13,
     z: 4,
     data: placed.map((p) => {
@@ -195,9 +226,11 @@ export function mainChartOption(
       top: 4,
       textStyle: { color: colors.text },
       data: [
-        { name: SERIES_NAMES.observations, icon: 'circle', itemStyle: { color: colors.muted } },
+        ...(proportion
+          ? []
+          : [{ name: SERIES_NAMES.observations, icon: 'circle', itemStyle: { color: colors.muted } }]),
         {
-          name: SERIES_NAMES.unitMeans,
+          name: unitSeriesName,
           icon: 'circle',
           itemStyle: { color: colors.muted, borderColor: colors.text },
         },
@@ -213,8 +246,7 @@ export function mainChartOption(
           return `${p.seriesName} (${words})<br>mean ${formatNumber(mean)}, ${formatNumber(low)} to ${formatNumber(high)}`
         }
         const unit = placed[p.value[2]]?.unit
-        const what =
-          p.seriesName === SERIES_NAMES.unitMeans ? `mean of ${unit?.n ?? '?'} observations` : 'observation'
+        const what = p.seriesName !== unitSeriesName ? 'observation' : unitMeanWords(chart, unit)
         return `${unit?.label ?? ''}${unit?.condition ? ` · ${unit.condition}` : ''}<br>${what}: ${formatNumber(p.value[1])}`
       },
     },
@@ -240,8 +272,10 @@ export function mainChartOption(
     },
     yAxis: {
       type: 'value',
-      scale: true,
-      name: chart.response,
+      // Proportions live in [0, 1] and rates start at 0: a cut axis would exaggerate differences.
+      scale: !chart.family,
+      ...(proportion ? { min: 0, max: 1 } : chart.family ? { min: 0 } : {}),
+      name: text.yName ?? chart.response,
       nameLocation: 'middle',
       nameGap: 48,
       axisLabel: { color: colors.text },
