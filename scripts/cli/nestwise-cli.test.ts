@@ -310,6 +310,14 @@ describe('nestwise analyze, binary and count responses', SPAWNING, () => {
     expect(run.stderr.trimEnd()).toMatch(message)
   })
 
+  it('refuses to plan a difference of means from a yes/no analysis', () => {
+    const run = nestwise('analyze', neurons, ...marker, '--family', 'binomial')
+    const saved = file('marker-result.json', run.stdout)
+    const plan = nestwise('plan', '--from', saved, '--difference', '0.1', '--obs', '10')
+    expect(plan.code).toBe(2)
+    expect(plan.stderr.trimEnd()).toMatch(/is a yes\/no analysis, whose variances are on the latent scale/)
+  })
+
   it('documents the families under --help', () => {
     const help = nestwise('analyze', '--help').stdout
     for (const option of ['--family F', '--positive VALUE', '--trials COL']) expect(help).toContain(option)

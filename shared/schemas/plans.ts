@@ -69,6 +69,33 @@ export const SINGLE_LAB: PlanOuterLevel = {
   sdBetweenLabs: null,
 }
 
+/**
+ * What the arms are compared on. 'mean' (every plan saved before, and a normal response): the
+ * spread and the difference are in the response's unit. 'proportion' (a yes/no response) or
+ * 'rate' (a count): the plan is for a difference in proportions or rates between two arms, given
+ * the control arm's proportion (or rate) and the ICC of the units on the latent scale, as a
+ * logistic or Poisson mixed model reports it; the ICC and SD on the observations' scale are
+ * derived from those (see resolveSpread) and the typed-in spread is not used.
+ */
+export const PlanMeasure = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('mean') }),
+  z.object({
+    kind: z.literal('proportion'),
+    /** Proportion of yes in the control (reference) arm. */
+    control: z.number().gt(0).lt(1),
+    /** ICC of the units on the latent (log-odds) scale: σ²_u / (σ²_u + π²/3). */
+    latentIcc: z.number().min(0).lt(1),
+  }),
+  z.object({
+    kind: z.literal('rate'),
+    /** Mean count per observation in the control arm. */
+    control: positive,
+    /** ICC of the units on the latent (log) scale at the control rate λ: σ²_u / (σ²_u + ln(1 + 1/λ)). */
+    latentIcc: z.number().min(0).lt(1),
+  }),
+])
+export type PlanMeasure = z.infer<typeof PlanMeasure>
+
 export const PlanInputs = z
   .object({
     /** ICC of the units that are assigned to arms; ignored (derived) when the spread is given as components. */
@@ -86,6 +113,8 @@ export const PlanInputs = z
     maxObsPerUnit: z.number().int().min(1).max(100_000).nullable().default(null),
     /** The outer level; absent in plans saved before it existed, which were plans for one lab. */
     outer: PlanOuterLevel.default(SINGLE_LAB),
+    /** What the arms are compared on; absent in plans saved before, which compared means. */
+    measure: PlanMeasure.default({ kind: 'mean' }),
   })
   .refine((i) => i.costPerUnit > 0 || i.costPerObs > 0, {
     error: 'Give a cost per unit or per observation (at least one above 0)',
@@ -94,6 +123,10 @@ export const PlanInputs = z
   .refine((i) => i.maxUnitsPerArm === null || i.maxUnitsPerArm >= 2 || i.outer.maxLabs > 1, {
     error: 'With one lab, allow at least 2 units per arm',
     path: ['maxUnitsPerArm'],
+  })
+  .refine((i) => i.measure.kind !== 'proportion' || i.measure.control + i.difference < 1, {
+    error: 'The control proportion plus the difference must stay below 1',
+    path: ['difference'],
   })
 export type PlanInputs = z.infer<typeof PlanInputs>
 export type PlanInputsInput = z.input<typeof PlanInputs>
@@ -119,6 +152,18 @@ export const PlanLabCurve = z.object({
 export type PlanLabCurve = z.infer<typeof PlanLabCurve>
 
 export const PlanResult = z.object({
+  /**
+   * Proportion and rate plans: the two arms' proportions (or rates) and the latent ICC the ICC and
+   * SD below were derived from; absent for a plan of means.
+   */
+  measure: z
+    .object({
+      kind: z.enum(['proportion', 'rate']),
+      control: z.number(),
+      target: z.number(),
+      latentIcc: z.number(),
+    })
+    .optional(),
   /** ICC and total SD inside a lab and arm the computation used (derived from components when those were given). */
   icc: z.number(),
   sdTotal: z.number(),

@@ -10,6 +10,7 @@ import {
   AnalysisSettings,
   AnalysisVersionDetail,
 } from '../../shared/schemas/analyses'
+import { PlanDefaults, PlanResult } from '../../shared/schemas/plans'
 import { db } from '../../server/db'
 import { closeConnections, createTestApp } from '../support/api'
 import { finishQueuedVersion } from '../support/finished-version'
@@ -363,5 +364,61 @@ describe('settings stored before families', () => {
       settings: {},
     })
     expect(again.status).toBe(409)
+  })
+})
+
+describe('planning from a yes/no analysis', () => {
+  it('suggests a plan on the proportion scale, previews it and saves it', async () => {
+    const res = await create(neurons.id, {
+      response: 'marker',
+      family: 'binomial',
+      conditions: ['treatment'],
+    })
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    const analysisId = res.body.data.id as number
+    await finishQueuedVersion(analysisId)
+    const defaults = PlanDefaults.parse(
+      (
+        await getAs(
+          app,
+          team.cookies.scientist,
+          `/api/v1/plans/defaults?analysisId=${analysisId}&versionNo=1`,
+        )
+      ).body.data,
+    )
+    expect(defaults.inputs.measure).toMatchObject({ kind: 'proportion' })
+    const preview = await postAs(app, team.cookies.scientist, '/api/v1/plans/preview', {
+      inputs: defaults.inputs,
+    })
+    expect(preview.status, JSON.stringify(preview.body)).toBe(200)
+    const result = PlanResult.parse(preview.body.data)
+    expect(result.measure).toMatchObject({ kind: 'proportion', control: defaults.inputs.measure.control })
+    expect(result.notes[0]).toMatch(/^Planned for a proportion of /)
+
+    const saved = await postAs(app, team.cookies.scientist, '/api/v1/plans', {
+      labId: team.lab.id,
+      name: 'Marker plan',
+      source: { analysisId, versionNo: 1 },
+      inputs: defaults.inputs,
+    })
+    expect(saved.status, JSON.stringify(saved.body)).toBe(201)
+    expect(saved.body.data.inputs.measure.kind).toBe('proportion')
+  })
+
+  it('answers 400 for a target proportion of 1 or more', async () => {
+    const preview = await postAs(app, team.cookies.scientist, '/api/v1/plans/preview', {
+      inputs: {
+        icc: 0.05,
+        spread: { kind: 'total', sdTotal: 0.5 },
+        difference: 0.5,
+        costPerUnit: 100,
+        costPerObs: 1,
+        measure: { kind: 'proportion', control: 0.6, latentIcc: 0.1 },
+      },
+    })
+    expect(preview.status).toBe(400)
+    expect(JSON.stringify(preview.body.error)).toContain(
+      'The control proportion plus the difference must stay below 1',
+    )
   })
 })
