@@ -46,14 +46,31 @@ describe('term rows', () => {
   it('gives F, both df with one decimal and p, and names the interaction', () => {
     expect(termStatistic(model.terms!)).toBe('F')
     expect(termRows(model.terms!)).toEqual([
-      { id: 'genotype', term: 'genotype', statistic: 'F', value: '9.90', df: '1, 2.0', p: 'p = 0.086' },
-      { id: 'treatment', term: 'treatment', statistic: 'F', value: '2.61', df: '1, 2.1', p: 'p = 0.24' },
+      {
+        id: 'genotype',
+        term: 'genotype',
+        statistic: 'F',
+        value: '9.90',
+        df1: '1',
+        df2: '2.0',
+        p: 'p = 0.086',
+      },
+      {
+        id: 'treatment',
+        term: 'treatment',
+        statistic: 'F',
+        value: '2.61',
+        df1: '1',
+        df2: '2.1',
+        p: 'p = 0.24',
+      },
       {
         id: 'genotype:treatment',
         term: 'genotype × treatment (interaction)',
         statistic: 'F',
         value: '1.04',
-        df: '1, 6.1',
+        df1: '1',
+        df2: '6.1',
         p: 'p = 0.35',
       },
       {
@@ -61,7 +78,8 @@ describe('term rows', () => {
         term: 'soma_area_um2',
         statistic: 'F',
         value: '46.8',
-        df: '1, 462.7',
+        df1: '1',
+        df2: '462.7',
         p: 'p < 0.001',
       },
     ])

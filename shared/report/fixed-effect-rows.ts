@@ -104,8 +104,10 @@ export interface TermRow {
   /** F (type III, Satterthwaite) or χ² (Wald, binary and count responses), and its value. */
   statistic: 'F' | 'χ²'
   value: string
-  /** "1, 2.0" for an F test (numerator, denominator); "2" for a χ² test. */
-  df: string
+  /** Numerator df of an F test, or the df of a χ² test. */
+  df1: string
+  /** Denominator df of an F test; "—" for a χ² test, which has none. */
+  df2: string
   p: string
 }
 
@@ -121,7 +123,8 @@ export function termRows(terms: readonly (TermTest | WaldTermTest)[]): TermRow[]
     term: t.term.includes(':') ? `${termLabel(t.term)} (interaction)` : t.term,
     statistic: isWaldTerm(t) ? 'χ²' : 'F',
     value: formatNumber(isWaldTerm(t) ? t.chisq : t.f),
-    df: isWaldTerm(t) ? formatDf(t.df) : `${formatDf(t.df1)}, ${formatDf(t.df2)}`,
+    df1: formatDf(isWaldTerm(t) ? t.df : t.df1),
+    df2: isWaldTerm(t) ? '—' : formatDf(t.df2),
     p: formatP(t.p),
   }))
 }

@@ -94,7 +94,15 @@ describe('fixed-effect rows of a binary response', () => {
   it('gives the term test as a Wald χ² with its df', () => {
     expect(termStatistic(model.terms!)).toBe('χ²')
     expect(termRows(model.terms!)).toEqual([
-      { id: 'trt', term: 'trt', statistic: 'χ²', value: expect.any(String), df: '2', p: 'p = 0.12' },
+      {
+        id: 'trt',
+        term: 'trt',
+        statistic: 'χ²',
+        value: expect.any(String),
+        df1: '2',
+        df2: '—',
+        p: 'p = 0.12',
+      },
     ])
   })
 })
