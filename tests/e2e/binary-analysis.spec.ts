@@ -22,6 +22,7 @@ function inventedCsv(): string {
 async function pick(page: Page, field: string, name: string): Promise<void> {
   await page.getByTestId(field).click()
   await page.getByRole('option', { name, exact: true }).click()
+  await expect(page.getByRole('listbox')).toHaveCount(0)
 }
 
 /** Adds each of `names` to a multiple select. */
@@ -31,6 +32,8 @@ async function choose(page: Page, field: string, names: string[]): Promise<void>
     await page.getByRole('option', { name, exact: true }).click()
     await page.keyboard.press('Escape')
     await expect(page.getByTestId(field).locator('.v-chip', { hasText: name })).toHaveCount(1)
+    // The next field's menu must not meet this one's options while it closes.
+    await expect(page.getByRole('listbox')).toHaveCount(0)
   }
 }
 
