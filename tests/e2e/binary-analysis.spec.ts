@@ -1,6 +1,5 @@
 import { readFileSync } from 'node:fs'
 import { expect, test, type Page } from '@playwright/test'
-import { inventedNeuronRows } from '../../shared/analysis/fixtures/invented-glmm-tables'
 import { attachScreenshot, signIn } from './support/demo'
 
 /**
@@ -11,11 +10,41 @@ import { attachScreenshot, signIn } from './support/demo'
  * scale.
  */
 
-/** One row per neuron: lab, mouse, treatment, marker (positive/negative), puncta. */
+/** Small deterministic generator (mulberry32), so the invented table is the same on every run. */
+function generator(seed: number) {
+  let a = seed >>> 0
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0
+    let t = a
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
+
+/**
+ * One row per neuron: lab, mouse, treatment, marker (positive/negative), puncta. 3 labs × 8 mice
+ * (the compound on every second mouse) × 20–34 neurons; a neuron is marker-positive with
+ * probability logistic(−0.6 + 0.9·QZ-41 + mouse effect), a rough sum of uniforms standing in for
+ * a normal mouse effect. Obviously fictional.
+ */
 function inventedCsv(): string {
-  const rows = inventedNeuronRows('binary-e2e')
-  const lines = rows.map((r) => [r.lab, `${r.lab}-${r.mouse}`, r.treatment, r.marker, r.puncta].join(','))
-  return ['lab,mouse,treatment,marker,puncta', ...lines].join('\n') + '\n'
+  const random = generator(20261203)
+  const noise = (sd: number) => (random() + random() + random() - 1.5) * sd * 2
+  const lines = ['lab,mouse,treatment,marker,puncta']
+  for (const lab of ['hollowmere', 'quillby', 'tarnwick'])
+    for (let m = 1; m <= 8; m++) {
+      const treated = m % 2 === 0
+      const mouseEffect = noise(0.6)
+      const neurons = 20 + Math.floor(random() * 15)
+      for (let n = 0; n < neurons; n++) {
+        const eta = -0.6 + (treated ? 0.9 : 0) + mouseEffect
+        const marker = random() < 1 / (1 + Math.exp(-eta)) ? 'positive' : 'negative'
+        const puncta = Math.floor(random() * 12)
+        lines.push([lab, `${lab}-m${m}`, treated ? 'QZ-41' : 'vehicle', marker, puncta].join(','))
+      }
+    }
+  return lines.join('\n') + '\n'
 }
 
 /** Picks one value of a single select. */

@@ -392,7 +392,9 @@ describe('planning from a yes/no analysis', () => {
     })
     expect(preview.status, JSON.stringify(preview.body)).toBe(200)
     const result = PlanResult.parse(preview.body.data)
-    expect(result.measure).toMatchObject({ kind: 'proportion', control: defaults.inputs.measure.control })
+    const { measure } = defaults.inputs
+    if (measure.kind !== 'proportion') throw new Error('expected a plan of proportions')
+    expect(result.measure).toMatchObject({ kind: 'proportion', control: measure.control })
     expect(result.notes[0]).toMatch(/^Planned for a proportion of /)
 
     const saved = await postAs(app, team.cookies.scientist, '/api/v1/plans', {
