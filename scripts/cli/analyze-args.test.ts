@@ -13,9 +13,25 @@ describe('parseAnalyzeArgs', () => {
       covariates: [],
       reference: {},
       bootstrap: null,
+      family: 'gaussian',
+      trials: undefined,
+      positive: undefined,
       delimiter: undefined,
       decimal: undefined,
     })
+  })
+
+  it('reads the family, the value counted as yes and a trials column', () => {
+    expect(parseAnalyzeArgs([...base, '--family', 'binomial', '--positive', 'positive'])).toMatchObject({
+      family: 'binomial',
+      positive: 'positive',
+      trials: undefined,
+    })
+    expect(parseAnalyzeArgs([...base, '--family', 'binomial', '--trials', 'neurons'])).toMatchObject({
+      family: 'binomial',
+      trials: 'neurons',
+    })
+    expect(parseAnalyzeArgs([...base, '--family', 'poisson'])?.family).toBe('poisson')
   })
 
   it('reads every option, including "tab" as a separator', () => {
@@ -105,6 +121,14 @@ describe('parseAnalyzeArgs', () => {
     [[...base, '--condition', 'g,t', '--reference', 'g=WT,dose=1'], /"dose=1" must be FACTOR=LEVEL/],
     [[...base, '--condition', 'g,t', '--reference', 'g=WT,g=KO'], /names "g" twice/],
     [[...base, '--colour', 'red'], /Unknown option '--colour'.*--help/],
+    [[...base, '--family', 'gamma'], /--family must be gaussian, binomial or poisson, got "gamma"/],
+    [[...base, '--trials', 'n'], /--trials COL needs --family binomial/],
+    [[...base, '--family', 'poisson', '--positive', 'yes'], /--positive VALUE needs --family binomial/],
+    [[...base, '--family', 'binomial', '--trials', 'n', '--positive', 'yes'], /does not apply with --trials/],
+    [
+      [...base, '--family', 'binomial', '--trials', 'n', '--bootstrap', '200', '--seed', '1'],
+      /does not apply to successes out of --trials/,
+    ],
   ])('rejects %j', (argv, message) => {
     expect(() => parseAnalyzeArgs(argv)).toThrow(message)
   })

@@ -11,6 +11,12 @@ export interface AnalyzeArgs {
   /** Reference level per condition factor; a factor left out uses its first label in the file. */
   reference: Record<string, string>
   bootstrap: { resamples: number; seed: string } | null
+  /** The response's distribution: a measurement (default), yes/no or successes out of trials, or a count. */
+  family: 'gaussian' | 'binomial' | 'poisson'
+  /** Binomial only: the trials column (the response then holds the successes). */
+  trials: string | undefined
+  /** Binomial without trials: the response value counted as yes. */
+  positive: string | undefined
   delimiter: string | undefined
   /** Undefined: as sniffed from the file, the way the web upload reads it. */
   decimal: '.' | ',' | undefined
@@ -20,7 +26,9 @@ export const ANALYZE_HELP = `Usage: nestwise analyze FILE --response COL --level
 
 Fits the nested mixed model (REML) to one numeric column of a CSV/TSV file and prints one JSON
 document on stdout: variance per level, ICC, design effect, effective n, naive and cluster-correct
-means with CIs, and comparisons between conditions (adjusted for any covariates).
+means with CIs, and comparisons between conditions (adjusted for any covariates). A yes/no or count
+response is fitted as a nested GLMM by the Laplace approximation (--family): odds or rate ratios with
+Wald intervals, z and chi-square tests, variance shares on the latent scale.
 
 Required:
   FILE                    CSV or TSV file with a header row (UTF-8, or UTF-16 with a byte-order mark)
@@ -35,7 +43,15 @@ Options:
   --reference LEVEL       reference level of the one condition (default: its first value in the file)
   --reference A=LEVEL[,B=LEVEL]
                           reference level per condition column
-  --bootstrap N           add a hierarchical bootstrap with N resamples (needs --seed)
+  --family F              the response's distribution: gaussian (a measurement; default), binomial
+                          (yes/no: two values such as positive/negative, or 0/1; logit link) or
+                          poisson (counts: whole numbers of at least 0; log link)
+  --positive VALUE        binomial: the response value counted as yes (default: 1 of a 0/1 column,
+                          else a value reading as yes such as "yes", "positive" or "present", else
+                          the second value in sorted order); the JSON names it under "outcome"
+  --trials COL            binomial: the response holds successes out of the trials in COL (whole
+                          numbers of at least 1), one row per unit or per unit and condition
+  --bootstrap N           add a hierarchical bootstrap with N resamples (needs --seed; not with --trials)
   --seed S                seed of the bootstrap, so a result can be reproduced
   --delimiter C           field separator: ',' ';' or 'tab' (default: detected from the first rows)
   --decimal C             decimal mark of the response and covariates: '.' or ',' (default: detected,
@@ -48,7 +64,9 @@ Exit codes: 0 success; 2 bad input (one line on stderr naming the column, row or
 Example:
   npm run --silent nestwise -- analyze cells.csv --response neurite_length_um --levels lab,animal --condition treatment
   npm run --silent nestwise -- analyze cells.csv --response neurite_length_um --levels lab,animal \\
-    --condition genotype,treatment --covariate soma_area_um2 --reference genotype=WT,treatment=vehicle`
+    --condition genotype,treatment --covariate soma_area_um2 --reference genotype=WT,treatment=vehicle
+  npm run --silent nestwise -- analyze cells.csv --response marker --family binomial --positive positive \\
+    --levels lab,animal --condition treatment`
 
 /** At most this many condition factors and covariates (as in the app's settings). */
 const MAX_CONDITIONS = 2
@@ -78,6 +96,9 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
         condition: { type: 'string' },
         covariate: { type: 'string' },
         reference: { type: 'string' },
+        family: { type: 'string' },
+        trials: { type: 'string' },
+        positive: { type: 'string' },
         bootstrap: { type: 'string' },
         seed: { type: 'string' },
         delimiter: { type: 'string' },
@@ -129,6 +150,12 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
     throw new CliInputError('--seed only applies together with --bootstrap N.')
   }
 
+  const { family, trials, positive } = familyOptions(values)
+  if (trials !== undefined && bootstrap)
+    throw new CliInputError(
+      '--bootstrap resamples single observations, so it does not apply to successes out of --trials.',
+    )
+
   const conditions = columnList('--condition', values.condition, MAX_CONDITIONS)
   const covariates = columnList('--covariate', values.covariate, MAX_COVARIATES)
   return {
@@ -139,9 +166,30 @@ export function parseAnalyzeArgs(argv: string[]): AnalyzeArgs | null {
     covariates,
     reference: referenceLevels(values.reference, conditions),
     bootstrap,
+    family,
+    trials,
+    positive,
     delimiter,
     decimal,
   }
+}
+
+const FAMILIES = ['gaussian', 'binomial', 'poisson'] as const
+
+/** --family, and --trials and --positive, which only a binomial response takes. */
+function familyOptions(values: { family?: string; trials?: string; positive?: string }) {
+  const family = (values.family ?? 'gaussian').trim()
+  if (!(FAMILIES as readonly string[]).includes(family))
+    throw new CliInputError(`--family must be gaussian, binomial or poisson, got "${values.family}".`)
+  const trials = values.trials?.trim()
+  if (trials !== undefined && trials === '') throw new CliInputError('--trials needs a column name.')
+  if (trials !== undefined && family !== 'binomial')
+    throw new CliInputError('--trials COL needs --family binomial (successes out of trials).')
+  if (values.positive !== undefined && family !== 'binomial')
+    throw new CliInputError('--positive VALUE needs --family binomial (a yes/no response).')
+  if (values.positive !== undefined && trials !== undefined)
+    throw new CliInputError('--positive does not apply with --trials: the response then holds successes.')
+  return { family: family as (typeof FAMILIES)[number], trials, positive: values.positive?.trim() }
 }
 
 /** A comma-separated list of column names (empty when the option is absent). */

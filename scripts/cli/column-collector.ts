@@ -1,8 +1,19 @@
+import { readBinaryResponse } from '../../shared/analysis/binary-response'
 import type { Factor, NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
 
 export interface ColumnSelection {
   response: string
+  /**
+   * The response's distribution (default gaussian). A binomial response without trials is read
+   * as values (two labels, or 0 and 1) and turned into 0/1; a poisson response must hold whole
+   * numbers of at least 0.
+   */
+  family?: 'gaussian' | 'binomial' | 'poisson'
+  /** Binomial only: the column of trials per row (the response then holds successes). */
+  trials?: string
+  /** Binomial without trials: the value counted as yes (default: see defaultPositiveLabel). */
+  positive?: string
   /** Nesting levels, outermost first. */
   levels: string[]
   /** Condition factors: none, one or two. */
@@ -54,11 +65,19 @@ class FactorBuilder {
   }
 }
 
+/** The engine's columns, and for a yes/no response read from two values, which one was yes. */
+export type CollectedColumns = NestedColumns & { outcome?: { positive: string; negative: string | null } }
+
+/** Number of distinct response values a yes/no response may hold ("1" and "1.0" are one). */
+const BINARY_VALUES = 2
+
 /**
  * Turns table rows into engine columns without keeping any per-row object: labels become integer
  * codes through Map lookups, the response and covariates go straight into Float64Arrays. A row
  * with a missing label, response or covariate gets NaN there, so the engine leaves it out and
  * counts it. The reader looks up label codes only when a label changes from one row to the next.
+ * A binomial response without trials is collected as labels (at most two values); the values a
+ * family cannot take are refused as they are read, naming the row and the line.
  */
 export class ColumnCollector {
   private responseIndex = -1
@@ -71,6 +90,12 @@ export class ColumnCollector {
   covariateColumns: number[] = []
   private response = new Float64Array(1024)
   private covariates: Float64Array[] = []
+  /** Binomial without trials: the response's labels, and the distinct values seen (by number or text). */
+  private responseLabels: FactorBuilder | null = null
+  private responseValueKeys = new Map<string, string>()
+  /** Column index of the trials column (binomial with trials), and its values. */
+  trialsColumn = -1
+  private trials: Float64Array | null = null
   private rows = 0
   private headerSeen = false
   readonly decimalComma: boolean
@@ -79,6 +104,7 @@ export class ColumnCollector {
     this.decimalComma = selection.decimal === ','
     const names = [
       selection.response,
+      ...(selection.trials ? [selection.trials] : []),
       ...selection.levels,
       ...(selection.conditions ?? []),
       ...(selection.covariates ?? []),
@@ -86,7 +112,7 @@ export class ColumnCollector {
     const repeated = names.find((name, i) => names.indexOf(name) !== i)
     if (repeated !== undefined)
       throw new CliInputError(
-        `The column "${repeated}" is used twice; response, levels, conditions and covariates must be different columns.`,
+        `The column "${repeated}" is used twice; response, ${selection.trials ? 'trials, ' : ''}levels, conditions and covariates must be different columns.`,
       )
   }
 
@@ -102,6 +128,35 @@ export class ColumnCollector {
     return this.responseIndex
   }
 
+  /** True when the response is read as values (a binomial response without trials), not numbers. */
+  get responseAsLabels(): boolean {
+    return this.responseLabels !== null
+  }
+
+  /**
+   * Code of a yes/no response's value (−1 when missing); a third distinct value stops the reading,
+   * naming the row and line. "1" and "1.0" are one value.
+   */
+  responseLabelCode(raw: string, row: number, line: number): number {
+    const label = clean(raw)
+    if (label === '' || MISSING_TOKENS.has(label)) return -1
+    const builder = this.responseLabels!
+    const known = builder.codeOf.get(label)
+    if (known !== undefined) return known
+    const number = Number(this.decimalComma ? label.replace(',', '.') : label)
+    const key = Number.isFinite(number) ? `#${number}` : `"${label}`
+    if (!this.responseValueKeys.has(key)) {
+      if (this.responseValueKeys.size >= BINARY_VALUES) {
+        const [a, b] = [...this.responseValueKeys.values()]
+        throw new CliInputError(
+          `Row ${row + 1} (line ${line}): the response column "${this.selection.response}" holds "${label}", a third value besides "${a}" and "${b}"; a --family binomial response holds two values (or 0 and 1).`,
+        )
+      }
+      this.responseValueKeys.set(key, label)
+    }
+    return builder.code(label)
+  }
+
   /** Code of factor `factor`'s label, or -1 when the label is missing. */
   labelCode(factor: number, raw: string): number {
     const label = clean(raw)
@@ -112,7 +167,12 @@ export class ColumnCollector {
    * Adds a data row: one label code per factor, in factor order, and one value per covariate. A
    * row with a missing label (-1) still needs a code; it is left out through a NaN response.
    */
-  addRow(codes: Int32Array, response: number, covariates?: Float64Array): void {
+  addRow(
+    codes: Int32Array,
+    response: number,
+    covariates?: Float64Array,
+    extra: { trials?: number; responseCode?: number; line?: number } = {},
+  ): void {
     if (this.rows === this.response.length) this.grow()
     const row = this.rows++
     const factors = this.factors
@@ -125,13 +185,41 @@ export class ColumnCollector {
     this.response[row] = missing ? NaN : response
     for (let k = 0; k < this.covariates.length; k++)
       this.covariates[k][row] = covariates ? covariates[k] : NaN
+    if (this.responseLabels) this.responseLabels.codes[row] = missing ? -1 : (extra.responseCode ?? -1)
+    if (this.trials) this.trials[row] = extra.trials ?? NaN
+    if (!missing) this.checkRow(row, response, extra.trials ?? NaN, extra.line ?? row + 2)
   }
 
-  finish(): NestedColumns {
+  /** Counts must be whole numbers of at least 0, trials of at least 1, successes no more than the trials. */
+  private checkRow(row: number, response: number, trials: number, line: number): void {
+    const family = this.selection.family
+    const at = `Row ${row + 1} (line ${line})`
+    const whole = (v: number, least: number) => Number.isInteger(v) && v >= least
+    if (family === 'poisson' && response === response && !whole(response, 0))
+      throw new CliInputError(
+        `${at}: the response column "${this.selection.response}" holds ${response}; a --family poisson response must be a whole number of at least 0.`,
+      )
+    if (family !== 'binomial' || !this.trials) return
+    if (trials === trials && !whole(trials, 1))
+      throw new CliInputError(
+        `${at}: the trials column "${this.selection.trials}" holds ${trials}; trials must be whole numbers of at least 1.`,
+      )
+    if (response === response && !whole(response, 0))
+      throw new CliInputError(
+        `${at}: the response column "${this.selection.response}" holds ${response}; successes must be whole numbers of at least 0.`,
+      )
+    if (response > trials)
+      throw new CliInputError(
+        `${at}: ${response} successes in "${this.selection.response}" but only ${trials} trials in "${this.selection.trials}"; successes cannot exceed the trials.`,
+      )
+  }
+
+  finish(): CollectedColumns {
     if (!this.headerSeen) throw new CliInputError('The file is empty: no header row.')
     if (this.rows === 0) throw new CliInputError('The file has a header but no data rows.')
     const covariates = this.selection.covariates ?? []
-    return {
+    const family = this.selection.family ?? 'gaussian'
+    const columns: CollectedColumns = {
       responseName: this.selection.response,
       response: this.response.subarray(0, this.rows),
       levels: this.levels.map((level) => level.toFactor(this.rows)),
@@ -144,7 +232,32 @@ export class ColumnCollector {
             })),
           }
         : {}),
+      ...(family !== 'gaussian' ? { family } : {}),
     }
+    if (this.trials) {
+      columns.trials = this.trials.subarray(0, this.rows)
+      columns.trialsName = this.selection.trials
+    }
+    if (this.responseLabels) {
+      const { labels, codes } = this.responseLabels.toFactor(this.rows)
+      const toNumber = (text: string) => Number(this.decimalComma ? text.replace(',', '.') : text)
+      const read = readBinaryResponse(labels, codes, this.selection.positive ?? null, toNumber)
+      if ('problem' in read) {
+        if (read.problem.kind === 'unknown-positive')
+          throw new CliInputError(
+            `--positive "${read.problem.positive}" is not a value of "${this.selection.response}" (it has ${read.problem.values.map((v) => `"${v}"`).join(' and ')}).`,
+          )
+        throw new CliInputError(
+          `The response column "${this.selection.response}" holds more than two values.`,
+        )
+      }
+      // A row left out for a missing label stays left out.
+      const response = read.values
+      for (let r = 0; r < this.rows; r++) if (Number.isNaN(this.response[r])) response[r] = NaN
+      columns.response = response
+      columns.outcome = { positive: read.positive, negative: read.negative }
+    }
+    return columns
   }
 
   /** Reads the header row and finds the selected columns in it. */
@@ -170,6 +283,11 @@ export class ColumnCollector {
     this.factorColumns = [...this.selection.levels, ...conditions].map(find)
     this.covariateColumns = covariates.map(find)
     this.covariates = covariates.map(() => new Float64Array(size))
+    const binomial = this.selection.family === 'binomial'
+    if (binomial && this.selection.trials) {
+      this.trialsColumn = find(this.selection.trials)
+      this.trials = new Float64Array(size)
+    } else if (binomial) this.responseLabels = new FactorBuilder(this.selection.response, size)
     this.headerSeen = true
   }
 
@@ -181,6 +299,11 @@ export class ColumnCollector {
   /** Covariate `k`'s value of a field's text (NaN when missing); names the row, line and column when it is not a number. */
   parseCovariate(k: number, raw: string, row: number, line: number): number {
     return this.parseNumber(raw, row, line, `the covariate column "${this.selection.covariates![k]}"`)
+  }
+
+  /** The trials of a row (NaN when missing); names the row, line and column when it is not a number. */
+  parseTrials(raw: string, row: number, line: number): number {
+    return this.parseNumber(raw, row, line, `the trials column "${this.selection.trials}"`)
   }
 
   private parseNumber(raw: string, row: number, line: number, what: string): number {
@@ -216,7 +339,12 @@ export class ColumnCollector {
       grown.set(values)
       return grown
     })
-    for (const factor of this.factors) {
+    if (this.trials) {
+      const trials = new Float64Array(size)
+      trials.set(this.trials)
+      this.trials = trials
+    }
+    for (const factor of this.responseLabels ? [...this.factors, this.responseLabels] : this.factors) {
       const codes = new Int32Array(size)
       codes.set(factor.codes)
       factor.codes = codes

@@ -7,7 +7,8 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
-import { describe, expect, it } from 'vitest'
+import { afterAll, describe, expect, it } from 'vitest'
+import { inventedNeuronCsv, inventedNeuronRows } from '../../shared/analysis/fixtures/invented-glmm-tables'
 import { AnalysisResult } from '../../shared/schemas/analysis-result'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
@@ -199,6 +200,127 @@ describe('nestwise analyze, two factors and a covariate', SPAWNING, () => {
     expect(terms).toEqual(
       expect.arrayContaining(['genotype', 'treatment', 'genotype:treatment', 'soma_area_um2']),
     )
+  })
+})
+
+describe('nestwise analyze, binary and count responses', SPAWNING, () => {
+  // Invented neurons in mice in three fictional labs (shared/analysis/fixtures/invented-glmm-tables.ts).
+  const folder = mkdtempSync(join(tmpdir(), 'nestwise-glmm-'))
+  const rows = inventedNeuronRows()
+  const file = (name: string, text: string) => {
+    const path = join(folder, name)
+    writeFileSync(path, text)
+    return path
+  }
+  const neurons = file('neurons.csv', inventedNeuronCsv(rows))
+  afterAll(() => rmSync(folder, { recursive: true, force: true }))
+  const marker = ['--response', 'marker', '--levels', 'lab,mouse', '--condition', 'treatment']
+
+  it('fits a yes/no response as a logistic GLMM and says which value was yes', () => {
+    const run = nestwise('analyze', neurons, ...marker, '--family', 'binomial', '--reference', 'vehicle')
+    expect(run.stderr).toBe('')
+    expect(run.code).toBe(0)
+    const result = AnalysisResult.parse(JSON.parse(run.stdout))
+    expect(result.family).toBe('binomial')
+    expect(result.outcome).toEqual({ positive: 'positive', negative: 'negative' })
+    expect(result.model).toMatchObject({
+      formula: 'marker ~ treatment + (1|lab) + (1|lab:treatment) + (1|lab:mouse)',
+      family: 'binomial(link = "logit")',
+    })
+    const [contrast] = result.comparisons.mixedModel!.contrasts
+    expect(contrast).toMatchObject({ a: 'QZ-41', b: 'vehicle' })
+    expect('ratio' in contrast && contrast.ratio).toBeCloseTo(Math.exp(contrast.estimate), 12)
+    // Plain proportion of the vehicle arm, counted from the invented rows.
+    const vehicle = rows.filter((r) => r.treatment === 'vehicle')
+    expect(result.groups[0].mean).toBeCloseTo(
+      vehicle.filter((r) => r.marker === 'positive').length / vehicle.length,
+      12,
+    )
+  })
+
+  it('fits counts as a Poisson GLMM', () => {
+    const run = nestwise(
+      'analyze',
+      neurons,
+      '--response',
+      'puncta',
+      '--levels',
+      'lab,mouse,neuron',
+      '--family',
+      'poisson',
+    )
+    expect(run.code).toBe(0)
+    const result = AnalysisResult.parse(JSON.parse(run.stdout))
+    expect(result.family).toBe('poisson')
+    expect(result.varianceComponents.at(-1)!.level).toBe('residual')
+  })
+
+  it.each([
+    [
+      'a third value in a yes/no response, naming row and line',
+      () => [
+        file('unsure.csv', inventedNeuronCsv(rows.map((r, i) => (i === 9 ? { ...r, marker: 'unsure' } : r)))),
+        ...marker,
+        '--family',
+        'binomial',
+      ],
+      /^nestwise: Row 10 \(line 11\): the response column "marker" holds "unsure", a third value besides "(positive|negative)" and "(positive|negative)"; a --family binomial response holds two values \(or 0 and 1\)\.$/,
+    ],
+    [
+      'a yes value the column lacks',
+      () => [neurons, ...marker, '--family', 'binomial', '--positive', 'yes'],
+      /^nestwise: --positive "yes" is not a value of "marker" \(it has "(positive|negative)" and "(positive|negative)"\)\.$/,
+    ],
+    [
+      'a negative count, naming row and line',
+      () => [
+        file('negative.csv', inventedNeuronCsv(rows.map((r, i) => (i === 4 ? { ...r, puncta: -2 } : r)))),
+        '--response',
+        'puncta',
+        '--levels',
+        'lab,mouse',
+        '--family',
+        'poisson',
+      ],
+      /^nestwise: Row 5 \(line 6\): the response column "puncta" holds -2; a --family poisson response must be a whole number of at least 0\.$/,
+    ],
+    [
+      'successes above the trials, naming row, line and both columns',
+      () => [
+        file(
+          'aggregated.csv',
+          'lab,mouse,positive_neurons,neurons\nhollowmere,m1,3,10\nhollowmere,m2,11,9\nquillby,m1,2,8\n',
+        ),
+        '--response',
+        'positive_neurons',
+        '--trials',
+        'neurons',
+        '--levels',
+        'lab,mouse',
+        '--family',
+        'binomial',
+      ],
+      /^nestwise: Row 2 \(line 3\): 11 successes in "positive_neurons" but only 9 trials in "neurons"; successes cannot exceed the trials\.$/,
+    ],
+  ])('exits with code 2 and one line on stderr for %s', (_, args, message) => {
+    const run = nestwise('analyze', ...args())
+    expect(run.code).toBe(2)
+    expect(run.stdout).toBe('')
+    expect(run.stderr.trimEnd().split('\n')).toHaveLength(1)
+    expect(run.stderr.trimEnd()).toMatch(message)
+  })
+
+  it('refuses to plan a difference of means from a yes/no analysis', () => {
+    const run = nestwise('analyze', neurons, ...marker, '--family', 'binomial')
+    const saved = file('marker-result.json', run.stdout)
+    const plan = nestwise('plan', '--from', saved, '--difference', '0.1', '--obs', '10')
+    expect(plan.code).toBe(2)
+    expect(plan.stderr.trimEnd()).toMatch(/is a yes\/no analysis, whose variances are on the latent scale/)
+  })
+
+  it('documents the families under --help', () => {
+    const help = nestwise('analyze', '--help').stdout
+    for (const option of ['--family F', '--positive VALUE', '--trials COL']) expect(help).toContain(option)
   })
 })
 

@@ -251,3 +251,61 @@ describe('readColumnsFromFile', () => {
     await expect(readColumnsFromFile(path, selection)).rejects.toThrow('Row 25001 (line 25002)')
   })
 })
+
+describe('readColumnsFromText, binary and count responses', () => {
+  const yesNo = { response: 'marker', levels: ['lab', 'mouse'], family: 'binomial' as const }
+  const table = 'lab,mouse,marker\nA,m1,positive\nA,m1,negative\nA,m2,NA\n,m2,positive\nB,m1,positive\n'
+
+  it('turns a two-valued response into 0/1 and names the value counted as yes', () => {
+    const columns = readColumnsFromText(table, yesNo)
+    expect(Array.from(columns.response)).toEqual([1, 0, NaN, NaN, 1])
+    expect(columns).toMatchObject({
+      family: 'binomial',
+      outcome: { positive: 'positive', negative: 'negative' },
+    })
+    const flipped = readColumnsFromText(table, { ...yesNo, positive: 'negative' })
+    expect(Array.from(flipped.response)).toEqual([0, 1, NaN, NaN, 0])
+  })
+
+  it('reads a 0/1 column with 1 as yes, and "1.0" as the same value', () => {
+    const columns = readColumnsFromText('lab,mouse,y\nA,1,0\nA,1,1.0\nB,1,1\n', { ...yesNo, response: 'y' })
+    expect(Array.from(columns.response)).toEqual([0, 1, 1])
+    expect(columns.outcome).toEqual({ positive: '1.0', negative: '0' })
+  })
+
+  it('names the row and line of a third value, and a yes value the column lacks', () => {
+    expect(() => readColumnsFromText(table + 'B,m2,unsure\n', yesNo)).toThrow(
+      'Row 6 (line 7): the response column "marker" holds "unsure", a third value besides "positive" and "negative"; a --family binomial response holds two values (or 0 and 1).',
+    )
+    expect(() => readColumnsFromText(table, { ...yesNo, positive: 'yes' })).toThrow(
+      '--positive "yes" is not a value of "marker" (it has "positive" and "negative").',
+    )
+  })
+
+  it('refuses a count that is negative or not whole, naming row and line', () => {
+    const counts = { response: 'puncta', levels: ['lab'], family: 'poisson' as const }
+    expect(Array.from(readColumnsFromText('lab,puncta\nA,3\nB,0\n', counts).response)).toEqual([3, 0])
+    expect(() => readColumnsFromText('lab,puncta\nA,3\nB,-1\n', counts)).toThrow(
+      'Row 2 (line 3): the response column "puncta" holds -1; a --family poisson response must be a whole number of at least 0.',
+    )
+    expect(() => readColumnsFromText('lab,puncta\nA,2.5\n', counts)).toThrow(/Row 1 \(line 2\).*holds 2\.5/)
+  })
+
+  it('reads successes out of trials and refuses successes above the trials', () => {
+    const aggregated = { response: 'yes', levels: ['lab'], family: 'binomial' as const, trials: 'n' }
+    const columns = readColumnsFromText('lab,yes,n\nA,3,10\nB,0,NA\n', aggregated)
+    expect(Array.from(columns.response)).toEqual([3, 0])
+    expect(Array.from(columns.trials!)).toEqual([10, NaN])
+    expect(columns).toMatchObject({ trialsName: 'n', family: 'binomial' })
+    expect(columns.outcome).toBeUndefined()
+    expect(() => readColumnsFromText('lab,yes,n\nA,3,10\nB,12,10\n', aggregated)).toThrow(
+      'Row 2 (line 3): 12 successes in "yes" but only 10 trials in "n"; successes cannot exceed the trials.',
+    )
+    expect(() => readColumnsFromText('lab,yes,n\nA,0,0\n', aggregated)).toThrow(
+      'Row 1 (line 2): the trials column "n" holds 0; trials must be whole numbers of at least 1.',
+    )
+    expect(() => readColumnsFromText('lab,yes,n\nA,1,ten\n', aggregated)).toThrow(
+      'Row 1 (line 2): the trials column "n" holds "ten", which is not a number.',
+    )
+  })
+})

@@ -2,9 +2,8 @@ import { closeSync, openSync, readSync, statSync } from 'node:fs'
 import { extname } from 'node:path'
 import { CsvSyntaxError, CsvTokenizer, fieldText, type CsvRow } from '../../server/ingest/csv-tokenizer'
 import { guessDelimiter } from '../../server/ingest/guess-delimiter'
-import type { NestedColumns } from '../../shared/stats/types'
 import { CliInputError } from './cli-input-error'
-import { ColumnCollector, type ColumnSelection } from './column-collector'
+import { ColumnCollector, type CollectedColumns, type ColumnSelection } from './column-collector'
 import { parseDecimalBytes } from '../../server/ingest/parse-decimal-bytes'
 import { AppError } from '../../server/errors/app-error'
 import { sniffFile, SNIFF_BYTES, type TextSniff } from '../../server/ingest/sniff'
@@ -65,7 +64,7 @@ class ColumnReader {
     if (this.pendingBytes >= GUESS_BYTES) this.startScanning()
   }
 
-  finish(): NestedColumns {
+  finish(): CollectedColumns {
     if (!this.tokenizer) this.startScanning()
     this.read(() => this.tokenizer!.end())
     return this.collector.finish()
@@ -126,7 +125,13 @@ class ColumnReader {
     if (missing && isBlank(record)) return
     const column = collector.responseColumn
     let response = NaN
-    if (!missing && column < record.count) {
+    let responseCode = -1
+    if (!missing && collector.responseAsLabels) {
+      // A yes/no response is read as values; 0 stands in until they become 0/1 at the end.
+      response = 0
+      if (column < record.count)
+        responseCode = collector.responseLabelCode(fieldText(record, column), collector.rowCount, record.line)
+    } else if (!missing && column < record.count) {
       response = parseDecimalBytes(
         record.bytes,
         record.starts[column],
@@ -138,7 +143,23 @@ class ColumnReader {
     }
     const covariates = this.covariates
     if (covariates.length) this.readCovariates(record, missing)
-    collector.addRow(codes, response, covariates)
+    const trials = missing ? NaN : this.readTrials(record)
+    collector.addRow(codes, response, covariates, { trials, responseCode, line: record.line })
+  }
+
+  /** The row's trials (binomial with trials), NaN when missing or when there is no trials column. */
+  private readTrials(record: CsvRow): number {
+    const collector = this.collector
+    const field = collector.trialsColumn
+    if (field < 0 || field >= record.count) return NaN
+    const value = parseDecimalBytes(
+      record.bytes,
+      record.starts[field],
+      record.ends[field],
+      collector.decimalComma,
+    )
+    if (!Number.isNaN(value)) return value
+    return collector.parseTrials(fieldText(record, field), collector.rowCount, record.line)
   }
 
   /** Each covariate of the row as a number (NaN when missing); a row left out for a missing label is not read. */
@@ -201,7 +222,7 @@ function isBlank(record: CsvRow): boolean {
 }
 
 /** Reads a CSV/TSV text held in memory (small inputs, tests). */
-export function readColumnsFromText(text: string, options: ReadColumnsOptions): NestedColumns {
+export function readColumnsFromText(text: string, options: ReadColumnsOptions): CollectedColumns {
   const reader = new ColumnReader(options, '.csv')
   reader.push(Buffer.from(text.replace(/^\uFEFF/, ''), 'utf8'))
   return reader.finish()
@@ -240,7 +261,7 @@ function sniffText(fd: number, path: string, size: number): TextSniff {
 }
 
 /** Reads the file once, from just after its byte-order mark, turning it into UTF-8 as the web does. */
-function readAs(fd: number, sniff: TextSniff, reader: ColumnReader): NestedColumns {
+function readAs(fd: number, sniff: TextSniff, reader: ColumnReader): CollectedColumns {
   const utf8 = toUtf8(sniff.encoding)
   const chunk = Buffer.allocUnsafe(READ_BYTES)
   let position = sniff.bomBytes
@@ -261,7 +282,10 @@ function readAs(fd: number, sniff: TextSniff, reader: ColumnReader): NestedColum
  * semicolon, tab or bar) and the decimal mark are the sniffed ones unless given. Quoted fields,
  * CRLF or LF line ends. Memory stays proportional to the columns kept, not the file.
  */
-export async function readColumnsFromFile(path: string, options: ReadColumnsOptions): Promise<NestedColumns> {
+export async function readColumnsFromFile(
+  path: string,
+  options: ReadColumnsOptions,
+): Promise<CollectedColumns> {
   const fd = openFile(path)
   try {
     const size = statSync(path).size

@@ -10,8 +10,15 @@ export async function runAnalyze(args: AnalyzeArgs): Promise<AnalysisResult> {
     levels: args.levels,
     conditions: args.conditions,
     covariates: args.covariates,
+    family: args.family,
+    trials: args.trials,
+    positive: args.positive,
     delimiter: args.delimiter,
     decimal: args.decimal,
   })
-  return analyzeNested(columns, { reference: args.reference, bootstrap: args.bootstrap })
+  const { outcome, ...engineColumns } = columns
+  const result = analyzeNested(engineColumns, { reference: args.reference, bootstrap: args.bootstrap })
+  // Which of the response's two values was counted as yes, so the JSON says so.
+  if (outcome) result.outcome = outcome
+  return result
 }

@@ -118,6 +118,12 @@ function readAnalysis(path: string): AnalysisResult {
     throw new CliInputError(
       `"${path}" is not a result of "nestwise analyze" (${parsed.error.issues[0]?.path.join('.')}: ${parsed.error.issues[0]?.message}).`,
     )
+  // A binary or count analysis has its variances on the latent scale: a plan of means from them
+  // would mix scales. The app's planner plans a difference in proportions or rates from them.
+  if (parsed.data.family === 'binomial' || parsed.data.family === 'poisson')
+    throw new CliInputError(
+      `"${path}" is a ${parsed.data.family === 'binomial' ? 'yes/no' : 'count'} analysis, whose variances are on the latent scale; plan it in the app's planner (a difference in proportions or rates), not with --from.`,
+    )
   return parsed.data
 }
 

@@ -52,19 +52,27 @@ export async function computeAnalysis(
       conditions: settings.conditions,
       covariates: settings.covariates,
       levels: settings.levels,
+      family: settings.family,
+      trials: settings.trials,
+      positive: settings.positive,
     },
     input.exclusions,
     conn,
   )
   report({ stage: 'fitting', fraction: STAGE_START.fitting })
-  const result = analyzeNested(columns, {
+  const { outcome, ...engineColumns } = columns
+  const result = analyzeNested(engineColumns, {
     reference: settings.reference,
-    bootstrap: settings.bootstrap.enabled
-      ? { resamples: settings.bootstrap.resamples, seed: settings.bootstrap.seed }
-      : null,
+    // The engine has no bootstrap for successes out of trials (the settings refuse one, too).
+    bootstrap:
+      settings.bootstrap.enabled && settings.trials === null
+        ? { resamples: settings.bootstrap.resamples, seed: settings.bootstrap.seed }
+        : null,
     beforeBootstrap: () => report({ stage: 'bootstrap', fraction: STAGE_START.bootstrap }),
   })
+  // Which of the response's two values was counted as yes, so the result says so wherever it goes.
+  if (outcome) result.outcome = outcome
   report({ stage: 'charts', fraction: STAGE_START.charts })
-  const chart = buildChartData(columns, result)
+  const chart = buildChartData(engineColumns, result)
   return { result, chart, runMs: Math.round(performance.now() - started) }
 }

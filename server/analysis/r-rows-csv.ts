@@ -6,8 +6,8 @@ import { quoteCsvField } from './units-csv'
 const ROWS_PER_CHUNK = 5000
 
 /**
- * The exact rows an analysis used, for R: the columns of the model (response, levels outer first,
- * conditions, covariates), one line per kept row (the version's recorded exclusions are applied by
+ * The exact rows an analysis used, for R: the columns of the model (response, trials, levels
+ * outer first, conditions, covariates), one line per kept row (the version's recorded exclusions are applied by
  * the read-back; rows without a response or covariate value are left out, as the engine left them
  * out), in chunks so a million rows stream instead of filling memory.
  *
@@ -29,15 +29,18 @@ export function* rRowsCsvChunks(columns: NestedColumns, order: RExportColumns): 
     if (!values) throw new Error(`rRowsCsvChunks: the rows have no covariate “${name}”`)
     return values
   })
+  const trials = order.trials ? columns.trials : null
+  if (order.trials && !trials) throw new Error(`rRowsCsvChunks: the rows have no trials “${order.trials}”`)
+  const header = [order.response, ...(order.trials ? [order.trials] : [])]
   yield (
-    [order.response, ...order.levels, ...order.conditions, ...order.covariates].map(quoteCsvField).join(',') +
-    '\n'
+    [...header, ...order.levels, ...order.conditions, ...order.covariates].map(quoteCsvField).join(',') + '\n'
   )
   const y = columns.response
   let chunk: string[] = []
   for (let r = 0; r < y.length; r++) {
     if (!Number.isFinite(y[r]) || covariates.some((values) => !Number.isFinite(values[r]))) continue
-    const cells = [String(y[r])]
+    if (trials && !Number.isFinite(trials[r])) continue
+    const cells = trials ? [String(y[r]), String(trials[r])] : [String(y[r])]
     for (const column of labelColumns) cells.push(column.labels[column.codes[r]])
     for (const values of covariates) cells.push(String(values[r]))
     chunk.push(cells.join(','))

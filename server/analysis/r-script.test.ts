@@ -57,6 +57,7 @@ describe('the R script', () => {
       dataFile: 'x-v2-rows.csv',
       engineVersion: '0.2.0',
       datasetSha256: 'abc',
+      columns: rExportColumns(twoFactorResult, { family: 'gaussian', trials: null }),
     })
     expect(script).toContain('d[["genotype"]] <- factor(d[["genotype"]], levels = c("WT", "KO"))')
     expect(script).toContain(`stopifnot(nrow(d) == ${twoFactorResult.nObs})`)
@@ -78,7 +79,13 @@ describe('the rows file', () => {
           factors: [{ name: 'treatment', codes: Int32Array.from([0, 0, 1, 1]), labels: ['vehicle', 'drug'] }],
           covariates: [{ name: 'soma', values: Float64Array.from([10, 11, 12, Number.NaN]) }],
         },
-        { response: 'length', levels: ['mouse'], conditions: ['treatment'], covariates: ['soma'] },
+        {
+          response: 'length',
+          trials: null,
+          levels: ['mouse'],
+          conditions: ['treatment'],
+          covariates: ['soma'],
+        },
       ),
     ]
     // Row 2 lacks the response, row 4 the covariate: both left out, as the engine left them out.
@@ -87,9 +94,26 @@ describe('the rows file', () => {
     )
   })
 
-  it('names its columns from the result', () => {
-    expect(rExportColumns(twoFactorResult)).toEqual({
+  it('writes successes beside their trials, leaving out rows without trials', () => {
+    const chunks = [
+      ...rRowsCsvChunks(
+        {
+          responseName: 'positive',
+          response: Float64Array.from([3, 5, 2]),
+          trials: Float64Array.from([10, Number.NaN, 4]),
+          trialsName: 'counted',
+          levels: [{ name: 'mouse', codes: Int32Array.from([0, 1, 2]), labels: ['m1', 'm2', 'm3'] }],
+        },
+        { response: 'positive', trials: 'counted', levels: ['mouse'], conditions: [], covariates: [] },
+      ),
+    ]
+    expect(chunks.join('')).toBe('positive,counted,mouse\n3,10,m1\n2,4,m3\n')
+  })
+
+  it('names its columns from the result, with trials only for a binomial response', () => {
+    expect(rExportColumns(twoFactorResult, { family: 'poisson', trials: 'counted' })).toEqual({
       response: 'neurite_length_um',
+      trials: null,
       levels: twoFactorResult.levels.map((l) => l.name),
       conditions: ['genotype', 'treatment'],
       covariates: ['soma_area_um2'],

@@ -1,4 +1,5 @@
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
+import type { AnalysisSettings } from '../../shared/schemas/analyses'
 import { fileStem } from './file-stem'
 
 /**
@@ -12,6 +13,10 @@ import { fileStem } from './file-stem'
  * df in summary and anova). The optimiser tolerances are tightened beyond lme4's defaults, as in
  * the project's own reference check (tests/reference/lmer-reference.R), so that R's optimum is as
  * exact as the engine's and the two agree to about four significant digits.
+ *
+ * Binary and count responses (result.model.family) are refitted with glmer and that family, the
+ * Laplace approximation as the engine, with the tolerances of tests/reference/glmer-reference.R;
+ * their coefficients carry Wald z instead of Satterthwaite df.
  */
 
 export interface RExportInput {
@@ -22,11 +27,14 @@ export interface RExportInput {
   dataFile: string
   engineVersion: string
   datasetSha256: string
+  columns: RExportColumns
 }
 
-/** The CSV's columns, in order: response, levels (outer first), conditions, covariates. */
+/** The CSV's columns, in order: response, trials, levels (outer first), conditions, covariates. */
 export interface RExportColumns {
   response: string
+  /** Successes out of trials: the trials column (its values written beside the successes); else null. */
+  trials: string | null
   levels: string[]
   conditions: string[]
   covariates: string[]
@@ -75,10 +83,14 @@ export function rFormula(result: AnalysisResult): string {
   return `${rName(result.response)} ~ ${[fixed, ...random].join(' + ')}`
 }
 
-/** The columns the rows file carries, from the result (what the model used). */
-export function rExportColumns(result: AnalysisResult): RExportColumns {
+/** The columns the rows file carries: what the model used, from the result and the version's settings. */
+export function rExportColumns(
+  result: AnalysisResult,
+  settings: Pick<AnalysisSettings, 'family' | 'trials'>,
+): RExportColumns {
   return {
     response: result.response,
+    trials: settings.family === 'binomial' ? settings.trials : null,
     levels: result.levels.map((l) => l.name),
     conditions: rFactors(result).map((f) => f.name),
     covariates: (result.covariates ?? []).map((c) => c.name),
@@ -129,19 +141,52 @@ export function rScriptFilename(analysisName: string, versionNo: number): string
   return `${fileStem(analysisName)}-v${versionNo}.R`
 }
 
+/** A Gaussian response: REML with lmer, and lmerTest's Satterthwaite tests of the terms. */
+function lmerFit(formula: string, nCoefficients: number): string[] {
+  return [
+    'control <- lmerControl(',
+    '  optimizer = "nloptwrap",',
+    '  optCtrl = list(xtol_abs = 1e-12, ftol_abs = 1e-14, xtol_rel = 1e-12, ftol_rel = 1e-15, maxeval = 1e5),',
+    '  check.conv.singular = "ignore"',
+    ')',
+    `model <- lmer(${formula}, data = d, REML = TRUE, control = control)`,
+    'print(summary(model))',
+    ...(nCoefficients > 1 ? ['print(anova(model, type = 3, ddf = "Satterthwaite"))'] : []),
+  ]
+}
+
+/** A binary or count response: glmer with the stored family (Laplace, as the engine). */
+function glmerFit(formula: string, family: string): string[] {
+  return [
+    '# tolPwrss: glmer’s inner iterations stop at 1e-7 by default, a little short of the exact modes.',
+    'control <- glmerControl(',
+    '  optimizer = "bobyqa",',
+    '  optCtrl = list(rhoend = 1e-10, maxfun = 1e5),',
+    '  tolPwrss = 1e-13,',
+    '  check.conv.singular = "ignore"',
+    ')',
+    `model <- glmer(${formula}, data = d, family = ${family}, control = control)`,
+    'print(summary(model))',
+  ]
+}
+
 /** The script itself. */
 export function rScript(input: RExportInput): string {
-  const { result } = input
-  const columns = rExportColumns(result)
+  const { result, columns } = input
+  const family = result.model?.family ?? null
   const factors = rFactors(result)
   const formula = rFormula(result)
   const coefficients = result.comparisons.mixedModel?.coefficients ?? []
   const coefficientNames = rCoefficientNames(result)
-  const groups = rComponentGroups(result)
+  // A binary or count model has no residual parameter: its "residual" is the latent-scale variance
+  // the ICC is computed with (Nakagawa, Johnson & Schielzeth 2017), which glmer does not report.
+  const components = result.varianceComponents
+    .map((c, i) => ({ variance: c.variance, group: rComponentGroups(result)[i] }))
+    .filter((c) => !family || c.group !== 'Residual')
   const col = (name: string) => `d[[${rString(name)}]]`
   const lines = [
     `# Nestwise: ${input.analysisName.replace(/[\r\n]+/g, ' ')}, version ${input.versionNo}`,
-    '# Refits this version with lme4 + lmerTest and prints R’s estimates beside the ones Nestwise stored.',
+    `# Refits this version with ${family ? 'lme4’s glmer' : 'lme4 + lmerTest'} and prints R’s estimates beside the ones Nestwise stored.`,
     `# Rows: ${input.dataFile}, the ${result.nObs} rows the analysis used (the exclusions recorded with this`,
     '# version applied, rows without a response or covariate value left out). Keep both files in one folder',
     '# and run: Rscript this-file.R (or source() it with the folder as the working directory).',
@@ -149,11 +194,17 @@ export function rScript(input: RExportInput): string {
     '',
     'suppressPackageStartupMessages({',
     '  library(lme4)',
-    '  library(lmerTest) # Satterthwaite df in summary() and anova()',
+    ...(family ? [] : ['  library(lmerTest) # Satterthwaite df in summary() and anova()']),
     '})',
     '',
     `d <- read.csv(${rString(input.dataFile)}, colClasses = "character", check.names = FALSE, na.strings = "", encoding = "UTF-8")`,
+    ...(result.outcome
+      ? [
+          `# The response as Nestwise read it: 1 = ${rString(result.outcome.positive)}, 0 = ${result.outcome.negative === null ? 'the other value' : rString(result.outcome.negative)}.`,
+        ]
+      : []),
     `${col(columns.response)} <- as.numeric(${col(columns.response)})`,
+    ...(columns.trials ? [`${col(columns.trials)} <- as.numeric(${col(columns.trials)})`] : []),
     ...columns.covariates.map((c) => `${col(c)} <- as.numeric(${col(c)})`),
     '# Reference level first, as Nestwise coded it (treatment contrasts).',
     ...factors.map(
@@ -162,28 +213,23 @@ export function rScript(input: RExportInput): string {
     `stopifnot(nrow(d) == ${result.nObs})`,
     '',
     '# Tighter than lme4’s default tolerances, so that R’s optimum is as exact as Nestwise’s.',
-    'control <- lmerControl(',
-    '  optimizer = "nloptwrap",',
-    '  optCtrl = list(xtol_abs = 1e-12, ftol_abs = 1e-14, xtol_rel = 1e-12, ftol_rel = 1e-15, maxeval = 1e5),',
-    '  check.conv.singular = "ignore"',
-    ')',
-    `model <- lmer(${formula}, data = d, REML = TRUE, control = control)`,
-    'print(summary(model))',
-    ...(coefficients.length > 1 ? ['print(anova(model, type = 3, ddf = "Satterthwaite"))'] : []),
+    ...(family ? glmerFit(formula, family) : lmerFit(formula, coefficients.length)),
     '',
     '# What Nestwise stored for this version, beside what R finds.',
     'vc <- as.data.frame(VarCorr(model))',
-    `nestwise_variances <- data.frame(group = ${rVector(groups.map(rString))}, nestwise = ${rVector(result.varianceComponents.map((c) => rNumber(c.variance)))})`,
+    `nestwise_variances <- data.frame(group = ${rVector(components.map((c) => rString(c.group)))}, nestwise = ${rVector(components.map((c) => rNumber(c.variance)))})`,
     'nestwise_variances$r <- vc$vcov[match(nestwise_variances$group, vc$grp)]',
     'print(nestwise_variances, digits = 6)',
   ]
   if (coefficients.length) {
     lines.push(
       'coefs <- summary(model)$coefficients',
-      `nestwise_fixed <- data.frame(term = ${rVector(coefficientNames.map(rString))}, estimate = ${rVector(coefficients.map((c) => rNumber(c.estimate)))}, se = ${rVector(coefficients.map((c) => rNumber(c.se)))}, df = ${rVector(coefficients.map((c) => rNumber(c.df)))})`,
+      `nestwise_fixed <- data.frame(term = ${rVector(coefficientNames.map(rString))}, estimate = ${rVector(coefficients.map((c) => rNumber(c.estimate)))}, se = ${rVector(coefficients.map((c) => rNumber(c.se)))}, ${family ? 'z' : 'df'} = ${rVector(coefficients.map((c) => rNumber('df' in c ? c.df : c.z)))})`,
       'nestwise_fixed$r_estimate <- coefs[nestwise_fixed$term, "Estimate"]',
       'nestwise_fixed$r_se <- coefs[nestwise_fixed$term, "Std. Error"]',
-      'nestwise_fixed$r_df <- coefs[nestwise_fixed$term, "df"]',
+      family
+        ? 'nestwise_fixed$r_z <- coefs[nestwise_fixed$term, "z value"]'
+        : 'nestwise_fixed$r_df <- coefs[nestwise_fixed$term, "df"]',
       'print(nestwise_fixed, digits = 6)',
     )
   } else {

@@ -128,3 +128,33 @@ describe('csvFilename', () => {
     expect(csvFilename('???', 3)).toBe('analysis-v3-units.csv')
   })
 })
+
+describe('unitsCsv of binary and count responses', () => {
+  const unit = (mean: number, n: number, extra: object = {}) => ({
+    path: ['m1'],
+    label: 'm1',
+    condition: 'vehicle',
+    n,
+    mean,
+    sd: null,
+    ...extra,
+  })
+  const levels = (u: ReturnType<typeof unit>) => [
+    { level: 'mouse', roles: ['condition-level' as const], units: [u] },
+  ]
+
+  it('gives a yes/no unit its yes count, trials and proportion', () => {
+    const csv = unitsCsv({ family: 'binomial', unitLevels: levels(unit(0.25, 8)) })
+    expect(csv).toBe('level,unit,condition,n,successes,trials,proportion\r\nmouse,m1,vehicle,8,2,8,0.25\r\n')
+  })
+
+  it('gives successes out of summed trials when the table held trials', () => {
+    const csv = unitsCsv({ family: 'binomial', unitLevels: levels(unit(7 / 40, 2, { trials: 40 })) })
+    expect(csv.split('\r\n')[1]).toBe('mouse,m1,vehicle,2,7,40,0.175')
+  })
+
+  it('gives a count unit its summed count and rate per observation', () => {
+    const csv = unitsCsv({ family: 'poisson', unitLevels: levels(unit(2.5, 4, { sd: 1 })) })
+    expect(csv).toBe('level,unit,condition,n,count,rate,sd\r\nmouse,m1,vehicle,4,10,2.5,1\r\n')
+  })
+})

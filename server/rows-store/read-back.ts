@@ -1,5 +1,6 @@
 import type { Readable } from 'node:stream'
 import type { Exclusion } from '../../shared/schemas/datasets'
+import { readBinaryResponse, type BinaryProblem } from '../../shared/analysis/binary-response'
 import type { Factor, NestedColumns } from '../../shared/stats/types'
 import { NotFoundError, UnprocessableError } from '../errors/app-error'
 import { CopyTextLines, decodeCopyTextField, fieldEnd } from './copy-text'
@@ -195,6 +196,12 @@ async function readColumnsWith(
 export interface ReadBackTagging {
   /** The one response column to load (a tagging may name several). */
   response: string
+  /** The response's distribution; absent: gaussian (numbers). */
+  family?: 'gaussian' | 'binomial' | 'poisson'
+  /** Binomial only: the column of trials (the response then holds successes). */
+  trials?: string | null
+  /** Binomial without trials: the response value counted as yes; null: decided from the values. */
+  positive?: string | null
   /** Condition factors, none to two. */
   conditions: readonly string[]
   /** Numeric covariates. */
@@ -206,12 +213,20 @@ export interface ReadBackTagging {
 /** File row of a data row, for messages ("row 57" as the spreadsheet shows it). */
 export const fileRow = (version: Pick<VersionRecord, 'headerRow'>, rowNo: number) => version.headerRow + rowNo
 
+/** The engine's columns, and for a yes/no response read from two values, which one was yes. */
+export type ReadBackColumns = NestedColumns & {
+  outcome?: { positive: string; negative: string | null }
+}
+
 /**
  * The engine's input for one response of a tagged version: kept rows only (exclusions applied),
  * in file order, factor codes for the levels and the conditions, numbers for the response and the
  * covariates, NaN for a missing number (the engine leaves such a row out and counts it).
- * Refuses (422, naming the row) a kept row without a label at some level or condition, and a
- * response or covariate cell that holds text which is not a number.
+ * A binomial response without trials is read as values and turned into 0/1 (the value counted
+ * as yes is 1, see readBinaryResponse); with trials, the trials column is read as numbers too.
+ * Refuses (422, naming the row) a kept row without a label at some level or condition, a
+ * response, trials or covariate cell that holds text which is not a number, and a yes/no
+ * response with a third value (the settings check refuses these first, with a 400).
  *
  * @param exclusions defaults to the version's active exclusions
  */
@@ -220,15 +235,23 @@ export async function loadNestedColumns(
   tagging: ReadBackTagging,
   exclusions?: readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[],
   conn: Conn = defaultConn,
-): Promise<NestedColumns> {
+): Promise<ReadBackColumns> {
   const version = await findVersionById(versionId, conn)
   if (!version) throw new NotFoundError('Dataset version not found.')
   const shape = await shapeOf(version, conn)
   const applied = exclusions ?? (await activeExclusions(versionId, conn))
-  const numberColumns = [tagging.response, ...tagging.covariates]
+  const family = tagging.family ?? 'gaussian'
+  const trials = family === 'binomial' ? (tagging.trials ?? null) : null
+  const yesNo = family === 'binomial' && trials === null
+  const numberColumns = [
+    ...(yesNo ? [] : [tagging.response]),
+    ...(trials ? [trials] : []),
+    ...tagging.covariates,
+  ]
+  const factorColumns = [...(yesNo ? [tagging.response] : []), ...tagging.levels, ...tagging.conditions]
   const requests: ColumnRequest[] = [
     ...numberColumns.map((name) => ({ name, as: 'number' as const })),
-    ...[...tagging.levels, ...tagging.conditions].map((name) => ({ name, as: 'factor' as const })),
+    ...factorColumns.map((name) => ({ name, as: 'factor' as const })),
   ]
   const read = await readColumns(version, shape, requests, applied, conn)
   for (const name of numberColumns) {
@@ -252,11 +275,44 @@ export async function loadNestedColumns(
     }
     return { name, codes: column.codes, labels: column.labels }
   }
-  return {
+  const columns: ReadBackColumns = {
     responseName: tagging.response,
-    response: read.numbers.get(tagging.response)!,
+    response: yesNo ? new Float64Array(0) : read.numbers.get(tagging.response)!,
     levels: tagging.levels.map(toFactor),
     factors: tagging.conditions.map(toFactor),
     covariates: tagging.covariates.map((name) => ({ name, values: read.numbers.get(name)! })),
   }
+  if (family !== 'gaussian') columns.family = family
+  if (trials) {
+    columns.trials = read.numbers.get(trials)!
+    columns.trialsName = trials
+  }
+  if (yesNo) {
+    const column = read.factors.get(tagging.response)!
+    const reading = readBinaryResponse(column.labels, column.codes, tagging.positive ?? null, (text) =>
+      parseNumberText(text, version.decimalMark),
+    )
+    if ('problem' in reading) throw binaryRefusal(reading.problem, tagging.response, version, read.rowNos)
+    columns.response = reading.values
+    columns.outcome = { positive: reading.positive, negative: reading.negative }
+  }
+  return columns
+}
+
+function binaryRefusal(
+  problem: BinaryProblem,
+  name: string,
+  version: VersionRecord,
+  rowNos: Float64Array,
+): UnprocessableError {
+  if (problem.kind === 'unknown-positive')
+    return new UnprocessableError(
+      `“${problem.positive}” is not a value of “${name}” (it has ${problem.values.map((v) => `“${v}”`).join(' and ')}).`,
+      { column: name },
+    )
+  const row = fileRow(version, rowNos[problem.row])
+  return new UnprocessableError(
+    `Row ${row} of “${name}” holds “${problem.value}”, a third value besides “${problem.values[0]}” and “${problem.values[1]}”: a yes/no response has two. Exclude such rows or correct the file.`,
+    { column: name, row },
+  )
 }

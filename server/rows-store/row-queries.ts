@@ -123,6 +123,96 @@ export async function firstNonNumberRow(
   return row ? { rowNo: Number(row.row_no), value: row.value } : null
 }
 
+/**
+ * The first kept row of each of the first `limit` distinct values of a column, in row order
+ * (trimmed text; in a column profiled as numbers, "1" and "1.0" are one value). Missing cells are
+ * not values. One hash aggregate over the rows, then a lookup of at most `limit` rows.
+ */
+export async function firstRowsOfDistinctValues(
+  shape: RowTableShape,
+  column: { position: number; type: ColumnType },
+  excluded: string,
+  limit: number,
+  conn: Conn = defaultConn,
+): Promise<{ rowNo: number; value: string }[]> {
+  const table = rowsTable(shape.versionId)
+  const { position } = column
+  // numeric equality ignores trailing zeros, and so does its normalised text: "1" and "1.0" group together.
+  const key = isNumericType(column.type)
+    ? `coalesce(trim_scale(${numberSql(shape, position)})::text, ${trimmed(position)})`
+    : trimmed(position)
+  const rows = await queryBuilt<{ row_no: string; value: string }>(
+    `WITH firsts AS (
+       SELECT min(row_no) AS row_no FROM ${table}
+        WHERE NOT ${excluded} AND NOT ${missingSql(shape, position)}
+        GROUP BY ${key} ORDER BY 1 LIMIT ${Math.max(1, Math.floor(limit))}
+     )
+     SELECT t.row_no, ${trimmed(position)} AS value FROM ${table} t JOIN firsts USING (row_no) ORDER BY t.row_no`,
+    conn,
+  )
+  return rows.map((row) => ({ rowNo: Number(row.row_no), value: row.value }))
+}
+
+/** A kept row whose cells break a rule, with the cells asked for (trimmed). */
+export interface OffendingRow {
+  rowNo: number
+  values: string[]
+}
+
+/**
+ * The first kept row (in file order) where a count column holds something other than a whole
+ * number of at least `minimum` (text, a fraction, a negative number), missing cells aside.
+ */
+export async function firstRowNotWholeNumber(
+  shape: RowTableShape,
+  position: number,
+  minimum: number,
+  excluded: string,
+  conn: Conn = defaultConn,
+): Promise<OffendingRow | null> {
+  const n = numberSql(shape, position)
+  return firstRowWhere(
+    shape,
+    `NOT ${missingSql(shape, position)} AND (${n} IS NULL OR ${n} < ${numericLiteral(minimum)} OR ${n} <> trunc(${n}))`,
+    [position],
+    excluded,
+    conn,
+  )
+}
+
+/** The first kept row where the successes exceed the trials (both present and numbers). */
+export async function firstRowSuccessesAboveTrials(
+  shape: RowTableShape,
+  successes: number,
+  trials: number,
+  excluded: string,
+  conn: Conn = defaultConn,
+): Promise<OffendingRow | null> {
+  return firstRowWhere(
+    shape,
+    `${numberSql(shape, successes)} > ${numberSql(shape, trials)}`,
+    [successes, trials],
+    excluded,
+    conn,
+  )
+}
+
+async function firstRowWhere(
+  shape: RowTableShape,
+  condition: string,
+  positions: number[],
+  excluded: string,
+  conn: Conn,
+): Promise<OffendingRow | null> {
+  const cells = positions.map((p, k) => `${trimmed(p)} AS v${k}`).join(', ')
+  const [row] = await queryBuilt<Record<string, string>>(
+    `SELECT row_no, ${cells} FROM ${rowsTable(shape.versionId)}
+     WHERE NOT ${excluded} AND ${condition} ORDER BY row_no LIMIT 1`,
+    conn,
+  )
+  return row ? { rowNo: Number(row.row_no), values: positions.map((_, k) => row[`v${k}`]) } : null
+}
+
 /** Distinct labels of two factor columns over the kept rows, and how they pair up. */
 export interface CrossedLabelCounts {
   /** Distinct labels of each column among kept rows where it has one. */

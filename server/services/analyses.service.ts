@@ -39,6 +39,7 @@ import {
   checkSettingsAgainstColumns,
   labelsByColumn,
   mergeSettings,
+  responseKinds,
   settingsFromTagging,
 } from './analysis-settings.service'
 import { canWrite, readableLabIds } from '../../shared/access'
@@ -155,6 +156,7 @@ export async function getAnalysisDefaults(
     columns: columns.map((c) => c.name),
     numericColumns: columns.filter((c) => c.type === 'integer' || c.type === 'numeric').map((c) => c.name),
     labelsByColumn: labelsByColumn(columns),
+    ...responseKinds(columns),
   }
 }
 
@@ -212,13 +214,13 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
   await writable(user, 'lab', dataset.labId, { subject: 'analysis' })
   const version = await readyDatasetVersion(dataset.id, input.datasetVersionNo)
   const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
-  const settings = mergeSettings(settingsFromTagging(tagging), input.settings)
-  checkSettingsAgainstColumns(settings, columns, version.versionNo)
-  const name = input.name ?? `${dataset.name} – ${settings.response}`
+  const asked = mergeSettings(settingsFromTagging(tagging), input.settings)
+  checkSettingsAgainstColumns(asked, columns, version.versionNo)
+  const name = input.name ?? `${dataset.name} – ${asked.response}`
 
   const analysisId = await db.transaction(async (trx) => {
     const exclusions = await recordExclusions(version.id, trx)
-    await checkSettingsAgainstRows(version, settings, exclusions, trx)
+    const settings = await checkSettingsAgainstRows(version, asked, exclusions, trx)
     const id = await insertAnalysis(
       {
         labId: dataset.labId,
@@ -272,13 +274,15 @@ export async function createAnalysisVersionFor(
     analysis.dataset.id,
     input.datasetVersionNo ?? newest.datasetVersion.versionNo,
   )
-  const settings = mergeSettings(newest.settings, input.settings)
-  checkSettingsAgainstColumns(settings, await listColumns(datasetVersion.id), datasetVersion.versionNo)
+  const asked = mergeSettings(newest.settings, input.settings)
+  checkSettingsAgainstColumns(asked, await listColumns(datasetVersion.id), datasetVersion.versionNo)
 
   const versionNo = await db.transaction(async (trx) => {
     const next = await lockAnalysisForNewVersion(analysisId, trx)
     const latest = (await listAnalysisVersions(analysisId, trx))[0]
     const exclusions = await recordExclusions(datasetVersion.id, trx)
+    // Before the comparison: it settles what the asked settings leave open (the value counted as yes).
+    const settings = await checkSettingsAgainstRows(datasetVersion, asked, exclusions, trx)
     const unchanged =
       latest.datasetVersion.id === datasetVersion.id &&
       isDeepStrictEqual(latest.exclusions, exclusions) &&
@@ -290,7 +294,6 @@ export async function createAnalysisVersionFor(
         { versionNo: latest.versionNo },
       )
     }
-    await checkSettingsAgainstRows(datasetVersion, settings, exclusions, trx)
     await insertAnalysisVersion(
       {
         analysisId,

@@ -7,6 +7,7 @@ import {
   firstNonNumberRow,
   type RowTableShape,
 } from '../rows-store/row-queries'
+import { checkResponseForFamily } from './analysis-response-checks.service'
 import type { VersionRecord } from '../repositories/datasets.repo'
 import type { Conn } from '../repositories/connection'
 import { fileRow, shapeOf } from '../rows-store/read-back'
@@ -20,20 +21,27 @@ type AppliedExclusions = readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[]
  * - a covariate holds numbers in every kept row (400 naming the column and the first file row
  *   that holds text, as the row table shows it);
  * - with two condition factors, neither is constant and they are not fully confounded (each
- *   label of one going with exactly one label of the other, both ways): 422 naming the columns.
- * One query per text covariate and one scan for two factors; nothing for the usual one-factor case.
+ *   label of one going with exactly one label of the other, both ways): 422 naming the columns;
+ * - a binary or count response holds what its family can take (400 naming the first offending
+ *   row, see checkResponseForFamily).
+ * One query per text covariate, one scan for two factors and one or two for a binary or count
+ * response; nothing for the usual normal one-factor case.
+ *
+ * @returns the settings to store: as given, with the value counted as yes of a yes/no response
+ *   decided from the kept rows when none was named.
  */
 export async function checkSettingsAgainstRows(
   version: VersionRecord,
   settings: AnalysisSettings,
   exclusions: AppliedExclusions,
   conn: Conn,
-): Promise<void> {
+): Promise<AnalysisSettings> {
   const shape = await shapeOf(version, conn)
   const excluded = excludedSql(shape, exclusions)
   await checkCovariatesHoldNumbers(version, shape, settings.covariates, excluded, conn)
   if (settings.conditions.length === 2)
     await checkFactorsCanBeToldApart(shape, settings.conditions, excluded, conn)
+  return checkResponseForFamily(version, shape, settings, excluded, conn)
 }
 
 async function checkCovariatesHoldNumbers(

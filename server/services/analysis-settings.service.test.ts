@@ -6,6 +6,7 @@ import {
   knownLabels,
   labelsByColumn,
   mergeSettings,
+  responseKinds,
   settingsFromTagging,
 } from './analysis-settings.service'
 
@@ -59,6 +60,9 @@ describe('settingsFromTagging', () => {
       levels: ['lab', 'mouse'],
       reference: {},
       bootstrap: { enabled: false, resamples: 2000, seed: '1' },
+      family: 'gaussian',
+      trials: null,
+      positive: null,
     })
     expect(
       settingsFromTagging({ responseColumns: ['neurite_um'], conditionColumn: null, levels: ['mouse'] })
@@ -211,5 +215,47 @@ describe('knownLabels and labelsByColumn', () => {
         column('dose', { type: 'integer' }),
       ]),
     ).toEqual({ treatment: ['vehicle', 'NW-117'] })
+  })
+})
+
+describe('responseKinds', () => {
+  it('offers two-valued text columns and 0/1 columns as yes/no, whole numbers of at least 0 as counts', () => {
+    const number = (name: string, min: number, max: number, type: 'integer' | 'numeric' = 'integer') =>
+      column(name, {
+        type,
+        min,
+        max,
+        distinctCount: max - min + 1,
+        topValues: Array.from({ length: max - min + 1 }, (_, k) => ({ value: String(min + k), count: 3 })),
+      })
+    const kinds = responseKinds([
+      column('treatment'),
+      column('marker', {
+        topValues: [
+          { value: 'positive', count: 5 },
+          { value: 'negative', count: 9 },
+        ],
+      }),
+      column('lab', {
+        distinctCount: 3,
+        topValues: [
+          { value: 'a', count: 1 },
+          { value: 'b', count: 1 },
+          { value: 'c', count: 1 },
+        ],
+      }),
+      number('responding', 0, 1),
+      number('puncta', 0, 14),
+      number('offset', -2, 5),
+      number('area_um2', 0, 1, 'numeric'),
+    ])
+    expect(kinds).toEqual({
+      binaryColumns: {
+        treatment: ['vehicle', 'NW-117'],
+        marker: ['positive', 'negative'],
+        responding: ['0', '1'],
+      },
+      countColumns: ['puncta'],
+    })
   })
 })

@@ -1,4 +1,4 @@
-import type { AnalysisSettings, AnalysisSettingsPatch } from '../../shared/schemas/analyses'
+import type { AnalysisDefaults, AnalysisSettings, AnalysisSettingsPatch } from '../../shared/schemas/analyses'
 import type { ColumnProfile, Tagging } from '../../shared/schemas/datasets'
 import { applySettingsChange } from '../../shared/analysis/apply-settings-change'
 import { InvalidPayloadError } from '../errors/app-error'
@@ -60,6 +60,31 @@ export function labelsByColumn(columns: readonly ColumnProfile[]): Record<string
 }
 
 /**
+ * What each column could be as a response, from its profile (the form suggests a family from it):
+ * binary when it holds exactly two values as text, or only 0 and 1 as numbers; count when it holds
+ * whole numbers of at least 0 and is not binary.
+ */
+export function responseKinds(
+  columns: readonly ColumnProfile[],
+): Pick<AnalysisDefaults, 'binaryColumns' | 'countColumns'> {
+  const binaryColumns: Record<string, string[]> = {}
+  const countColumns: string[] = []
+  for (const column of columns) {
+    const labels = knownLabels(column)
+    const numeric = column.type === 'integer' || column.type === 'numeric'
+    const zeroOne =
+      numeric && column.min !== null && column.max !== null && column.min >= 0 && column.max <= 1
+    if (labels && labels.length === 2 && (column.type === 'text' || (zeroOne && column.type === 'integer'))) {
+      binaryColumns[column.name] = labels
+      continue
+    }
+    if (column.type === 'integer' && column.min !== null && column.min >= 0 && !zeroOne)
+      countColumns.push(column.name)
+  }
+  return { binaryColumns, countColumns }
+}
+
+/**
  * Checks settings against the column profiles of the dataset version: each named column exists,
  * the response and the covariates are not empty, and each reference level is one of its factor's
  * labels when the profile knows them all. 400 naming the column and its place in the settings.
@@ -85,7 +110,9 @@ export function checkSettingsAgainstColumns(
   settings.conditions.forEach((name, i) => need(`settings.conditions.${i}`, name))
   settings.covariates.forEach((name, i) => need(`settings.covariates.${i}`, name))
   settings.levels.forEach((name, i) => need(`settings.levels.${i}`, name))
+  if (settings.trials !== null) need('settings.trials', settings.trials)
   notEmpty('settings.response', settings.response, 'the response')
+  if (settings.trials !== null) notEmpty('settings.trials', settings.trials, 'the trials column')
   settings.covariates.forEach((name, i) => notEmpty(`settings.covariates.${i}`, name, 'a covariate'))
   for (const [factor, level] of Object.entries(settings.reference)) {
     const labels = knownLabels(byName.get(factor))

@@ -20,7 +20,8 @@ export interface RExport {
 
 function exportOf(analysisName: string, version: AnalysisVersionRecord, result: AnalysisResult): RExport {
   const dataFile = rRowsFilename(analysisName, version.versionNo)
-  const columns = rExportColumns(result)
+  const { settings } = version
+  const columns = rExportColumns(result, settings)
   return {
     script: {
       filename: rScriptFilename(analysisName, version.versionNo),
@@ -31,6 +32,7 @@ function exportOf(analysisName: string, version: AnalysisVersionRecord, result: 
         dataFile,
         engineVersion: version.engineVersion,
         datasetSha256: version.datasetVersion.sha256,
+        columns,
       }),
     },
     rows: {
@@ -42,6 +44,9 @@ function exportOf(analysisName: string, version: AnalysisVersionRecord, result: 
             version.datasetVersion.id,
             {
               response: columns.response,
+              family: settings.family,
+              trials: columns.trials,
+              positive: settings.positive,
               levels: columns.levels,
               conditions: columns.conditions,
               covariates: columns.covariates,

@@ -4,6 +4,8 @@ import { ChartData, ConditionBars } from '../schemas/analyses'
 import { analyzeNested } from './analyze-nested'
 import type { NestedColumns } from '../stats/types'
 import { buildChartData } from './chart-data'
+import { inventedNeuronRows, inventedNeuronTable } from './fixtures/invented-glmm-tables'
+import { nestedColumnsFromTable } from '../stats/fixtures/nested-columns-from-table'
 
 /** Invented: mice nested in labs (labels reused across labs), treatment per mouse, a few neurons each. */
 function table(rows: [lab: string, mouse: string, treatment: string, y: number][]): NestedColumns {
@@ -230,5 +232,76 @@ describe('stored charts of engine 0.1', () => {
       naive: { estimate: 10, se: 0.8, df: 5, ci: [8, 12], sd: 2 },
       nested: { estimate: 10.5, se: 1.5, df: 2, ci: [5, 16], sd: 1.4, nUnits: 2 },
     })
+  })
+})
+
+describe('buildChartData for binary and count responses', () => {
+  // Invented neurons in mice in three labs (see fixtures/invented-glmm-tables.ts).
+  const rows = inventedNeuronRows()
+  const perNeuron = {
+    ...nestedColumnsFromTable(inventedNeuronTable(rows), 'marker01', ['lab', 'mouse'], 'treatment'),
+    family: 'binomial' as const,
+  }
+  const perNeuronChart = buildChartData(
+    perNeuron,
+    analyzeNested(perNeuron, { reference: { treatment: 'vehicle' } }),
+  )
+
+  it('says the family and draws each unit as its proportion of yes', () => {
+    expect(perNeuronChart.family).toBe('binomial')
+    expect(() => ChartData.parse(perNeuronChart)).not.toThrow()
+    const mice = perNeuronChart.unitLevels.find((l) => l.level === 'mouse')!.units
+    const first = rows.filter((r) => `${r.lab} / ${r.mouse}` === mice[0].label)
+    // Counted by hand from the invented rows: positive neurons over neurons of that mouse.
+    expect(mice[0].mean).toBeCloseTo(first.filter((r) => r.marker === 'positive').length / first.length, 12)
+    expect(mice[0].trials).toBeUndefined()
+  })
+
+  it('gives the same unit proportions from successes out of trials, each point a proportion', () => {
+    const mice = new Map<string, { lab: string; mouse: string; treatment: string; yes: number; n: number }>()
+    for (const r of rows) {
+      const m = mice.get(`${r.lab}/${r.mouse}`) ?? { ...r, yes: 0, n: 0 }
+      m.yes += r.marker === 'positive' ? 1 : 0
+      m.n += 1
+      mice.set(`${r.lab}/${r.mouse}`, m)
+    }
+    // Two rows per mouse (the neurons split in halves), so a unit sums its rows' trials.
+    const halves = [...mice.values()].flatMap((m) => {
+      const firstYes = Math.floor(m.yes / 2)
+      const firstN = Math.max(firstYes, Math.floor(m.n / 2))
+      return [
+        { ...m, yes: firstYes, n: firstN },
+        { ...m, yes: m.yes - firstYes, n: m.n - firstN },
+      ]
+    })
+    const table = {
+      lab: halves.map((m) => m.lab),
+      mouse: halves.map((m) => m.mouse),
+      treatment: halves.map((m) => m.treatment),
+      yes: halves.map((m) => m.yes),
+    }
+    const aggregated = {
+      ...nestedColumnsFromTable(table, 'yes', ['lab', 'mouse'], 'treatment'),
+      family: 'binomial' as const,
+      trials: Float64Array.from(halves.map((m) => m.n)),
+      trialsName: 'n',
+    }
+    const chart = buildChartData(
+      aggregated,
+      analyzeNested(aggregated, { reference: { treatment: 'vehicle' } }),
+    )
+    const byLabel = (c: ChartData) =>
+      new Map(c.unitLevels.find((l) => l.level === 'mouse')!.units.map((u) => [u.label, u.mean]))
+    const expected = byLabel(perNeuronChart)
+    for (const [label, mean] of byLabel(chart)) expect(mean).toBeCloseTo(expected.get(label)!, 12)
+    const unit = chart.unitLevels.find((l) => l.level === 'mouse')!.units[0]
+    expect(unit).toMatchObject({ n: 2, sd: null })
+    expect(unit.trials).toBe(mice.get(unit.label.replace(' / ', '/'))!.n)
+    expect(chart.points.y.every((y) => y >= 0 && y <= 1)).toBe(true)
+  })
+
+  it('leaves the family out for a normal response, as before', () => {
+    const chart = buildChartData(table(ROWS), analyzeNested(table(ROWS)))
+    expect('family' in chart).toBe(false)
   })
 })

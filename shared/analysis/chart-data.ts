@@ -28,6 +28,11 @@ const PATH_SEPARATOR = ' / '
  * Rows with a missing response or covariate are skipped, as the engine skips them; units are
  * keyed by their full path, as the engine keys them. With two factors a "condition" is a design
  * cell ("KO:vehicle").
+ *
+ * Binary and count responses (result.family binomial or poisson): a unit's mean is its
+ * proportion of yes (or its rate per observation); with successes out of trials it is its
+ * successes over its trials (a ratio of sums, not a mean of row proportions), and each point is
+ * its row's successes over trials. The bars are the engine's, already on the response scale.
  */
 export function buildChartData(
   columns: NestedColumns,
@@ -36,6 +41,9 @@ export function buildChartData(
 ): ChartData {
   const limit = options.pointLimit ?? POINT_LIMIT
   const kept = keptRows(columns)
+  const trials = columns.family === 'binomial' ? (columns.trials ?? null) : null
+  // Successes out of trials: each row drawn, and summarised, as its proportion.
+  const shown = trials ? Float64Array.from(columns.response, (y, i) => y / trials[i]) : columns.response
   const conditionIndex = conditionOfRows(columns, result, kept)
 
   const unitLevels: UnitLevelSummary[] = []
@@ -45,7 +53,15 @@ export function buildChartData(
   const innermost = columns.levels.length - 1
   for (const [l, factor] of columns.levels.entries()) {
     const units = unitsOfLevel(factor.codes, factor.labels, kept, parentUnit, parentPaths)
-    const cells = cellTable(units.unitOfRow, units.paths, conditionIndex, result, columns.response, kept)
+    const cells = cellTable(
+      units.unitOfRow,
+      units.paths,
+      conditionIndex,
+      result,
+      columns.response,
+      kept,
+      trials,
+    )
     cellsByLevel.push(cells)
     const roles: UnitLevelSummary['roles'] = []
     if (factor.name === result.conditionLevel) roles.push('condition-level')
@@ -58,7 +74,7 @@ export function buildChartData(
 
   const pointLevel = result.conditionLevel ?? columns.levels[innermost].name
   const pointLevelIndex = columns.levels.findIndex((f) => f.name === pointLevel)
-  const points = samplePoints(cellsByLevel[pointLevelIndex], columns.response, kept, pointLevel, limit)
+  const points = samplePoints(cellsByLevel[pointLevelIndex], shown, kept, pointLevel, limit)
 
   const conditionLevelIndex =
     result.conditionLevel === null ? -1 : columns.levels.findIndex((f) => f.name === result.conditionLevel)
@@ -92,6 +108,7 @@ export function buildChartData(
   })
 
   return {
+    ...(result.family && result.family !== 'gaussian' ? { family: result.family } : {}),
     response: result.response,
     condition: result.condition,
     conditionLevel: result.conditionLevel,
@@ -106,9 +123,10 @@ function conditionLabel(result: AnalysisResult, c: number): string | null {
   return result.condition === null ? null : result.groups[c].condition
 }
 
-/** Rows the engine keeps: a response and every covariate present. */
+/** Rows the engine keeps: a response (and its trials) and every covariate present. */
 function keptRows(columns: NestedColumns): Int32Array {
   const covariates = (columns.covariates ?? []).map((c) => c.values)
+  if (columns.family === 'binomial' && columns.trials) covariates.push(columns.trials)
   const present = (i: number) =>
     !Number.isNaN(columns.response[i]) && covariates.every((v) => !Number.isNaN(v[i]))
   const kept: number[] = []
@@ -187,7 +205,10 @@ interface CellTable {
 
 const collator = new Intl.Collator('en', { numeric: true })
 
-/** Welford accumulation per unit × condition cell; cells listed by condition, then by path. */
+/**
+ * Welford accumulation per unit × condition cell; cells listed by condition, then by path. With
+ * trials, a cell's mean is its successes over its trials and it has no SD.
+ */
 function cellTable(
   unitOfRow: Int32Array,
   paths: string[][],
@@ -195,6 +216,7 @@ function cellTable(
   result: AnalysisResult,
   response: Float64Array,
   kept: Int32Array,
+  trials: Float64Array | null = null,
 ): CellTable {
   const nConditions = result.groups.length
   const cellOfRow = new Int32Array(kept.length)
@@ -224,14 +246,21 @@ function cellTable(
   const n = new Int32Array(nCells)
   const mean = new Float64Array(nCells)
   const m2 = new Float64Array(nCells)
+  const trialSum = trials ? new Float64Array(nCells) : null
   for (let k = 0; k < kept.length; k++) {
     const c = cellOfRow[k]
     const y = response[kept[k]]
     const count = ++n[c]
+    if (trialSum) {
+      mean[c] += y
+      trialSum[c] += trials![kept[k]]
+      continue
+    }
     const delta = y - mean[c]
     mean[c] += delta / count
     m2[c] += delta * (y - mean[c])
   }
+  if (trialSum) for (let c = 0; c < nCells; c++) mean[c] /= trialSum[c]
 
   const labels = cellUnit.map((u) => paths[u].join(PATH_SEPARATOR))
   const order = Array.from({ length: nCells }, (_, i) => i).sort(
@@ -249,7 +278,8 @@ function cellTable(
       condition: conditionLabel(result, cellCondition[cell]),
       n: n[cell],
       mean: mean[cell],
-      sd: n[cell] >= 2 ? Math.sqrt(m2[cell] / (n[cell] - 1)) : null,
+      sd: !trialSum && n[cell] >= 2 ? Math.sqrt(m2[cell] / (n[cell] - 1)) : null,
+      ...(trialSum ? { trials: trialSum[cell] } : {}),
     })),
   }
 }

@@ -75,6 +75,20 @@ function searchDesign(inputs: PlanInputs, levels: ReturnType<typeof resolveLevel
   })
 }
 
+/** What a proportion or rate plan rests on, said first among the notes. */
+function measureNotes(inputs: PlanInputs, observedIcc: number): string[] {
+  const { measure, difference } = inputs
+  if (measure.kind === 'mean') return []
+  const what = measure.kind === 'proportion' ? 'proportion' : 'rate'
+  const fmt = (x: number) => Number(x.toPrecision(3)).toString()
+  const target = measure.control + difference
+  const scale = measure.kind === 'proportion' ? 'log odds' : 'log'
+  return [
+    `Planned for a ${what} of ${fmt(measure.control)} in the control arm against ${fmt(target)}: a difference of ${fmt(difference)}.`,
+    `The ICC of ${fmt(measure.latentIcc)} on the latent (${scale}) scale is ${fmt(observedIcc)} on the scale of the ${measure.kind === 'proportion' ? 'yes/no values' : 'counts'} at the average ${what} ${fmt(measure.control + difference / 2)} (Goldstein, Browne & Rasbash 2002; computed by numerical integration), and the design effect 1 + (m − 1)·ICC uses the pooled variance there (Donner & Klar 2000). This approximates the logistic or Poisson mixed model the data will be analysed with; it is usually slightly conservative.`,
+  ]
+}
+
 /**
  * The planner's whole answer from its inputs: the cheapest design reaching the target power over
  * labs, units per lab and arm and observations per unit (planThreeLevel; with one lab, the
@@ -207,14 +221,25 @@ export function computePlan(inputs: PlanInputs): PlanResult {
     table.sort((a, b) => a.labs - b.labs || a.unitsPerArm - b.unitsPerArm || a.obsPerUnit - b.obsPerUnit)
   }
 
-  const notes = [...design.notes]
+  const notes = [...measureNotes(inputs, levels.icc), ...design.notes]
   if (!levels.multiLab && outer.effectSd !== null && outer.effectSd > 0) {
     notes.push(
       `With one ${outer.name}, how much the effect differs between ${pluralOf(outer.name)} does not enter: the plan is for this ${outer.name} alone.`,
     )
   }
 
+  const { measure } = inputs
   return {
+    ...(measure.kind === 'mean'
+      ? {}
+      : {
+          measure: {
+            kind: measure.kind,
+            control: measure.control,
+            target: measure.control + inputs.difference,
+            latentIcc: measure.latentIcc,
+          },
+        }),
     icc: levels.icc,
     sdTotal: levels.sdTotal,
     feasible: design.feasible,

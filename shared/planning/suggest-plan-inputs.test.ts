@@ -31,8 +31,8 @@ describe('suggestPlanInputs', () => {
       p: contrast.p,
     })
     // R: 7.619431734895755 + c(-1, 1) * qt(0.975, 8.056916622693118) * 12.459186086713249 → -21.08, 36.32
-    expect(suggested.observed!.ci[0]).toBeCloseTo(-21.08, 2)
-    expect(suggested.observed!.ci[1]).toBeCloseTo(36.32, 2)
+    expect(suggested.observed!.ci![0]).toBeCloseTo(-21.08, 2)
+    expect(suggested.observed!.ci![1]).toBeCloseTo(36.32, 2)
     expect(PlanDraftInputs.safeParse(suggested.inputs).success).toBe(true)
     // Once the person gives a difference, the suggestion is a valid plan without costs.
     expect(PlanInputs.safeParse({ ...suggested.inputs, difference: 10 }).success).toBe(true)
@@ -72,7 +72,7 @@ describe('suggestPlanInputs', () => {
 
   it('has no observed reference without a contrast, and nothing without variation', () => {
     const noContrast = { ...result, comparisons: { ...result.comparisons, mixedModel: null } }
-    expect(suggestPlanInputs(noContrast)).toMatchObject({ observed: null, observedDifference: null })
+    expect(suggestPlanInputs(noContrast)).toMatchObject({ observed: null })
     expect(suggestPlanInputs(noContrast)!.inputs.difference).toBeNull()
     const flat = {
       ...result,

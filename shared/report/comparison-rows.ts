@@ -1,5 +1,14 @@
-import type { AnalysisResult, MixedModelContrast, TermTest } from '../schemas/analysis-result'
+import {
+  isWald,
+  isWaldTerm,
+  type AnalysisResult,
+  type MixedModelContrast,
+  type TermTest,
+  type WaldContrast,
+  type WaldTermTest,
+} from '../schemas/analysis-result'
 import { contrastInterval } from './contrast-interval'
+import { glmmFamily, measureName, ratioAbbreviation, type GlmmFamily } from './family-words'
 import { formatDf, formatInterval, formatNumber, formatP } from './number-format'
 import { termLabel } from './words'
 
@@ -57,15 +66,38 @@ function contrastRow(c: MixedModelContrast, adjusted: boolean): ComparisonRow {
   }
 }
 
-/** One row per term of an F-test table ("genotype", "genotype × treatment"). */
-function termTestRows(id: string, method: string, terms: readonly TermTest[]): ComparisonRow[] {
+/**
+ * A contrast of a binary or count model: the odds or rate ratio of a against b with its Wald
+ * interval, z, and the Holm-adjusted p when there are several pairs.
+ */
+function waldContrastRow(c: WaldContrast, family: GlmmFamily, adjusted: boolean): ComparisonRow {
+  return {
+    id: `model-${c.a}-${c.b}`,
+    method: 'Mixed model (Laplace, Wald z)',
+    what: `${c.a} vs ${c.b}`,
+    estimate: `${ratioAbbreviation(family)} ${formatNumber(c.ratio)}`,
+    interval: formatInterval(c.ratioLow, c.ratioHigh),
+    statistic: `z = ${formatNumber(c.z)}`,
+    df: '—',
+    p: adjusted ? `${formatP(c.pHolm)} (Holm)` : formatP(c.p),
+    designEffect: formatNumber(c.designEffect),
+    effectiveN: formatNumber(c.effectiveN),
+  }
+}
+
+/** One row per term of an F-test or Wald χ²-test table ("genotype", "genotype × treatment"). */
+function termTestRows(
+  id: string,
+  method: string,
+  terms: readonly (TermTest | WaldTermTest)[],
+): ComparisonRow[] {
   return terms.map((t) => ({
     ...NONE,
     id: `${id}-${t.term}`,
     method,
     what: termLabel(t.term),
-    statistic: `F = ${formatNumber(t.f)}`,
-    df: `${formatDf(t.df1)}, ${formatDf(t.df2)}`,
+    statistic: isWaldTerm(t) ? `χ² = ${formatNumber(t.chisq)}` : `F = ${formatNumber(t.f)}`,
+    df: isWaldTerm(t) ? formatDf(t.df) : `${formatDf(t.df1)}, ${formatDf(t.df2)}`,
     p: formatP(t.p),
   }))
 }
@@ -74,7 +106,9 @@ function unitMeansRows(result: AnalysisResult): ComparisonRow[] {
   const unitMeans = result.comparisons.unitMeans
   if (!unitMeans) return []
   const id = 'unit-means'
-  const method = `Test on unit means (${unitMeans.nUnits} units of “${unitMeans.level}”)`
+  const family = glmmFamily(result)
+  const of = family ? `unit ${measureName(family)}s` : 'unit means'
+  const method = `Test on ${of} (${unitMeans.nUnits} units of “${unitMeans.level}”)`
   if (unitMeans.method === 'two-way-anova')
     return termTestRows(id, method.replace('Test on', 'Two-way ANOVA on'), unitMeans.terms).map((row, i) =>
       i === 0 ? { ...row, weights: METHOD_WEIGHTS.unitMeans } : row,
@@ -115,8 +149,12 @@ function naiveRows(result: AnalysisResult): ComparisonRow[] {
   if (!naive) return []
   const designEffect = result.headline?.designEffect ?? result.designEffect
   const wrongBecause = `Counts all ${result.nObs} observations as independent, but observations from one unit are alike (design effect ${formatNumber(designEffect)}), so its p-value is far too small.`
-  if (naive.method === 'linear-model') {
-    const rows = termTestRows('naive', 'Naive linear model (every observation independent)', naive.terms)
+  if (naive.method === 'linear-model' || naive.method === 'glm') {
+    const method =
+      naive.method === 'glm'
+        ? 'Naive GLM without units (every observation independent)'
+        : 'Naive linear model (every observation independent)'
+    const rows = termTestRows('naive', method, naive.terms)
     // One reason under the whole block: the last row carries it.
     return rows.map((row, i) => ({
       ...row,
@@ -124,6 +162,21 @@ function naiveRows(result: AnalysisResult): ComparisonRow[] {
       reasonBelow: i === rows.length - 1,
       ...(i === 0 ? { weights: METHOD_WEIGHTS.naive } : {}),
     }))
+  }
+  if (naive.method === 'chi-square') {
+    return [
+      {
+        ...NONE,
+        id: 'naive',
+        method: 'Naive χ² test of the pooled counts (every observation independent)',
+        what: 'all conditions equal',
+        statistic: `χ² = ${formatNumber(naive.chisq)}`,
+        df: formatDf(naive.df),
+        p: formatP(naive.p),
+        wrongBecause,
+        reasonBelow: true,
+      },
+    ]
   }
   if (naive.method === 'welch') {
     const [low, high] = contrastInterval(naive.estimate, naive.se, naive.df)
@@ -182,9 +235,12 @@ export function comparisonRows(result: AnalysisResult): ComparisonRow[] {
       weights: METHOD_WEIGHTS.mixedModel,
     })
   }
+  const family = glmmFamily(result) ?? 'binomial'
   // The weights line once per method: on the first row of the model's block.
   contrasts.forEach((c, i) => {
-    const row = contrastRow(c, result.groups.length > 2)
+    const row = isWald(c)
+      ? waldContrastRow(c, family, contrasts.length > 1)
+      : contrastRow(c, result.groups.length > 2)
     rows.push(i === 0 && !mixedModel?.omnibus ? row : { ...row, weights: undefined })
   })
   rows.push(...unitMeansRows(result))

@@ -26,11 +26,14 @@ export function effectVariationExplain(v: EffectVariation): string {
 
 /**
  * The caution when the spread rests on few units: the comparison of this factor is then judged
- * against the differences between those few units, so it has about (units − 1) df.
+ * against the differences between those few units, so it has about (units − 1) df. A binary or
+ * count model's Wald test (`wald`) has no df to shrink, so it is said to be too optimistic instead.
  */
-export function fewUnitsCaution(v: EffectVariation): string | null {
+export function fewUnitsCaution(v: EffectVariation, wald = false): string | null {
   if (v.nUnits >= FEW_UNITS_FOR_EFFECT_SPREAD) return null
   const units = `${v.nUnits} ${v.nUnits === 1 ? v.level : pluralOf(v.level)}`
+  if (wald)
+    return `This spread rests on only ${units}, so it is a rough estimate; the Wald test of ${factorWords(v.factor)} uses the normal distribution as if it were known exactly, so with so few ${pluralOf(v.level)} its p-value is too optimistic.`
   return `This spread rests on only ${units}, so it is a rough estimate, and the comparison of ${factorWords(v.factor)} then has only about ${Math.max(v.nUnits - 1, 0)} degrees of freedom for a difference of two levels, whatever the number of observations.`
 }
 

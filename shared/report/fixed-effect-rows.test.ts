@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import { twoFactorResult } from './fixtures/two-factor-result'
-import { coefficientRows, simpleEffectRows, termRows } from './fixed-effect-rows'
+import {
+  coefficientRows,
+  coefficientStatistic,
+  simpleEffectRows,
+  termRows,
+  termStatistic,
+} from './fixed-effect-rows'
 
 // Invented two-factor fixture (shape only); the number wording is the product's (common practice, no source).
 const model = twoFactorResult.comparisons.mixedModel!
@@ -20,7 +26,9 @@ describe('coefficient rows', () => {
   })
 
   it('reads a covariate row as a slope per unit of the covariate', () => {
+    expect(coefficientStatistic(model.coefficients!)).toBe('t')
     expect(row('soma_area_um2')).toMatchObject({
+      ratio: '—',
       level: '—',
       reads: 'slope: change per 1 µm² of soma_area_um2',
       estimate: '0.212',
@@ -36,18 +44,44 @@ describe('coefficient rows', () => {
 
 describe('term rows', () => {
   it('gives F, both df with one decimal and p, and names the interaction', () => {
+    expect(termStatistic(model.terms!)).toBe('F')
     expect(termRows(model.terms!)).toEqual([
-      { id: 'genotype', term: 'genotype', f: '9.90', df1: '1', df2: '2.0', p: 'p = 0.086' },
-      { id: 'treatment', term: 'treatment', f: '2.61', df1: '1', df2: '2.1', p: 'p = 0.24' },
+      {
+        id: 'genotype',
+        term: 'genotype',
+        statistic: 'F',
+        value: '9.90',
+        df1: '1',
+        df2: '2.0',
+        p: 'p = 0.086',
+      },
+      {
+        id: 'treatment',
+        term: 'treatment',
+        statistic: 'F',
+        value: '2.61',
+        df1: '1',
+        df2: '2.1',
+        p: 'p = 0.24',
+      },
       {
         id: 'genotype:treatment',
         term: 'genotype × treatment (interaction)',
-        f: '1.04',
+        statistic: 'F',
+        value: '1.04',
         df1: '1',
         df2: '6.1',
         p: 'p = 0.35',
       },
-      { id: 'soma_area_um2', term: 'soma_area_um2', f: '46.8', df1: '1', df2: '462.7', p: 'p < 0.001' },
+      {
+        id: 'soma_area_um2',
+        term: 'soma_area_um2',
+        statistic: 'F',
+        value: '46.8',
+        df1: '1',
+        df2: '462.7',
+        p: 'p < 0.001',
+      },
     ])
   })
 })

@@ -1,9 +1,10 @@
 import type { AnalysisResult, ModelDescription } from '../schemas/analysis-result'
 import { componentLabel, listWords, pluralOf, termLabel } from './words'
 
-type ModelFacts = Pick<AnalysisResult, 'response' | 'factors' | 'covariates' | 'levels'> & {
-  model: ModelDescription
-}
+type ModelFacts = Pick<AnalysisResult, 'response' | 'factors' | 'covariates' | 'levels'> &
+  Partial<Pick<AnalysisResult, 'family' | 'outcome'>> & {
+    model: ModelDescription
+  }
 
 function fixedPart({ factors = [], covariates = [] }: ModelFacts): string {
   const names = factors.map((f) => f.name)
@@ -46,7 +47,17 @@ function randomPart({ model, levels }: ModelFacts): string {
  * treatment differs at random from one lab to the next."
  */
 export function modelReading(facts: ModelFacts): string {
-  return `In words: “${facts.response}” ${fixedPart(facts)}${randomPart(facts)}.`
+  return `In words: ${subject(facts)} ${fixedPart(facts)}${randomPart(facts)}.`
+}
+
+/** What the model describes: the response itself, or the log odds of yes, or the log of the mean count. */
+function subject(facts: ModelFacts): string {
+  if (facts.family === 'binomial') {
+    const yes = facts.outcome ? ` (“${facts.outcome.positive}”)` : ''
+    return `the log odds of yes${yes} in “${facts.response}”`
+  }
+  if (facts.family === 'poisson') return `the log of the mean count of “${facts.response}”`
+  return `“${facts.response}”`
 }
 
 /** Why a level × condition term is not in the model, for the hover beside the formula. */

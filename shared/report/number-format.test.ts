@@ -24,6 +24,9 @@ describe('formatDf', () => {
     expect(formatDf(8)).toBe('8')
     expect(formatDf(408.94)).toBe('408.9')
   })
+  it('gives a dash for a Wald interval, which has no df', () => {
+    expect(formatDf(null)).toBe('—')
+  })
 })
 
 describe('formatNumber', () => {

@@ -12,9 +12,12 @@ export function formatP(p: number): string {
   return `p = ${p.toFixed(digits)}`
 }
 
-/** Satterthwaite and other df: one decimal ("8.1"); whole-number df stay whole ("8"). */
-export function formatDf(df: number): string {
-  if (!Number.isFinite(df)) return '—'
+/**
+ * Satterthwaite and other df: one decimal ("8.1"); whole-number df stay whole ("8"). Null (a Wald
+ * interval or z test of a binary or count model, which has no df) reads "—".
+ */
+export function formatDf(df: number | null): string {
+  if (df === null || !Number.isFinite(df)) return '—'
   return Number.isInteger(df) ? String(df) : df.toFixed(1)
 }
 

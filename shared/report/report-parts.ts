@@ -1,4 +1,10 @@
-import type { AnalysisResult, Coefficient, TermTest } from '../schemas/analysis-result'
+import {
+  isWald,
+  isWaldTerm,
+  type AnalysisResult,
+  type Coefficient,
+  type TermTest,
+} from '../schemas/analysis-result'
 import { contrastInterval } from './contrast-interval'
 import { effectVariationSentence } from './effect-variation'
 import { formatDf, formatInterval, formatNumber, formatP } from './number-format'
@@ -71,7 +77,8 @@ function termTest(t: TermTest): string {
 
 /** "Type III tests (…): genotype F(1, 2.0) = 9.90, p = 0.086; …" for two factors. */
 export function termsResultSentence(result: AnalysisResult): string | null {
-  const terms = result.comparisons.mixedModel?.terms ?? []
+  // F tests of a normal response; a binary or count model's χ² tests have words of their own.
+  const terms = (result.comparisons.mixedModel?.terms ?? []).filter((t): t is TermTest => !isWaldTerm(t))
   const factorNames = new Set((result.factors ?? []).map((f) => f.name))
   const factorTerms = terms.filter((t) => t.term.split(':').every((name) => factorNames.has(name)))
   if ((result.factors ?? []).length < 2 || !factorTerms.length) return null
@@ -98,7 +105,7 @@ function slope(c: Coefficient): string {
 export function slopesSentence(result: AnalysisResult): string | null {
   const names = new Set((result.covariates ?? []).map((c) => c.name))
   const slopes = (result.comparisons.mixedModel?.coefficients ?? []).filter(
-    (c) => c.level === null && names.has(c.term),
+    (c): c is Coefficient => !isWald(c) && c.level === null && names.has(c.term),
   )
   if (!slopes.length) return null
   const text = listWords(slopes.map(slope))

@@ -1,6 +1,8 @@
 import type { AnalysisSettings } from '../schemas/analyses'
-import type { AnalysisResult, MixedModelContrast } from '../schemas/analysis-result'
+import { isWald, type AnalysisResult, type MixedModelContrast } from '../schemas/analysis-result'
 import { contrastInterval } from './contrast-interval'
+import { glmmFamily } from './family-words'
+import { glmmMethodsParagraph, glmmResultsSentence } from './glmm-report-text'
 import { formatDf, formatInterval, formatNumber, formatP } from './number-format'
 import {
   adjustedFor,
@@ -21,11 +23,14 @@ import { listWords } from './words'
  * Pure: the same result always gives the same words, so the text can be tested and reused. What
  * engine ≥ 0.2 adds (two factors, covariates, formula, type III tests, level × condition
  * variances) comes from report-parts; without those fields the words are those of engine 0.1.
+ * Binary and count responses (result.family binomial or poisson) have words of their own
+ * (glmm-report-text): odds or rate ratios, Wald tests, the latent scale.
  */
 
 export interface ReportContext {
   result: AnalysisResult
-  settings: Pick<AnalysisSettings, 'bootstrap'>
+  /** `trials` (engine ≥ 0.3 settings): a binomial response given as successes out of this column. */
+  settings: Pick<AnalysisSettings, 'bootstrap'> & Partial<Pick<AnalysisSettings, 'trials'>>
   /** Name and version of the program, e.g. "Nestwise 0.1.0". */
   software: string
 }
@@ -104,6 +109,13 @@ function headlineSentence(result: AnalysisResult): string | null {
 }
 
 export function methodsParagraph({ result, settings, software }: ReportContext): string {
+  const family = glmmFamily(result)
+  if (family)
+    return glmmMethodsParagraph(
+      { result, family, trials: settings.trials },
+      settings.bootstrap.enabled,
+      software,
+    )
   const sentences = present([modelSentence(result), formulaSentence(result), dfSentence(result)])
   sentences.push(...present([unitsCheckSentence(result)]))
   const boot = result.comparisons.bootstrap
@@ -138,22 +150,25 @@ function contrastSentence(c: MixedModelContrast, result: AnalysisResult, adjuste
 
 function comparisonSentence(result: AnalysisResult): string {
   const model = result.comparisons.mixedModel
+  const contrasts = (model?.contrasts ?? []).filter((c): c is MixedModelContrast => !isWald(c))
   const tail = 'linear mixed model, Satterthwaite df'
   const terms = termsResultSentence(result)
   if (terms) return terms
-  if (!model || model.contrasts.length === 0) {
+  if (!model || contrasts.length === 0) {
     const g = result.groups[0]
     return `The mean of “${result.response}” was ${formatNumber(g.clustered.estimate)} (95% CI ${formatInterval(g.clustered.ciLow, g.clustered.ciHigh)}; SE ${formatNumber(g.clustered.se)}, df ${formatDf(g.clustered.df)}; ${result.levels[0].nUnits} units of “${result.levels[0].name}”, ${result.nObs} observations; ${tail}).`
   }
   if (model.omnibus) {
     const f = model.omnibus
-    const pairs = model.contrasts.map((c) => contrastSentence(c, result, true))
+    const pairs = contrasts.map((c) => contrastSentence(c, result, true))
     return `Across conditions of “${result.condition}”, F(${formatDf(f.df1)}, ${formatDf(f.df2)}) = ${formatNumber(f.f)}, ${formatP(f.p)} (${tail}). Pairwise: ${pairs.join('; ')}.`
   }
-  return `Difference in “${result.response}”, ${contrastSentence(model.contrasts[0], result, false)}; ${tail}.`
+  return `Difference in “${result.response}”, ${contrastSentence(contrasts[0], result, false)}; ${tail}.`
 }
 
-export function resultsSentence({ result }: ReportContext): string {
+export function resultsSentence({ result, settings }: ReportContext): string {
+  const family = glmmFamily(result)
+  if (family) return glmmResultsSentence({ result, family, trials: settings.trials })
   return [
     comparisonSentence(result),
     ...present([simpleEffectsSentence(result), slopesSentence(result)]),

@@ -42,6 +42,14 @@ export type BootstrapSettings = z.infer<typeof BootstrapSettings>
 const Label = z.string().max(10_000)
 
 /**
+ * The distribution of the response: a measurement ('gaussian', the linear mixed model), a yes/no
+ * response or successes out of trials ('binomial', logit link) or a count ('poisson', log link),
+ * the last two fitted as GLMMs by the Laplace approximation.
+ */
+export const ResponseFamily = z.enum(['gaussian', 'binomial', 'poisson'])
+export type ResponseFamily = z.infer<typeof ResponseFamily>
+
+/**
  * Settings stored by the first engine (0.1): one condition, one reference label, and the error
  * bar shown first. Still read, never written: a stored version keeps its original JSON, so
  * sign-offs made over it stay valid.
@@ -76,9 +84,22 @@ const SettingsFields = z
     /** Reference level per condition column; a condition left out uses its first label in file order. */
     reference: z.record(ColumnName, Label).default({}),
     bootstrap: BootstrapSettings.default({ enabled: false, resamples: 2000, seed: '1' }),
+    /**
+     * The response's distribution (engine ≥ 0.3). Settings stored without it read as 'gaussian';
+     * a stored version's JSON is never rewritten.
+     */
+    family: ResponseFamily.default('gaussian'),
+    /** Binomial only: the column of trials per row; the response column then holds the successes. */
+    trials: ColumnName.nullable().default(null),
+    /**
+     * Binomial without trials: the response value counted as yes (1); the other value is no (0).
+     * Null until a version is created: the server then decides it from the values (1 for a 0/1
+     * column, otherwise see defaultPositiveLabel) and stores it with the version.
+     */
+    positive: Label.nullable().default(null),
   })
   .superRefine((s, ctx) => {
-    const all = [s.response, ...s.conditions, ...s.covariates, ...s.levels]
+    const all = [s.response, ...s.conditions, ...s.covariates, ...s.levels, ...(s.trials ? [s.trials] : [])]
     const seen = new Set<string>()
     for (const name of all) {
       if (seen.has(name))
@@ -98,6 +119,25 @@ const SettingsFields = z
         })
       }
     }
+    if (s.trials !== null && s.family !== 'binomial')
+      ctx.addIssue({
+        code: 'custom',
+        message: 'A trials column needs the binomial family (successes out of trials)',
+        path: ['trials'],
+      })
+    if (s.positive !== null && (s.family !== 'binomial' || s.trials !== null))
+      ctx.addIssue({
+        code: 'custom',
+        message: 'Only a yes/no response has a value counted as yes',
+        path: ['positive'],
+      })
+    if (s.trials !== null && s.bootstrap.enabled)
+      ctx.addIssue({
+        code: 'custom',
+        message:
+          'The hierarchical bootstrap resamples single observations, so it is not offered for successes out of trials; switch it off',
+        path: ['bootstrap', 'enabled'],
+      })
   })
 
 /**
@@ -123,6 +163,11 @@ export const AnalysisSettingsPatch = z.object({
       seed: z.string().trim().min(1).max(64).optional(),
     })
     .optional(),
+  family: ResponseFamily.optional(),
+  /** Null: no trials column (one yes/no per row). Dropped when the family is no longer binomial. */
+  trials: ColumnName.nullable().optional(),
+  /** Null: let the server decide (and store) which value counts as yes. Dropped with a new response. */
+  positive: Label.nullable().optional(),
 })
 export type AnalysisSettingsPatch = z.infer<typeof AnalysisSettingsPatch>
 
@@ -171,9 +216,12 @@ export const UnitSummary = z.object({
   /** The condition of this unit's observations; a unit spanning conditions appears once per condition. Null without a condition. */
   condition: z.string().nullable(),
   n: count,
+  /** Mean of the unit's observations: a proportion of yes or a rate per observation for binary and count responses. */
   mean: z.number(),
-  /** Sample SD (n − 1) of the unit's observations; null for a single observation. */
+  /** Sample SD (n − 1) of the unit's observations; null for a single observation (and with trials). */
   sd: z.number().nonnegative().nullable(),
+  /** Successes out of trials: the unit's trials (its `mean` is then its successes over these). */
+  trials: z.number().nonnegative().optional(),
 })
 export type UnitSummary = z.infer<typeof UnitSummary>
 
@@ -203,6 +251,11 @@ export const ChartPoints = z.object({
 export type ChartPoints = z.infer<typeof ChartPoints>
 
 export const ChartData = z.object({
+  /**
+   * Binary and count responses (engine ≥ 0.3): the points and unit means are proportions or rates,
+   * the bars the model's Wald intervals on that scale. Absent for a normal response.
+   */
+  family: z.enum(['binomial', 'poisson']).optional(),
   response: z.string(),
   condition: z.string().nullable(),
   /** Level whose units carry a single condition (from the result); null when none does. */
@@ -397,6 +450,14 @@ export const AnalysisDefaults = z.object({
    * reference picker of each chosen condition factor. A column left out has too many labels to list.
    */
   labelsByColumn: z.record(z.string(), z.array(z.string())),
+  /**
+   * Columns a yes/no response can come from, with their two values (most frequent first): text
+   * columns with exactly two values, and numeric columns holding only 0 and 1. The form suggests
+   * the binomial family for these.
+   */
+  binaryColumns: z.record(z.string(), z.array(z.string())),
+  /** Columns of whole numbers of at least 0 (not only 0/1): the form offers the Poisson family for these. */
+  countColumns: z.array(z.string()),
 })
 export type AnalysisDefaults = z.infer<typeof AnalysisDefaults>
 

@@ -434,6 +434,12 @@ export const AnalysisResult = z.object({
    * Johnson & Schielzeth 2017), and their group means are proportions or rates.
    */
   family: z.enum(['gaussian', 'binomial', 'poisson']).optional(),
+  /**
+   * A yes/no response read from two values (a binomial response without trials): the value
+   * counted as yes (1) and the other one (null when no kept row holds it). Set by the caller that
+   * turned the values into 0/1 (the app's run, the command line); absent otherwise.
+   */
+  outcome: z.object({ positive: z.string(), negative: z.string().nullable() }).optional(),
   condition: z.string().nullable(),
   /** Reference condition of the model's treatment coding ("a:b" of the reference levels for two factors). */
   reference: z.string().nullable(),

@@ -73,6 +73,33 @@ export const SINGLE_LAB: PlanOuterLevel = {
   sdBetweenLabs: null,
 }
 
+/**
+ * What the arms are compared on. 'mean' (every plan saved before, and a normal response): the
+ * spread and the difference are in the response's unit. 'proportion' (a yes/no response) or
+ * 'rate' (a count): the plan is for a difference in proportions or rates between two arms, given
+ * the control arm's proportion (or rate) and the ICC of the units on the latent scale, as a
+ * logistic or Poisson mixed model reports it; the ICC and SD on the observations' scale are
+ * derived from those (see resolveSpread) and the typed-in spread is not used.
+ */
+export const PlanMeasure = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('mean') }),
+  z.object({
+    kind: z.literal('proportion'),
+    /** Proportion of yes in the control (reference) arm. */
+    control: z.number().gt(0).lt(1),
+    /** ICC of the units on the latent (log-odds) scale: σ²_u / (σ²_u + π²/3). */
+    latentIcc: z.number().min(0).lt(1),
+  }),
+  z.object({
+    kind: z.literal('rate'),
+    /** Mean count per observation in the control arm. */
+    control: positive,
+    /** ICC of the units on the latent (log) scale at the control rate λ: σ²_u / (σ²_u + ln(1 + 1/λ)). */
+    latentIcc: z.number().min(0).lt(1),
+  }),
+])
+export type PlanMeasure = z.infer<typeof PlanMeasure>
+
 const PlanInputsShape = z.object({
   /** ICC of the units that are assigned to arms; ignored (derived) when the spread is given as components. */
   icc: z.number().min(0).max(1),
@@ -93,6 +120,8 @@ const PlanInputsShape = z.object({
   maxObsPerUnit: z.number().int().min(1).max(100_000).nullable().default(null),
   /** The outer level; absent in plans saved before it existed, which were plans for one lab. */
   outer: PlanOuterLevel.default(SINGLE_LAB),
+  /** What the arms are compared on; absent in plans saved before, which compared means. */
+  measure: PlanMeasure.default({ kind: 'mean' }),
 })
 
 /** Whether the inputs give costs: a cost per unit or per observation (a cost per lab alone is not enough). */
@@ -114,6 +143,10 @@ export const PlanInputs = PlanInputsShape.refine(
   .refine((i) => i.maxUnitsPerArm === null || i.maxUnitsPerArm >= 2 || i.outer.maxLabs > 1, {
     error: 'With one lab, allow at least 2 units per arm',
     path: ['maxUnitsPerArm'],
+  })
+  .refine((i) => i.measure.kind !== 'proportion' || i.measure.control + i.difference < 1, {
+    error: 'The control proportion plus the difference must stay below 1',
+    path: ['difference'],
   })
 export type PlanInputs = z.infer<typeof PlanInputs>
 export type PlanInputsInput = z.input<typeof PlanInputs>
@@ -147,6 +180,18 @@ export const PlanLabCurve = z.object({
 export type PlanLabCurve = z.infer<typeof PlanLabCurve>
 
 export const PlanResult = z.object({
+  /**
+   * Proportion and rate plans: the two arms' proportions (or rates) and the latent ICC the ICC and
+   * SD below were derived from; absent for a plan of means.
+   */
+  measure: z
+    .object({
+      kind: z.enum(['proportion', 'rate']),
+      control: z.number(),
+      target: z.number(),
+      latentIcc: z.number(),
+    })
+    .optional(),
   /** ICC and total SD inside a lab and arm the computation used (derived from components when those were given). */
   icc: z.number(),
   sdTotal: z.number(),
@@ -280,17 +325,17 @@ export const PlanDefaults = z.object({
   responseName: z.string(),
   /** Everything but the difference, which the person gives, and the costs, left empty. */
   inputs: PlanDraftInputs,
-  /** The observed difference of the first mixed-model contrast, null without a condition. */
-  observedDifference: z.number().nullable(),
   /**
-   * That contrast as a reference beside the difference field: what it compares, its 95 %
-   * interval and p. Null without a condition (and in answers of older servers).
+   * The first mixed-model contrast as a reference beside the difference field: what it compares,
+   * its 95 % interval and p. A binary or count analysis gives the difference of the two arms'
+   * plain proportions or rates, without an interval, and the model's p for that comparison.
+   * Null without a condition (and in answers of older servers).
    */
   observed: z
     .object({
       what: z.string(),
       estimate: z.number(),
-      ci: z.tuple([z.number(), z.number()]),
+      ci: z.tuple([z.number(), z.number()]).nullable(),
       p: z.number(),
     })
     .nullable()

@@ -69,6 +69,8 @@ export { clusterPower } from './cluster-power'
 export { unitsNeeded } from './units-needed'
 /** Cost-optimal observations per unit. */
 export { costOptimalObsPerUnit } from './cost-optimal-obs-per-unit'
+/** ICC of a yes/no or count response on the observations' scale, from the latent unit variance. */
+export { observedScaleIcc } from './observed-scale-icc'
 /** Cheapest design reaching a target power. */
 export { planDesign } from './plan-design'
 /** Design with the fewest independent units reaching a target power (a plan without costs). */

@@ -67,7 +67,6 @@ describe('usePlansStore', () => {
       unitLevel: 'mouse',
       responseName: 'length',
       inputs: PlanInputs.parse(inputs),
-      observedDifference: 8,
       unitsInData: 5,
       meanObsPerUnit: 40,
       outerLevel: 'lab',

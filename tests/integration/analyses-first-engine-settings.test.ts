@@ -101,6 +101,10 @@ const UPGRADED = {
   levels: ['mouse'],
   reference: { treatment: 'vehicle' },
   bootstrap: { enabled: false, resamples: 2000, seed: '1' },
+  // Stored before families: a normal response.
+  family: 'gaussian',
+  trials: null,
+  positive: null,
 }
 
 describe('settings stored by engine 0.1', () => {

@@ -69,6 +69,9 @@ describe('two condition factors and a covariate', () => {
       response: 'neurite_length_um',
       levels: LEVELS,
       bootstrap: { enabled: false, resamples: 2000, seed: '1' },
+      family: 'gaussian',
+      trials: null,
+      positive: null,
       ...sent,
     }
     expect(detail.versions[0].settings).toEqual(expected)
@@ -177,6 +180,9 @@ describe('a second factor that cannot be told apart', () => {
       levels: LEVELS,
       reference: {},
       bootstrap: { enabled: false, resamples: 2000, seed: '1' },
+      family: 'gaussian',
+      trials: null,
+      positive: null,
     }
     const analysisId = await insertAnalysis({
       labId: team.lab.id,

@@ -60,6 +60,9 @@ describe('creating and running an analysis', () => {
       levels: ['mouse'],
       reference: {},
       bootstrap: { enabled: true, resamples: 5000, seed: 'routes' },
+      family: 'gaussian',
+      trials: null,
+      positive: null,
     })
     // Answered before the run finished: the engine never runs on the request.
     expect(['queued', 'running']).toContain(v1.status)

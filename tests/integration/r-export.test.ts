@@ -8,8 +8,9 @@ import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import { rCoefficientNames, rComponentGroups } from '../../server/analysis/r-script'
 import { finishQueuedVersion } from '../support/finished-version'
 import { closeConnections, createTestApp } from '../support/api'
+import { inventedNeuronCsv } from '../../shared/analysis/fixtures/invented-glmm-tables'
 import { neuriteCsv, taggedDataset, twoFactorCsv } from './analyses-support'
-import { getAs, postAs, signedInTeam } from './datasets-support'
+import { getAs, postAs, putAs, signedInTeam, uploadDataset } from './datasets-support'
 
 /**
  * "Check it in R": the exported script is run with Rscript on the exported rows, and what R finds
@@ -18,12 +19,16 @@ import { getAs, postAs, signedInTeam } from './datasets-support'
  * REML criterion, the script tightens lme4's optimiser tolerances, so variance components,
  * coefficients and SEs agree to 1e-4 relative (1e-6 absolute near zero, where a relative
  * difference means nothing); Satterthwaite df to 1e-3, the precision of lmerTest's numerical
- * derivatives. Skips, loudly, only when Rscript is not installed.
+ * derivatives. Binary and count responses are refitted with glmer: the same tolerances as the live
+ * reference check (tests/reference/glmer-reference.test.ts), z instead of df. Skips, loudly, only
+ * when Rscript is not installed.
  */
 const app = createTestApp()
 const REL_TOL = 1e-4
 const DF_TOL = 1e-3
 const ABS_TOL = 1e-6
+/** glmer: its SEs come from a finite-difference Hessian, good to about 1e-4; the live reference check allows 1e-3. */
+const GLMM_TOL = 1e-3
 
 const rscript = spawnSync('Rscript', ['--version'], { encoding: 'utf8' })
 const hasR = rscript.status === 0
@@ -42,8 +47,15 @@ afterAll(async () => {
   await closeConnections()
 })
 
-async function analysisOf(csv: string, levels: string[], settings: object, name: string) {
-  const dataset = await taggedDataset(app, team.cookies.scientist, team.lab.id, csv, levels, name)
+async function analysisOf(
+  csv: string,
+  levels: string[],
+  settings: object,
+  name: string,
+  tag: (csv: string, name: string) => Promise<{ id: number }> = (text, title) =>
+    taggedDataset(app, team.cookies.scientist, team.lab.id, text, levels, title),
+) {
+  const dataset = await tag(csv, name)
   const created = await postAs(app, team.cookies.scientist, '/api/v1/analyses', {
     datasetId: dataset.id,
     name,
@@ -85,7 +97,8 @@ async function runExport(id: number) {
     'vc <- as.data.frame(VarCorr(model)); co <- summary(model)$coefficients',
     'cat(jsonlite::toJSON(list(nObs = nobs(model), groups = vc$grp, variances = vc$vcov,',
     '  terms = rownames(co), estimate = unname(co[, "Estimate"]), se = unname(co[, "Std. Error"]),',
-    '  df = unname(co[, "df"])), digits = NA, auto_unbox = TRUE))',
+    '  df = if ("df" %in% colnames(co)) unname(co[, "df"]) else NULL,',
+    '  z = if ("z value" %in% colnames(co)) unname(co[, "z value"]) else NULL), digits = NA, auto_unbox = TRUE))',
   ].join('\n')
   const run = spawnSync('Rscript', ['-e', dump], { cwd: dir, encoding: 'utf8', timeout: 120_000 })
   expect(run.status, run.stderr).toBe(0)
@@ -99,7 +112,8 @@ async function runExport(id: number) {
       terms: string[]
       estimate: number[]
       se: number[]
-      df: number[]
+      df?: number[]
+      z?: number[]
     },
   }
 }
@@ -116,19 +130,24 @@ function agree(what: string, ours: number, theirs: number, tolerance = REL_TOL):
 /** Every stored variance component and coefficient against R's refit of the exported files. */
 function compare(result: AnalysisResult, r: Awaited<ReturnType<typeof runExport>>['r']): void {
   expect(r.nObs).toBe(result.nObs)
+  const glmm = result.family !== undefined && result.family !== 'gaussian'
+  const tolerance = glmm ? GLMM_TOL : REL_TOL
   const groups = rComponentGroups(result)
   result.varianceComponents.forEach((c, i) => {
+    // The latent residual of a binary or count model is fixed by its family, not fitted (glmer has none).
+    if (glmm && groups[i] === 'Residual') return
     const at = r.groups.indexOf(groups[i])
     expect(at, `R has the component ${groups[i]}`).toBeGreaterThanOrEqual(0)
-    agree(`variance ${groups[i]}`, c.variance, r.variances[at])
+    agree(`variance ${groups[i]}`, c.variance, r.variances[at], tolerance)
   })
   const coefficients = result.comparisons.mixedModel!.coefficients!
   const names = rCoefficientNames(result)
   expect(names).toEqual(r.terms)
   coefficients.forEach((c, i) => {
-    agree(`estimate ${names[i]}`, c.estimate, r.estimate[i])
-    agree(`SE ${names[i]}`, c.se, r.se[i])
-    agree(`df ${names[i]}`, c.df, r.df[i], DF_TOL)
+    agree(`estimate ${names[i]}`, c.estimate, r.estimate[i], tolerance)
+    agree(`SE ${names[i]}`, c.se, r.se[i], tolerance)
+    if ('df' in c) agree(`df ${names[i]}`, c.df, r.df![i], DF_TOL)
+    else agree(`z ${names[i]}`, c.z, r.z![i], tolerance)
   })
 }
 
@@ -164,6 +183,62 @@ describe.skipIf(!hasR)('the R export reproduces the stored result in lme4 + lmer
     const { script, r } = await runExport(id)
     expect(script).toContain('factor(d[["genotype"]], levels = c("KO-3", "WT"))')
     expect(script).toContain('d[["soma_area_um2"]] <- as.numeric(d[["soma_area_um2"]])')
+    compare(result, r)
+  }, 180_000)
+})
+
+/** The invented neuron table (invented-glmm-tables.ts), tagged with lab and mouse. */
+async function neuronDataset(csv: string, name: string) {
+  const upload = await uploadDataset(app, team.cookies.scientist, Buffer.from(csv), `${name}.csv`, {
+    labId: team.lab.id,
+    name,
+  })
+  expect(upload.status, JSON.stringify(upload.body)).toBe(201)
+  const dataset = upload.body.data as { id: number }
+  const tag = await putAs(app, team.cookies.scientist, `/api/v1/datasets/${dataset.id}/versions/1/tagging`, {
+    responseColumns: ['puncta'],
+    conditionColumn: 'treatment',
+    levels: ['lab', 'mouse'],
+  })
+  expect(tag.status, JSON.stringify(tag.body)).toBe(200)
+  return dataset
+}
+
+describe.skipIf(!hasR)('the R export of a binary or count response reproduces it in glmer', () => {
+  it('a yes/no marker, its labels turned into 1 for the value counted as yes', async () => {
+    const { id, result } = await analysisOf(
+      inventedNeuronCsv(),
+      ['lab', 'mouse'],
+      { response: 'marker', family: 'binomial', positive: 'positive' },
+      'R export, marker',
+      neuronDataset,
+    )
+    const { script, rows, r } = await runExport(id)
+    expect(script).toContain(`glmer(${result.model!.formula}, data = d, family = binomial(link = "logit")`)
+    expect(script).toContain('1 = "positive", 0 = "negative"')
+    expect(
+      new Set(
+        rows
+          .trimEnd()
+          .split('\n')
+          .slice(1)
+          .map((line) => line.split(',')[0]),
+      ),
+    ).toEqual(new Set(['0', '1']))
+    compare(result, r)
+  }, 180_000)
+
+  it('a count per neuron (Poisson)', async () => {
+    const { id, result } = await analysisOf(
+      inventedNeuronCsv(),
+      ['lab', 'mouse'],
+      { response: 'puncta', family: 'poisson' },
+      'R export, puncta',
+      neuronDataset,
+    )
+    const { script, r } = await runExport(id)
+    expect(script).toContain('family = poisson(link = "log")')
+    expect(script).not.toContain('lmerTest')
     compare(result, r)
   }, 180_000)
 })

@@ -79,3 +79,60 @@ describe('AnalysisSettingsForm', () => {
     expect(wrapper.findAll('[data-testid="setting-reference"]')).toHaveLength(1)
   })
 })
+
+describe('AnalysisSettingsForm, the kind of response', () => {
+  const neurons: FormDefaults = {
+    columns: ['lab', 'mouse', 'marker', 'puncta'],
+    numericColumns: ['puncta'],
+    labelsByColumn: { marker: ['negative', 'positive'] },
+    binaryColumns: { marker: ['negative', 'positive'] },
+    countColumns: ['puncta'],
+  }
+
+  it('suggests yes/no for a two-valued response and switches only when the person confirms', async () => {
+    stubMissingBrowserApis()
+    const updates: SettingsDraft[] = []
+    const wrapper = mount(AnalysisSettingsForm, {
+      props: {
+        modelValue: { ...draftFrom(null), response: 'marker', levels: ['lab', 'mouse'] },
+        defaults: neurons,
+        problems: {},
+        'onUpdate:modelValue': (draft: SettingsDraft) => void updates.push(draft),
+      },
+      global: { plugins: [createNestwiseVuetify()] },
+      attachTo: document.body,
+    })
+    const suggestion = wrapper.get('[data-testid="family-suggestion"]')
+    expect(suggestion.attributes('data-family')).toBe('binomial')
+    expect(suggestion.text()).toContain('“marker” holds two values (negative, positive)')
+    // A text column cannot be a measurement: nothing to decline.
+    expect(wrapper.find('[data-testid="decline-family"]').exists()).toBe(false)
+    expect(updates).toEqual([])
+    await wrapper.get('[data-testid="accept-family"]').trigger('click')
+    expect(updates.at(-1)).toMatchObject({ family: 'binomial', positive: 'positive' })
+    await wrapper.setProps({ modelValue: updates.at(-1)! })
+    expect(wrapper.find('[data-testid="family-suggestion"]').exists()).toBe(false)
+    expect(wrapper.get('[data-testid="setting-positive"]').text()).toContain('positive')
+  })
+
+  it('offers counts for whole numbers, and lets the person keep a measurement', async () => {
+    stubMissingBrowserApis()
+    const wrapper = mountFormWith(neurons, { ...draftFrom(null), response: 'puncta', levels: ['lab'] })
+    expect(wrapper.get('[data-testid="family-suggestion"]').attributes('data-family')).toBe('poisson')
+    await wrapper.get('[data-testid="decline-family"]').trigger('click')
+    expect(wrapper.find('[data-testid="family-suggestion"]').exists()).toBe(false)
+  })
+})
+
+function mountFormWith(formDefaults: FormDefaults, draft: SettingsDraft) {
+  return mount(AnalysisSettingsForm, {
+    props: {
+      modelValue: draft,
+      defaults: formDefaults,
+      problems: {},
+      'onUpdate:modelValue': () => undefined,
+    },
+    global: { plugins: [createNestwiseVuetify()] },
+    attachTo: document.body,
+  })
+}

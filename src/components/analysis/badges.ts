@@ -1,4 +1,5 @@
 import type { AnalysisResult } from '../../../shared/schemas/analysis-result'
+import { glmmFamily, ratioName } from '../../../shared/report/family-words'
 import { formatNumber } from '../../../shared/report/number-format'
 import { formatCount } from '@/components/dataset/format'
 import { ADEQUACY_RULE, adequacyLook, unitAdequacy, type UnitAdequacy } from '@/components/dataset/unit-badge'
@@ -43,8 +44,13 @@ function headlineOf(result: AnalysisResult) {
   return { label: 'mean', designEffect: result.designEffect, effectiveN: result.effectiveN }
 }
 
-function forWhat(label: string): string {
-  return label === 'mean' ? 'for the mean of all observations' : `for ${label}`
+function forWhat(label: string, result?: AnalysisResult): string {
+  const family = result ? glmmFamily(result) : null
+  if (label === 'mean')
+    return family
+      ? `for the overall ${family === 'binomial' ? 'proportion' : 'rate'} (on the log scale)`
+      : 'for the mean of all observations'
+  return family ? `for ${label} (its log ${ratioName(family)})` : `for ${label}`
 }
 
 function unitBadges(result: AnalysisResult): Badge[] {
@@ -87,7 +93,12 @@ function unitBadges(result: AnalysisResult): Badge[] {
 export function resultBadges(result: AnalysisResult): Badge[] {
   const headline = headlineOf(result)
   const isMean = headline.label === 'mean'
-  const quantity = isMean ? 'the mean of all observations' : headline.label
+  const family = glmmFamily(result)
+  const quantity = family
+    ? forWhat(headline.label, result).replace(/^for /, '')
+    : isMean
+      ? 'the mean of all observations'
+      : headline.label
   const observationsBehind = Math.round(headline.effectiveN * headline.designEffect)
   const perArmEffective = result.groups.map((g) => g.effectiveN)
   const arm = result.groups.some((g) => g.factorLevels) ? 'design cell' : 'arm'
@@ -115,7 +126,7 @@ export function resultBadges(result: AnalysisResult): Badge[] {
       adequacy: null,
       adequacyWords: null,
       powerNote: false,
-      details: [{ id: 'quantity', text: forWhat(headline.label) }],
+      details: [{ id: 'quantity', text: forWhat(headline.label, result) }],
     },
     {
       id: 'effective-n',
@@ -128,7 +139,7 @@ export function resultBadges(result: AnalysisResult): Badge[] {
       details: [
         {
           id: 'quantity',
-          text: `${forWhat(headline.label)}: ${formatCount(observationsBehind)} observations ÷ ${formatNumber(headline.designEffect)}`,
+          text: `${forWhat(headline.label, result)}: ${formatCount(observationsBehind)} observations ÷ ${formatNumber(headline.designEffect)}`,
         },
         ...(result.groups.length > 1
           ? [

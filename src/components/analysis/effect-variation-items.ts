@@ -5,6 +5,7 @@ import {
   fewUnitsCaution,
   warningsAbout,
 } from '../../../shared/report/effect-variation'
+import { glmmFamily, linkScaleName } from '../../../shared/report/family-words'
 import { responseUnit } from '../../../shared/report/response-unit'
 
 export interface EffectVariationItem {
@@ -19,7 +20,9 @@ export interface EffectVariationItem {
 
 /** What the page says about each level × condition term; empty for engine 0.1 results. */
 export function effectVariationItems(result: AnalysisResult): EffectVariationItem[] {
-  const unit = responseUnit(result.response)
+  // A binary or count model's effects differ on its link scale, never in the response's units.
+  const family = glmmFamily(result)
+  const unit = family ? `on the ${linkScaleName(family)} scale` : responseUnit(result.response)
   const terms = (result.effectVariation ?? []).map((v) => v.term)
   return (result.effectVariation ?? []).map((v) => {
     const warnings = warningsAbout(v, result.warnings, terms)
@@ -28,7 +31,7 @@ export function effectVariationItems(result: AnalysisResult): EffectVariationIte
       sentence: effectVariationSentence(v, unit),
       explain: effectVariationExplain(v),
       warnings,
-      caution: warnings.length ? null : fewUnitsCaution(v),
+      caution: warnings.length ? null : fewUnitsCaution(v, family !== null),
     }
   })
 }

@@ -6,7 +6,11 @@ import {
   columnChoices,
   draftFrom,
   draftToChange,
+  familySuggestion,
   labelsOf,
+  responseChoices,
+  withFamily,
+  withResponse,
   type FormDefaults,
 } from './settings-form'
 
@@ -112,5 +116,75 @@ describe('column choices', () => {
     expect(labelsOf(defaults, 'genotype')).toEqual(['WT', 'KO'])
     expect(labelsOf(defaults, 'note')).toEqual([])
     expect(labelsOf({ columns: [], numericColumns: [] }, 'genotype')).toEqual([])
+  })
+})
+
+describe('settings form: the kind of response', () => {
+  // Invented neurons table: a yes/no marker, a count of puncta, a measured length.
+  const neurons: FormDefaults = {
+    columns: ['lab', 'mouse', 'treatment', 'marker', 'puncta', 'length', 'neurons_counted'],
+    numericColumns: ['puncta', 'length', 'neurons_counted'],
+    labelsByColumn: { treatment: ['vehicle', 'QZ-41'], marker: ['negative', 'positive'] },
+    binaryColumns: { treatment: ['vehicle', 'QZ-41'], marker: ['negative', 'positive'] },
+    countColumns: ['puncta', 'neurons_counted'],
+  }
+  const start = { ...draftFrom(null), levels: ['lab', 'mouse'], conditions: ['treatment'] }
+
+  it('offers numbers and two-valued columns as the response, and suggests a kind from the values', () => {
+    expect(responseChoices(neurons)).toEqual(['treatment', 'marker', 'puncta', 'length', 'neurons_counted'])
+    expect(familySuggestion(neurons, 'marker')).toEqual({
+      family: 'binomial',
+      values: ['negative', 'positive'],
+      positive: 'positive',
+    })
+    expect(familySuggestion(neurons, 'puncta')).toEqual({ family: 'poisson' })
+    expect(familySuggestion(neurons, 'length')).toBeNull()
+  })
+
+  it('keeps a measurement until the person confirms yes/no, then picks the suggested yes value', () => {
+    const picked = withResponse(start, neurons, 'marker')
+    expect(picked.family).toBe('gaussian')
+    expect(checkDraft(picked, neurons)).toMatchObject({
+      ok: false,
+      problems: { response: '“marker” holds two values, not numbers: analyse it as yes/no' },
+    })
+    const confirmed = withFamily(picked, neurons, 'binomial')
+    expect(confirmed).toMatchObject({ family: 'binomial', positive: 'positive', trials: null })
+    const check = checkDraft(confirmed, neurons)
+    expect(check.ok && check.settings).toMatchObject({
+      family: 'binomial',
+      positive: 'positive',
+      trials: null,
+    })
+  })
+
+  it('starts a new response from its own values, and drops a kind it cannot be', () => {
+    const yesNo = withFamily(withResponse(start, neurons, 'marker'), neurons, 'binomial')
+    expect(withResponse(yesNo, neurons, 'length')).toMatchObject({ family: 'gaussian', positive: null })
+    const counts = withFamily(withResponse(start, neurons, 'puncta'), neurons, 'poisson')
+    expect(withResponse(counts, neurons, 'neurons_counted')).toMatchObject({ family: 'poisson' })
+  })
+
+  it('sends successes out of trials without a yes value, and with the bootstrap off', () => {
+    const aggregated = {
+      ...withFamily(withResponse(start, neurons, 'puncta'), neurons, 'binomial'),
+      trials: 'neurons_counted',
+      bootstrapEnabled: true,
+    }
+    expect(draftToChange(aggregated)).toMatchObject({
+      family: 'binomial',
+      trials: 'neurons_counted',
+      positive: null,
+      bootstrap: { enabled: false },
+    })
+    expect(checkDraft({ ...aggregated, trials: '' }, neurons)).toMatchObject({
+      ok: false,
+      problems: { trials: 'Choose the trials column' },
+    })
+    expect(columnChoices(neurons, aggregated).trials).toEqual(['length', 'neurons_counted'])
+  })
+
+  it('reads stored settings without a family as a measurement', () => {
+    expect(draftFrom(tagged)).toMatchObject({ family: 'gaussian', trials: null, positive: null })
   })
 })

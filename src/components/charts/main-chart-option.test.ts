@@ -202,3 +202,41 @@ describe('colour by the outer level', () => {
     expect(html).not.toContain('<img')
   })
 })
+
+describe('mainChartOption for binary and count responses', () => {
+  // Invented: the same two conditions, now as proportions of yes per unit.
+  const binary: ChartData = {
+    ...chart,
+    family: 'binomial',
+    conditions: chart.conditions.map((c) => ({
+      ...c,
+      naive: { estimate: 0.4, se: 0.05, df: null, ci: [0.31, 0.5], sd: 0.49 },
+      nested: { estimate: 0.38, se: 0.08, df: null, ci: [0.24, 0.55], sd: 0.1, nUnits: 2 },
+    })),
+  }
+  type Series = { name: string; data: unknown[] }
+  const seriesOf = (option: ReturnType<typeof mainChartOption>) => option.series as Series[]
+
+  it('draws units as proportions on a 0–1 axis, without the single 0/1 observations', () => {
+    const option = mainChartOption(binary, 'sem', colors, { yName: 'proportion “positive”' })
+    const names = seriesOf(option).map((s) => s.name)
+    expect(names).not.toContain(SERIES_NAMES.observations)
+    expect(names).toContain('Unit proportions')
+    expect(option.yAxis).toMatchObject({ min: 0, max: 1, scale: false, name: 'proportion “positive”' })
+  })
+
+  it('always shows the 95% intervals on the response scale, whatever bar was asked for', () => {
+    for (const asked of ['sem', 'sd', 'ci95'] as const) {
+      const nested = seriesOf(mainChartOption(binary, asked, colors)).find(
+        (s) => s.name === SERIES_NAMES.nested,
+      )!
+      expect(nested.data[0]).toEqual([0 + SLOT.nested, 0.24, 0.55, 0.38])
+    }
+  })
+
+  it('keeps the observations of a count response, on an axis from 0', () => {
+    const counts = mainChartOption({ ...binary, family: 'poisson' }, 'ci95', colors)
+    expect(seriesOf(counts).some((s) => s.name === SERIES_NAMES.observations)).toBe(true)
+    expect(counts.yAxis).toMatchObject({ min: 0, scale: false })
+  })
+})

@@ -70,6 +70,17 @@ export function groupsOf(chart: ChartData): ChartGroups {
   return { level, labels }
 }
 
+/** A unit mean's hover: "mean of 12 observations", "proportion of 30 observations", "7 of 40 trials". */
+function unitMeanWords(chart: ChartData, unit: UnitSummary | undefined): string {
+  const n = unit?.n ?? '?'
+  if (chart.family === 'binomial')
+    return unit?.trials !== undefined
+      ? `${Math.round(unit.mean * unit.trials)} of ${unit.trials} trials`
+      : `proportion of ${n} observations`
+  if (chart.family === 'poisson') return `rate per observation, over ${n} observations`
+  return `mean of ${n} observations`
+}
+
 /** Colour and marker of an outer group: seven colour-blind-safe hues, then the hues again with another shape. */
 export function groupStyle(index: number): { color: string; symbol: string } {
   return {
@@ -182,24 +193,44 @@ export function chartCounts(chart: ChartData): { observations: number; units: nu
   return { observations: chart.points.nTotal, units, groups: groupsOf(chart).labels.length }
 }
 
+/** What the y axis shows, when the response's name alone would not say it (binary and count responses). */
+export interface MainChartWords {
+  /** The y axis name, e.g. "proportion “positive” of marker" or "puncta per observation". */
+  yName?: string
+}
+
 /**
  * The main chart: every sampled observation, each unit's mean as a larger outlined marker, and
  * per condition the naive bar beside the nested one. Colour is the outer group (site, lab) with a
  * short legend that hides or shows a group; a column of marks is one unit. Tooltips name the unit
  * and its group, escaped (chartHtml). Pure: data in, option out.
+ *
+ * Binary and count responses (chart.family): each unit is drawn as its proportion or rate, single
+ * yes/no observations are not drawn (they are all 0 or 1), and the bars are always the 95 %
+ * intervals on the response scale (the model's Wald interval, back-transformed), whatever
+ * `requested` says: an SEM or SD on the proportion scale would not be the interval the model gives.
  */
 export function mainChartOption(
   chart: ChartData,
-  type: ErrorBarType,
+  requested: ErrorBarType,
   colors: ChartColors,
+  text: MainChartWords = {},
 ): EChartsCoreOption {
+  const type: ErrorBarType = chart.family ? 'ci95' : requested
+  const proportion = chart.family === 'binomial'
+  const unitMeansName =
+    chart.family === 'binomial'
+      ? 'Unit proportions'
+      : chart.family === 'poisson'
+        ? 'Unit rates'
+        : SERIES_NAMES.unitMeans
   const placed = placeUnits(chart)
   const groups = groupsOf(chart)
   const words = ERROR_BAR_WORDS[type].short
   const grouped = groups.level !== null
   /** Series (and legend) name of a group: its label, or the plain names without groups. */
   const nameOf = (groupIndex: number, kind: 'observations' | 'unitMeans') =>
-    grouped ? groups.labels[groupIndex] : SERIES_NAMES[kind]
+    grouped ? groups.labels[groupIndex] : kind === 'unitMeans' ? unitMeansName : SERIES_NAMES[kind]
   const styleOf = (groupIndex: number) =>
     grouped ? groupStyle(groupIndex) : { color: UNIT_HUES[0], symbol: 'circle' }
 
@@ -224,7 +255,8 @@ export function mainChartOption(
   })
 
   const groupIndices = grouped ? groups.labels.map((_, i) => i) : [0]
-  const observationSeries = groupIndices.map((g) => {
+  // Single yes/no observations are all 0 or 1: drawing them would only hide the unit proportions.
+  const observationSeries = (proportion ? [] : groupIndices).map((g) => {
     const data = observations.get(g) ?? []
     return {
       type: 'scatter',
@@ -259,13 +291,17 @@ export function mainChartOption(
           itemStyle: { color: styleOf(g).color },
         }))
       : [
+          ...(proportion
+            ? []
+            : [
+                {
+                  name: SERIES_NAMES.observations,
+                  icon: 'circle',
+                  itemStyle: { color: UNIT_HUES[0], opacity: 0.45 },
+                },
+              ]),
           {
-            name: SERIES_NAMES.observations,
-            icon: 'circle',
-            itemStyle: { color: UNIT_HUES[0], opacity: 0.45 },
-          },
-          {
-            name: SERIES_NAMES.unitMeans,
+            name: unitMeansName,
             icon: 'circle',
             itemStyle: { color: UNIT_HUES[0], borderColor: colors.text },
           },
@@ -298,9 +334,7 @@ export function mainChartOption(
         }
         const place = placed[p.value[2]]
         const unit = place?.unit
-        const what = p.seriesId?.startsWith('unit-means')
-          ? `mean of ${unit?.n ?? '?'} observations`
-          : 'observation'
+        const what = p.seriesId?.startsWith('unit-means') ? unitMeanWords(chart, unit) : 'observation'
         return chartHtml`${unit?.label ?? ''}${unit?.condition ? ` · ${unit.condition}` : ''}<br>${what}: ${formatNumber(p.value[1])}`
       },
     },
@@ -326,8 +360,10 @@ export function mainChartOption(
     },
     yAxis: {
       type: 'value',
-      scale: true,
-      name: chart.response,
+      // Proportions live in [0, 1] and rates start at 0: a cut axis would exaggerate differences.
+      scale: !chart.family,
+      ...(proportion ? { min: 0, max: 1 } : chart.family ? { min: 0 } : {}),
+      name: text.yName ?? chart.response,
       nameLocation: 'middle',
       nameGap: 48,
       axisLabel: { color: colors.text },

@@ -6,7 +6,8 @@ export const terms = {
     'Independent units are the biological replicates, such as animals or separately prepared cultures; comparisons count these, not the rows.',
   nestingLevel:
     'A nesting level is a column that groups rows into units; each level sits inside the one above it (cells in mice in labs).',
-  response: 'The response is the measured number you want to compare, such as neurite length.',
+  response:
+    'The response is what you compare: a measured number (neurite length), a yes/no value (marker-positive) or a count (puncta).',
   condition:
     'The condition is what differs between the groups you compare, such as vehicle versus compound; it is optional.',
   conditions:
