@@ -81,6 +81,16 @@ describe('buildWarnings', () => {
     expect(codes(facts)).toEqual([])
   })
 
+  it('LEVEL_EFFECT_FEW_UNITS of a binary or count model speaks of its z test, which has no df', () => {
+    const facts = { ...cleanFacts(), family: 'binomial' as const }
+    facts.levelEffects = [
+      { term: 'lab:treatment', level: 'lab', factor: 'treatment', nLabels: 2, nUnits: 3, variance: 0.4 },
+    ]
+    const message = buildWarnings(facts).find((w) => w.code === 'LEVEL_EFFECT_FEW_UNITS')!.message
+    expect(message).toMatch(/z test does not widen its interval/)
+    expect(message).not.toMatch(/degrees of freedom/)
+  })
+
   it('BOUNDARY_FIT, NOT_CONVERGED and NAIVE_TEST_INVALID come from the fit and the result', () => {
     const facts = { ...cleanFacts(), zeroVarianceLevels: ['lab'], converged: false, naiveShown: true }
     expect(codes(facts)).toEqual(['BOUNDARY_FIT', 'NOT_CONVERGED', 'NAIVE_TEST_INVALID'])

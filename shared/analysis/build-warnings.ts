@@ -174,10 +174,15 @@ export function buildWarnings(facts: WarningFacts): Warning[] {
     }
   }
 
+  const wald = facts.family !== undefined && facts.family !== 'gaussian'
   for (const effect of facts.levelEffects) {
     if (effect.nUnits >= MIN_OUTER_UNITS) continue
-    const spread =
-      effect.variance > 0
+    const spread = wald
+      ? // A Wald z test treats the SE as known: no degrees of freedom widen the interval for few units.
+        `The ${effect.factor} comparison is judged against how much the effect differs between ${effect.level} units, ` +
+        `and a binary or count model's z test does not widen its interval for having so few of them: ` +
+        'its interval is likely too narrow and its p-value too small.'
+      : effect.variance > 0
         ? `The ${effect.factor} comparison is judged against how much the effect differs between ${effect.level} units, ` +
           `which leaves it about ${(effect.nUnits - 1) * (effect.nLabels - 1)} degrees of freedom ((${effect.level} units − 1) × (${effect.factor} labels − 1)): ` +
           'its interval is wide and its p-value fragile.'

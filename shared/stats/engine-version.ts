@@ -1,5 +1,6 @@
 /**
  * Version of the statistics engine, written into every result so a stored analysis says which
- * engine produced it. Bump it when a change can move any reported number.
+ * engine produced it. Bump it when a change can move any reported number or adds a kind of result
+ * (0.2: the maximal nested model, two factors, covariates; 0.3: binary and count responses).
  */
-export const ENGINE_VERSION = '0.2.0'
+export const ENGINE_VERSION = '0.3.0'

@@ -40,6 +40,16 @@ export { anovaNestedBalanced } from './anova-nested-balanced'
 /** Hierarchical (multi-level) bootstrap of condition means and their differences. */
 export { hierarchicalBootstrap } from './hierarchical-bootstrap'
 
+// ── Binary and count responses (generalised linear mixed models)
+/** Laplace fit of the maximal nested model for a yes/no, successes-of-trials or count response (as glmer, nAGQ = 1). */
+export { fitNestedGlmm } from './fit-nested-glmm'
+/** Wald z test and interval of one linear combination of the fixed effects. */
+export { waldTest } from './wald-test'
+/** Wald chi-square test of several linear combinations (a fixed term). */
+export { waldChiSquare } from './wald-chi-square'
+/** The residual variance on the latent scale of a logit or log link, for ICCs (Nakagawa et al. 2017). */
+export { latentResidualVariance } from './latent-residual-variance'
+
 // ── Classic tests and summaries
 /** Welch's two-sample t test from group summaries. */
 export { welchTest } from './welch-test'
@@ -73,6 +83,16 @@ export { costOptimalObsPerUnit } from './cost-optimal-obs-per-unit'
 export { observedScaleIcc } from './observed-scale-icc'
 /** Cheapest design reaching a target power. */
 export { planDesign } from './plan-design'
+/** Variance and df of the difference of two arms in a design of labs, units and observations. */
+export { threeLevelVariance } from './three-level-variance'
+/** Power of that comparison (two-sided t, noncentral). */
+export { threeLevelPower } from './three-level-power'
+/** Cheapest design of labs, units per lab and observations per unit reaching a target power. */
+export { planThreeLevel } from './plan-three-level'
+/** Cost-optimal units per lab and arm for a fixed budget. */
+export { costOptimalUnitsPerLab } from './cost-optimal-units-per-lab'
+/** Power of a two-sided t test from its df and noncentrality. */
+export { twoSidedTPower } from './two-sided-t-power'
 /** Design with the fewest independent units reaching a target power (a plan without costs). */
 export { planFewestUnits } from './plan-fewest-units'
 /** Power over a grid of designs. */
@@ -99,8 +119,18 @@ export { precisionFlag } from './precision-flag'
 export { studentTTwoSidedP } from './reml/student-t-two-sided-p'
 /** Upper-tail p of an F statistic. */
 export { fUpperP } from './reml/f-upper-p'
+/** Upper-tail p of a t statistic. */
+export { studentTUpperP } from './student-t-upper-p'
 /** Quantile of Student's t. */
 export { studentTQuantile } from './student-t-quantile'
+/** Upper-tail p of a standard normal statistic. */
+export { normalUpperP } from './normal-upper-p'
+/** Quantile of the standard normal. */
+export { normalQuantile } from './normal-quantile'
+/** Upper-tail p of a chi-square statistic (df up to CHI_SQUARE_MAX_DF). */
+export { chiSquareUpperP, CHI_SQUARE_MAX_DF } from './chi-square-upper-p'
+/** Quantile of the F distribution. */
+export { fQuantile } from './f-quantile'
 /** CDF of the noncentral t. */
 export { noncentralTCdf } from './noncentral-t-cdf'
 
