@@ -7,7 +7,6 @@ import { glmFit } from '../stats/glmm/glm-fit'
 import { holmAdjust } from '../stats/holm-adjust'
 import { latentResidualVariance } from '../stats/latent-residual-variance'
 import { modelFormula } from '../stats/model-formula'
-import { nestedDesignEffect } from '../stats/nested-design-effect'
 import { prepareNestedDesign } from '../stats/prepare-nested-design'
 import { nestedSufficientStats } from '../stats/reml/sufficient-stats'
 import { typeThreeHypotheses } from '../stats/type-three-hypotheses'
@@ -15,13 +14,13 @@ import type { NestedColumns, NestedDesign } from '../stats/types'
 import { waldChiSquare } from '../stats/wald-chi-square'
 import { waldTest } from '../stats/wald-test'
 import type { AnalyzeNestedOptions } from './analyze-nested'
-import { bootstrapForResult } from './bootstrap-for-result'
+import { bootstrapIfAsked } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
 import { checkGlmmResponse } from './check-glmm-response'
 import { compareUnitMeans } from './compare-unit-means'
-import { describeDesign, firstFactorContrast, levelFacts, unitsPerCell } from './describe-design'
+import { describeDesign, firstFactorContrast, designWarningFacts, unitsPerCell } from './describe-design'
 import { glmmNaiveComparison } from './glmm-naive-comparison'
-import { effectVariation, termGroupSizes, termIccs } from './term-summaries'
+import { effectVariation, tableDesignEffects, termIccs } from './term-summaries'
 
 const CONFIDENCE = 0.95
 
@@ -71,28 +70,14 @@ export function analyzeNestedGlmm(
   const counts = cellTotals(design, trials)
   const groups = cellSummaries(design, fit, naiveFit, counts)
   const contrasts = pairwise(design, fit, designEffectOf)
-  const termSizes = design.terms.map((term) => termGroupSizes(design, term))
-  const tableDeff = nestedDesignEffect(termSizes.map((unitSizes, t) => ({ unitSizes, share: shares[t] })))
   const headline = headlineOf(design, contrasts, designEffectOf)
   const hypotheses = hypothesesOf(design)
   const firstPair = contrasts.length > 0 ? { a: contrasts[0].a, b: contrasts[0].b } : null
   const unitMeans = compareUnitMeans(design, firstPair, trials)
   const naive = glmmNaiveComparison(design, family, counts, naiveFit, hypotheses)
   const overdispersion = family === 'poisson' ? pearsonRatio(design, fit) : null
-  let bootstrap = null
-  if (options.bootstrap && !trials) {
-    options.beforeBootstrap?.()
-    bootstrap = bootstrapForResult(
-      {
-        y: design.y,
-        randomLevels: design.randomLevels,
-        condition:
-          design.factors.length > 0 ? { labels: design.cells.labels, codes: design.cells.codes } : null,
-      },
-      contrasts,
-      { ...options.bootstrap, confidence: CONFIDENCE },
-    )
-  }
+  // Successes out of trials have no single observations to resample.
+  const bootstrap = trials ? null : bootstrapIfAsked(design, contrasts, options, CONFIDENCE)
 
   const { random, ...described } = describeDesign(design)
   const variation = effectVariation(
@@ -118,14 +103,7 @@ export function analyzeNestedGlmm(
     converged: fit.converged,
     remlCriterion: null,
     designEffect: headline.designEffect,
-    designEffectKish: 1 + tableDeff.terms.reduce((sum, t, i) => sum + (t.meanSize - 1) * shares[i], 0),
-    designEffectTerms: design.terms.map((term, t) => ({
-      level: term.name,
-      meanUnitSize: tableDeff.terms[t].meanSize,
-      unitSizeCv: tableDeff.terms[t].cv,
-      share: shares[t],
-      term: tableDeff.terms[t].term,
-    })),
+    ...tableDesignEffects(design, shares.slice(0, -1)),
     effectiveN: headline.effectiveN,
     headline,
     groups,
@@ -154,29 +132,10 @@ export function analyzeNestedGlmm(
     engine: { version: ENGINE_VERSION },
   }
 
-  const cellLevel = result.conditionLevel
   result.warnings = buildWarnings({
-    responseName: design.responseName,
-    levels: levelFacts(design),
-    condition: result.condition
-      ? {
-          name: result.condition,
-          level: cellLevel,
-          unitsPerCondition: cellLevel
-            ? groups.map((g) => ({ condition: g.condition, nUnits: g.nUnits ?? 0 }))
-            : [],
-          constantConditions: [],
-        }
-      : null,
-    factors: result.factors!.map((f) => ({ name: f.name, carrier: f.level })),
-    levelEffects: variation.map((v) => ({
-      ...v,
-      nLabels: design.factors.find((f) => f.name === v.factor)!.labels.length,
-    })),
+    ...designWarningFacts({ design, result, variation, constantConditions: [] }),
     unitMeansProblem: unitMeans.problem,
     zeroVarianceLevels: fit.components.filter((c) => c.variance === 0).map((c) => c.level),
-    implicitNesting: design.implicitNesting,
-    nDropped: design.nDropped,
     naiveShown: naive !== null,
     converged: fit.converged,
     family,

@@ -13,21 +13,20 @@ import { fitNestedReml } from '../stats/fit-nested-reml'
 import { fixedCoefficients } from '../stats/fixed-coefficients'
 import { fixedTermTests } from '../stats/fixed-term-tests'
 import { modelFormula } from '../stats/model-formula'
-import { nestedDesignEffect } from '../stats/nested-design-effect'
 import { oneWayAnova } from '../stats/one-way-anova'
 import { pairwiseContrasts, type PairwiseContrast } from '../stats/pairwise-contrasts'
 import { prepareNestedDesign } from '../stats/prepare-nested-design'
 import { simpleEffects } from '../stats/simple-effects'
 import { typeThreeHypotheses } from '../stats/type-three-hypotheses'
 import type { NestedColumns, NestedDesign, NestedFit } from '../stats/types'
-import { bootstrapForResult } from './bootstrap-for-result'
+import { bootstrapIfAsked } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
 import { analyzeNestedGlmm } from './analyze-nested-glmm'
 import { compareUnitMeans } from './compare-unit-means'
-import { describeDesign, firstFactorContrast, levelFacts } from './describe-design'
+import { describeDesign, firstFactorContrast, designWarningFacts } from './describe-design'
 import { naiveComparison } from './naive-comparison'
 import { summariseConditions } from './summarise-conditions'
-import { effectVariation, termGroupSizes, termIccs } from './term-summaries'
+import { effectVariation, tableDesignEffects, termIccs } from './term-summaries'
 
 export interface AnalyzeNestedOptions {
   /** Reference level per condition column; a column left out uses its first label. */
@@ -80,10 +79,6 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
   const total = fit.components.reduce((sum, c) => sum + c.variance, 0)
   const shares = fit.components.map((c) => clamp01(c.variance / total))
   const randomShares = shares.slice(0, -1)
-  const termSizes = design.terms.map((term) => termGroupSizes(design, term))
-  const tableDeff = nestedDesignEffect(
-    termSizes.map((unitSizes, t) => ({ unitSizes, share: randomShares[t] })),
-  )
 
   const means = cellMeans(design, fit, CONFIDENCE)
   const groups = summariseConditions(design, fit, means, CONFIDENCE)
@@ -94,20 +89,7 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
   const unitMeans = compareUnitMeans(design, firstPair)
   const naive = naiveComparison(design, firstPair, hypothesesFor(design))
   const headline = headlineQuantity(design, fit, contrasts)
-  let bootstrap = null
-  if (options.bootstrap) {
-    options.beforeBootstrap?.()
-    bootstrap = bootstrapForResult(
-      {
-        y: design.y,
-        randomLevels: design.randomLevels,
-        condition:
-          design.factors.length > 0 ? { labels: design.cells.labels, codes: design.cells.codes } : null,
-      },
-      contrasts,
-      { ...options.bootstrap, confidence: CONFIDENCE },
-    )
-  }
+  const bootstrap = bootstrapIfAsked(design, contrasts, options, CONFIDENCE)
 
   const { random, ...described } = describeDesign(design)
   const variation = effectVariation(
@@ -128,14 +110,7 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
     converged: fit.converged,
     remlCriterion: fit.remlCriterion,
     designEffect: headline.designEffect,
-    designEffectKish: 1 + tableDeff.terms.reduce((sum, t, i) => sum + (t.meanSize - 1) * randomShares[i], 0),
-    designEffectTerms: design.terms.map((term, t) => ({
-      level: term.name,
-      meanUnitSize: tableDeff.terms[t].meanSize,
-      unitSizeCv: tableDeff.terms[t].cv,
-      share: randomShares[t],
-      term: tableDeff.terms[t].term,
-    })),
+    ...tableDesignEffects(design, randomShares),
     effectiveN: headline.effectiveN,
     headline,
     groups,
@@ -161,31 +136,17 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
     engine: { version: ENGINE_VERSION },
   }
 
-  const cellLevel = result.conditionLevel
   result.warnings = buildWarnings({
-    responseName: design.responseName,
-    levels: levelFacts(design),
-    condition: result.condition
-      ? {
-          name: result.condition,
-          level: cellLevel,
-          unitsPerCondition: cellLevel
-            ? groups.map((g) => ({ condition: g.condition, nUnits: g.nUnits ?? 0 }))
-            : [],
-          constantConditions: groups.filter((g) => g.naive.se === 0).map((g) => g.condition),
-        }
-      : null,
-    factors: result.factors!.map((f) => ({ name: f.name, carrier: f.level })),
-    levelEffects: variation.map((v) => ({
-      ...v,
-      nLabels: design.factors.find((f) => f.name === v.factor)!.labels.length,
-    })),
+    ...designWarningFacts({
+      design,
+      result,
+      variation,
+      constantConditions: groups.filter((g) => g.naive.se === 0).map((g) => g.condition),
+    }),
     unitMeansProblem: unitMeans.problem,
     zeroVarianceLevels: fit.components
       .filter((c) => c.level !== 'residual' && c.variance === 0)
       .map((c) => c.level),
-    implicitNesting: design.implicitNesting,
-    nDropped: design.nDropped,
     naiveShown: naive !== null,
     converged: fit.converged,
   })

@@ -1,5 +1,7 @@
 import type { BootstrapResult } from '../schemas/analysis-result'
 import { hierarchicalBootstrap, type BootstrapInput } from '../stats/hierarchical-bootstrap'
+import type { NestedDesign } from '../stats/types'
+import type { AnalyzeNestedOptions } from './analyze-nested'
 
 /**
  * The bootstrap section of the result document: runs the hierarchical bootstrap on the design
@@ -52,4 +54,21 @@ export function bootstrapForResult(
       p: d.pBootstrap,
     })),
   }
+}
+
+/** The bootstrap section when the settings ask for one (null otherwise), resampling the design's units. */
+export function bootstrapIfAsked(
+  design: NestedDesign,
+  contrasts: { a: string; b: string }[],
+  options: Pick<AnalyzeNestedOptions, 'bootstrap' | 'beforeBootstrap'>,
+  confidence: number,
+): BootstrapResult | null {
+  if (!options.bootstrap) return null
+  options.beforeBootstrap?.()
+  const condition =
+    design.factors.length > 0 ? { labels: design.cells.labels, codes: design.cells.codes } : null
+  return bootstrapForResult({ y: design.y, randomLevels: design.randomLevels, condition }, contrasts, {
+    ...options.bootstrap,
+    confidence,
+  })
 }

@@ -1,4 +1,4 @@
-import type { AnalysisResult, RandomTerm } from '../schemas/analysis-result'
+import type { AnalysisResult, EffectVariation, RandomTerm } from '../schemas/analysis-result'
 import { cellMeanRow } from '../stats/cell-mean-row'
 import { observationsPerUnit } from '../stats/observations-per-unit'
 import type { NestedDesign } from '../stats/types'
@@ -122,4 +122,43 @@ export function firstFactorContrast(design: NestedDesign): {
     nObs += design.cells.counts[kB + j] + design.cells.counts[j]
   }
   return { label: `${a.labels[1]} − ${a.labels[0]} (averaged over ${b.name})`, weights, nObs }
+}
+
+/**
+ * The warning facts every nested analysis shares (levels, condition, factors, level × condition
+ * terms, implicit nesting, dropped rows); the model-specific facts are added by the caller.
+ */
+export function designWarningFacts(input: {
+  design: NestedDesign
+  result: Pick<AnalysisResult, 'condition' | 'conditionLevel' | 'factors' | 'groups'>
+  variation: EffectVariation[]
+  /** Conditions whose observations all have the same value. */
+  constantConditions: string[]
+}): Pick<
+  WarningFacts,
+  'responseName' | 'levels' | 'condition' | 'factors' | 'levelEffects' | 'implicitNesting' | 'nDropped'
+> {
+  const { design, result, variation } = input
+  const cellLevel = result.conditionLevel
+  return {
+    responseName: design.responseName,
+    levels: levelFacts(design),
+    condition: result.condition
+      ? {
+          name: result.condition,
+          level: cellLevel,
+          unitsPerCondition: cellLevel
+            ? result.groups.map((g) => ({ condition: g.condition, nUnits: g.nUnits ?? 0 }))
+            : [],
+          constantConditions: input.constantConditions,
+        }
+      : null,
+    factors: (result.factors ?? []).map((f) => ({ name: f.name, carrier: f.level })),
+    levelEffects: variation.map((v) => ({
+      ...v,
+      nLabels: design.factors.find((f) => f.name === v.factor)!.labels.length,
+    })),
+    implicitNesting: design.implicitNesting,
+    nDropped: design.nDropped,
+  }
 }

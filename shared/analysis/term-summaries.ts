@@ -1,4 +1,5 @@
-import type { EffectVariation, LevelIcc } from '../schemas/analysis-result'
+import type { AnalysisResult, EffectVariation, LevelIcc } from '../schemas/analysis-result'
+import { nestedDesignEffect } from '../stats/nested-design-effect'
 import type { NestedDesign, RandomTerm } from '../stats/types'
 
 /** Observations in each group of a random term (a level's units, or its units split by a factor's labels). */
@@ -79,4 +80,26 @@ export function effectVariation(design: NestedDesign, variances: number[]): Effe
       },
     ]
   })
+}
+
+/**
+ * The design effect of the mean of all observations (Kish: 1 + Σ (mean group size − 1) · share,
+ * over the random terms) and each term's part in it, from the terms' variance shares.
+ */
+export function tableDesignEffects(
+  design: NestedDesign,
+  randomShares: number[],
+): Pick<AnalysisResult, 'designEffectKish' | 'designEffectTerms'> {
+  const termSizes = design.terms.map((term) => termGroupSizes(design, term))
+  const table = nestedDesignEffect(termSizes.map((unitSizes, t) => ({ unitSizes, share: randomShares[t] })))
+  return {
+    designEffectKish: 1 + table.terms.reduce((sum, t, i) => sum + (t.meanSize - 1) * randomShares[i], 0),
+    designEffectTerms: design.terms.map((term, t) => ({
+      level: term.name,
+      meanUnitSize: table.terms[t].meanSize,
+      unitSizeCv: table.terms[t].cv,
+      share: randomShares[t],
+      term: table.terms[t].term,
+    })),
+  }
 }

@@ -10,7 +10,7 @@ import { normalQuantile } from '../stats/normal-quantile'
 import { effectVariationSentence } from './effect-variation'
 import { glmmModelName, linkScaleName, measureName, ratioName, type GlmmFamily } from './family-words'
 import { formatDf, formatInterval, formatNumber, formatP } from './number-format'
-import { randomDescription } from './report-parts'
+import { randomDescription, unitsCheckSentence } from './report-parts'
 import { componentLabel, listWords, pluralOf, termLabel } from './words'
 
 /**
@@ -105,17 +105,6 @@ function latentSentence(family: GlmmFamily): string {
   return `Variance shares and intraclass correlations are given on the latent (${linkScaleName(family)}) scale, with a residual variance of ${residual} (Nakagawa, Johnson & Schielzeth 2017).`
 }
 
-function unitsCheckSentence({ result, family }: GlmmReportFacts): string | null {
-  const unitsTest = result.comparisons.unitMeans
-  if (!unitsTest) return null
-  const test = {
-    'student-t': "Student's t-test",
-    'one-way-anova': 'one-way ANOVA',
-    'two-way-anova': 'two-way ANOVA (type III)',
-  }[unitsTest.method]
-  return `As a check, a ${test} was run on the ${measureName(family)}s of the ${unitsTest.nUnits} units of ${q(unitsTest.level)}.`
-}
-
 function unitsSentence(result: AnalysisResult): string {
   const outer = result.levels[0]
   if (!result.conditionLevel)
@@ -144,7 +133,7 @@ export function glmmMethodsParagraph(
     testsSentence(facts),
     latentSentence(family),
   ]
-  sentences.push(unitsCheckSentence(facts))
+  sentences.push(unitsCheckSentence(facts.result, `${measureName(facts.family)}s`))
   const boot = result.comparisons.bootstrap
   if (boot && bootstrapShown)
     sentences.push(

@@ -122,3 +122,15 @@ export function effectVariationSentences(result: AnalysisResult): string[] {
     ),
   )
 }
+
+/** The check on unit summaries: "As a check, a Student's t-test was run on the means of the 12 units of “mouse”." */
+export function unitsCheckSentence(result: AnalysisResult, summaries: string): string | null {
+  const unitsTest = result.comparisons.unitMeans
+  if (!unitsTest) return null
+  const test = {
+    'student-t': "Student's t-test",
+    'one-way-anova': 'one-way ANOVA',
+    'two-way-anova': 'two-way ANOVA (type III)',
+  }[unitsTest.method]
+  return `As a check, a ${test} was run on the ${summaries} of the ${unitsTest.nUnits} units of “${unitsTest.level}”.`
+}

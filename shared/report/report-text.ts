@@ -14,6 +14,7 @@ import {
   slopesSentence,
   termsMethodSentence,
   termsResultSentence,
+  unitsCheckSentence,
 } from './report-parts'
 import { listWords } from './words'
 
@@ -80,17 +81,6 @@ function dfSentence(result: AnalysisResult): string | null {
     : 'Degrees of freedom used the Satterthwaite approximation.'
 }
 
-function unitsCheckSentence(result: AnalysisResult): string | null {
-  const unitsTest = result.comparisons.unitMeans
-  if (!unitsTest) return null
-  const test = {
-    'student-t': "Student's t-test",
-    'one-way-anova': 'one-way ANOVA',
-    'two-way-anova': 'two-way ANOVA (type III)',
-  }[unitsTest.method]
-  return `As a check, a ${test} was run on the means of the ${unitsTest.nUnits} units of “${unitsTest.level}”.`
-}
-
 /**
  * Engine 0.1 (no headline): " (design effect 17.5, effective n 23.5)" inside the units sentence.
  * Engine ≥ 0.2 says which quantity they belong to in a sentence of its own, since its label may
@@ -117,7 +107,7 @@ export function methodsParagraph({ result, settings, software }: ReportContext):
       software,
     )
   const sentences = present([modelSentence(result), formulaSentence(result), dfSentence(result)])
-  sentences.push(...present([unitsCheckSentence(result)]))
+  sentences.push(...present([unitsCheckSentence(result, 'means')]))
   const boot = result.comparisons.bootstrap
   if (boot && settings.bootstrap.enabled) {
     sentences.push(

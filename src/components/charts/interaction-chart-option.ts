@@ -8,6 +8,7 @@ import type { AnalysisResult, GroupSummary } from '../../../shared/schemas/analy
 import { formatInterval, formatNumber } from '../../../shared/report/number-format'
 import type { ChartColors } from './main-chart-option'
 import { chartHtml, joinHtml } from './chart-text'
+import { responseYAxis, slotXAxis } from './slot-axes'
 import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'
 
 /** One design cell as the chart draws it: x index of the first factor's level, line of the second's. */
@@ -146,34 +147,8 @@ export function interactionChartOption(
         ])
       },
     },
-    xAxis: {
-      type: 'value',
-      min: -0.5,
-      max: xLevels.length - 0.5,
-      interval: 1,
-      splitLine: { show: false },
-      axisTick: { show: false },
-      axisLine: { lineStyle: { color: colors.grid } },
-      axisLabel: {
-        color: colors.text,
-        fontSize: 13,
-        customValues: xLevels.map((_, i) => i),
-        formatter: (value: number) => xLevels[Math.round(value)] ?? '',
-      },
-      name: xFactor,
-      nameLocation: 'middle',
-      nameGap: 30,
-    },
-    yAxis: {
-      type: 'value',
-      scale: true,
-      name: response,
-      nameLocation: 'middle',
-      nameGap: 48,
-      axisLabel: { color: colors.text },
-      axisLine: { onZero: false, show: true, lineStyle: { color: colors.grid } },
-      splitLine: { lineStyle: { color: colors.grid, opacity: 0.5 } },
-    },
+    xAxis: slotXAxis(xLevels, xFactor, colors),
+    yAxis: responseYAxis(response, colors),
     series,
   }
 }

@@ -9,6 +9,7 @@ import { formatNumber } from '../../../shared/report/number-format'
 import { termLabel } from '../../../shared/report/words'
 import { ERROR_BAR_WORDS, naiveBar, nestedBar, type Bar } from './error-bars'
 import { chartHtml } from './chart-text'
+import { responseYAxis, slotXAxis } from './slot-axes'
 import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'
 
 export interface ChartColors {
@@ -338,38 +339,13 @@ export function mainChartOption(
         return chartHtml`${unit?.label ?? ''}${unit?.condition ? ` · ${unit.condition}` : ''}<br>${what}: ${formatNumber(p.value[1])}`
       },
     },
-    xAxis: {
-      type: 'value',
-      min: -0.5,
-      max: conditionNames.length - 0.5,
-      interval: 1,
-      splitLine: { show: false },
-      axisTick: { show: false },
-      axisLine: { lineStyle: { color: colors.grid } },
-      // Labels at each condition's centre, not at the slot edges the value axis would pick.
-      axisLabel: {
-        color: colors.text,
-        fontSize: 13,
-        customValues: conditionNames.map((_, i) => i),
-        formatter: (value: number) => conditionNames[Math.round(value)] ?? '',
-      },
-      // Two factors: the cells "a:b" of "A:B", named "A × B".
-      name: chart.condition ? termLabel(chart.condition) : '',
-      nameLocation: 'middle',
-      nameGap: 30,
-    },
+    // Two factors: the cells "a:b" of "A:B", named "A × B".
+    xAxis: slotXAxis(conditionNames, chart.condition ? termLabel(chart.condition) : '', colors),
     yAxis: {
-      type: 'value',
+      ...responseYAxis(text.yName ?? chart.response, colors),
       // Proportions live in [0, 1] and rates start at 0: a cut axis would exaggerate differences.
       scale: !chart.family,
       ...(proportion ? { min: 0, max: 1 } : chart.family ? { min: 0 } : {}),
-      name: text.yName ?? chart.response,
-      nameLocation: 'middle',
-      nameGap: 48,
-      axisLabel: { color: colors.text },
-      // Keep the axis at the left edge instead of crossing the first condition at x = 0.
-      axisLine: { onZero: false, show: true, lineStyle: { color: colors.grid } },
-      splitLine: { lineStyle: { color: colors.grid, opacity: 0.5 } },
     },
     series: [
       ...observationSeries,
