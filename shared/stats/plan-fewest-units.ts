@@ -3,41 +3,14 @@ import { checkPlanSearchInput, type PlanSearchInput } from './planning/check-pla
 import { closingRemarks } from './planning/closing-remarks'
 import { fewestLabsFor } from './planning/fewest-labs-for'
 import type { PlanRemark } from './planning/plan-remark'
+import type { PlanSearchResult } from './planning/plan-search-result'
 import { planSearchModel } from './planning/plan-search-model'
-import type { LabDesign } from './three-level-variance'
 
 /** Upper limit on observations per unit defaults to 100 without costs (see COUNTS_OBS_CAP). */
 export type PlanFewestUnitsInput = PlanSearchInput
 
-export interface PlanFewestUnitsResult {
-  /** False when no design within the limits reaches the target power (a best effort is reported). */
-  feasible: boolean
-  design: LabDesign
-  /** L: labs ('every-arm') or labs per arm ('one-arm'). */
-  labs: number
-  unitsPerLabArm: number
-  obsPerUnit: number
-  arms: number
-  /** L for 'every-arm', arms · L for 'one-arm'. */
-  totalLabs: number
-  /** arms · L · k: the number this plan keeps as small as it can. */
-  totalUnits: number
-  totalObs: number
-  /** Power of each pairwise comparison at `alphaPerComparison`. */
-  achievedPower: number
-  df: number
-  /** α / (number of pairs) for more than two arms (Bonferroni), else α. */
-  alphaPerComparison: number
-  /** The most the recommended number of labs can reach, however many units and observations. */
-  ceilingPower: number
-  /** Fewest labs whose ceiling reaches the target power; null beyond 10 000. */
-  fewestLabs: number | null
-  /** Design effect 1 + (m − 1)ρ inside a unit, ρ = σ²_unit / (σ²_unit + σ²_resid). */
-  deff: number
-  searchedUpToObsPerUnit: number
-  /** What the search has to say beside its numbers, as codes (worded by shared/planning/plan-notes). */
-  remarks: PlanRemark[]
-}
+/** totalUnits (arms · L · k) is the number this plan keeps as small as it can. */
+export type PlanFewestUnitsResult = PlanSearchResult
 
 /**
  * Without costs, observations per unit are searched up to this many. Common practice, no source:

@@ -2,7 +2,6 @@ import { EngineInputError } from './engine-input-error'
 import { costOptimalObsPerUnit } from './cost-optimal-obs-per-unit'
 import { costOptimalUnitsPerLab } from './cost-optimal-units-per-lab'
 import { planDesign } from './plan-design'
-import type { LabDesign } from './three-level-variance'
 import { twoSidedTPower } from './two-sided-t-power'
 import { normalQuantile } from './normal-quantile'
 import { bestEffortDesign } from './planning/best-effort-design'
@@ -10,6 +9,7 @@ import { checkPlanSearchInput, type PlanSearchInput } from './planning/check-pla
 import { closingRemarks } from './planning/closing-remarks'
 import { fewestLabsFor } from './planning/fewest-labs-for'
 import type { PlanRemark } from './planning/plan-remark'
+import type { PlanSearchResult } from './planning/plan-search-result'
 import { planSearchModel } from './planning/plan-search-model'
 
 export interface PlanThreeLevelInput extends PlanSearchInput {
@@ -18,39 +18,13 @@ export interface PlanThreeLevelInput extends PlanSearchInput {
   costPerObs: number
 }
 
-export interface PlanThreeLevelResult {
-  /** False when no design within the limits reaches the target power (a best effort is reported). */
-  feasible: boolean
-  design: LabDesign
-  /** L: labs ('every-arm') or labs per arm ('one-arm'). */
-  labs: number
-  unitsPerLabArm: number
-  obsPerUnit: number
-  arms: number
-  /** L for 'every-arm', arms · L for 'one-arm'. */
-  totalLabs: number
-  totalUnits: number
-  totalObs: number
+export interface PlanThreeLevelResult extends PlanSearchResult {
   /** 'every-arm': L(c_lab + arms·k(c_unit + m·c_obs)); 'one-arm': arms·L(c_lab + k(c_unit + m·c_obs)). */
   cost: number
-  /** Power of each pairwise comparison at `alphaPerComparison`. */
-  achievedPower: number
-  df: number
-  /** α / (number of pairs) for more than two arms (Bonferroni), else α. */
-  alphaPerComparison: number
-  /** The most the recommended number of labs can reach, however many units and observations. */
-  ceilingPower: number
-  /** Fewest labs whose ceiling reaches the target power (labs per arm for 'one-arm'); null beyond 10 000. */
-  fewestLabs: number | null
-  /** Design effect 1 + (m − 1)ρ inside a unit, ρ = σ²_unit / (σ²_unit + σ²_resid). */
-  deff: number
   /** Cost-optimal observations per unit before rounding; null without a finite optimum. */
   mStar: number | null
   /** Cost-optimal units per lab and arm at the recommended m, before rounding; null without a finite optimum. */
   kStar: number | null
-  searchedUpToObsPerUnit: number
-  /** What the search has to say beside its numbers, as codes (worded by shared/planning/plan-notes). */
-  remarks: PlanRemark[]
 }
 
 const DEFAULT_OBS_CAP = 1000
