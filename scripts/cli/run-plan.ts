@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs'
+import { planNotes } from '../../shared/planning/plan-notes'
 import { threeLevelComponents } from '../../shared/planning/three-level-components'
 import { AnalysisResult } from '../../shared/schemas/analysis-result'
 import { clusterPower } from '../../shared/stats/cluster-power'
@@ -57,6 +58,9 @@ export interface ThreeLevelGrid {
   alphaPerComparison: number
 }
 
+/** planThreeLevel's answer with its remarks in words, as the two-level design carries them. */
+export type ThreeLevelDesignOutput = Omit<PlanThreeLevelResult, 'remarks'> & { notes: string[] }
+
 export interface PlanOutput {
   inputs: {
     icc: number
@@ -85,7 +89,7 @@ export interface PlanOutput {
       }
     | null
   unitsNeeded: (UnitsNeededResult & { obsPerUnit: number }) | null
-  cheapestDesign: PlanDesignResult | PlanThreeLevelResult | null
+  cheapestDesign: PlanDesignResult | ThreeLevelDesignOutput | null
   /** exact is null when there is no finite optimum; unitsPerLab (k*) with --labs. */
   costOptimal:
     | (Omit<CostOptimalResult, 'exact'> & {
@@ -199,23 +203,34 @@ export function runPlan(args: PlanArgs): PlanOutput {
       : null
 
   return {
-    inputs: {
-      icc,
-      iccSource: args.icc === null ? { kind: 'analysis', level: analysis!.level } : { kind: 'given' },
-      sdTotal,
-      sdSource: args.sd === null && args.variance === null ? 'analysis' : 'given',
-      difference: args.difference,
-      alpha: args.alpha,
-      alphaPerComparison,
-      targetPower: args.power,
-      arms: args.arms,
-    },
+    inputs: plannedInputs(args, { icc, sdTotal, alphaPerComparison, iccLevel: analysis?.level ?? null }),
     power,
     unitsNeeded: needed,
     cheapestDesign,
     costOptimal,
     grid,
     engine: { version: ENGINE_VERSION },
+  }
+}
+
+/**
+ * The numbers a plan was made with, as the output repeats them. `iccLevel` names the level of the
+ * saved analysis the ICC came from when none was typed in.
+ */
+function plannedInputs(
+  args: PlanArgs,
+  found: { icc: number; sdTotal: number; alphaPerComparison: number; iccLevel: string | null },
+): Omit<PlanOutput['inputs'], 'labs'> {
+  return {
+    icc: found.icc,
+    iccSource: args.icc === null ? { kind: 'analysis', level: found.iccLevel! } : { kind: 'given' },
+    sdTotal: found.sdTotal,
+    sdSource: args.sd === null && args.variance === null ? 'analysis' : 'given',
+    difference: args.difference,
+    alpha: args.alpha,
+    alphaPerComparison: found.alphaPerComparison,
+    targetPower: args.power,
+    arms: args.arms,
   }
 }
 
@@ -288,10 +303,10 @@ function runThreeLevelPlan(args: PlanArgs, labs: { min: number; max: number }): 
       ceilingPower: r.ceilingPower,
     }
   }
-  let cheapestDesign: PlanThreeLevelResult | null = null
+  let cheapestDesign: ThreeLevelDesignOutput | null = null
   let costOptimal: PlanOutput['costOptimal'] = null
   if (args.costUnit !== null && args.costObs !== null) {
-    cheapestDesign = planThreeLevel({
+    const { remarks, ...planned } = planThreeLevel({
       ...variances,
       difference: args.difference,
       alpha: args.alpha,
@@ -305,6 +320,7 @@ function runThreeLevelPlan(args: PlanArgs, labs: { min: number; max: number }): 
       ...(args.maxUnits === null ? {} : { maxUnitsPerLabArm: args.maxUnits }),
       ...(args.maxObs === null ? {} : { maxObsPerUnit: args.maxObs }),
     })
+    cheapestDesign = { ...planned, notes: planNotes(remarks) }
     const optimum = costOptimalObsPerUnit({ costPerUnit: args.costUnit, costPerObs: args.costObs, icc })
     const perLab = costOptimalUnitsPerLab({
       ...variances,
@@ -347,15 +363,7 @@ function runThreeLevelPlan(args: PlanArgs, labs: { min: number; max: number }): 
 
   return {
     inputs: {
-      icc,
-      iccSource: args.icc === null ? { kind: 'analysis', level: fromData!.unitLevel } : { kind: 'given' },
-      sdTotal,
-      sdSource: args.sd === null && args.variance === null ? 'analysis' : 'given',
-      difference: args.difference,
-      alpha: args.alpha,
-      alphaPerComparison,
-      targetPower: args.power,
-      arms: args.arms,
+      ...plannedInputs(args, { icc, sdTotal, alphaPerComparison, iccLevel: fromData?.unitLevel ?? null }),
       labs: {
         labs,
         design,

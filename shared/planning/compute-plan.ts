@@ -3,6 +3,7 @@ import { ENGINE_VERSION } from '../stats/engine-version'
 import { planFewestUnits } from '../stats/plan-fewest-units'
 import { planThreeLevel } from '../stats/plan-three-level'
 import { threeLevelPower } from '../stats/three-level-power'
+import { planNotes } from './plan-notes'
 import { pluralOf } from './plural-of'
 import { resolveLevels } from './resolve-levels'
 
@@ -221,7 +222,10 @@ export function computePlan(inputs: PlanInputs): PlanResult {
     table.sort((a, b) => a.labs - b.labs || a.unitsPerArm - b.unitsPerArm || a.obsPerUnit - b.obsPerUnit)
   }
 
-  const notes = [...measureNotes(inputs, levels.icc), ...design.notes]
+  const notes = [
+    ...measureNotes(inputs, levels.icc),
+    ...planNotes(design.remarks, { one: outer.name, many: pluralOf(outer.name) }),
+  ]
   if (!levels.multiLab && outer.effectSd !== null && outer.effectSd > 0) {
     notes.push(
       `With one ${outer.name}, how much the effect differs between ${pluralOf(outer.name)} does not enter: the plan is for this ${outer.name} alone.`,

@@ -1,4 +1,5 @@
 import { EngineInputError } from './engine-input-error'
+import { checkThreeLevelVariances } from './planning/check-three-level-variances'
 import type { LabDesign } from './three-level-variance'
 
 export interface CostOptimalUnitsPerLabInput {
@@ -89,22 +90,13 @@ export function costOptimalUnitsPerLab(input: CostOptimalUnitsPerLabInput): Cost
   if (typeof m !== 'number' || !Number.isFinite(m) || m < 1) {
     throw new EngineInputError(`costOptimalUnitsPerLab requires at least one observation per unit, got ${m}`)
   }
-  const labVariance = input.labVariance ?? 0
-  for (const [name, value] of [
-    ['labArmVariance', input.labArmVariance],
-    ['unitVariance', input.unitVariance],
-    ['residualVariance', input.residualVariance],
-    ['labVariance', labVariance],
-  ] as const) {
-    if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) {
-      throw new EngineInputError(
-        `costOptimalUnitsPerLab: ${name} must be a number of at least 0, got ${value}`,
-      )
-    }
-  }
+  const { labArmVariance, labVariance, unitVariance, residualVariance } = checkThreeLevelVariances(
+    input,
+    'costOptimalUnitsPerLab',
+  )
   const armsPerLab = design === 'every-arm' ? arms : 1
-  const between = design === 'every-arm' ? input.labArmVariance : labVariance + input.labArmVariance
-  const within = input.unitVariance + input.residualVariance / m
+  const between = design === 'every-arm' ? labArmVariance : labVariance + labArmVariance
+  const within = unitVariance + residualVariance / m
   const perUnit = costPerUnit + m * costPerObs
 
   if (between === 0 || perUnit === 0) {

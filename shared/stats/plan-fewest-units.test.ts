@@ -107,17 +107,25 @@ describe('planFewestUnits', () => {
   })
 
   it('says it searched 100 observations per unit without a limit, and that a limit binds', () => {
-    expect(planFewestUnits(oneLab).notes.join(' ')).toContain('up to 100')
+    const searched = { code: 'obs-search-range', upTo: 100, why: 'no-costs' }
+    expect(planFewestUnits(oneLab).remarks).toContainEqual(searched)
     const limited = planFewestUnits({ ...oneLab, maxObsPerUnit: 5 })
     expect(limited.obsPerUnit).toBeLessThanOrEqual(5)
-    expect(limited.notes).toContain('The limit on observations per unit is binding.')
-    expect(limited.notes.join(' ')).not.toContain('up to 100')
+    expect(limited.remarks).toContainEqual({ code: 'obs-limit-binds' })
+    expect(limited.remarks).not.toContainEqual(searched)
   })
 
   it('reports the most powerful design the unit limit allows when nothing reaches the target', () => {
     const plan = planFewestUnits({ ...oneLab, maxUnitsPerLabArm: 3 })
     expect(plan).toMatchObject({ feasible: false, unitsPerLabArm: 3, obsPerUnit: COUNTS_OBS_CAP })
-    expect(plan.notes[plan.notes.length - 1]).toMatch(/^No design within 1 lab, 3 units/)
+    expect(plan.remarks[plan.remarks.length - 1]).toEqual({
+      code: 'limits-fall-short',
+      labs: 1,
+      unitsPerLabArm: 3,
+      obsPerUnit: COUNTS_OBS_CAP,
+      target: 0.8,
+      bestPower: plan.achievedPower,
+    })
   })
 
   it('stops below the ceiling that lab-to-lab differences set, and says how many labs it takes', () => {
@@ -134,7 +142,10 @@ describe('planFewestUnits', () => {
     expect(plan.labs).toBe(3)
     expect(plan.achievedPower).toBeLessThan(plan.ceilingPower)
     expect(plan.achievedPower).toBeGreaterThanOrEqual(plan.ceilingPower - 0.02 - 1e-12)
-    expect(plan.notes.join(' ')).toContain(`It takes at least ${plan.fewestLabs} sites`)
+    expect(plan.fewestLabs).not.toBeNull()
+    expect(plan.remarks).toContainEqual(
+      expect.objectContaining({ code: 'ceiling-falls-short', labs: 3, fewestLabs: plan.fewestLabs }),
+    )
   })
 
   it('refuses one lab when labs differ in their response, naming the level', () => {

@@ -84,7 +84,11 @@ describe('planThreeLevel', () => {
     const three = planThreeLevel(threeArms)
     expect(three.cost).toBe(bruteForce(threeArms, 90).cost)
     expect(three.alphaPerComparison).toBeCloseTo(0.05 / 3, 12)
-    expect(three.notes.join(' ')).toMatch(/Bonferroni/)
+    expect(three.remarks).toContainEqual({
+      code: 'pairwise-bonferroni',
+      arms: 3,
+      alphaPerComparison: three.alphaPerComparison,
+    })
   })
 
   it('is the two-level planner plus the cost of the lab when the plan is for one lab (property)', () => {
@@ -123,7 +127,9 @@ describe('planThreeLevel', () => {
       threeLevelPower({ ...input, labs, unitsPerLabArm: 1e9, obsPerUnit: 1e6 }).power
     expect(ceiling(r.fewestLabs!)).toBeGreaterThanOrEqual(0.8)
     expect(ceiling(r.fewestLabs! - 1)).toBeLessThan(0.8)
-    expect(r.notes.join(' ')).toMatch(new RegExp(`It takes at least ${r.fewestLabs} labs`))
+    expect(r.remarks).toContainEqual(
+      expect.objectContaining({ code: 'ceiling-falls-short', labs: 4, fewestLabs: r.fewestLabs }),
+    )
     // Allowing that many labs makes the plan feasible.
     expect(planThreeLevel({ ...input, maxLabs: r.fewestLabs! + 4 }).feasible).toBe(true)
   })
@@ -139,7 +145,7 @@ describe('planThreeLevel', () => {
     expect(limited.obsPerUnit).toBeLessThanOrEqual(8)
     expect(limited.unitsPerLabArm).toBeLessThanOrEqual(4)
     expect(limited.labs).toBeGreaterThanOrEqual(2)
-    expect(limited.notes.join(' ')).toMatch(/search starts at 2 labs/)
+    expect(limited.remarks).toContainEqual({ code: 'labs-start-at-two', design: 'every-arm' })
     const impossible = planThreeLevel({
       ...example,
       minLabs: 2,
@@ -149,7 +155,9 @@ describe('planThreeLevel', () => {
     })
     expect(impossible.feasible).toBe(false)
     expect([impossible.labs, impossible.unitsPerLabArm, impossible.obsPerUnit]).toEqual([3, 2, 10])
-    expect(impossible.notes.join(' ')).toMatch(/No design within 3 labs, 2 units per lab and arm/)
+    expect(impossible.remarks).toContainEqual(
+      expect.objectContaining({ code: 'limits-fall-short', labs: 3, unitsPerLabArm: 2, obsPerUnit: 10 }),
+    )
   })
 
   it('refuses malformed input', () => {
@@ -170,25 +178,5 @@ describe('planThreeLevel', () => {
       /spread inside the labs/,
     )
     expect(() => planThreeLevel({ ...ok, difference: 0 })).toThrow(/non-zero/)
-  })
-})
-
-describe('planThreeLevel notes', () => {
-  it('use the outer level’s own name', () => {
-    // A day × arm variance and at most 4 days: the notes speak of days, not labs.
-    const r = planThreeLevel({
-      ...example,
-      labArmVariance: 8,
-      difference: 6,
-      minLabs: 1,
-      maxLabs: 4,
-      labWords: { one: 'day', many: 'days' },
-    })
-    const notes = r.notes.join(' ')
-    expect(notes).toMatch(/With one day, how much days differ/)
-    expect(notes).toMatch(
-      /No design with at most 4 days reaches 80 % power: with 4 days no number of units gets past \d+ %/,
-    )
-    expect(notes).not.toMatch(/\blabs?\b/)
   })
 })

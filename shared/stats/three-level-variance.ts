@@ -1,4 +1,5 @@
 import { EngineInputError } from './engine-input-error'
+import { checkThreeLevelVariances } from './planning/check-three-level-variances'
 
 /**
  * How the condition meets the outer level (lab, day, plate):
@@ -42,8 +43,6 @@ export interface ThreeLevelVarianceResult {
   /** σ²_unit + σ²_resid / m: the variance of one unit's mean. */
   unitMeanVariance: number
 }
-
-const nonNegative = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v) && v >= 0
 
 /**
  * Variance and degrees of freedom of the difference between two arm means in a three-level
@@ -111,18 +110,10 @@ export function threeLevelVariance(input: ThreeLevelVarianceInput): ThreeLevelVa
   if (typeof m !== 'number' || !Number.isFinite(m) || m < 1) {
     throw new EngineInputError(`threeLevelVariance requires at least one observation per unit, got ${m}`)
   }
-  const labVariance = input.labVariance ?? 0
-  for (const [name, value] of [
-    ['labArmVariance', input.labArmVariance],
-    ['unitVariance', input.unitVariance],
-    ['residualVariance', input.residualVariance],
-    ['labVariance', labVariance],
-  ] as const) {
-    if (!nonNegative(value)) {
-      throw new EngineInputError(`threeLevelVariance: ${name} must be a number of at least 0, got ${value}`)
-    }
-  }
-  const { labArmVariance, unitVariance, residualVariance } = input
+  const { labArmVariance, labVariance, unitVariance, residualVariance } = checkThreeLevelVariances(
+    input,
+    'threeLevelVariance',
+  )
   if (design === 'every-arm' && L === 1 && labArmVariance > 0) {
     throw new EngineInputError(
       'threeLevelVariance: with one lab, how much labs differ in their response cannot be told apart from the effect; plan for at least 2 labs, or set the lab × condition variance to 0 to plan for this lab alone',
