@@ -33,6 +33,7 @@ import type { Conn } from '../repositories/connection'
 import { activeExclusions, currentTagging } from '../repositories/datasets-annotations.repo'
 import { findVersion, listColumns, listVersions, type VersionRecord } from '../repositories/datasets.repo'
 import { recordAudit } from './audit.service'
+import { queueVersion } from './analysis-runs.service'
 import { checkSettingsAgainstRows } from './analysis-design-checks.service'
 import {
   checkSettingsAgainstColumns,
@@ -215,7 +216,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
       },
       trx,
     )
-    await insertAnalysisVersion(
+    const versionId = await insertAnalysisVersion(
       {
         analysisId: id,
         versionNo: 1,
@@ -228,6 +229,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
       },
       trx,
     )
+    await queueVersion(versionId, trx)
     await recordAudit(trx, {
       action: 'analysis.created',
       labId: dataset.labId,
@@ -277,7 +279,7 @@ export async function createAnalysisVersionFor(
       )
     }
     await checkSettingsAgainstRows(datasetVersion, settings, exclusions, trx)
-    await insertAnalysisVersion(
+    const versionId = await insertAnalysisVersion(
       {
         analysisId,
         versionNo: next,
@@ -290,6 +292,7 @@ export async function createAnalysisVersionFor(
       },
       trx,
     )
+    await queueVersion(versionId, trx)
     await recordAudit(trx, {
       action: 'analysis.version_created',
       labId: analysis.labId,
