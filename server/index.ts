@@ -6,6 +6,7 @@ import { analysisQueue, stopAnalysisQueue } from './jobs/analysis-queue'
 import { startAnalysisRunner, stopAnalysisRunner } from './jobs/analysis-runner'
 import { logger } from './logger'
 import { startMailRuntime } from './mail/mail-runtime'
+import { startOriginalsRuntime } from './originals'
 
 // Give in-flight requests this long to finish on shutdown before connections are cut.
 const SHUTDOWN_GRACE_MS = 10_000
@@ -25,6 +26,12 @@ const server = app.listen(config.PORT, config.HOST, (err?: Error) => {
 // Mail (the outbox sender, and the local fake SMTP server outside production) runs in this process.
 const mail = startMailRuntime().catch((err: unknown) => {
   logger.error('mail could not start; messages stay in the outbox', { err })
+  return undefined
+})
+
+// Originals: with ORIGINALS_STORE=s3 and no S3_ENDPOINT (development), the local fake S3 runs here.
+const originals = startOriginalsRuntime().catch((err: unknown) => {
+  logger.error('the local fake S3 could not start; uploads and downloads of originals will fail', { err })
   return undefined
 })
 
@@ -48,6 +55,7 @@ async function shutdown(signal: string): Promise<void> {
   })
   clearTimeout(force)
   await (await mail)?.stop()
+  await (await originals)?.stop()
   // A run in flight goes back to the queue for the next start (or another process).
   await stopAnalysisRunner()
   await stopAnalysisQueue()
