@@ -91,12 +91,13 @@ export async function sendRun(versionId: number, conn: Conn): Promise<string | n
   return boss.send(ANALYSIS_QUEUE, { versionId }, { singletonKey: String(versionId), db: executorFor(conn) })
 }
 
-/** Takes the next waiting job, if any, for this process to run. */
-export async function fetchRun(): Promise<QueuedRun | null> {
+/** Takes the next waiting job, if any, for this process to run (inside `conn`'s transaction when given). */
+export async function fetchRun(conn?: Conn): Promise<QueuedRun | null> {
   const boss = await analysisQueue()
   const [job] = await boss.fetch<{ versionId: number }>(ANALYSIS_QUEUE, {
     includeMetadata: true,
     batchSize: 1,
+    ...(conn ? { db: executorFor(conn) } : {}),
   })
   return job ? { jobId: job.id, versionId: job.data.versionId, tryNo: job.retryCount + 1 } : null
 }

@@ -1,19 +1,18 @@
 import { randomUUID } from 'node:crypto'
 import type { AnalysisProgress } from '../../shared/schemas/analyses'
 import { config } from '../config'
-import { db } from '../db'
 import { logger } from '../logger'
 import { recordProgress, type StartedRun } from '../repositories/analysis-jobs.repo'
 import { RunLocks } from '../repositories/analysis-run-locks.repo'
 import {
   adoptVersionsWithoutJob,
-  beginRun,
+  claimNextRun,
   handBack,
   storeOutcome,
   takeBackOrphanedRuns,
   type RunOutcome,
 } from '../services/analysis-runs.service'
-import { analysisQueue, failRun, fetchRun, type QueuedRun } from './analysis-queue'
+import { analysisQueue } from './analysis-queue'
 import { AnalysisThread } from './analysis-thread'
 
 export interface AnalysisRunnerOptions {
@@ -106,19 +105,14 @@ export class AnalysisRunner {
 
   private async loop(slot: Slot): Promise<void> {
     while (!this.stopping) {
-      let found = false
+      let worked = false
       try {
-        const job = await fetchRun()
-        // A job fetched while stopping is still started, to be handed back at once (runJob).
-        if (job) {
-          found = true
-          await this.runJob(slot, job)
-        }
+        worked = await this.claimAndRun(slot)
       } catch (err) {
         if (this.stopping) break
         logger.error('analysis runner could not reach the queue', { err })
       }
-      if (!found && !this.stopping) await this.sleep(this.options.pollMs)
+      if (!worked && !this.stopping) await this.sleep(this.options.pollMs)
     }
   }
 
@@ -134,31 +128,37 @@ export class AnalysisRunner {
     })
   }
 
-  private async runJob(slot: Slot, job: QueuedRun): Promise<void> {
-    const held = await this.locks.hold(job.versionId).catch((err: unknown) => {
-      logger.error('could not take the run lock of an analysis', { versionId: job.versionId, err })
-      return false
-    })
-    if (!held) {
-      // Either a run of this version is still alive elsewhere (pg-boss expired it early) or the
-      // database is away: pg-boss tries the job again later.
-      await failRun(job.jobId, db, 'could not take the run lock').catch(() => null)
-      return
+  /** Claims the next job and runs it; false when there was nothing this slot could run. */
+  private async claimAndRun(slot: Slot): Promise<boolean> {
+    let locked: number | null = null
+    const holdLock = async (versionId: number) => {
+      const held = await this.locks.hold(versionId)
+      if (held) locked = versionId
+      return held
     }
     try {
-      const run = await beginRun(job, randomUUID())
-      if (!run) return
+      const claim = await claimNextRun(randomUUID(), holdLock)
+      if (claim.kind === 'none') return false
+      if (claim.kind === 'busy') {
+        // pg-boss expired a run that is still alive elsewhere; its job waits until that run ends.
+        logger.warn('an analysis is still running elsewhere; its job waits', { ...claim.job })
+        return false
+      }
+      if (claim.kind === 'stale') return true
+      const { job, run } = claim
+      // Claimed while stopping: straight back to the queue.
       if (this.stopping) {
         await handBack(run)
-        return
+        return true
       }
       if (job.tryNo > 1) logger.warn('running an analysis again after its process stopped', { ...job })
       const outcome = await this.execute(slot, run)
       if (outcome === 'hand-back') await handBack(run)
       else if (outcome !== 'lost' && !(await storeOutcome(run, outcome)))
         logger.warn('an analysis run was taken over elsewhere; its outcome was dropped', { ...job })
+      return true
     } finally {
-      await this.locks.release(job.versionId)
+      if (locked !== null) await this.locks.release(locked)
     }
   }
 

@@ -24,7 +24,8 @@ export class RunLocks {
         user: config.PGUSER,
         password: config.PGPASSWORD,
         database: config.PGDATABASE,
-        application_name: 'nestwise-run-locks',
+        // Names the process, so an operator (or a test) can tell whose runs these locks are.
+        application_name: `nestwise-run-locks-${process.pid}`,
         keepAlive: true,
       })
       const lost = (err: unknown) => {

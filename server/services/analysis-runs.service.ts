@@ -1,7 +1,7 @@
 import type { AnalysisRunError, ChartData } from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import { db } from '../db'
-import { completeRun, failRun, MAX_TRIES, sendRun, type QueuedRun } from '../jobs/analysis-queue'
+import { completeRun, failRun, fetchRun, MAX_TRIES, sendRun, type QueuedRun } from '../jobs/analysis-queue'
 import { logger } from '../logger'
 import {
   failRunningVersion,
@@ -31,13 +31,41 @@ export async function queueVersion(versionId: number, trx: Conn): Promise<void> 
   if (jobId) await setVersionJob(versionId, jobId, trx)
 }
 
-/** Marks the version of a fetched job running under `claimToken`; null (job completed) when it needs no run. */
-export async function beginRun(job: QueuedRun, claimToken: string): Promise<StartedRun | null> {
-  return db.transaction(async (trx) => {
-    const run = await startRun({ ...job, claimToken }, trx)
-    if (!run) await completeRun(job.jobId, trx)
-    return run
-  })
+export type Claim =
+  | { kind: 'none' }
+  /** The version's run lock is held by a live run elsewhere: the job waits for later. */
+  | { kind: 'busy'; job: QueuedRun }
+  /** The job's version needs no run (finished, or given another job): the job was completed. */
+  | { kind: 'stale'; job: QueuedRun }
+  | { kind: 'run'; job: QueuedRun; run: StartedRun }
+
+class LockBusy extends Error {}
+
+/**
+ * Takes the next job and marks its version running under `claimToken`, in one transaction, with
+ * the version's run lock taken (`holdLock`, on the runner's own connection) before it commits: a
+ * process that dies before the commit leaves the job waiting and the version queued, one that
+ * dies after it leaves a running version whose lock is free, which takeBackOrphanedRuns finds.
+ */
+export async function claimNextRun(
+  claimToken: string,
+  holdLock: (versionId: number) => Promise<boolean>,
+): Promise<Claim> {
+  try {
+    return await db.transaction(async (trx): Promise<Claim> => {
+      const job = await fetchRun(trx)
+      if (!job) return { kind: 'none' }
+      if (!(await holdLock(job.versionId))) throw new LockBusy(JSON.stringify(job))
+      const run = await startRun({ ...job, claimToken }, trx)
+      if (run) return { kind: 'run', job, run }
+      await completeRun(job.jobId, trx)
+      return { kind: 'stale', job }
+    })
+  } catch (error) {
+    // Rolled back: the job is waiting again, untouched.
+    if (error instanceof LockBusy) return { kind: 'busy', job: JSON.parse(error.message) as QueuedRun }
+    throw error
+  }
 }
 
 /** Stores what a run produced and ends its job; false when the run was no longer the version's. */

@@ -7,11 +7,11 @@ import { db } from '../../server/db'
 import { fetchRun, jobState, type QueuedRun } from '../../server/jobs/analysis-queue'
 import { startAnalysisRunner, stopAnalysisRunner } from '../../server/jobs/analysis-runner'
 import { insertAnalysis, insertAnalysisVersion } from '../../server/repositories/analyses.repo'
-import { recordProgress } from '../../server/repositories/analysis-jobs.repo'
+import { recordProgress, startRun } from '../../server/repositories/analysis-jobs.repo'
 import { RunLocks } from '../../server/repositories/analysis-run-locks.repo'
 import {
   adoptVersionsWithoutJob,
-  beginRun,
+  claimNextRun,
   queueVersion,
   storeOutcome,
   takeBackOrphanedRuns,
@@ -90,6 +90,9 @@ async function newVersion(options: { queue?: boolean; settings?: object } = {}):
   })
 }
 
+/** Starts a job fetched here (as a runner's claim does, without its lock). */
+const beginRun = (job: QueuedRun, claimToken: string) => startRun({ ...job, claimToken })
+
 const rowOf = (id: number) => db('analysis_versions').where({ id }).first()
 const failed = { kind: 'failed' as const, error: { code: 'INTERNAL' as const, message: 'done with it' } }
 
@@ -156,6 +159,35 @@ describe('the queue (pg-boss)', () => {
     expect(await jobState(row.job_id)).toBe('created')
     const job = await fetchJobOf(id)
     await storeOutcome((await beginRun(job, randomUUID()))!, failed)
+  })
+})
+
+describe('claiming the next run', () => {
+  it('holds the version’s run lock before marking it running, and leaves a version locked elsewhere waiting', async () => {
+    const id = await newVersion()
+    // Another live process holds this version's lock (as when pg-boss expired a run still going).
+    const elsewhere = new RunLocks(() => {})
+    expect(await elsewhere.hold(id)).toBe(true)
+    const here = new RunLocks(() => {})
+    try {
+      let claim = await claimNextRun(randomUUID(), (versionId) => here.hold(versionId))
+      while (claim.kind === 'stale')
+        claim = await claimNextRun(randomUUID(), (versionId) => here.hold(versionId))
+      expect(claim).toMatchObject({ kind: 'busy', job: { versionId: id, tryNo: 1 } })
+      // Rolled back: the job waits, the version is still queued.
+      expect(await jobState((await rowOf(id)).job_id)).toBe('created')
+      expect((await rowOf(id)).status).toBe('queued')
+
+      await elsewhere.release(id)
+      claim = await claimNextRun(randomUUID(), (versionId) => here.hold(versionId))
+      expect(claim).toMatchObject({ kind: 'run', job: { versionId: id, tryNo: 1 } })
+      expect((await rowOf(id)).status).toBe('running')
+      // Held: no one takes it back.
+      expect(await takeBackOrphanedRuns()).toEqual([])
+      if (claim.kind === 'run') expect(await storeOutcome(claim.run, failed)).toBe(true)
+    } finally {
+      await Promise.all([here.close(), elsewhere.close()])
+    }
   })
 })
 
