@@ -1,5 +1,5 @@
 import { spawn, type ChildProcess } from 'node:child_process'
-import { freePortSync } from '../../scripts/lib/ports'
+import { freePortSync } from './ports'
 
 /**
  * Nestwise processes as a deployment runs them (web: server/index.ts, worker: server/worker.ts),
