@@ -15,6 +15,7 @@ if (!portArg || !targets.length) {
 const agent = new Agent({ keepAlive: true, maxSockets: 256 })
 const upstreams = targets.map((t) => new URL(t))
 let next = 0
+let failures = 0
 
 const server = createServer((req, res) => {
   const target = upstreams[next++ % upstreams.length]
@@ -30,7 +31,8 @@ const server = createServer((req, res) => {
       pipeline(answer, res, () => {})
     },
   )
-  upstream.on('error', () => {
+  upstream.on('error', (err) => {
+    if (failures++ < 3) console.error(`proxy: ${target.host} failed: ${err.message}`)
     if (!res.headersSent) res.writeHead(502)
     res.end()
   })

@@ -45,6 +45,8 @@ interface Row {
   p50: number
   p99: number
   errors: number
+  /** non-2xx answers / timeouts / connection errors */
+  errorKinds: string
   loadBefore: string
   loadAfter: string
 }
@@ -82,11 +84,12 @@ async function drive(setup: string, base: string, headers: Record<string, string
     p50: result.latency.p50,
     p99: result.latency.p99,
     errors: result.errors + result.non2xx + result.timeouts,
+    errorKinds: `${result.non2xx}/${result.timeouts}/${result.errors - result.timeouts}`,
     loadBefore,
     loadAfter: load(),
   }
   console.log(
-    `[bench] ${setup}: ${Math.round(row.requestsPerSecond)} requests/s, p99 ${row.p99} ms, errors ${row.errors} (load ${row.loadBefore} → ${row.loadAfter})`,
+    `[bench] ${setup}: ${Math.round(row.requestsPerSecond)} requests/s, p99 ${row.p99} ms, errors ${row.errors} (non-2xx/timeouts/other ${row.errorKinds}) (load ${row.loadBefore} → ${row.loadAfter})`,
   )
   return row
 }
@@ -120,11 +123,11 @@ try {
   await waitFor(`http://127.0.0.1:${twoPort}/api/health/live`)
   rows.push(await drive('two web processes behind the proxy', `http://127.0.0.1:${twoPort}`, headers))
 
-  console.log('\n| set-up | requests/s | p50 | p99 | errors | load average before → after |')
+  console.log('\n| set-up | requests/s | p50 | p99 | errors (non-2xx/timeouts/other) | load average before → after |')
   console.log('|---|---|---|---|---|---|')
   for (const row of rows)
     console.log(
-      `| ${row.setup} | ${Math.round(row.requestsPerSecond).toLocaleString('en-US')} | ${row.p50} ms | ${row.p99} ms | ${row.errors} | ${row.loadBefore} → ${row.loadAfter} |`,
+      `| ${row.setup} | ${Math.round(row.requestsPerSecond).toLocaleString('en-US')} | ${row.p50} ms | ${row.p99} ms | ${row.errors} (${row.errorKinds}) | ${row.loadBefore} → ${row.loadAfter} |`,
     )
   const [direct, proxied, two] = rows
   console.log(

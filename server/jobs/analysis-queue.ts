@@ -66,7 +66,8 @@ export function analysisQueue(): Promise<PgBoss> {
       // A live run is stopped at ANALYSIS_MAX_RUN_MINUTES by its runner; this only catches a runner
       // that could not do so.
       expireInSeconds: Math.round(config.ANALYSIS_MAX_RUN_MINUTES * 60) + 300,
-      retentionMinutes: 14 * 24 * 60,
+      // How long a job may wait for a worker before pg-boss drops it: longer than any outage.
+      retentionMinutes: 365 * 24 * 60,
     }
     await boss.createQueue(ANALYSIS_QUEUE, options)
     await boss.updateQueue(ANALYSIS_QUEUE, options)
