@@ -123,7 +123,9 @@ try {
   await waitFor(`http://127.0.0.1:${twoPort}/api/health/live`)
   rows.push(await drive('two web processes behind the proxy', `http://127.0.0.1:${twoPort}`, headers))
 
-  console.log('\n| set-up | requests/s | p50 | p99 | errors (non-2xx/timeouts/other) | load average before → after |')
+  console.log(
+    '\n| set-up | requests/s | p50 | p99 | errors (non-2xx/timeouts/other) | load average before → after |',
+  )
   console.log('|---|---|---|---|---|---|')
   for (const row of rows)
     console.log(

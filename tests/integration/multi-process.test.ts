@@ -9,7 +9,13 @@ import { dropDatabase, prepareDatabase } from '../../scripts/lib/database'
 import { demoPassword } from '../../seeds/data/demo-accounts'
 import { startFakeS3, type RunningFakeS3 } from '../../server/originals/fake-s3-server'
 import { FAKE_S3_CREDENTIALS } from '../../server/originals/originals-config'
-import { startWeb, startWorker, stopProcess, waitReady, type AppProcess } from '../../scripts/lib/app-processes'
+import {
+  startWeb,
+  startWorker,
+  stopProcess,
+  waitReady,
+  type AppProcess,
+} from '../../scripts/lib/app-processes'
 import { neuriteCsv } from './analyses-support'
 
 /**
