@@ -15,6 +15,7 @@ import { requestLog } from './middleware/request-log'
 import { requireSameOriginWrites } from './middleware/same-origin'
 import { securityHeaders } from './middleware/security-headers'
 import { pingDatabase } from './repositories/health.repo'
+import { waitingRuns } from './jobs/analysis-queue'
 import { adminRoutes } from './routes/admin.routes'
 import { analysesRoutes } from './routes/analyses.routes'
 import { authRoutes } from './routes/auth.routes'
@@ -46,8 +47,10 @@ export interface AppOptions {
   allowedHosts?: string[]
   /** Reverse proxies to believe (Express "trust proxy"); defaults to TRUST_PROXY. */
   trustProxy?: TrustProxy
-  /** Database probe for the health route. */
+  /** Database probe for the health routes. */
   pingDatabase?: () => Promise<void>
+  /** Analysis-queue probe for the readiness route. */
+  pingQueue?: () => Promise<unknown>
 }
 
 function defaultClient(): string | null {
@@ -63,7 +66,9 @@ export function createApp(options: AppOptions = {}): Express {
   app.set('trust proxy', options.trustProxy ?? parseTrustProxy(config.TRUST_PROXY, https))
   app.disable('x-powered-by')
 
-  const cookie = { secure: config.NODE_ENV === 'production' && https }
+  // With an https PUBLIC_URL the session cookie is Secure: it is only ever sent over TLS (behind a
+  // proxy that ends TLS, TRUST_PROXY lets the server see that the request came in over https).
+  const cookie = { secure: https }
   const passport = createPassport()
 
   app.use(requestId())
@@ -73,7 +78,13 @@ export function createApp(options: AppOptions = {}): Express {
 
   app.use('/api', express.json({ limit: '1mb' }))
   app.use('/api', requireSameOriginWrites(options.allowedOrigins ?? [publicUrl]))
-  app.use('/api/health', healthRoutes(options.pingDatabase ?? (() => pingDatabase())))
+  app.use(
+    '/api/health',
+    healthRoutes({
+      database: options.pingDatabase ?? (() => pingDatabase()),
+      queue: options.pingQueue ?? (() => waitingRuns()),
+    }),
+  )
 
   const [sessions, touch] = sessionMiddleware(options.sessionStore ?? getSharedSessionStore(), cookie)
   app.use('/api/v1', sessions)

@@ -28,6 +28,21 @@ const ConfigSchema = z.object({
   /** Requests per minute and address on the routes open without an account (share links). */
   SHARED_RATE_LIMIT: z.coerce.number().int().positive().default(120),
   UPLOAD_MAX_MB: z.coerce.number().positive().default(250),
+  /**
+   * Analyses this process runs at once, each in a worker thread of its own. The web process
+   * (server/index.ts) runs one by default, so `npm start` needs no second process; 0 leaves
+   * analyses to worker processes (`npm run worker`, server/worker.ts), where it defaults to 1.
+   */
+  ANALYSIS_WORKERS: z.coerce.number().int().min(0).max(64).optional(),
+  /** A run longer than this is stopped and failed (not tried again). */
+  ANALYSIS_MAX_RUN_MINUTES: z.coerce
+    .number()
+    .positive()
+    .max(23 * 60)
+    .default(15),
+  /** A worker process answers liveness and readiness checks on this port (loopback unless WORKER_HEALTH_HOST). */
+  WORKER_HEALTH_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+  WORKER_HEALTH_HOST: z.string().default('127.0.0.1'),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().positive().default(2525),
   SMTP_USER: z.string().optional(),

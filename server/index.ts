@@ -2,9 +2,11 @@ import { createApp } from './app'
 import { closeSharedSessionStore } from './auth/session'
 import { config, publicUrl } from './config'
 import { db } from './db'
+import { analysisQueue, stopAnalysisQueue } from './jobs/analysis-queue'
 import { startAnalysisRunner, stopAnalysisRunner } from './jobs/analysis-runner'
 import { logger } from './logger'
 import { startMailRuntime } from './mail/mail-runtime'
+import { startOriginalsRuntime } from './originals'
 
 // Give in-flight requests this long to finish on shutdown before connections are cut.
 const SHUTDOWN_GRACE_MS = 10_000
@@ -27,8 +29,19 @@ const mail = startMailRuntime().catch((err: unknown) => {
   return undefined
 })
 
-// Queued analyses run in a worker thread of this process; other processes on the same database share the queue.
-startAnalysisRunner()
+// Originals: with ORIGINALS_STORE=s3 and no S3_ENDPOINT (development), the local fake S3 runs here.
+const originals = startOriginalsRuntime().catch((err: unknown) => {
+  logger.error('the local fake S3 could not start; uploads and downloads of originals will fail', { err })
+  return undefined
+})
+
+// Queued analyses run in worker threads of this process (one by default, so `npm start` needs no
+// second process); with ANALYSIS_WORKERS=0 only worker processes (server/worker.ts) run them.
+const analysisWorkers = config.ANALYSIS_WORKERS ?? 1
+if (analysisWorkers > 0) startAnalysisRunner({ concurrency: analysisWorkers })
+analysisQueue().catch((err: unknown) =>
+  logger.error('the analysis queue could not start yet; it is tried again on the next use', { err }),
+)
 
 let stopping = false
 async function shutdown(signal: string): Promise<void> {
@@ -42,8 +55,10 @@ async function shutdown(signal: string): Promise<void> {
   })
   clearTimeout(force)
   await (await mail)?.stop()
+  await (await originals)?.stop()
   // A run in flight goes back to the queue for the next start (or another process).
   await stopAnalysisRunner()
+  await stopAnalysisQueue()
   await Promise.allSettled([closeSharedSessionStore(), db.destroy()])
   logger.info('stopped')
   process.exit(0)

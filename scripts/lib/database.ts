@@ -30,7 +30,15 @@ export async function prepareDatabase(name: string, { fresh = false, seed = fals
     const [, applied] = await db.migrate.latest()
     if (applied.length) console.log(`[setup] ${name}: applied ${applied.length} migration(s)`)
     if (seed) {
-      await db.seed.run()
+      // The demo's uploads keep their originals like any upload: with ORIGINALS_STORE=s3 and no
+      // S3_ENDPOINT, in the local fake, which this process runs while seeding.
+      const { startOriginalsRuntime } = await import('../../server/originals')
+      const originals = await startOriginalsRuntime()
+      try {
+        await db.seed.run()
+      } finally {
+        await originals.stop()
+      }
       console.log(`[setup] ${name}: demo scenario seeded`)
     }
   } finally {

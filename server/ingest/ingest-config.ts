@@ -5,8 +5,6 @@ import { config } from '../config'
 // Ingest settings beyond server/config.ts, read from the same environment (defaults shown in docs/api-datasets.md).
 const IngestSettings = z.object({
   DATA_DIR: z.string().default('.data'),
-  /** Where original uploads are kept, content-addressed by SHA-256; one folder per database. */
-  ORIGINALS_DIR: z.string().optional(),
   INGEST_MAX_COLUMNS: z.coerce.number().int().min(2).max(1500).default(500),
   INGEST_MAX_FIELD_CHARS: z.coerce.number().int().min(100).default(10_000),
   /** Comma-separated words read as "missing" besides an empty cell. */
@@ -49,8 +47,6 @@ const workbookLimits = {
 export const ingestConfig = {
   /** Uploads in transfer: a folder per server process inside (see uploads/temp-files). */
   uploadsRoot: join(dataDir, 'uploads'),
-  // Separate databases (development, tests, e2e, benchmarks) share the data folder but never each other's files.
-  originalsDir: join(resolve(settings.ORIGINALS_DIR ?? join(dataDir, 'originals')), config.PGDATABASE),
   uploadMaxBytes,
   uploadMaxMb: config.UPLOAD_MAX_MB,
   maxColumns: settings.INGEST_MAX_COLUMNS,

@@ -1,296 +1,243 @@
 import { randomUUID } from 'node:crypto'
-import { Worker } from 'node:worker_threads'
-import { ChartData, type AnalysisProgress, type AnalysisRunError } from '../../shared/schemas/analyses'
-import { AnalysisResult } from '../../shared/schemas/analysis-result'
+import type { AnalysisProgress } from '../../shared/schemas/analyses'
+import { config } from '../config'
 import { logger } from '../logger'
+import { recordProgress, type StartedRun } from '../repositories/analysis-jobs.repo'
+import { RunLocks } from '../repositories/analysis-run-locks.repo'
 import {
-  claimNextJob,
-  failJob,
-  finishJob,
-  reclaimStaleJobs,
-  recordProgress,
-  releaseJob,
-  type ClaimedJob,
-} from '../repositories/analysis-jobs.repo'
-import type { FromWorker, ToWorker } from './analysis-messages'
+  adoptVersionsWithoutJob,
+  claimNextRun,
+  handBack,
+  storeOutcome,
+  takeBackOrphanedRuns,
+  type RunOutcome,
+} from '../services/analysis-runs.service'
+import { analysisQueue } from './analysis-queue'
+import { AnalysisThread } from './analysis-thread'
 
 export interface AnalysisRunnerOptions {
-  /** How often an idle runner looks for queued jobs (other processes may queue them). */
+  /** Analyses run at once, each in a thread of its own (ANALYSIS_WORKERS). */
+  concurrency?: number
+  /** How often an idle slot asks the queue for work (other processes queue versions too). */
   pollMs?: number
-  /** A running job whose heartbeat is older than this is taken back. */
-  leaseMs?: number
-  /** How often a running job proves it is alive (well below the lease). */
-  heartbeatMs?: number
-  /** Starts after which a job that keeps dying is failed instead of queued again. */
-  maxAttempts?: number
-  /** A run longer than this is stopped and failed. */
+  /** How often this process looks for runs whose process is gone. */
+  reapEveryMs?: number
+  /** A run longer than this is stopped and failed (ANALYSIS_MAX_RUN_MINUTES). */
   maxRunMs?: number
 }
 
-const DEFAULTS: Required<AnalysisRunnerOptions> = {
+const defaults = (): Required<AnalysisRunnerOptions> => ({
+  concurrency: 1,
   pollMs: 1000,
-  leaseMs: 30_000,
-  heartbeatMs: 5000,
-  maxAttempts: 3,
-  maxRunMs: 15 * 60_000,
+  reapEveryMs: 3000,
+  maxRunMs: config.ANALYSIS_MAX_RUN_MINUTES * 60_000,
+})
+
+/** Why a run ended without an outcome of its own. */
+type Abandon = 'hand-back' | 'lost'
+
+interface Flight {
+  run: StartedRun
+  /** Progress writes, in order. */
+  writes: Promise<unknown>
+  abandon: (why: Abandon) => void
 }
 
-const WORKER_URL = new URL('./analysis-worker-entry.mjs', import.meta.url)
-
-interface InFlight {
-  job: ClaimedJob
-  /** Database writes for this job, in order (progress, then the outcome). */
-  writes: Promise<unknown>
-  settle: () => void
-  timers: NodeJS.Timeout[]
-  /** Set once an outcome is being stored; later signals (a worker exit after a timeout) are ignored. */
-  ending: boolean
+interface Slot {
+  thread: AnalysisThread
+  flight: Flight | null
+  done: Promise<void> | null
 }
 
 /**
- * Runs queued analysis versions, one at a time per process, in a worker thread (TypeScript via
- * tsx, registered by the worker's entry file, so it works under `node --import tsx` and under
- * vitest alike). The main thread only
- * claims jobs, relays progress to the job's row, keeps the heartbeat, and stores the outcome
- * after checking it against the shared schemas. Several processes share the queue through
- * PostgreSQL (see analysis-jobs.repo); a job whose runner died is taken back after the lease.
+ * Runs queued analysis versions in this process: `concurrency` slots, each asking pg-boss for the
+ * next job and running it in its own worker thread. The main thread holds the run's lock (its
+ * proof of life, see RunLocks), relays progress to the version row, stops a run at the time limit,
+ * and stores the outcome together with the end of the job (analysis-runs.service). Every few
+ * seconds it also takes back runs whose process is gone, in any process on the same database.
  */
 export class AnalysisRunner {
   private readonly options: Required<AnalysisRunnerOptions>
-  private worker: Worker | null = null
-  private inFlight: InFlight | null = null
+  private readonly slots: Slot[]
+  private readonly locks = new RunLocks((err) => this.onLocksLost(err))
   private stopping = false
-  private woken = false
-  private wakeSleeper: (() => void) | null = null
-  private lastReclaim = 0
-  private loopDone: Promise<void> | null = null
+  private sleepers = new Set<() => void>()
+  private reaper: NodeJS.Timeout | null = null
+  private reaping = false
 
   constructor(options: AnalysisRunnerOptions = {}) {
-    this.options = { ...DEFAULTS, ...options }
+    this.options = { ...defaults(), ...options }
+    this.slots = Array.from({ length: Math.max(1, this.options.concurrency) }, () => ({
+      thread: new AnalysisThread(),
+      flight: null,
+      done: null,
+    }))
   }
 
-  /** Starts the worker thread at once (loading the engine takes seconds), then the claim loop. */
   start(): this {
-    this.ensureWorker()
-    this.loopDone ??= this.loop()
+    for (const slot of this.slots) {
+      slot.thread.warmUp()
+      slot.done ??= this.loop(slot)
+    }
+    void analysisQueue()
+      .then(() => adoptVersionsWithoutJob())
+      .catch((err: unknown) => logger.error('analysis queue could not start', { err }))
+    this.reaper = setInterval(() => void this.reap(), this.options.reapEveryMs)
+    this.reaper.unref()
     return this
   }
 
-  /** Look for work now (called after a version is queued in this process). */
+  /** Look for work now (a version was just queued in this process). */
   wake(): void {
-    this.woken = true
-    this.wakeSleeper?.()
+    for (const wakeUp of [...this.sleepers]) wakeUp()
   }
 
-  /** Stops claiming; a job in flight is handed back to the queue, not failed. */
+  /** Stops taking jobs; runs in flight go back to the queue (not counted as a try). */
   async stop(): Promise<void> {
     this.stopping = true
+    if (this.reaper) clearInterval(this.reaper)
+    for (const slot of this.slots) slot.flight?.abandon('hand-back')
     this.wake()
-    const running = this.inFlight
-    if (running) {
-      this.inFlight = null
-      running.timers.forEach(clearTimeout)
-      await this.terminateWorker()
-      await running.writes.catch(() => {})
-      await releaseJob(running.job.id, running.job.claimToken).catch((err: unknown) =>
-        logger.error('could not hand an analysis job back', { jobId: running.job.id, err }),
-      )
-      running.settle()
-    }
-    await this.loopDone
-    await this.terminateWorker()
+    await Promise.all(this.slots.map((slot) => slot.done))
+    await Promise.all(this.slots.map((slot) => slot.thread.terminate()))
+    await this.locks.close()
   }
 
-  private async loop(): Promise<void> {
+  private async loop(slot: Slot): Promise<void> {
     while (!this.stopping) {
-      this.woken = false
+      let worked = false
       try {
-        await this.reclaimIfDue()
-        const job = await claimNextJob(randomUUID())
-        if (job) {
-          await this.run(job)
-          continue
-        }
+        worked = await this.claimAndRun(slot)
       } catch (err) {
         if (this.stopping) break
         logger.error('analysis runner could not reach the queue', { err })
       }
-      if (!this.woken && !this.stopping) await this.sleep(this.options.pollMs)
+      if (!worked && !this.stopping) await this.sleep(this.options.pollMs)
     }
-  }
-
-  private async reclaimIfDue(): Promise<void> {
-    const now = Date.now()
-    if (now - this.lastReclaim < this.options.leaseMs / 2) return
-    this.lastReclaim = now
-    const reclaimed = await reclaimStaleJobs(this.options.leaseMs, this.options.maxAttempts)
-    for (const job of reclaimed)
-      logger.warn('took back an analysis job whose runner stopped', { jobId: job.id, now: job.status })
   }
 
   private sleep(ms: number): Promise<void> {
     return new Promise((resolve) => {
       const done = () => {
         clearTimeout(timer)
-        this.wakeSleeper = null
+        this.sleepers.delete(done)
         resolve()
       }
       const timer = setTimeout(done, ms)
-      this.wakeSleeper = done
+      this.sleepers.add(done)
     })
   }
 
-  private run(job: ClaimedJob): Promise<void> {
-    const worker = this.ensureWorker()
-    return new Promise<void>((resolve) => {
-      const flight: InFlight = { job, writes: Promise.resolve(), settle: resolve, timers: [], ending: false }
-      this.inFlight = flight
-      flight.timers.push(
-        setInterval(() => this.writeProgress(flight, null), this.options.heartbeatMs),
-        setTimeout(() => {
-          const minutes = Math.round(this.options.maxRunMs / 60_000)
-          void this.terminateWorker()
-          this.finish(flight, {
-            kind: 'failed',
-            error: {
-              code: 'INTERNAL',
-              message: `The analysis took longer than ${minutes} minutes and was stopped.`,
-            },
-          })
-        }, this.options.maxRunMs),
-      )
-      const message: ToWorker = {
-        type: 'run',
-        jobId: job.id,
-        input: { datasetVersionId: job.datasetVersionId, settings: job.settings, exclusions: job.exclusions },
+  /** Claims the next job and runs it; false when there was nothing this slot could run. */
+  private async claimAndRun(slot: Slot): Promise<boolean> {
+    let locked: number | null = null
+    const holdLock = async (versionId: number) => {
+      const held = await this.locks.hold(versionId)
+      if (held) locked = versionId
+      return held
+    }
+    try {
+      const claim = await claimNextRun(randomUUID(), holdLock)
+      if (claim.kind === 'none') return false
+      if (claim.kind === 'busy') {
+        // pg-boss expired a run that is still alive elsewhere; its job waits until that run ends.
+        logger.warn('an analysis is still running elsewhere; its job waits', { ...claim.job })
+        return false
       }
-      worker.postMessage(message)
-    })
-  }
-
-  private ensureWorker(): Worker {
-    if (this.worker) return this.worker
-    const worker = new Worker(WORKER_URL)
-    worker.unref()
-    worker.on('message', (message: FromWorker) => this.onMessage(message))
-    worker.on('error', (err) => logger.error('analysis worker thread failed', { err }))
-    worker.on('exit', (code) => {
-      if (this.worker === worker) this.worker = null
-      const flight = this.inFlight
-      if (flight && !this.stopping) {
-        this.finish(flight, {
-          kind: 'failed',
-          error: {
-            code: 'INTERNAL',
-            message: `The analysis stopped unexpectedly on the server (worker exit code ${code}).`,
-          },
-        })
+      if (claim.kind === 'stale') return true
+      const { job, run } = claim
+      // Claimed while stopping: straight back to the queue.
+      if (this.stopping) {
+        await handBack(run)
+        return true
       }
-    })
-    this.worker = worker
-    return worker
-  }
-
-  private async terminateWorker(): Promise<void> {
-    const worker = this.worker
-    this.worker = null
-    if (worker) await worker.terminate()
-  }
-
-  private onMessage(message: FromWorker): void {
-    if (message.type === 'ready') return
-    const flight = this.inFlight
-    if (!flight || flight.job.id !== message.jobId) return
-    if (message.type === 'progress') this.writeProgress(flight, message.progress)
-    else if (message.type === 'failed') this.finish(flight, { kind: 'failed', error: message.error })
-    else {
-      this.writeProgress(flight, { stage: 'saving', fraction: 0.97 })
-      const checked = checkOutcome(message.result, message.chart)
-      this.finish(
-        flight,
-        checked.ok
-          ? { kind: 'done', result: checked.result, chart: checked.chart, runMs: message.runMs }
-          : { kind: 'failed', error: checked.error },
-      )
+      if (job.tryNo > 1) logger.warn('running an analysis again after its process stopped', { ...job })
+      const outcome = await this.execute(slot, run)
+      if (outcome === 'hand-back') await handBack(run)
+      else if (outcome !== 'lost' && !(await storeOutcome(run, outcome)))
+        logger.warn('an analysis run was taken over elsewhere; its outcome was dropped', { ...job })
+      return true
+    } finally {
+      if (locked !== null) await this.locks.release(locked)
     }
   }
 
-  private writeProgress(flight: InFlight, progress: AnalysisProgress | null): void {
-    flight.writes = flight.writes
-      .then(() => recordProgress(flight.job.id, flight.job.claimToken, progress))
-      .then((stillOurs) => {
-        if (!stillOurs && this.inFlight === flight) {
-          // Taken back (our heartbeat lapsed) and perhaps running elsewhere: drop this attempt.
-          logger.warn('lost an analysis job to another runner; dropping this attempt', {
-            jobId: flight.job.id,
+  /** The run in the slot's thread, with its progress and time limit; or why it was abandoned. */
+  private execute(slot: Slot, run: StartedRun): Promise<RunOutcome | Abandon> {
+    return new Promise<RunOutcome | Abandon>((resolve) => {
+      let ended = false
+      const end = (result: RunOutcome | Abandon) => {
+        if (ended) return
+        ended = true
+        clearTimeout(timer)
+        slot.flight = null
+        const writes = flight.writes
+        if (typeof result === 'string') void slot.thread.terminate()
+        void writes.then(() => resolve(result))
+      }
+      const flight: Flight = { run, writes: Promise.resolve(), abandon: end }
+      slot.flight = flight
+      const timer = setTimeout(() => {
+        void slot.thread.terminate()
+        end({
+          kind: 'failed',
+          error: {
+            code: 'INTERNAL',
+            message: `The analysis took longer than ${duration(this.options.maxRunMs)} and was stopped.`,
+          },
+        })
+      }, this.options.maxRunMs)
+      const onProgress = (progress: AnalysisProgress) => {
+        flight.writes = flight.writes
+          .then(() => recordProgress(run.versionId, run.claimToken, progress))
+          .then((stillOurs) => {
+            if (!stillOurs) end('lost')
           })
-          void this.terminateWorker()
-          this.settle(flight)
-        }
-      })
-      .catch((err: unknown) =>
-        logger.error('could not record analysis progress', { jobId: flight.job.id, err }),
-      )
+          .catch((err: unknown) =>
+            logger.error('could not record analysis progress', { versionId: run.versionId, err }),
+          )
+      }
+      const input = {
+        datasetVersionId: run.datasetVersionId,
+        settings: run.settings,
+        exclusions: run.exclusions,
+      }
+      void slot.thread.run(run.versionId, input, onProgress).then(end)
+    })
   }
 
-  private finish(
-    flight: InFlight,
-    outcome:
-      | { kind: 'done'; result: AnalysisResult; chart: ChartData; runMs: number }
-      | { kind: 'failed'; error: AnalysisRunError },
-  ): void {
-    if (this.inFlight !== flight || flight.ending) return
-    flight.ending = true
-    flight.timers.forEach(clearTimeout)
-    flight.writes = flight.writes
-      .then(() =>
-        outcome.kind === 'done'
-          ? finishJob(flight.job.id, flight.job.claimToken, {
-              result: outcome.result,
-              chart: outcome.chart,
-              runMs: outcome.runMs,
-            })
-          : failJob(flight.job.id, flight.job.claimToken, outcome.error),
-      )
-      .catch((err: unknown) =>
-        logger.error('could not store the outcome of an analysis', { jobId: flight.job.id, err }),
-      )
-      .finally(() => this.settle(flight))
+  private onLocksLost(err: unknown): void {
+    const running = this.slots.filter((slot) => slot.flight)
+    if (this.stopping || !running.length) return
+    logger.error('lost the run-lock connection; abandoning runs for another process to take back', { err })
+    for (const slot of running) slot.flight?.abandon('lost')
   }
 
-  private settle(flight: InFlight): void {
-    if (this.inFlight !== flight) return
-    flight.timers.forEach(clearTimeout)
-    this.inFlight = null
-    flight.settle()
+  private async reap(): Promise<void> {
+    if (this.reaping || this.stopping) return
+    this.reaping = true
+    try {
+      const taken = await takeBackOrphanedRuns()
+      for (const run of taken)
+        logger.warn('took back an analysis run whose process stopped', { versionId: run.id, now: run.now })
+      const adopted = await adoptVersionsWithoutJob()
+      if (adopted || taken.some((run) => run.now === 'queued')) this.wake()
+    } catch (err) {
+      logger.warn('could not look for orphaned analysis runs', { err })
+    } finally {
+      this.reaping = false
+    }
   }
 }
 
-type Checked = { ok: true; result: AnalysisResult; chart: ChartData } | { ok: false; error: AnalysisRunError }
-
-/** Stores only what the shared schemas accept, so the client can always parse a stored result. */
-function checkOutcome(result: unknown, chart: unknown): Checked {
-  const r = AnalysisResult.safeParse(result)
-  const c = ChartData.safeParse(chart)
-  if (r.success && c.success) return { ok: true, result: r.data, chart: c.data }
-  logger.error('analysis outcome does not match its schema', {
-    issues: [...(r.error?.issues ?? []), ...(c.error?.issues ?? [])].slice(0, 5),
-  })
-  return {
-    ok: false,
-    error: {
-      code: 'INTERNAL',
-      message:
-        'The analysis produced a result the server could not store. The details are in the server log.',
-    },
-  }
-}
+const duration = (ms: number) =>
+  ms >= 60_000 ? `${+(ms / 60_000).toFixed(1)} minutes` : `${+(ms / 1000).toFixed(2)} seconds`
 
 // ---------------------------------------------------------------- the process-wide runner
 
 let runner: AnalysisRunner | null = null
 
-/** Starts this process's runner (server/index.ts; integration tests with short timings). */
+/** Starts this process's runner (server/index.ts, server/worker.ts; tests with short timings). */
 export function startAnalysisRunner(options: AnalysisRunnerOptions = {}): AnalysisRunner {
   runner ??= new AnalysisRunner(options).start()
   return runner
@@ -306,3 +253,5 @@ export async function stopAnalysisRunner(): Promise<void> {
 export function wakeAnalysisRunner(): void {
   runner?.wake()
 }
+
+export const analysisRunnerRunning = (): boolean => runner !== null

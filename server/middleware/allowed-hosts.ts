@@ -15,13 +15,13 @@ export function hostName(header: string | undefined): string {
  * server (DNS rebinding: their page, our server, their origin) would otherwise be served as if it
  * were the app's own, and the same-origin check takes the Host as one of our origins. An address
  * (127.0.0.1, a LAN IP) cannot be such a name, so requests addressed by IP pass; names must be
- * listed: PUBLIC_URL's, HOST, localhost and ALLOWED_HOSTS. The health route answers every name,
+ * listed: PUBLIC_URL's, HOST, localhost and ALLOWED_HOSTS. The health routes answer every name,
  * for load balancers that probe by an internal one.
  */
 export function allowedHosts(names: readonly string[]): RequestHandler {
   const allowed = new Set(names.map((n) => n.trim().toLowerCase()).filter(Boolean))
   return (req, _res, next) => {
-    if (req.path === '/api/health') return next()
+    if (req.path === '/api/health' || req.path.startsWith('/api/health/')) return next()
     const name = hostName(req.get('host'))
     if (name && (isIP(name) !== 0 || allowed.has(name))) return next()
     throw new MisdirectedRequestError(

@@ -9,155 +9,170 @@ import type { RecordedExclusion } from './analyses.repo'
 import { defaultConn, type Conn } from './connection'
 
 /**
- * The analysis job queue: queued analysis_versions rows. Several server processes may run
- * runners against the same database; `FOR UPDATE SKIP LOCKED` hands each queued row to exactly
- * one of them, and every later write names the claim token, so a runner whose job was taken
- * back (lease expired) cannot overwrite the new attempt.
+ * What a run writes on its analysis version: the queue itself is pg-boss (jobs/analysis-queue.ts),
+ * the row holds what people see. A run names itself with a claim token when it starts; every later
+ * write names it too, so a run whose process was given up on (and whose job runs elsewhere now)
+ * cannot overwrite the newer run.
  */
 
-export interface ClaimedJob {
-  id: number
+export interface StartedRun {
+  versionId: number
+  jobId: string
   claimToken: string
-  attempts: number
   datasetVersionId: number
   settings: AnalysisSettings
   exclusions: RecordedExclusion[]
 }
 
-export async function claimNextJob(claimToken: string, conn: Conn = defaultConn): Promise<ClaimedJob | null> {
-  const { rows } = await conn.raw(
-    `UPDATE analysis_versions
-        SET status = 'running', claim_token = :claimToken, heartbeat_at = now(), attempts = attempts + 1,
-            started_at = now(), progress = :progress::jsonb
-      WHERE id = (SELECT id FROM analysis_versions WHERE status = 'queued'
-                   ORDER BY created_at, id FOR UPDATE SKIP LOCKED LIMIT 1)
-  RETURNING id, attempts, dataset_version_id, settings, exclusions`,
-    { claimToken, progress: JSON.stringify({ stage: 'reading', fraction: 0 }) },
-  )
-  const row = rows[0] as
-    | {
-        id: number
-        attempts: number
-        dataset_version_id: number
-        settings: unknown
-        exclusions: RecordedExclusion[]
-      }
-    | undefined
-  return row
-    ? {
-        id: row.id,
-        claimToken,
-        attempts: row.attempts,
-        datasetVersionId: row.dataset_version_id,
-        // A version queued before an upgrade may hold engine 0.1 settings: read in today's shape.
-        settings: AnalysisSettings.parse(row.settings),
-        exclusions: row.exclusions,
-      }
-    : null
+const QUEUED = JSON.stringify({ stage: 'queued', fraction: 0 })
+
+/** Names the pg-boss job of a version (in the transaction that queued it). */
+export async function setVersionJob(versionId: number, jobId: string, conn: Conn): Promise<void> {
+  await conn('analysis_versions').where({ id: versionId }).update({ job_id: jobId })
 }
 
-/** Progress and heartbeat in one write; false when the job is no longer ours. */
+/**
+ * Marks a version running under `claimToken`, when `jobId` is still its job and it is not finished;
+ * null otherwise (the job is stale and only needs completing).
+ */
+export async function startRun(
+  run: { versionId: number; jobId: string; claimToken: string; tryNo: number },
+  conn: Conn = defaultConn,
+): Promise<StartedRun | null> {
+  const [row] = (await conn('analysis_versions')
+    .where({ id: run.versionId, job_id: run.jobId })
+    .whereIn('status', ['queued', 'running'])
+    .update({
+      status: 'running',
+      claim_token: run.claimToken,
+      attempts: run.tryNo,
+      started_at: conn.fn.now(),
+      progress: JSON.stringify({ stage: 'reading', fraction: 0 }),
+    })
+    .returning(['dataset_version_id', 'settings', 'exclusions'])) as {
+    dataset_version_id: number
+    settings: unknown
+    exclusions: RecordedExclusion[]
+  }[]
+  if (!row) return null
+  return {
+    versionId: run.versionId,
+    jobId: run.jobId,
+    claimToken: run.claimToken,
+    datasetVersionId: row.dataset_version_id,
+    // A version queued before an upgrade may hold engine 0.1 settings: read in today's shape.
+    settings: AnalysisSettings.parse(row.settings),
+    exclusions: row.exclusions,
+  }
+}
+
+const ours = (conn: Conn, id: number, claimToken: string) =>
+  conn('analysis_versions').where({ id, claim_token: claimToken, status: 'running' })
+
+/** Progress of a running version; false when the run is no longer ours. */
 export async function recordProgress(
   id: number,
   claimToken: string,
-  progress: AnalysisProgress | null,
+  progress: AnalysisProgress,
   conn: Conn = defaultConn,
 ): Promise<boolean> {
-  const changes: Record<string, unknown> = { heartbeat_at: conn.fn.now() }
-  if (progress) changes.progress = JSON.stringify(progress)
-  const count = await conn('analysis_versions')
-    .where({ id, claim_token: claimToken, status: 'running' })
-    .update(changes)
-  return count === 1
+  return (await ours(conn, id, claimToken).update({ progress: JSON.stringify(progress) })) === 1
 }
 
-export async function finishJob(
+export async function finishRun(
   id: number,
   claimToken: string,
   done: { result: AnalysisResult; chart: ChartData; runMs: number },
   conn: Conn = defaultConn,
 ): Promise<boolean> {
-  const count = await conn('analysis_versions')
-    .where({ id, claim_token: claimToken, status: 'running' })
-    .update({
-      status: 'done',
-      result: JSON.stringify(done.result),
-      chart: JSON.stringify(done.chart),
-      run_ms: done.runMs,
-      progress: JSON.stringify({ stage: 'done', fraction: 1 }),
-      claim_token: null,
-      finished_at: conn.fn.now(),
-    })
+  const count = await ours(conn, id, claimToken).update({
+    status: 'done',
+    result: JSON.stringify(done.result),
+    chart: JSON.stringify(done.chart),
+    run_ms: done.runMs,
+    progress: JSON.stringify({ stage: 'done', fraction: 1 }),
+    claim_token: null,
+    finished_at: conn.fn.now(),
+  })
   return count === 1
 }
 
-export async function failJob(
+/** Fails a running version; with `claimToken` null, whoever holds it (the run's process is gone). */
+export async function failRunningVersion(
   id: number,
-  claimToken: string,
+  claimToken: string | null,
   error: AnalysisRunError,
   conn: Conn = defaultConn,
 ): Promise<boolean> {
-  const count = await conn('analysis_versions')
-    .where({ id, claim_token: claimToken, status: 'running' })
-    .update({
-      status: 'failed',
-      error: JSON.stringify(error),
-      progress: JSON.stringify({ stage: 'failed', fraction: 1 }),
-      claim_token: null,
-      finished_at: conn.fn.now(),
-    })
+  const query = conn('analysis_versions').where({ id, status: 'running' })
+  if (claimToken !== null) query.where({ claim_token: claimToken })
+  const count = await query.update({
+    status: 'failed',
+    error: JSON.stringify(error),
+    progress: JSON.stringify({ stage: 'failed', fraction: 1 }),
+    claim_token: null,
+    finished_at: conn.fn.now(),
+  })
   return count === 1
-}
-
-/** Hands a job back untouched (the runner is stopping); the attempt does not count. */
-export async function releaseJob(id: number, claimToken: string, conn: Conn = defaultConn): Promise<boolean> {
-  const count = await conn('analysis_versions')
-    .where({ id, claim_token: claimToken, status: 'running' })
-    .update({
-      status: 'queued',
-      claim_token: null,
-      heartbeat_at: null,
-      started_at: null,
-      attempts: conn.raw('greatest(attempts - 1, 0)'),
-      progress: JSON.stringify({ stage: 'queued', fraction: 0 }),
-    })
-  return count === 1
-}
-
-export interface ReclaimedJob {
-  id: number
-  status: 'queued' | 'failed'
 }
 
 /**
- * Running jobs whose heartbeat is older than the lease belonged to a runner that died (a crash,
- * a kill, a lost connection): back to the queue, or failed once they have been started
- * `maxAttempts` times (a job that keeps killing its process must not loop forever).
+ * Puts a version back in the queue under `jobId` (its new or retried job); with `claimToken` null,
+ * whoever held it. The attempt count stays: the next start sets it from the job.
  */
-export async function reclaimStaleJobs(
-  leaseMs: number,
-  maxAttempts: number,
+export async function requeueVersion(
+  id: number,
+  change: { claimToken: string | null; jobId: string },
   conn: Conn = defaultConn,
-): Promise<ReclaimedJob[]> {
-  const gaveUp: AnalysisRunError = {
-    code: 'INTERNAL',
-    message: `The server stopped while running this analysis ${maxAttempts} times, so it was not tried again. Create a new version to retry.`,
-  }
-  const { rows } = await conn.raw(
-    `UPDATE analysis_versions
-        SET status = CASE WHEN attempts >= :maxAttempts THEN 'failed' ELSE 'queued' END,
-            error = CASE WHEN attempts >= :maxAttempts THEN :gaveUp::jsonb ELSE NULL END,
-            progress = CASE WHEN attempts >= :maxAttempts THEN '{"stage":"failed","fraction":1}'::jsonb
-                            ELSE '{"stage":"queued","fraction":0}'::jsonb END,
-            finished_at = CASE WHEN attempts >= :maxAttempts THEN now() ELSE NULL END,
-            started_at = CASE WHEN attempts >= :maxAttempts THEN started_at ELSE NULL END,
-            claim_token = NULL,
-            heartbeat_at = NULL
-      WHERE id IN (SELECT id FROM analysis_versions
-                    WHERE status = 'running' AND heartbeat_at < now() - make_interval(secs => :leaseSeconds)
-                    FOR UPDATE SKIP LOCKED)
-  RETURNING id, status`,
-    { maxAttempts, gaveUp: JSON.stringify(gaveUp), leaseSeconds: leaseMs / 1000 },
-  )
-  return rows as ReclaimedJob[]
+): Promise<boolean> {
+  const query = conn('analysis_versions').where({ id }).whereIn('status', ['queued', 'running'])
+  if (change.claimToken !== null) query.where({ claim_token: change.claimToken })
+  const count = await query.update({
+    status: 'queued',
+    job_id: change.jobId,
+    claim_token: null,
+    started_at: null,
+    progress: QUEUED,
+  })
+  return count === 1
 }
+
+/** Unfinished versions without a pg-boss job (queued before the move to pg-boss), locked for `conn`'s transaction. */
+export async function lockVersionsWithoutJob(conn: Conn): Promise<number[]> {
+  const rows: { id: number }[] = await conn('analysis_versions')
+    .whereIn('status', ['queued', 'running'])
+    .whereNull('job_id')
+    .orderBy('id')
+    .forUpdate()
+    .skipLocked()
+    .select('id')
+  return rows.map((r) => r.id)
+}
+
+export interface OrphanedRun {
+  id: number
+  jobId: string
+}
+
+/**
+ * Running versions whose run lock nobody holds: the process running them is gone (killed, crashed,
+ * cut off from the database), since a live run holds its lock from before it marks the row running
+ * until after it stores the outcome (analysis-run-locks.repo). Must run in a transaction: the
+ * probe takes each free lock for the transaction only, so it is released again at its end.
+ */
+export async function lockOrphanedRuns(trx: Conn): Promise<OrphanedRun[]> {
+  const { rows } = await trx.raw(
+    `WITH running AS MATERIALIZED (
+       SELECT id, job_id FROM analysis_versions
+        WHERE status = 'running' AND job_id IS NOT NULL
+        ORDER BY id
+          FOR UPDATE SKIP LOCKED)
+     SELECT id, job_id FROM running
+      WHERE pg_try_advisory_xact_lock(hashtext(:namespace), id::int)`,
+    { namespace: RUN_LOCK_NAMESPACE },
+  )
+  return (rows as { id: number; job_id: string }[]).map((r) => ({ id: r.id, jobId: r.job_id }))
+}
+
+/** The advisory-lock namespace of analysis runs (the second key is the version id). */
+export const RUN_LOCK_NAMESPACE = 'nestwise-analysis-run'

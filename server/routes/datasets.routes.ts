@@ -13,7 +13,8 @@ import {
   VersionUploadFields,
 } from '../../shared/schemas/datasets'
 import { NotFoundError } from '../errors/app-error'
-import { originalPath } from '../ingest/original-store'
+import { pipeline } from 'node:stream/promises'
+import { originalStore } from '../originals'
 import { logger } from '../logger'
 import { requireUser } from '../middleware/auth'
 import { validate } from '../middleware/validate'
@@ -205,16 +206,14 @@ export function datasetsRoutes(): Router {
     validate({ params: VersionParams }),
     async (req, res) => {
       const found = await originalOf(...version(req))
-      await new Promise<void>((resolve, reject) => {
-        res.download(originalPath(found.sha256), found.originalFilename, { dotfiles: 'allow' }, (err) => {
-          if (!err) return resolve()
-          if (res.headersSent) return resolve()
-          reject(
-            (err as NodeJS.ErrnoException).code === 'ENOENT'
-              ? new NotFoundError('The original file of this version is missing from the store.')
-              : err,
-          )
-        })
+      const original = await originalStore().open(found.sha256)
+      if (!original) throw new NotFoundError('The original file of this version is missing from the store.')
+      res.attachment(found.originalFilename)
+      res.setHeader('Content-Length', String(original.size))
+      // Streamed from the store (disk or S3) to the client, never held in memory whole.
+      await pipeline(original.stream, res).catch((err: unknown) => {
+        if (!res.headersSent) throw err
+        logger.warn('an original download was cut off', { requestId: req.id, err })
       })
     },
   )

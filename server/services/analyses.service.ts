@@ -34,6 +34,7 @@ import type { Conn } from '../repositories/connection'
 import { activeExclusions, currentTagging } from '../repositories/datasets-annotations.repo'
 import { findVersion, listColumns, listVersions, type VersionRecord } from '../repositories/datasets.repo'
 import { recordAudit } from './audit.service'
+import { queueVersion } from './analysis-runs.service'
 import { checkSettingsAgainstRows } from './analysis-design-checks.service'
 import {
   checkSettingsAgainstColumns,
@@ -231,7 +232,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
       },
       trx,
     )
-    await insertAnalysisVersion(
+    const versionId = await insertAnalysisVersion(
       {
         analysisId: id,
         versionNo: 1,
@@ -244,6 +245,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
       },
       trx,
     )
+    await queueVersion(versionId, trx)
     await recordAudit(trx, {
       action: 'analysis.created',
       labId: dataset.labId,
@@ -294,7 +296,7 @@ export async function createAnalysisVersionFor(
         { versionNo: latest.versionNo },
       )
     }
-    await insertAnalysisVersion(
+    const versionId = await insertAnalysisVersion(
       {
         analysisId,
         versionNo: next,
@@ -307,6 +309,7 @@ export async function createAnalysisVersionFor(
       },
       trx,
     )
+    await queueVersion(versionId, trx)
     await recordAudit(trx, {
       action: 'analysis.version_created',
       labId: analysis.labId,

@@ -7,7 +7,8 @@ import { db } from '../db'
 import { NotFoundError } from '../errors/app-error'
 import { ingestConfig } from '../ingest/ingest-config'
 import { ingestFile, type UploadedFile } from '../ingest/ingest-file'
-import { discardOriginal, holdHash, keepOriginal, staleFiles } from '../ingest/original-store'
+import { originalStore } from '../originals'
+import { SHA256_NAME } from '../originals/original-store'
 import { sweepTempUploads } from '../uploads/temp-files'
 import type { IntakeResult } from '../ingest/table-intake'
 import { noProgress, type ProgressSink } from '../ingest/progress-sink'
@@ -22,7 +23,6 @@ import {
 } from '../rows-store/rows-tables'
 import {
   completeVersion,
-  countVersionsWithSha,
   deleteVersions,
   insertColumns,
   insertDataset,
@@ -42,7 +42,6 @@ import { getDatasetDetail, getVersionDetail } from './datasets.service'
 interface StoredVersion {
   versionId: number
   sha256: string
-  createdOriginal: boolean
 }
 
 interface StoreVersionInput {
@@ -53,8 +52,6 @@ interface StoreVersionInput {
   /** Sheet of a workbook (name or 1-based number); the first when not given. */
   sheet?: string
   progress: ProgressSink
-  /** Told when the original file has been moved into the store (see inUploadTransaction). */
-  onOriginalKept: (sha256: string, created: boolean) => void
 }
 
 /**
@@ -103,11 +100,13 @@ async function storeVersion(trx: Knex.Transaction, input: StoreVersionInput): Pr
   )
   await freezeRowsTable(trx, versionId)
   if (versionNo > 1) await carryOverTagging(trx, datasetId, versionNo, versionId, outcome.intake, userId)
-  const created = await keepOriginal(file.path, outcome.sha256)
-  input.onOriginalKept(outcome.sha256, created)
+  // Last, so nothing after it can fail the transaction but the commit itself. An original whose
+  // transaction then fails anyway is left to the start-up sweep: another process may be storing
+  // a version of the same bytes right now, which a removal here could not know about.
+  await originalStore().keep(file.path, outcome.sha256)
   if (outcome.fallbackReason)
     logger.info('dataset stored from parsed rows', { versionId, reason: outcome.fallbackReason })
-  return { versionId, sha256: outcome.sha256, createdOriginal: created }
+  return { versionId, sha256: outcome.sha256 }
 }
 
 async function carryOverTagging(
@@ -143,40 +142,11 @@ async function carryOverTagging(
   )
 }
 
-/**
- * Runs `work` in one transaction. If it fails after the original was moved into the store, the
- * stored file goes too unless a committed version refers to the same bytes.
- */
 /** Builds the row_no index of a committed version without holding up the response. */
 function indexLater(versionId: number): void {
   indexRowsTable(versionId).catch((err) =>
     logger.warn('could not index a rows table (previews stay correct, only slower)', { versionId, err }),
   )
-}
-
-async function inUploadTransaction<T>(
-  work: (trx: Knex.Transaction, onOriginalKept: (sha: string, created: boolean) => void) => Promise<T>,
-): Promise<T> {
-  let kept: { sha256: string; created: boolean } | null = null
-  let release: (() => void) | null = null
-  try {
-    return await db.transaction((trx) =>
-      work(trx, (sha256, created) => {
-        kept = { sha256, created }
-        release = holdHash(sha256)
-      }),
-    )
-  } catch (error) {
-    const stored = kept as { sha256: string; created: boolean } | null
-    if (stored?.created) {
-      ;(release as (() => void) | null)?.()
-      release = null
-      if ((await countVersionsWithSha(stored.sha256)) === 0) await discardOriginal(stored.sha256)
-    }
-    throw error
-  } finally {
-    ;(release as (() => void) | null)?.()
-  }
 }
 
 function defaultName(originalName: string): string {
@@ -196,7 +166,7 @@ export async function createDatasetFromUpload(
     const project = await findProject(fields.projectId)
     if (!project || project.labId !== fields.labId) throw new NotFoundError('Project not found in this lab.')
   }
-  const { datasetId, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
+  const { datasetId, versionId } = await db.transaction(async (trx) => {
     const projectId =
       fields.projectId ??
       (await findOrInsertProject({ labId: fields.labId, name: fields.projectName!, createdBy: user.id }, trx))
@@ -217,7 +187,6 @@ export async function createDatasetFromUpload(
       file,
       sheet: fields.sheet,
       progress,
-      onOriginalKept,
     })
     await recordAudit(trx, {
       actorUserId: user.id,
@@ -242,7 +211,7 @@ export async function addVersionFromUpload(
   progress: ProgressSink,
 ): Promise<DatasetVersionDetail> {
   const dataset = await writable(user, 'dataset', datasetId)
-  const { versionNo, versionId } = await inUploadTransaction(async (trx, onOriginalKept) => {
+  const { versionNo, versionId } = await db.transaction(async (trx) => {
     const next = await lockDatasetForNewVersion(datasetId, trx)
     const stored = await storeVersion(trx, {
       datasetId,
@@ -251,7 +220,6 @@ export async function addVersionFromUpload(
       file,
       sheet,
       progress,
-      onOriginalKept,
     })
     await touchDataset(datasetId, trx)
     await recordAudit(trx, {
@@ -304,7 +272,6 @@ export async function storeSeedDataset(knex: Knex, input: SeedDatasetInput): Pro
       userId: input.userId,
       file: input.file,
       progress: noProgress,
-      onOriginalKept: () => {},
     })
     if (input.tagging)
       await insertTagging(
@@ -349,10 +316,13 @@ export async function sweepDatasetLeftovers(): Promise<{
     )
   }
   const temp = await sweepTempUploads(ingestConfig.uploadsRoot)
+  const store = originalStore()
+  const stale = await store.staleHashes(HOUR_MS)
+  // Read after the listing, so a version committed in between still protects its original. (An
+  // upload that refreshes a listed copy and commits during these few statements is not covered:
+  // the sweep runs once per process start, and such a coincidence only costs that one original.)
   const hashes = await listVersionHashes()
-  const unreferenced = (await staleFiles(ingestConfig.originalsDir, HOUR_MS)).filter(
-    (name) => /^[0-9a-f]{64}$/.test(name) && !hashes.has(name),
-  )
-  for (const name of unreferenced) await discardOriginal(name)
+  const unreferenced = stale.filter((name) => SHA256_NAME.test(name) && !hashes.has(name))
+  for (const name of unreferenced) await store.discard(name)
   return { versions, tables, tempFiles: temp.folders + temp.files, originals: unreferenced.length }
 }

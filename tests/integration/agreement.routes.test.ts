@@ -13,7 +13,7 @@ import { getAs, postAs, signedInTeam } from './datasets-support'
 const app = createTestApp()
 
 beforeAll(() => {
-  startAnalysisRunner({ pollMs: 100, leaseMs: 2000, heartbeatMs: 300 })
+  startAnalysisRunner({ pollMs: 100, reapEveryMs: 500 })
 })
 
 afterAll(async () => {

@@ -26,7 +26,7 @@ const LEVELS = ['lab', 'mouse', 'coverslip']
 /** Engine 0.1 fits one factor and no covariate; 0.2 fits two factors and covariates. */
 
 beforeAll(async () => {
-  startAnalysisRunner({ pollMs: 100, leaseMs: 2000, heartbeatMs: 300 })
+  startAnalysisRunner({ pollMs: 100, reapEveryMs: 500 })
   team = await signedInTeam(app)
   dataset = await taggedDataset(
     app,

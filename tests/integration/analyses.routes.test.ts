@@ -22,7 +22,7 @@ let outsider: Awaited<ReturnType<typeof signedInTeam>>
 let dataset: Awaited<ReturnType<typeof taggedDataset>>
 
 beforeAll(async () => {
-  startAnalysisRunner({ pollMs: 100, leaseMs: 2000, heartbeatMs: 300 })
+  startAnalysisRunner({ pollMs: 100, reapEveryMs: 500 })
   ;[team, outsider] = await Promise.all([signedInTeam(app), signedInTeam(app)])
   dataset = await taggedDataset(app, team.cookies.scientist, team.lab.id, neuriteCsv({ seed: 'routes-main' }))
 })

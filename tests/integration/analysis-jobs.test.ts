@@ -4,15 +4,18 @@ import { AnalysisSettings } from '../../shared/schemas/analyses'
 import { ENGINE_VERSION } from '../../shared/stats/engine-version'
 import { computeAnalysis } from '../../server/analysis/compute-analysis'
 import { db } from '../../server/db'
+import { fetchRun, jobState, type QueuedRun } from '../../server/jobs/analysis-queue'
 import { startAnalysisRunner, stopAnalysisRunner } from '../../server/jobs/analysis-runner'
 import { insertAnalysis, insertAnalysisVersion } from '../../server/repositories/analyses.repo'
+import { recordProgress, startRun } from '../../server/repositories/analysis-jobs.repo'
+import { RunLocks } from '../../server/repositories/analysis-run-locks.repo'
 import {
-  claimNextJob,
-  failJob,
-  finishJob,
-  reclaimStaleJobs,
-  recordProgress,
-} from '../../server/repositories/analysis-jobs.repo'
+  adoptVersionsWithoutJob,
+  claimNextRun,
+  queueVersion,
+  storeOutcome,
+  takeBackOrphanedRuns,
+} from '../../server/services/analysis-runs.service'
 import { closeConnections, createTestApp } from '../support/api'
 import { neuriteCsv, taggedDataset } from './analyses-support'
 import { signedInTeam } from './datasets-support'
@@ -25,13 +28,30 @@ const settings = AnalysisSettings.parse({
   conditions: ['treatment'],
   levels: ['mouse'],
 })
+const slowSettings = { ...settings, bootstrap: { enabled: true, resamples: 10_000, seed: 'slow' } }
+
+/** Jobs fetched while looking for another version's, kept for when that one is asked for. */
+const fetchedEarlier = new Map<number, QueuedRun>()
+
+/** Fetches waiting jobs (a runner of another test file may have left some) until `versionId`'s. */
+async function fetchJobOf(versionId: number): Promise<QueuedRun> {
+  const earlier = fetchedEarlier.get(versionId)
+  if (earlier && fetchedEarlier.delete(versionId)) return earlier
+  for (let i = 0; i < 50; i++) {
+    const job = await fetchRun()
+    if (job?.versionId === versionId) return job
+    if (job) fetchedEarlier.set(job.versionId, job)
+    else await new Promise((resolve) => setTimeout(resolve, 50))
+  }
+  throw new Error(`no job for version ${versionId}`)
+}
 
 beforeAll(async () => {
   team = await signedInTeam(app)
   const uploaded = await taggedDataset(app, team.cookies.scientist, team.lab.id, neuriteCsv({ seed: 'jobs' }))
   const { project_id } = await db('datasets').where({ id: uploaded.id }).first('project_id')
   dataset = { ...uploaded, projectId: project_id }
-  // Earlier test files may have left queued jobs behind; run them out of the way first.
+  // Earlier test files may have left versions waiting; fail them out of the way first.
   await db('analysis_versions')
     .whereIn('status', ['queued', 'running'])
     .update({ status: 'failed', error: JSON.stringify({ code: 'INTERNAL', message: 'cleared by a test' }) })
@@ -42,8 +62,8 @@ afterAll(async () => {
   await closeConnections()
 })
 
-/** A queued version of a new analysis, written straight to the tables (no runner is running yet). */
-async function queuedVersion(extra: Record<string, unknown> = {}): Promise<number> {
+/** A version of a new analysis, written straight to the tables; queued (with its job) unless told. */
+async function newVersion(options: { queue?: boolean; settings?: object } = {}): Promise<number> {
   const analysisId = await insertAnalysis({
     labId: team.lab.id,
     projectId: dataset.projectId,
@@ -51,88 +71,152 @@ async function queuedVersion(extra: Record<string, unknown> = {}): Promise<numbe
     name: `job ${randomUUID()}`,
     createdBy: team.scientist.id,
   })
-  const id = await insertAnalysisVersion({
-    analysisId,
-    versionNo: 1,
-    datasetVersionId: dataset.latestVersion.id,
-    datasetSha256: dataset.latestVersion.sha256,
-    settings,
-    exclusions: [],
-    engineVersion: ENGINE_VERSION,
-    createdBy: team.scientist.id,
+  return db.transaction(async (trx) => {
+    const id = await insertAnalysisVersion(
+      {
+        analysisId,
+        versionNo: 1,
+        datasetVersionId: dataset.latestVersion.id,
+        datasetSha256: dataset.latestVersion.sha256,
+        settings: (options.settings ?? settings) as AnalysisSettings,
+        exclusions: [],
+        engineVersion: ENGINE_VERSION,
+        createdBy: team.scientist.id,
+      },
+      trx,
+    )
+    if (options.queue ?? true) await queueVersion(id, trx)
+    return id
   })
-  if (Object.keys(extra).length) await db('analysis_versions').where({ id }).update(extra)
-  return id
 }
 
-const rowOf = (id: number) => db('analysis_versions').where({ id }).first()
+/** Starts a job fetched here (as a runner's claim does, without its lock). */
+const beginRun = (job: QueuedRun, claimToken: string) => startRun({ ...job, claimToken })
 
-describe('the job queue', () => {
-  it('gives each queued job to exactly one of several concurrent claimers (FOR UPDATE SKIP LOCKED)', async () => {
-    const ids = await Promise.all([1, 2, 3, 4].map(() => queuedVersion()))
-    const claims = await Promise.all(Array.from({ length: 6 }, () => claimNextJob(randomUUID())))
-    const claimed = claims.filter((c) => c !== null).map((c) => c!.id)
-    expect(claimed.sort()).toEqual([...ids].sort())
-    expect(new Set(claimed).size).toBe(claimed.length)
-    for (const claim of claims.filter((c) => c !== null)) {
-      expect(claim!).toMatchObject({ attempts: 1, datasetVersionId: dataset.latestVersion.id, settings })
-      expect(await rowOf(claim!.id)).toMatchObject({ status: 'running', claim_token: claim!.claimToken })
-      await failJob(claim!.id, claim!.claimToken, { code: 'INTERNAL', message: 'done with it' })
+const rowOf = (id: number) => db('analysis_versions').where({ id }).first()
+const failed = { kind: 'failed' as const, error: { code: 'INTERNAL' as const, message: 'done with it' } }
+
+async function waitFor(check: () => Promise<boolean>, what: string, ms = 60_000): Promise<void> {
+  const deadline = Date.now() + ms
+  while (!(await check())) {
+    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`)
+    await new Promise((resolve) => setTimeout(resolve, 50))
+  }
+}
+
+describe('the queue (pg-boss)', () => {
+  it('gives each version one job, and each job to exactly one of several fetchers', async () => {
+    const ids = await Promise.all([1, 2, 3, 4].map(() => newVersion()))
+    const jobIds = await Promise.all(ids.map(async (id) => (await rowOf(id)).job_id))
+    expect(jobIds.every((id) => typeof id === 'string')).toBe(true)
+    // A second job for a waiting version is refused (one per version).
+    await db.transaction((trx) => queueVersion(ids[0], trx))
+    expect((await rowOf(ids[0])).job_id).toBe(jobIds[0])
+    expect(await jobState(jobIds[0])).toBe('created')
+
+    const fetched = (await Promise.all(Array.from({ length: 6 }, () => fetchRun()))).filter((j) => j !== null)
+    expect(fetched.map((j) => j.versionId).sort()).toEqual([...ids].sort())
+    expect(new Set(fetched.map((j) => j.jobId)).size).toBe(4)
+    for (const job of fetched) {
+      expect(job.tryNo).toBe(1)
+      const run = (await beginRun(job, randomUUID()))!
+      expect(run).toMatchObject({
+        versionId: job.versionId,
+        datasetVersionId: dataset.latestVersion.id,
+        settings,
+      })
+      expect(await rowOf(job.versionId)).toMatchObject({ status: 'running', attempts: 1 })
+      expect(await storeOutcome(run, failed)).toBe(true)
+      expect(await jobState(job.jobId)).toBe('completed')
     }
   })
 
-  it('ignores writes from a runner whose claim was taken back', async () => {
-    const id = await queuedVersion()
-    const claim = (await claimNextJob(randomUUID()))!
-    expect(claim.id).toBe(id)
-    expect(await recordProgress(id, claim.claimToken, { stage: 'fitting', fraction: 0.5 })).toBe(true)
-    expect(await recordProgress(id, randomUUID(), { stage: 'charts', fraction: 0.9 })).toBe(false)
-    expect((await rowOf(id)).progress).toEqual({ stage: 'fitting', fraction: 0.5 })
-    await db('analysis_versions')
-      .where({ id })
-      .update({ heartbeat_at: db.raw(`now() - interval '1 hour'`) })
-    expect(await reclaimStaleJobs(60_000, 3)).toEqual([{ id, status: 'queued' }])
-    expect(await rowOf(id)).toMatchObject({
-      status: 'queued',
-      claim_token: null,
-      progress: { stage: 'queued', fraction: 0 },
-      attempts: 1,
-    })
+  it('ignores writes from a run that is no longer the version’s', async () => {
+    const id = await newVersion()
+    const job = await fetchJobOf(id)
+    const first = (await beginRun(job, randomUUID()))!
+    expect(await recordProgress(id, first.claimToken, { stage: 'fitting', fraction: 0.5 })).toBe(true)
+    // The same job started again under another token (as after the first run's process was given up on).
+    const second = (await beginRun(job, randomUUID()))!
+    expect(await recordProgress(id, first.claimToken, { stage: 'charts', fraction: 0.9 })).toBe(false)
     const computed = await computeAnalysis(
       { datasetVersionId: dataset.latestVersion.id, settings, exclusions: [] },
       db,
     )
-    expect(await finishJob(id, claim.claimToken, computed)).toBe(false)
-    expect((await rowOf(id)).status).toBe('queued')
-    // Out of the way for the next tests.
-    const again = (await claimNextJob(randomUUID()))!
-    await failJob(again.id, again.claimToken, { code: 'INTERNAL', message: 'done with it' })
+    expect(await storeOutcome(first, { kind: 'done', ...computed })).toBe(false)
+    expect(await jobState(job.jobId)).toBe('active')
+    expect(await storeOutcome(second, { kind: 'done', ...computed })).toBe(true)
+    expect(await rowOf(id)).toMatchObject({ status: 'done', claim_token: null })
+    expect(await jobState(job.jobId)).toBe('completed')
   })
 
-  it('leaves fresh heartbeats alone and fails a job that has died too often', async () => {
-    const fresh = await queuedVersion({
-      status: 'running',
-      heartbeat_at: db.fn.now(),
-      claim_token: randomUUID(),
-      attempts: 1,
-    })
-    const dying = await queuedVersion({
-      status: 'running',
-      heartbeat_at: db.raw(`now() - interval '10 minutes'`),
-      claim_token: randomUUID(),
-      attempts: 3,
-    })
-    expect(await reclaimStaleJobs(60_000, 3)).toEqual([{ id: dying, status: 'failed' }])
-    expect((await rowOf(fresh)).status).toBe('running')
-    const failed = await rowOf(dying)
-    expect(failed).toMatchObject({
+  it('gives a queued version without a job (queued before pg-boss) a job of its own', async () => {
+    const id = await newVersion({ queue: false })
+    expect((await rowOf(id)).job_id).toBeNull()
+    expect(await adoptVersionsWithoutJob()).toBe(1)
+    const row = await rowOf(id)
+    expect(row).toMatchObject({ status: 'queued', progress: { stage: 'queued', fraction: 0 } })
+    expect(await jobState(row.job_id)).toBe('created')
+    const job = await fetchJobOf(id)
+    await storeOutcome((await beginRun(job, randomUUID()))!, failed)
+  })
+})
+
+describe('claiming the next run', () => {
+  it('holds the version’s run lock before marking it running, and leaves a version locked elsewhere waiting', async () => {
+    const id = await newVersion()
+    // Another live process holds this version's lock (as when pg-boss expired a run still going).
+    const elsewhere = new RunLocks(() => {})
+    expect(await elsewhere.hold(id)).toBe(true)
+    const here = new RunLocks(() => {})
+    try {
+      let claim = await claimNextRun(randomUUID(), (versionId) => here.hold(versionId))
+      while (claim.kind === 'stale')
+        claim = await claimNextRun(randomUUID(), (versionId) => here.hold(versionId))
+      expect(claim).toMatchObject({ kind: 'busy', job: { versionId: id, tryNo: 1 } })
+      // Rolled back: the job waits, the version is still queued.
+      expect(await jobState((await rowOf(id)).job_id)).toBe('created')
+      expect((await rowOf(id)).status).toBe('queued')
+
+      await elsewhere.release(id)
+      claim = await claimNextRun(randomUUID(), (versionId) => here.hold(versionId))
+      expect(claim).toMatchObject({ kind: 'run', job: { versionId: id, tryNo: 1 } })
+      expect((await rowOf(id)).status).toBe('running')
+      // Held: no one takes it back.
+      expect(await takeBackOrphanedRuns()).toEqual([])
+      if (claim.kind === 'run') expect(await storeOutcome(claim.run, failed)).toBe(true)
+    } finally {
+      await Promise.all([here.close(), elsewhere.close()])
+    }
+  })
+})
+
+describe('a run whose process is gone', () => {
+  it('is taken back while its lock is free, left alone while held, and failed after three starts', async () => {
+    const id = await newVersion()
+    for (const tryNo of [1, 2, 3]) {
+      const job = await fetchJobOf(id)
+      expect(job.tryNo).toBe(tryNo)
+      // A process of its own: its run lock lives on its own connection, as in a worker.
+      const process = new RunLocks(() => {})
+      expect(await process.hold(id)).toBe(true)
+      expect(await beginRun(job, randomUUID())).not.toBeNull()
+      expect(await takeBackOrphanedRuns()).toEqual([])
+      expect((await rowOf(id)).status).toBe('running')
+      // The process dies: PostgreSQL drops its connection and with it the lock.
+      await process.close()
+      const taken = await takeBackOrphanedRuns()
+      expect(taken).toEqual([{ id, now: tryNo < 3 ? 'queued' : 'failed' }])
+      expect((await rowOf(id)).attempts).toBe(tryNo)
+    }
+    const row = await rowOf(id)
+    expect(row).toMatchObject({
       status: 'failed',
+      progress: { stage: 'failed', fraction: 1 },
       error: { code: 'INTERNAL', message: expect.stringContaining('3 times') },
     })
-    expect(failed.finished_at).not.toBeNull()
-    await db('analysis_versions')
-      .where({ id: fresh })
-      .update({ status: 'failed', error: JSON.stringify({ code: 'INTERNAL', message: 'test over' }) })
+    expect(row.finished_at).not.toBeNull()
+    expect(await jobState(row.job_id)).toBe('failed')
   })
 })
 
@@ -155,45 +239,72 @@ describe('the run itself', () => {
   })
 })
 
-describe('the runner after a crash', () => {
-  it('takes back a job left running by a dead process and finishes it', async () => {
-    // As a killed server leaves it: running, claimed, heartbeat long gone.
-    const orphan = await queuedVersion({
-      status: 'running',
-      heartbeat_at: db.raw(`now() - interval '5 minutes'`),
-      claim_token: randomUUID(),
-      attempts: 1,
-      started_at: db.raw(`now() - interval '5 minutes'`),
-    })
-    startAnalysisRunner({ pollMs: 100, leaseMs: 2000, heartbeatMs: 300 })
-    const deadline = Date.now() + 60_000
-    let row = await rowOf(orphan)
-    while (row.status !== 'done' && row.status !== 'failed' && Date.now() < deadline) {
-      await new Promise((resolve) => setTimeout(resolve, 100))
-      row = await rowOf(orphan)
-    }
+describe('the runner', () => {
+  it('takes back a run left by a dead process and finishes it', async () => {
+    const orphan = await newVersion()
+    const job = await fetchJobOf(orphan)
+    const dead = new RunLocks(() => {})
+    await dead.hold(orphan)
+    await beginRun(job, randomUUID())
+    await dead.close()
+    startAnalysisRunner({ pollMs: 100, reapEveryMs: 300 })
+    await waitFor(
+      async () => ['done', 'failed'].includes((await rowOf(orphan)).status),
+      'the orphan to finish',
+    )
+    const row = await rowOf(orphan)
     expect(row.status, JSON.stringify(row.error)).toBe('done')
     expect(row.attempts).toBe(2)
     expect(row.result.engine.version).toBe(ENGINE_VERSION)
+    expect(await jobState(job.jobId)).toBe('completed')
   })
 
-  it('hands a job in flight back to the queue when the runner stops', async () => {
-    // A large bootstrap keeps the job running long enough to stop the runner in the middle.
-    const id = await queuedVersion({
-      settings: JSON.stringify({
-        ...settings,
-        bootstrap: { enabled: true, resamples: 10_000, seed: 'slow' },
-      }),
-    })
-    const deadline = Date.now() + 30_000
-    while ((await rowOf(id)).status !== 'running' && Date.now() < deadline)
-      await new Promise((resolve) => setTimeout(resolve, 20))
+  it('hands a run in flight back to the queue when it stops, as a fresh job', async () => {
+    const id = await newVersion({ settings: slowSettings })
+    await waitFor(async () => (await rowOf(id)).status === 'running', 'the run to start', 30_000)
+    const { job_id: before } = await rowOf(id)
     await stopAnalysisRunner()
-    expect(await rowOf(id)).toMatchObject({
+    const row = await rowOf(id)
+    expect(row).toMatchObject({
       status: 'queued',
       claim_token: null,
-      attempts: 0,
       progress: { stage: 'queued', fraction: 0 },
     })
+    expect(row.job_id).not.toBe(before)
+    expect(await jobState(before)).toBe('completed')
+    // The hand-back is not counted as a try.
+    const job = await fetchJobOf(id)
+    expect(job.tryNo).toBe(1)
+    await storeOutcome((await beginRun(job, randomUUID()))!, failed)
+  })
+
+  it('runs as many versions at once as its concurrency, each in its own thread', async () => {
+    const ids = [await newVersion({ settings: slowSettings }), await newVersion({ settings: slowSettings })]
+    startAnalysisRunner({ pollMs: 100, reapEveryMs: 300, concurrency: 2 })
+    await waitFor(
+      async () =>
+        (await db('analysis_versions').whereIn('id', ids).where({ status: 'running' })).length === 2,
+      'both runs to be running at once',
+    )
+    await stopAnalysisRunner()
+    for (const id of ids) {
+      if ((await rowOf(id)).status !== 'queued') continue
+      const job = await fetchJobOf(id)
+      await storeOutcome((await beginRun(job, randomUUID()))!, failed)
+    }
+  })
+
+  it('stops a run at the time limit and fails it without trying again', async () => {
+    const id = await newVersion({ settings: slowSettings })
+    startAnalysisRunner({ pollMs: 100, reapEveryMs: 300, maxRunMs: 250 })
+    await waitFor(async () => ['done', 'failed'].includes((await rowOf(id)).status), 'the run to end')
+    const row = await rowOf(id)
+    expect(row.error).toMatchObject({
+      code: 'INTERNAL',
+      message: 'The analysis took longer than 0.25 seconds and was stopped.',
+    })
+    expect(row.attempts).toBe(1)
+    expect(await jobState(row.job_id)).toBe('completed')
+    await stopAnalysisRunner()
   })
 })

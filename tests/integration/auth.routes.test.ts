@@ -55,7 +55,7 @@ describe('POST /api/v1/auth/login', () => {
     expect(res.body.data).not.toHaveProperty('passwordHash')
   })
 
-  it('sets an httpOnly, SameSite=Lax session cookie (not Secure outside production)', async () => {
+  it('sets an httpOnly, SameSite=Lax session cookie (not Secure while PUBLIC_URL is http)', async () => {
     const user = await createUser()
     const res = await postLogin(app, user.email, user.password)
     const header = (res.headers['set-cookie'] as unknown as string[]).find((c) =>

@@ -9,7 +9,7 @@ import request from 'supertest'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { db } from '../../server/db'
 import { ingestConfig } from '../../server/ingest/ingest-config'
-import { originalPath } from '../../server/ingest/original-store'
+import { originalStore } from '../../server/originals'
 import { sweepDatasetLeftovers } from '../../server/services/datasets-upload.service'
 import { uploadTemp } from '../../server/uploads/upload-intake'
 import { loadNestedColumns } from '../../server/rows-store/read-back'
@@ -102,7 +102,7 @@ describe('upload and profile', () => {
   it('keeps the original bytes under their SHA-256 and serves them back', async () => {
     const res = await uploadDataset(app, team.cookies.scientist, csv, 'again.csv', { labId: team.lab.id })
     const sha = res.body.data.latestVersion.sha256
-    expect(existsSync(originalPath(sha))).toBe(true)
+    expect(await originalStore().exists(sha)).toBe(true)
     const original = await getAs(
       app,
       team.cookies.biostatistician,

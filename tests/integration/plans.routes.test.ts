@@ -24,7 +24,7 @@ const clusterPowerExample = {
 }
 
 beforeAll(async () => {
-  startAnalysisRunner({ pollMs: 100, leaseMs: 2000, heartbeatMs: 300 })
+  startAnalysisRunner({ pollMs: 100, reapEveryMs: 500 })
   ;[team, outsider] = await Promise.all([signedInTeam(app), signedInTeam(app)])
   const dataset = await taggedDataset(
     app,

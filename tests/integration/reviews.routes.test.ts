@@ -36,7 +36,7 @@ async function requestReview(cookie: string, versionNo: number, reviewerId: numb
 }
 
 beforeAll(async () => {
-  startAnalysisRunner({ pollMs: 100, leaseMs: 2000, heartbeatMs: 300 })
+  startAnalysisRunner({ pollMs: 100, reapEveryMs: 500 })
   ;[team, outsider] = await Promise.all([signedInTeam(app), signedInTeam(app)])
   const second = await createUser({ memberships: [{ lab: team.lab, role: 'biostatistician' }] })
   bio2 = { id: second.id, email: second.email, cookie: await signIn(app, second.email, second.password) }

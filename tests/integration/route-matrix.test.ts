@@ -178,6 +178,8 @@ const done = (path = '') => `/api/v1/analyses/${w.doneAnalysisId}${path}`
 const cases: Case[] = [
   //                                                           anon sci  pi   bio  admin other
   ['GET /api/health',                                          [200, 200, 200, 200, 200, 200], (c) => c.api.get('/api/health')],
+  ['GET /api/health/live',                                     [200, 200, 200, 200, 200, 200], (c) => c.api.get('/api/health/live')],
+  ['GET /api/health/ready',                                    [200, 200, 200, 200, 200, 200], (c) => c.api.get('/api/health/ready')],
 
   // sign-in: each person with their own password (anonymous: a wrong one), in a session of its own
   ['POST /api/v1/auth/login',                                  [401, 200, 200, 200, 200, 200], async (c) => {

@@ -4,6 +4,7 @@ import { createApp, type AppOptions } from '../../server/app'
 import { closeSharedSessionStore } from '../../server/auth/session'
 import { publicUrl } from '../../server/config'
 import { db } from '../../server/db'
+import { stopAnalysisQueue } from '../../server/jobs/analysis-queue'
 
 /** Headers the Nestwise client sends on every write (see the same-origin check). */
 export const appWriteHeaders = { Origin: publicUrl, 'X-Requested-With': 'nestwise' } as const
@@ -37,6 +38,7 @@ export async function signIn(app: Express, email: string, password: string): Pro
 
 /** Call from afterAll in every integration file: ends the pools so the worker can exit. */
 export async function closeConnections(): Promise<void> {
+  await stopAnalysisQueue()
   await closeSharedSessionStore()
   await db.destroy()
 }

@@ -26,8 +26,10 @@ export default async function setup(): Promise<() => Promise<void>> {
   ensurePostgres()
   try {
     for (const left of await databasesNamed(INTEGRATION_DB_PREFIX)) {
-      const pid = Number(left.slice(INTEGRATION_DB_PREFIX.length))
-      if (left !== name && Number.isInteger(pid) && !isRunning(pid)) await dropDatabase(left)
+      // nestwise_test_<pid>, or a database a test file made for itself: nestwise_test_<pid>_<what>.
+      const pid = Number(/^\d+/.exec(left.slice(INTEGRATION_DB_PREFIX.length))?.[0])
+      if (left !== name && !left.startsWith(`${name}_`) && Number.isInteger(pid) && !isRunning(pid))
+        await dropDatabase(left)
     }
     await prepareDatabase(name, { fresh: true })
   } finally {
