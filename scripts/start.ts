@@ -1,7 +1,7 @@
 // `npm start`: PostgreSQL on loopback, migrations, demo seed, client build, then one server for app
 // and API, started again (with a growing pause) whenever it dies. Ctrl-C stops the server and the
 // database; nothing else does. A production deployment gets the same from its process manager
-// (docs/deployment.md).
+// (docs/deploy.md).
 import { spawn } from 'node:child_process'
 import { ensurePostgres, stopPostgres } from './lib/postgres'
 import { prepareDatabase } from './lib/database'

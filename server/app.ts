@@ -62,7 +62,7 @@ export function createApp(options: AppOptions = {}): Express {
   const app = express()
   const https = publicUrl.startsWith('https:')
   // Behind a reverse proxy, trusting it (and only it) gives rate limits and the audit log the
-  // client's address and lets secure cookies work; see TRUST_PROXY in docs/deployment.md.
+  // client's address and lets secure cookies work; see TRUST_PROXY in docs/deploy.md.
   app.set('trust proxy', options.trustProxy ?? parseTrustProxy(config.TRUST_PROXY, https))
   app.disable('x-powered-by')
 

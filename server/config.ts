@@ -23,7 +23,7 @@ const ConfigSchema = z.object({
    * comma-separated (Express's "trust proxy"). Unset: loopback when PUBLIC_URL is https, else none.
    */
   TRUST_PROXY: z.string().optional(),
-  /** Host names answered besides PUBLIC_URL's, HOST and localhost (comma-separated; see docs/deployment.md). */
+  /** Host names answered besides PUBLIC_URL's, HOST and localhost (comma-separated; see docs/deploy.md). */
   ALLOWED_HOSTS: z.string().default(''),
   /** Requests per minute and address on the routes open without an account (share links). */
   SHARED_RATE_LIMIT: z.coerce.number().int().positive().default(120),

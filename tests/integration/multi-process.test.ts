@@ -19,7 +19,7 @@ import {
 import { neuriteCsv } from './analyses-support'
 
 /**
- * A deployment of several processes, as docs/deployment.md describes it: two web processes
+ * A deployment of several processes, as docs/deploy.md describes it: two web processes
  * (ANALYSIS_WORKERS=0) and two worker processes against one PostgreSQL database (of this file's
  * own, with the demo scenario) and one S3 store (the fake, started here as a real one would run),
  * behind a TLS-ending proxy (PUBLIC_URL https, TRUST_PROXY loopback; this test plays the proxy and
