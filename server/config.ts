@@ -23,6 +23,12 @@ const ConfigSchema = z.object({
    * comma-separated (Express's "trust proxy"). Unset: loopback when PUBLIC_URL is https, else none.
    */
   TRUST_PROXY: z.string().optional(),
+  /**
+   * How long an idle kept-alive connection stays open. Longer than the proxy's own idle timeout
+   * (60 s on most load balancers), else the server may close a connection the proxy is reusing
+   * at that moment and the proxy answers 502.
+   */
+  KEEP_ALIVE_SECONDS: z.coerce.number().positive().default(65),
   /** Host names answered besides PUBLIC_URL's, HOST and localhost (comma-separated; see docs/deploy.md). */
   ALLOWED_HOSTS: z.string().default(''),
   /** Requests per minute and address on the routes open without an account (share links). */

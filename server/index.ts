@@ -22,6 +22,9 @@ const server = app.listen(config.PORT, config.HOST, (err?: Error) => {
     env: config.NODE_ENV,
   })
 })
+server.keepAliveTimeout = config.KEEP_ALIVE_SECONDS * 1000
+// Node closes a kept-alive connection whose next request headers take longer than this.
+server.headersTimeout = server.keepAliveTimeout + 1000
 
 // Mail (the outbox sender, and the local fake SMTP server outside production) runs in this process.
 const mail = startMailRuntime().catch((err: unknown) => {
