@@ -4,7 +4,7 @@ import { AnalysisDefaults, AnalysisDetail, AnalysisVersionDetail } from '../../s
 import { db } from '../../server/db'
 import { closeConnections, createTestApp } from '../support/api'
 import { finishQueuedVersion } from '../support/finished-version'
-import { getAs, postAs, putAs, signedInTeam, uploadDataset } from './datasets-support'
+import { getAs, postAs, putAs, signedInTeam, uploadDataset, uploadVersion } from './datasets-support'
 
 /**
  * A table whose only response is a two-valued text column (the invented neuron table without its
@@ -108,6 +108,25 @@ describe('a two-valued text column as the response', () => {
     expect(a.estimate).toBeCloseTo(b.estimate, 9)
     expect(a.se).toBeCloseTo(b.se, 9)
     expect(a.ratio).toBeCloseTo(b.ratio, 9)
+  })
+
+  it('is suggested on upload, and its tagging carries over to a new version while it has two values', async () => {
+    const id = await upload(yesNoCsv(), 'marker-text-suggested')
+    const detail = await getAs(app, team.cookies.scientist, `/api/v1/datasets/${id}/versions/1`)
+    expect(detail.body.data.suggestion).toMatchObject({
+      responseColumns: ['marker'],
+      conditionColumn: 'treatment',
+      levels: [{ column: 'lab' }, { column: 'mouse' }],
+    })
+    expect((await tag(id)).status).toBe(200)
+
+    const v2 = await uploadVersion(app, team.cookies.scientist, id, Buffer.from(yesNoCsv()), 'v2.csv')
+    expect(v2.status, JSON.stringify(v2.body)).toBe(201)
+    expect(v2.body.data.tagging).toMatchObject({ responseColumns: ['marker'], carriedOver: true })
+    const third = yesNoCsv((r, i) => (i === 39 ? 'unsure' : r.marker))
+    const v3 = await uploadVersion(app, team.cookies.scientist, id, Buffer.from(third), 'v3.csv')
+    expect(v3.status, JSON.stringify(v3.body)).toBe(201)
+    expect(v3.body.data.tagging).toBeNull()
   })
 
   it('leaves rows without a value out, as for a numeric response, and counts them', async () => {
