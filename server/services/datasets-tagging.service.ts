@@ -174,7 +174,7 @@ async function validate(
  * A response column profiled as text is accepted when its kept rows hold only numbers (text crept
  * in only in excluded rows), or exactly two distinct values: a yes/no response, analysed as
  * binomial. Missing cells are left out, as for numbers. Otherwise 400 naming the column and a row:
- * when numbers are among its first values, the first kept row that is not a number (a numbers
+ * when numbers are among its first values (even two values, one a number: a measurement and a note), the first kept row that is not a number (a numbers
  * column with stray text); else the row of a third value, or the single value there is.
  */
 async function checkTextResponse(
@@ -187,8 +187,8 @@ async function checkTextResponse(
   const offending = await firstNonNumberRow(shape, column.position, excluded)
   if (!offending) return
   const firsts = await firstRowsOfDistinctValues(shape, column, excluded, 3)
-  if (firsts.length === 2) return
   const isNumber = (text: string) => Number.isFinite(parseNumberText(text, version.decimalMark))
+  // Checked first: “5” and “n.d.” are two values, but a measurement with a note, not yes/no.
   if (firsts.some((f) => isNumber(f.value))) {
     const row = fileRow(version, offending.rowNo)
     throw new InvalidPayloadError(
@@ -196,6 +196,7 @@ async function checkTextResponse(
       { column: name, row },
     )
   }
+  if (firsts.length === 2) return
   const rule = 'As text, a response must hold exactly two values (yes/no).'
   if (firsts.length < 2) {
     const row = fileRow(version, offending.rowNo)

@@ -155,6 +155,20 @@ describe('a two-valued text column as the response', () => {
     expect(await taggingsOf(id)).toBe(0)
   })
 
+  it('is refused when one of its two values is a number: a measurement with a note, not yes/no', async () => {
+    // Data row 1 is file row 2, the first row that is not a number.
+    const id = await upload(
+      yesNoCsv((_r, i) => (i % 2 ? '5' : 'n.d.')),
+      'marker-number-and-note',
+    )
+    const res = await tag(id)
+    expect(res.status).toBe(400)
+    expect(res.body.error.message).toBe(
+      '“marker” cannot be a response: row 2 holds “n.d.”, which is not a number. Correct the file, or exclude such rows first.',
+    )
+    expect(await taggingsOf(id)).toBe(0)
+  })
+
   it('is accepted once the third value is excluded', async () => {
     const id = await upload(
       yesNoCsv((r, i) => (i === 39 ? 'unsure' : r.marker)),
