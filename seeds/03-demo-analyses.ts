@@ -9,6 +9,7 @@ import {
   type RecordedExclusion,
 } from '../server/repositories/analyses.repo'
 import { activeExclusions } from '../server/repositories/datasets-annotations.repo'
+import { listColumns } from '../server/repositories/datasets.repo'
 import { mergeSettings, settingsFromTagging } from '../server/services/analysis-settings.service'
 import { demoDatasets } from './data/demo-datasets'
 
@@ -64,7 +65,10 @@ export async function seed(knex: Knex): Promise<void> {
       .orderBy('version_no', 'desc')
       .first('id', 'sha256')
     const user = await knex('users').where({ email: demo.uploaderEmail }).first('id')
-    const settings: AnalysisSettings = mergeSettings(settingsFromTagging(demo.tagging), plan.settings)
+    const settings: AnalysisSettings = mergeSettings(
+      settingsFromTagging({ tagging: demo.tagging, columns: await listColumns(version.id, knex) }),
+      plan.settings,
+    )
     const exclusions: RecordedExclusion[] = (await activeExclusions(version.id, knex)).map(
       ({ id, kind, reason, matchedRows, rule, unit }) => ({ id, kind, reason, matchedRows, rule, unit }),
     )

@@ -153,7 +153,7 @@ export async function getAnalysisDefaults(
   const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
   return {
     datasetVersion: { id: version.id, versionNo: version.versionNo },
-    settings: settingsFromTagging(tagging),
+    settings: settingsFromTagging({ tagging, columns }),
     columns: columns.map((c) => c.name),
     numericColumns: columns.filter((c) => c.type === 'integer' || c.type === 'numeric').map((c) => c.name),
     labelsByColumn: labelsByColumn(columns),
@@ -215,7 +215,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
   await writable(user, 'lab', dataset.labId, { subject: 'analysis' })
   const version = await readyDatasetVersion(dataset.id, input.datasetVersionNo)
   const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
-  const asked = mergeSettings(settingsFromTagging(tagging), input.settings)
+  const asked = mergeSettings(settingsFromTagging({ tagging, columns }), input.settings)
   checkSettingsAgainstColumns(asked, columns, version.versionNo)
   const name = input.name ?? `${dataset.name} – ${asked.response}`
 

@@ -11,9 +11,12 @@ import {
 } from './analysis-settings.service'
 
 const base = settingsFromTagging({
-  responseColumns: ['neurite_um', 'soma_um2'],
-  conditionColumn: 'treatment',
-  levels: ['lab', 'mouse'],
+  tagging: {
+    responseColumns: ['neurite_um', 'soma_um2'],
+    conditionColumn: 'treatment',
+    levels: ['lab', 'mouse'],
+  },
+  columns: [],
 })!
 
 function column(name: string, extra: Partial<ColumnProfile> = {}): ColumnProfile {
@@ -65,10 +68,53 @@ describe('settingsFromTagging', () => {
       positive: null,
     })
     expect(
-      settingsFromTagging({ responseColumns: ['neurite_um'], conditionColumn: null, levels: ['mouse'] })
-        ?.conditions,
+      settingsFromTagging({
+        tagging: { responseColumns: ['neurite_um'], conditionColumn: null, levels: ['mouse'] },
+        columns: [],
+      })?.conditions,
     ).toEqual([])
-    expect(settingsFromTagging(null)).toBeNull()
+    expect(settingsFromTagging({ tagging: null, columns: [] })).toBeNull()
+  })
+
+  const tagging = { responseColumns: ['outcome'], conditionColumn: 'treatment', levels: ['lab', 'mouse'] }
+  const twoLabels = (a: string, b: string) =>
+    column('outcome', {
+      topValues: [
+        { value: a, count: 12 },
+        { value: b, count: 8 },
+      ],
+    })
+
+  it('starts a two-valued text response as yes/no, the value counted as yes chosen as the form does', () => {
+    expect(settingsFromTagging({ tagging, columns: [twoLabels('unbranched', 'branched')] })).toMatchObject({
+      response: 'outcome',
+      family: 'binomial',
+      trials: null,
+      // Neither reads as yes: the second in alphabetical order (defaultPositiveLabel).
+      positive: 'unbranched',
+    })
+    expect(settingsFromTagging({ tagging, columns: [twoLabels('no', 'yes')] })?.positive).toBe('yes')
+  })
+
+  it('keeps a numeric response normal, even one holding only 0 and 1', () => {
+    const zeroOne = column('outcome', {
+      type: 'integer',
+      min: 0,
+      max: 1,
+      topValues: [
+        { value: '0', count: 12 },
+        { value: '1', count: 8 },
+      ],
+    })
+    expect(settingsFromTagging({ tagging, columns: [zeroOne] })).toMatchObject({
+      family: 'gaussian',
+      positive: null,
+    })
+  })
+
+  it('keeps a text response with more values than the profile lists normal (tagging saw numbers there)', () => {
+    const many = column('outcome', { distinctCount: 40, distinctCapped: false, topValues: null })
+    expect(settingsFromTagging({ tagging, columns: [many] })?.family).toBe('gaussian')
   })
 })
 

@@ -1,19 +1,33 @@
 import type { AnalysisDefaults, AnalysisSettings, AnalysisSettingsPatch } from '../../shared/schemas/analyses'
 import type { ColumnProfile, Tagging } from '../../shared/schemas/datasets'
 import { applySettingsChange } from '../../shared/analysis/apply-settings-change'
+import { defaultPositiveLabel } from '../../shared/analysis/binary-response'
 import { InvalidPayloadError } from '../errors/app-error'
 
 const q = (name: string) => `“${name}”`
 
-/** Settings from a version's tagging: its first response, its condition (if any) and levels, the defaults for the rest. */
-export function settingsFromTagging(
-  tagging: Pick<Tagging, 'responseColumns' | 'conditionColumn' | 'levels'> | null,
-): AnalysisSettings | null {
+export interface TaggingDefaultsInput {
+  tagging: Pick<Tagging, 'responseColumns' | 'conditionColumn' | 'levels'> | null
+  /** The version's column profiles: they tell whether the response is a two-valued text column. */
+  columns: readonly ColumnProfile[]
+}
+
+/**
+ * Settings from a version's tagging: its first response, its condition (if any) and levels, the
+ * defaults for the rest. A response profiled as text with exactly two values (which tagging accepts
+ * only as yes/no) starts as binomial, its value counted as yes chosen as the settings form would
+ * (defaultPositiveLabel); a numeric response starts as a normal one, whatever its values.
+ */
+export function settingsFromTagging({ tagging, columns }: TaggingDefaultsInput): AnalysisSettings | null {
   if (!tagging || !tagging.responseColumns.length || !tagging.levels.length) return null
+  const response = tagging.responseColumns[0]
+  const profile = columns.find((c) => c.name === response)
+  const labels = profile?.type === 'text' ? responseKinds([profile]).binaryColumns[response] : undefined
   const change = applySettingsChange(null, {
-    response: tagging.responseColumns[0],
+    response,
     conditions: tagging.conditionColumn ? [tagging.conditionColumn] : [],
     levels: tagging.levels,
+    ...(labels ? { family: 'binomial' as const, positive: defaultPositiveLabel(labels) } : {}),
   })
   // A tagging names distinct columns, so this holds; a tagging that breaks a rule simply has no defaults.
   return change.ok ? change.settings : null

@@ -1,6 +1,12 @@
 import { recordAudit } from './audit.service'
 import type { CurrentUser } from '../../shared/schemas/auth'
-import type { DesignSummary, Exclusion, Tagging, TaggingInput } from '../../shared/schemas/datasets'
+import type {
+  ColumnType,
+  DesignSummary,
+  Exclusion,
+  Tagging,
+  TaggingInput,
+} from '../../shared/schemas/datasets'
 import { describeDesign, type DesignFacts } from '../../shared/nesting/describe-design'
 import { db } from '../db'
 import { InvalidPayloadError, NotFoundError, UnprocessableError } from '../errors/app-error'
@@ -15,8 +21,10 @@ import {
   excludedSql,
   exclusionSql,
   firstNonNumberRow,
+  firstRowsOfDistinctValues,
   type RowTableShape,
 } from '../rows-store/row-queries'
+import { parseNumberText } from '../rows-store/number-text'
 import { touchDataset, type VersionRecord } from '../repositories/datasets.repo'
 import { readable, writable } from '../access/records'
 import { fileRow, readColumns, shapeOf } from '../rows-store/read-back'
@@ -81,7 +89,7 @@ async function publicDesign(
 
 /**
  * Checks a nesting against the data before saving it, so analyses never meet these problems:
- * unknown columns, a response that is not numeric (naming the first kept row that is not), rows
+ * unknown columns, a response that is neither numeric nor two-valued text (see checkTextResponse), rows
  * without a label, levels that do not split their parent or that are the observations themselves,
  * a condition with one value, and a condition arm with a single independent unit.
  */
@@ -107,16 +115,7 @@ async function validate(
     const column = shape.columns.get(name)!
     if (column.type === 'empty')
       throw new InvalidPayloadError(`${q(name)} cannot be a response: it has no values.`, { column: name })
-    if (column.type === 'text') {
-      const offending = await firstNonNumberRow(shape, column.position, excluded)
-      if (offending) {
-        const row = fileRow(version, offending.rowNo)
-        throw new InvalidPayloadError(
-          `${q(name)} cannot be a response: row ${row} holds “${offending.value}”, which is not a number. Correct the file, or exclude such rows first.`,
-          { column: name, row },
-        )
-      }
-    }
+    if (column.type === 'text') await checkTextResponse(version, shape, name, column, excluded)
   }
   const { facts, read } = await designOf(version, shape, exclusions, input.levels, input.conditionColumn)
   if (facts.observationCount === 0) throw new UnprocessableError('No rows are left after the exclusions.')
@@ -169,6 +168,49 @@ async function validate(
     }
   }
   return facts
+}
+
+/**
+ * A response column profiled as text is accepted when its kept rows hold only numbers (text crept
+ * in only in excluded rows), or exactly two distinct values: a yes/no response, analysed as
+ * binomial. Missing cells are left out, as for numbers. Otherwise 400 naming the column and a row:
+ * when numbers are among its first values (even two values, one a number: a measurement and a note), the first kept row that is not a number (a numbers
+ * column with stray text); else the row of a third value, or the single value there is.
+ */
+async function checkTextResponse(
+  version: VersionRecord,
+  shape: RowTableShape,
+  name: string,
+  column: { position: number; type: ColumnType },
+  excluded: string,
+): Promise<void> {
+  const offending = await firstNonNumberRow(shape, column.position, excluded)
+  if (!offending) return
+  const firsts = await firstRowsOfDistinctValues(shape, column, excluded, 3)
+  const isNumber = (text: string) => Number.isFinite(parseNumberText(text, version.decimalMark))
+  // Checked first: “5” and “n.d.” are two values, but a measurement with a note, not yes/no.
+  if (firsts.some((f) => isNumber(f.value))) {
+    const row = fileRow(version, offending.rowNo)
+    throw new InvalidPayloadError(
+      `${q(name)} cannot be a response: row ${row} holds “${offending.value}”, which is not a number. Correct the file, or exclude such rows first.`,
+      { column: name, row },
+    )
+  }
+  if (firsts.length === 2) return
+  const rule = 'As text, a response must hold exactly two values (yes/no).'
+  if (firsts.length < 2) {
+    const row = fileRow(version, offending.rowNo)
+    throw new InvalidPayloadError(
+      `${q(name)} cannot be a response: it holds a single value (“${offending.value}”) in the rows kept. ${rule}`,
+      { column: name, row },
+    )
+  }
+  const [a, b, third] = firsts
+  const row = fileRow(version, third.rowNo)
+  throw new InvalidPayloadError(
+    `${q(name)} cannot be a response: row ${row} holds “${third.value}”, a third value besides “${a.value}” and “${b.value}”. ${rule} Correct the file, or exclude such rows first.`,
+    { column: name, row, values: [a.value, b.value, third.value] },
+  )
 }
 
 export async function getTagging(

@@ -57,8 +57,8 @@ interface StoreVersionInput {
 /**
  * Stores one upload as version `versionNo` of `datasetId`, inside `trx`: the version row, the rows
  * table (COPY, then frozen), column profiles, the nesting suggestion, and the original file. When
- * the previous version has a tagging whose columns all exist (responses still numeric), it is
- * carried over.
+ * the previous version has a tagging whose columns all exist (responses still numeric, or text
+ * with two values), it is carried over.
  */
 async function storeVersion(trx: Knex.Transaction, input: StoreVersionInput): Promise<StoredVersion> {
   const { datasetId, versionNo, userId, file, progress } = input
@@ -121,14 +121,20 @@ async function carryOverTagging(
   if (!previous) return
   const tagging = await currentTagging(previous.id, trx)
   if (!tagging) return
-  const types = new Map(intake.profiles.map((p) => [p.name, p.type]))
+  const profiles = new Map(intake.profiles.map((p) => [p.name, p]))
   const names = [
     ...tagging.responseColumns,
     ...tagging.levels,
     ...(tagging.conditionColumn ? [tagging.conditionColumn] : []),
   ]
-  if (!names.every((n) => types.has(n))) return
-  if (!tagging.responseColumns.every((n) => types.get(n) === 'numeric' || types.get(n) === 'integer')) return
+  if (!names.every((n) => profiles.has(n))) return
+  // Responses as tagging accepts them without a look at the rows: numbers, or text with two values (yes/no).
+  const stillResponse = (name: string) => {
+    const p = profiles.get(name)!
+    if (p.type === 'numeric' || p.type === 'integer') return true
+    return p.type === 'text' && p.distinctCount === 2 && !p.distinctCapped
+  }
+  if (!tagging.responseColumns.every(stillResponse)) return
   await insertTagging(
     {
       versionId,

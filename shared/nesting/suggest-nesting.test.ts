@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import type { ColumnType } from '../schemas/datasets'
+import { inventedNeuronRows, type InventedRow } from '../analysis/fixtures/invented-glmm-tables'
 import { describeDesign } from './describe-design'
 import { suggestNesting, type SuggestionColumn } from './suggest-nesting'
 import type { CodedColumn } from './unit-paths'
@@ -174,6 +175,56 @@ describe('suggestNesting', () => {
     ])
     expect(s.levels).toEqual([])
     expect(s.explanation[0]).toContain('No column groups the rows')
+  })
+})
+
+describe('suggestNesting with a yes/no written as text', () => {
+  // Invented neurons in mice (see invented-glmm-tables.ts): "marker" is positive or negative.
+  const rows = inventedNeuronRows()
+  const text = (name: keyof InventedRow, values = rows.map((r) => String(r[name]))) =>
+    column(name, 'text', values)
+  const base = [text('lab'), text('mouse'), text('treatment'), text('neuron')]
+
+  it('takes the one two-valued text column as the response when no numeric column can be', () => {
+    const s = suggestNesting(rows.length, [...base, text('marker')])
+    expect(s.responseColumns).toEqual(['marker'])
+    expect(s.levels.map((l) => l.column)).toEqual(['lab', 'mouse'])
+    expect(s.conditionColumn).toBe('treatment')
+    expect(s.conditionLevel).toBe('mouse')
+    expect(s.explanation.join(' ')).not.toContain('“marker” has')
+    expect(s.explanation).toContain(
+      `No numeric column can be the response; “marker” holds two values (“${rows[0].marker}”, “${rows[0].marker === 'positive' ? 'negative' : 'positive'}”), so it is suggested as the response, analysed as yes/no.`,
+    )
+  })
+
+  it('leaves it alone when a numeric column can be the response', () => {
+    const puncta = column(
+      'puncta',
+      'integer',
+      rows.map((r) => String(r.puncta)),
+    )
+    const s = suggestNesting(rows.length, [...base, text('marker'), puncta])
+    expect(s.responseColumns).toEqual(['puncta'])
+  })
+
+  it('leaves the choice to the person with two such columns, or one named like a unit', () => {
+    const shape =
+      text('marker').coded!.labels.length === 2 ? rows.map((_, i) => (i % 3 ? 'round' : 'flat')) : []
+    const two = suggestNesting(rows.length, [
+      ...base,
+      text('marker'),
+      text('soma_shape' as keyof InventedRow, shape),
+    ])
+    expect(two.responseColumns).toEqual([])
+    const slice = suggestNesting(rows.length, [
+      ...base,
+      text(
+        'slice' as keyof InventedRow,
+        rows.map((r) => (r.marker === 'positive' ? 's1' : 's2')),
+      ),
+    ])
+    expect(slice.responseColumns).toEqual([])
+    expect(slice.levels.map((l) => l.column)).toContain('slice')
   })
 })
 

@@ -220,6 +220,31 @@ function resolveCrossed(
 }
 
 /**
+ * When no numeric column can be the response, the one text column with exactly two values besides
+ * the condition, not named like a unit, is the response (nothing else could be), unless it is an
+ * alias or an outer level; as the innermost suggested level it only split each unit by its two
+ * values. Two such columns, or none: null, and the person picks.
+ */
+function yesNoResponse(
+  columns: readonly SuggestionColumn[],
+  paths: readonly PathLevel[],
+  used: ReadonlySet<string>,
+  condition: string | null,
+): SuggestionColumn | null {
+  const found = columns.filter(
+    (c) =>
+      c.type === 'text' &&
+      c.distinctCount === 2 &&
+      c.coded !== null &&
+      c.name !== condition &&
+      !nameWords(c.name).some((w) => UNIT_WORDS.has(w)),
+  )
+  if (found.length !== 1) return null
+  const innermost = paths[paths.length - 1]?.column.name
+  return !used.has(found[0].name) || found[0].name === innermost ? found[0] : null
+}
+
+/**
  * Proposes the nesting of a table from its columns: which columns group the rows into units,
  * in which order (outer units have fewer paths), which column is the condition, and which
  * numeric columns can be responses. Pure and deterministic; the explanation is in plain words.
@@ -301,6 +326,13 @@ export function suggestNesting(rowCount: number, columns: readonly SuggestionCol
     )
     .filter((c) => !candidates.includes(c))
     .map((c) => c.name)
+  const yesNo = responseColumns.length
+    ? null
+    : yesNoResponse(columns, paths, used, conditionPick?.name ?? null)
+  if (yesNo) {
+    responseColumns.push(yesNo.name)
+    if (paths[paths.length - 1]?.column.name === yesNo.name) paths.pop()
+  }
 
   const explanation: string[] = []
   let conditionLevel: string | null = null
@@ -338,7 +370,11 @@ export function suggestNesting(rowCount: number, columns: readonly SuggestionCol
       'No column looks like a condition (treatment, genotype, dose). Pick one if you compare conditions.',
     )
   }
-  if (responseColumns.length)
+  if (yesNo)
+    explanation.push(
+      `No numeric column can be the response; ${q(yesNo.name)} holds two values (${yesNo.coded!.labels.map(q).join(', ')}), so it is suggested as the response, analysed as yes/no.`,
+    )
+  else if (responseColumns.length)
     explanation.push(`Numeric columns that can be the response: ${responseColumns.map(q).join(', ')}.`)
 
   return {

@@ -1,5 +1,7 @@
 // @vitest-environment happy-dom
 import { afterEach, describe, expect, it } from 'vitest'
+import { flushPromises, type VueWrapper } from '@vue/test-utils'
+import type { ColumnProfile } from '../../../shared/schemas/datasets'
 import { ApiError } from '@/api/http'
 import { neuriteColumns, neuriteDesign, neuriteSuggestion, tagging } from '@/testing/datasets'
 import { mountWithVuetify } from '@/testing/mount-with-vuetify'
@@ -83,6 +85,37 @@ describe('NestingEditor', () => {
     expect(badges.map((b) => b.attributes('data-adequacy'))).toEqual(['adequate', 'too-few'])
     expect(badges.map((b) => b.text())).toEqual(['6 units · 6+ per arm', '2 units · too few to compare'])
     expect(wrapper.find('[data-testid="design-placement"]').text()).toContain('between “mouse” units')
+  })
+
+  it('offers a two-valued text column as a yes/no response and says which value counts as yes', async () => {
+    const marker: ColumnProfile = {
+      ...neuriteColumns[2],
+      position: 6,
+      name: 'outcome',
+      topValues: [
+        { value: 'unbranched', count: 40 },
+        { value: 'branched', count: 32 },
+      ],
+    }
+    const wrapper = mountWithVuetify(NestingEditor, { ...base, columns: [...neuriteColumns, marker] })
+    const select = wrapper.findComponent('[data-testid="nesting-response"]') as VueWrapper
+    const items = (select.props() as { items: { value: string; props: { subtitle: string } }[] }).items
+    const hint = 'two values: analysed as yes/no (counted as yes: unbranched)'
+    expect(items.find((i) => i.value === 'outcome')?.props.subtitle).toBe(`Text · ${hint}`)
+    // Numbers first, then the two-valued text columns (the condition could be one too), then other text.
+    expect(items.map((i) => i.value)).toEqual([
+      'neuron',
+      'neurite_length_um',
+      'condition',
+      'outcome',
+      'lab',
+      'mouse',
+    ])
+    expect(wrapper.find('[data-testid="nesting-form"]').text()).not.toContain('analysed as yes/no')
+
+    select.vm.$emit('update:modelValue', ['outcome'])
+    await flushPromises()
+    expect(wrapper.find('[data-testid="nesting-form"]').text()).toContain(`outcome: ${hint}`)
   })
 
   it('shows the reason the server refused a nesting', () => {
