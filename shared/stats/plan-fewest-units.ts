@@ -5,6 +5,7 @@ import { fewestLabsFor } from './planning/fewest-labs-for'
 import type { PlanRemark } from './planning/plan-remark'
 import type { PlanSearchResult } from './planning/plan-search-result'
 import { planSearchModel } from './planning/plan-search-model'
+import { designCounts } from './planning/design-counts'
 
 /** Upper limit on observations per unit defaults to 100 without costs (see COUNTS_OBS_CAP). */
 export type PlanFewestUnitsInput = PlanSearchInput
@@ -108,17 +109,10 @@ export function planFewestUnits(input: PlanFewestUnitsInput): PlanFewestUnitsRes
       })
   remarks.push(...closingRemarks(checked, chosen, shortfall))
   const achieved = powerAt(chosen.labs, chosen.k, chosen.m)
-  const labsBought = design === 'every-arm' ? 1 : arms
   return {
     feasible: shortfall === null,
     design,
-    labs: chosen.labs,
-    unitsPerLabArm: chosen.k,
-    obsPerUnit: chosen.m,
-    arms,
-    totalLabs: labsBought * chosen.labs,
-    totalUnits: arms * chosen.labs * chosen.k,
-    totalObs: arms * chosen.labs * chosen.k * chosen.m,
+    ...designCounts(design, arms, chosen),
     achievedPower: achieved.power,
     df: achieved.df,
     alphaPerComparison,

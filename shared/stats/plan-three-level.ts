@@ -11,6 +11,7 @@ import { fewestLabsFor } from './planning/fewest-labs-for'
 import type { PlanRemark } from './planning/plan-remark'
 import type { PlanSearchResult } from './planning/plan-search-result'
 import { planSearchModel } from './planning/plan-search-model'
+import { designCounts } from './planning/design-counts'
 
 export interface PlanThreeLevelInput extends PlanSearchInput {
   costPerLab: number
@@ -209,13 +210,7 @@ export function planThreeLevel(input: PlanThreeLevelInput): PlanThreeLevelResult
   return {
     feasible: shortfall === null,
     design,
-    labs: chosen.labs,
-    unitsPerLabArm: chosen.k,
-    obsPerUnit: chosen.m,
-    arms,
-    totalLabs: labsBought * chosen.labs,
-    totalUnits: arms * chosen.labs * chosen.k,
-    totalObs: arms * chosen.labs * chosen.k * chosen.m,
+    ...designCounts(design, arms, chosen),
     cost: chosen.cost,
     achievedPower: chosen.power,
     df: chosen.df,
