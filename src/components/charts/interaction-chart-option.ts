@@ -8,7 +8,7 @@ import type { AnalysisResult, GroupSummary } from '../../../shared/schemas/analy
 import { formatInterval, formatNumber } from '../../../shared/report/number-format'
 import type { ChartColors } from './main-chart-option'
 import { chartHtml, joinHtml } from './chart-text'
-import { responseYAxis, slotXAxis } from './slot-axes'
+import { responseYAxis, slotXAxis, whiskerLines } from './slot-axes'
 import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'
 
 /** One design cell as the chart draws it: x index of the first factor's level, line of the second's. */
@@ -68,15 +68,7 @@ function intervalRenderer(color: string) {
     const cap = 5
     return {
       type: 'group',
-      children: [
-        { type: 'line', shape: { x1: top[0], y1: top[1], x2: bottom[0], y2: bottom[1] }, style },
-        { type: 'line', shape: { x1: top[0] - cap, y1: top[1], x2: top[0] + cap, y2: top[1] }, style },
-        {
-          type: 'line',
-          shape: { x1: bottom[0] - cap, y1: bottom[1], x2: bottom[0] + cap, y2: bottom[1] },
-          style,
-        },
-      ],
+      children: [...whiskerLines(top, bottom, cap, style)],
     }
   }
 }

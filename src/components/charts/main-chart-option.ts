@@ -9,7 +9,7 @@ import { formatNumber } from '../../../shared/report/number-format'
 import { termLabel } from '../../../shared/report/words'
 import { ERROR_BAR_WORDS, naiveBar, nestedBar, type Bar } from './error-bars'
 import { chartHtml } from './chart-text'
-import { responseYAxis, slotXAxis } from './slot-axes'
+import { responseYAxis, slotXAxis, whiskerLines } from './slot-axes'
 import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'
 
 export interface ChartColors {
@@ -144,13 +144,7 @@ function errorBarRenderer(color: string, width: number, label: string) {
     return {
       type: 'group',
       children: [
-        { type: 'line', shape: { x1: top[0], y1: top[1], x2: bottom[0], y2: bottom[1] }, style },
-        { type: 'line', shape: { x1: top[0] - cap, y1: top[1], x2: top[0] + cap, y2: top[1] }, style },
-        {
-          type: 'line',
-          shape: { x1: bottom[0] - cap, y1: bottom[1], x2: bottom[0] + cap, y2: bottom[1] },
-          style,
-        },
+        ...whiskerLines(top, bottom, cap, style),
         {
           type: 'rect',
           shape: { x: mid[0] - 5, y: mid[1] - 5, width: 10, height: 10 },

@@ -39,3 +39,22 @@ export function responseYAxis(name: string, colors: ChartColors) {
     splitLine: { lineStyle: { color: colors.grid, opacity: 0.5 } },
   }
 }
+
+/** The three lines of an interval whisker (a vertical from top to bottom, a cap at each end), in pixels. */
+export function whiskerLines(
+  top: number[],
+  bottom: number[],
+  cap: number,
+  style: { stroke: string; lineWidth: number },
+) {
+  const line = (x1: number, y1: number, x2: number, y2: number) => ({
+    type: 'line' as const,
+    shape: { x1, y1, x2, y2 },
+    style,
+  })
+  return [
+    line(top[0], top[1], bottom[0], bottom[1]),
+    line(top[0] - cap, top[1], top[0] + cap, top[1]),
+    line(bottom[0] - cap, bottom[1], bottom[0] + cap, bottom[1]),
+  ]
+}
