@@ -35,6 +35,7 @@ import { activeExclusions, currentTagging } from '../repositories/datasets-annot
 import { findVersion, listColumns, listVersions, type VersionRecord } from '../repositories/datasets.repo'
 import { recordAudit } from './audit.service'
 import { queueVersion } from './analysis-runs.service'
+import { keptYesNoValues } from './analysis-response-checks.service'
 import { checkSettingsAgainstRows } from './analysis-design-checks.service'
 import {
   checkSettingsAgainstColumns,
@@ -150,15 +151,31 @@ export async function getAnalysisDefaults(
 ): Promise<AnalysisDefaults> {
   await readable(user, 'dataset', datasetId)
   const version = await readyDatasetVersion(datasetId, datasetVersionNo)
-  const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
+  const { columns, tagging, kinds } = await taggingAndColumns(version)
   return {
     datasetVersion: { id: version.id, versionNo: version.versionNo },
-    settings: settingsFromTagging({ tagging, columns }),
+    settings: settingsFromTagging({ tagging, columns, binaryColumns: kinds.binaryColumns }),
     columns: columns.map((c) => c.name),
     numericColumns: columns.filter((c) => c.type === 'integer' || c.type === 'numeric').map((c) => c.name),
     labelsByColumn: labelsByColumn(columns),
-    ...responseKinds(columns),
+    ...kinds,
   }
+}
+
+/**
+ * A version's columns, tagging and what each column can be as a response. A tagged text response
+ * whose profile shows more than two values may hold two in the kept rows (the others excluded):
+ * its kept values make it a yes/no column.
+ */
+async function taggingAndColumns(version: VersionRecord) {
+  const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
+  const kinds = responseKinds(columns)
+  const response = columns.find((c) => c.name === tagging?.responseColumns[0])
+  if (response?.type === 'text' && !kinds.binaryColumns[response.name]) {
+    const values = await keptYesNoValues(version, response.name)
+    if (values) kinds.binaryColumns[response.name] = values
+  }
+  return { columns, tagging, kinds }
 }
 
 export interface UnitsCsvFile {
@@ -214,8 +231,11 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
   const dataset = await readable(user, 'dataset', input.datasetId)
   await writable(user, 'lab', dataset.labId, { subject: 'analysis' })
   const version = await readyDatasetVersion(dataset.id, input.datasetVersionNo)
-  const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
-  const asked = mergeSettings(settingsFromTagging({ tagging, columns }), input.settings)
+  const { columns, tagging, kinds } = await taggingAndColumns(version)
+  const asked = mergeSettings(
+    settingsFromTagging({ tagging, columns, binaryColumns: kinds.binaryColumns }),
+    input.settings,
+  )
   checkSettingsAgainstColumns(asked, columns, version.versionNo)
   const name = input.name ?? `${dataset.name} – ${asked.response}`
 

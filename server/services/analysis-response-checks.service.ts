@@ -2,7 +2,10 @@ import { defaultPositiveLabel } from '../../shared/analysis/binary-response'
 import type { AnalysisSettings } from '../../shared/schemas/analyses'
 import { InvalidPayloadError } from '../errors/app-error'
 import { parseNumberText } from '../rows-store/number-text'
+import { activeExclusions } from '../repositories/datasets-annotations.repo'
+import { shapeOf } from '../rows-store/read-back'
 import {
+  excludedSql,
   firstRowNotWholeNumber,
   firstRowsOfDistinctValues,
   firstRowSuccessesAboveTrials,
@@ -111,6 +114,22 @@ export async function checkResponseForFamily(
   }
   if (values.length === 0) return settings
   return { ...settings, positive: defaultPositiveLabel(values, toNumber) }
+}
+
+/**
+ * The two values a text column holds in the kept rows when they are labels (yes/no), else null.
+ * For a response whose file holds a third value only in excluded rows: its profile (all rows)
+ * shows three, but the tagging accepted it as yes/no. Numbers are not labels: a numbers column
+ * whose stray text is excluded stays a measurement.
+ */
+export async function keptYesNoValues(version: VersionRecord, name: string): Promise<string[] | null> {
+  const shape = await shapeOf(version)
+  const column = shape.columns.get(name)
+  if (!column) return null
+  const excluded = excludedSql(shape, await activeExclusions(version.id))
+  const values = (await firstRowsOfDistinctValues(shape, column, excluded, 3)).map((f) => f.value)
+  const isNumber = (text: string) => Number.isFinite(parseNumberText(text, version.decimalMark))
+  return values.length === 2 && !values.some(isNumber) ? values : null
 }
 
 function refuse(path: string, column: string, row: number, message: string): never {

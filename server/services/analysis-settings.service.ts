@@ -8,21 +8,32 @@ const q = (name: string) => `“${name}”`
 
 export interface TaggingDefaultsInput {
   tagging: Pick<Tagging, 'responseColumns' | 'conditionColumn' | 'levels'> | null
-  /** The version's column profiles: they tell whether the response is a two-valued text column. */
+  /** The version's column profiles: they tell whether the response is a text column. */
   columns: readonly ColumnProfile[]
+  /**
+   * The two values of yes/no columns when known better than the profile knows them (the kept rows
+   * of a column whose file holds a third value only in excluded rows).
+   */
+  binaryColumns?: Record<string, string[]>
 }
 
 /**
  * Settings from a version's tagging: its first response, its condition (if any) and levels, the
- * defaults for the rest. A response profiled as text with exactly two values (which tagging accepts
- * only as yes/no) starts as binomial, its value counted as yes chosen as the settings form would
- * (defaultPositiveLabel); a numeric response starts as a normal one, whatever its values.
+ * defaults for the rest. A text response with two values (from `binaryColumns`, else its profile;
+ * tagging accepts text only as yes/no or as numbers with stray text in excluded rows) starts as
+ * binomial, its value counted as yes chosen as the settings form would (defaultPositiveLabel); any
+ * other response starts as a normal one, whatever its values.
  */
-export function settingsFromTagging({ tagging, columns }: TaggingDefaultsInput): AnalysisSettings | null {
+export function settingsFromTagging({
+  tagging,
+  columns,
+  binaryColumns,
+}: TaggingDefaultsInput): AnalysisSettings | null {
   if (!tagging || !tagging.responseColumns.length || !tagging.levels.length) return null
   const response = tagging.responseColumns[0]
   const profile = columns.find((c) => c.name === response)
-  const labels = profile?.type === 'text' ? responseKinds([profile]).binaryColumns[response] : undefined
+  const labels =
+    profile?.type === 'text' ? (binaryColumns ?? responseKinds([profile]).binaryColumns)[response] : undefined
   const change = applySettingsChange(null, {
     response,
     conditions: tagging.conditionColumn ? [tagging.conditionColumn] : [],

@@ -169,7 +169,7 @@ describe('a two-valued text column as the response', () => {
     expect(await taggingsOf(id)).toBe(0)
   })
 
-  it('is accepted once the third value is excluded', async () => {
+  it('is accepted once the third value is excluded, and analysed as yes/no', async () => {
     const id = await upload(
       yesNoCsv((r, i) => (i === 39 ? 'unsure' : r.marker)),
       'marker-text-excluded',
@@ -186,6 +186,15 @@ describe('a two-valued text column as the response', () => {
     )
     expect(exclusion.status, JSON.stringify(exclusion.body)).toBe(201)
     expect((await tag(id)).status).toBe(200)
+
+    // The profile (all rows) shows three values; the defaults and the form go by the kept two.
+    const defaults = await getAs(app, team.cookies.scientist, `/api/v1/analyses/defaults?datasetId=${id}`)
+    const parsed = AnalysisDefaults.parse(defaults.body.data)
+    expect([...parsed.binaryColumns.marker].sort()).toEqual(['negative', 'positive'])
+    expect(parsed.settings).toMatchObject({ family: 'binomial', positive: 'positive' })
+    const { result } = await analysedResult(id)
+    expect(result.family).toBe('binomial')
+    expect(result.outcome).toEqual({ positive: 'positive', negative: 'negative' })
   })
 
   it('is refused with a single value in the rows kept', async () => {
