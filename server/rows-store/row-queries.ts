@@ -269,6 +269,60 @@ export async function crossedLabelCounts(
   }
 }
 
+/** Per factor: its distinct labels, and units of each nesting level (outermost first) without and with it. */
+export interface FactorAcrossLevels {
+  labels: number
+  units: number[]
+  unitsByFactor: number[]
+}
+
+/**
+ * Counts, over the kept rows that have every label, the labels of each factor column and, for
+ * each nesting level, its units and its (unit, factor label) pairs, in one scan down to the
+ * distinct label tuples: enough to tell where a factor varies and whether it just renames a
+ * level's units.
+ */
+export async function factorsAcrossLevels(
+  shape: RowTableShape,
+  levelPositions: readonly number[],
+  factorPositions: readonly number[],
+  excluded: string,
+  conn: Conn = defaultConn,
+): Promise<FactorAcrossLevels[]> {
+  const label = (position: number) =>
+    `CASE WHEN ${missingSql(shape, position)} THEN NULL ELSE ${trimmed(position)} END`
+  const levels = levelPositions.map((_, d) => `l${d}`)
+  const factors = factorPositions.map((_, i) => `f${i}`)
+  const prefix = (d: number) => levels.slice(0, d + 1).join(', ')
+  const counts = factors.flatMap((f, i) => [
+    `count(DISTINCT ${f}) AS labels${i}`,
+    ...levels.map((_, d) => `count(DISTINCT ROW(${prefix(d)}, ${f})) AS uf${i}_${d}`),
+  ])
+  const selected = [
+    ...levelPositions.map((p, d) => `${label(p)} AS l${d}`),
+    ...factorPositions.map((p, i) => `${label(p)} AS f${i}`),
+  ]
+  const all = [...levels, ...factors]
+  const [row] = await queryBuilt<Record<string, string>>(
+    `WITH tuples AS (
+       SELECT ${all.join(', ')} FROM (
+         SELECT ${selected.join(', ')} FROM ${rowsTable(shape.versionId)} WHERE NOT ${excluded}
+       ) labelled
+       WHERE ${all.map((n) => `${n} IS NOT NULL`).join(' AND ')}
+       GROUP BY ${all.join(', ')}
+     )
+     SELECT ${levels.map((_, d) => `count(DISTINCT ROW(${prefix(d)})) AS u${d}`).join(', ')}, ${counts.join(', ')}
+       FROM tuples`,
+    conn,
+  )
+  const units = levels.map((_, d) => Number(row[`u${d}`]))
+  return factors.map((_, i) => ({
+    labels: Number(row[`labels${i}`]),
+    units,
+    unitsByFactor: levels.map((_, d) => Number(row[`uf${i}_${d}`])),
+  }))
+}
+
 export interface PageRequest {
   offset: number
   limit: number

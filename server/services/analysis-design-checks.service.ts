@@ -4,6 +4,7 @@ import { InvalidPayloadError, UnprocessableError } from '../errors/app-error'
 import {
   crossedLabelCounts,
   excludedSql,
+  factorsAcrossLevels,
   firstNonNumberRow,
   type RowTableShape,
 } from '../rows-store/row-queries'
@@ -20,11 +21,13 @@ type AppliedExclusions = readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[]
  * Checks settings against the kept rows of a dataset version, where the profile cannot tell:
  * - a covariate holds numbers in every kept row (400 naming the column and the first file row
  *   that holds text, as the row table shows it);
- * - with two condition factors, neither is constant and they are not fully confounded (each
- *   label of one going with exactly one label of the other, both ways): 422 naming the columns;
+ * - with two condition factors, neither is constant, they are not fully confounded (each label
+ *   of one going with exactly one label of the other, both ways), and neither just renames the
+ *   units of a nesting level (each unit a label of its own): 422 naming the columns (a single
+ *   condition was checked against the levels when it was tagged; the engine refuses the rest);
  * - a binary or count response holds what its family can take (400 naming the first offending
  *   row, see checkResponseForFamily).
- * One query per text covariate, one scan for two factors and one or two for a binary or count
+ * One query per text covariate, two scans for two factors and one or two for a binary or count
  * response; nothing for the usual normal one-factor case.
  *
  * @returns the settings to store: as given, with the value counted as yes of a yes/no response
@@ -39,8 +42,10 @@ export async function checkSettingsAgainstRows(
   const shape = await shapeOf(version, conn)
   const excluded = excludedSql(shape, exclusions)
   await checkCovariatesHoldNumbers(version, shape, settings.covariates, excluded, conn)
-  if (settings.conditions.length === 2)
+  if (settings.conditions.length === 2) {
     await checkFactorsCanBeToldApart(shape, settings.conditions, excluded, conn)
+    await checkFactorsAreNotLevels(shape, settings.conditions, settings.levels, excluded, conn)
+  }
   return checkResponseForFamily(version, shape, settings, excluded, conn)
 }
 
@@ -93,6 +98,33 @@ async function checkFactorsCanBeToldApart(
     throw new UnprocessableError(
       `The conditions ${q(first)} and ${q(second)} are fully confounded in the rows kept: each value of one goes with exactly one value of the other, so their effects cannot be told apart. Keep one of them.`,
       { columns: [first, second] },
+    )
+  }
+}
+
+/**
+ * The outermost level within whose units a factor never changes carries it; when there are as
+ * many labels as units of that level, the factor's effect and that level's variance are one and
+ * the same (the engine refuses such a design too, see checkNotALevel).
+ */
+async function checkFactorsAreNotLevels(
+  shape: RowTableShape,
+  conditions: readonly string[],
+  levels: readonly string[],
+  excluded: string,
+  conn: Conn,
+): Promise<void> {
+  const factors = conditions.map((name) => shape.columns.get(name)?.position)
+  const positions = levels.map((name) => shape.columns.get(name)?.position)
+  if ([...factors, ...positions].some((p) => p === undefined)) return
+  const all = await factorsAcrossLevels(shape, positions as number[], factors as number[], excluded, conn)
+  for (const [i, counts] of all.entries()) {
+    const carrier = counts.units.findIndex((units, d) => units === counts.unitsByFactor[d])
+    if (carrier < 0 || counts.units[carrier] !== counts.labels) continue
+    const [condition, level] = [conditions[i], levels[carrier]]
+    throw new UnprocessableError(
+      `The condition ${q(condition)} groups the kept rows exactly as the level ${q(level)} does (each ${level} has a value of ${q(condition)} of its own), so its effect cannot be told apart from ${level}-to-${level} differences. Leave it out of the conditions, or choose the nesting levels again.`,
+      { column: condition, columns: [condition, level] },
     )
   }
 }

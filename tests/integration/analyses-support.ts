@@ -114,6 +114,8 @@ export interface TwoFactorSpec {
   seed?: string
   /** Data row (1-based) whose soma area is written as text, as a spreadsheet export might. */
   textSomaAtRow?: number
+  /** Adds an `ear_tag` column: each mouse's own label (a level's units under another name). */
+  earTags?: boolean
 }
 
 /**
@@ -129,7 +131,8 @@ export function twoFactorCsv(spec: TwoFactorSpec = {}): string {
     while (u === 0) u = random()
     return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * random())
   }
-  const lines = ['lab,mouse,genotype,line,batch,coverslip,treatment,neuron,soma_area_um2,neurite_length_um']
+  const header = 'lab,mouse,genotype,line,batch,coverslip,treatment,neuron,soma_area_um2,neurite_length_um'
+  const lines = [spec.earTags ? `${header},ear_tag` : header]
   let row = 0
   for (const lab of ['Nimbus', 'Fernhill'])
     for (let m = 1; m <= 6; m++) {
@@ -152,6 +155,7 @@ export function twoFactorCsv(spec: TwoFactorSpec = {}): string {
               n,
               row === spec.textSomaAtRow ? 'n.d.' : soma.toFixed(1),
               y.toFixed(2),
+              ...(spec.earTags ? [`${lab.slice(0, 2)}-${m}`] : []),
             ].join(','),
           )
         }

@@ -170,6 +170,33 @@ describe('a second factor that cannot be told apart', () => {
     }
   })
 
+  it('answers 422 naming the second factor and the level when it just renames that level’s units', async () => {
+    const tagged = await taggedDataset(
+      app,
+      team.cookies.scientist,
+      team.lab.id,
+      twoFactorCsv({ earTags: true }),
+      LEVELS,
+      'ear-tags',
+    )
+    const before = await db('analyses').where({ dataset_id: tagged.id }).count<{ n: string }[]>('* as n')
+    for (const conditions of [
+      ['genotype', 'ear_tag'],
+      ['ear_tag', 'treatment'],
+    ]) {
+      const res = await create(tagged.id, { conditions })
+      expect(res.status, JSON.stringify(res.body)).toBe(422)
+      expect(res.body.error.message).toBe(
+        'The condition “ear_tag” groups the kept rows exactly as the level “mouse” does (each mouse has a value of “ear_tag” of its own), so its effect cannot be told apart from mouse-to-mouse differences. Leave it out of the conditions, or choose the nesting levels again.',
+      )
+      expect(res.body.error.details).toEqual({ column: 'ear_tag', columns: ['ear_tag', 'mouse'] })
+    }
+    const after = await db('analyses').where({ dataset_id: tagged.id }).count<{ n: string }[]>('* as n')
+    expect(after).toEqual(before)
+    // Conditions several mice share are factors of the comparison.
+    expect((await create(tagged.id, { conditions: ['genotype', 'treatment'] })).status).toBe(201)
+  })
+
   it('ends a run the engine refuses as UNPROCESSABLE, in the engine’s own words', async () => {
     // Written straight to the tables, as a version stored before these checks existed would be.
     const { project_id: projectId } = await db('datasets').where({ id: dataset.id }).first('project_id')
