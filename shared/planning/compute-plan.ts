@@ -86,7 +86,7 @@ function measureNotes(inputs: PlanInputs, observedIcc: number): string[] {
   const scale = measure.kind === 'proportion' ? 'log odds' : 'log'
   return [
     `Planned for a ${what} of ${fmt(measure.control)} in the control arm against ${fmt(target)}: a difference of ${fmt(difference)}.`,
-    `The ICC of ${fmt(measure.latentIcc)} on the latent (${scale}) scale is ${fmt(observedIcc)} on the scale of the ${measure.kind === 'proportion' ? 'yes/no values' : 'counts'} at the average ${what} ${fmt(measure.control + difference / 2)} (Goldstein, Browne & Rasbash 2002; computed by numerical integration), and the design effect 1 + (m − 1)·ICC uses the pooled variance there (Donner & Klar 2000). This approximates the logistic or Poisson mixed model the data will be analysed with; it is usually slightly conservative.`,
+    `The ICC of ${fmt(measure.latentIcc)} on the latent (${scale}) scale is ${fmt(observedIcc)} on the scale of the ${measure.kind === 'proportion' ? 'yes/no values' : 'counts'} at the average ${what} ${fmt(measure.control + difference / 2)} (${measure.kind === 'proportion' ? 'Goldstein, Browne & Rasbash 2002; computed by numerical integration' : 'lognormal–Poisson moments; Nakagawa, Johnson & Schielzeth 2017'}), and the design effect 1 + (m − 1)·ICC uses the pooled variance there (Donner & Klar 2000). This approximates the ${measure.kind === 'proportion' ? 'logistic' : 'Poisson'} mixed model the data will be analysed with; it is usually slightly conservative.`,
   ]
 }
 
