@@ -492,6 +492,38 @@ describe('analyzeNested with two factors and a covariate (invented data)', () =>
     expect(result.comparisons.naive).toMatchObject({ method: 'linear-model' })
     expect(result.headline!.label).toBe('KO − WT (averaged over condition)')
   })
+
+  it('warns, and does not fail, when one genotype × treatment cell has a single mouse', () => {
+    // Invented: mice carry both factors, 3 mice in each cell but KO with KX-9 (1 mouse), 6 cells each.
+    const cells: [string, string, number][] = [
+      ['WT', 'vehicle', 3],
+      ['WT', 'KX-9', 3],
+      ['KO', 'vehicle', 3],
+      ['KO', 'KX-9', 1],
+    ]
+    const t: Record<string, string[]> = { mouse: [], genotype: [], treatment: [], y: [] }
+    let mouse = 0
+    for (const [genotype, treatment, mice] of cells)
+      for (let i = 0; i < mice; i++) {
+        mouse++
+        for (let j = 0; j < 6; j++) {
+          t.mouse.push(`m${mouse}`)
+          t.genotype.push(genotype)
+          t.treatment.push(treatment)
+          t.y.push(String(10 + ((mouse * 7) % 5) * 0.4 + ((j * 3) % 4) * 0.3))
+        }
+      }
+    const single = analyzeNested(nestedColumnsFromTable(t, 'y', ['mouse'], ['genotype', 'treatment']), {
+      reference: { genotype: 'WT', treatment: 'vehicle' },
+    })
+    const warning = single.warnings.find((w) => w.code === 'FEW_UNITS')!
+    expect(warning.message).toMatch(/^"KO:KX-9" has 1 mouse unit\./)
+    // One level, the same number of rows per mouse: the mixed model's F tests are the two-way
+    // ANOVA of the mouse means (from memory; balanced within units, so REML gives the same F).
+    const terms = single.comparisons.mixedModel!.terms!
+    const anova = single.comparisons.unitMeans as { terms: { term: string; p: number }[] }
+    for (const term of anova.terms) expect(terms.find((x) => x.term === term.term)!.p).toBeCloseTo(term.p, 9)
+  })
 })
 
 describe('analyzeNested: design effect per comparison (Kish 1965, the ratio definition)', () => {
