@@ -27,15 +27,9 @@ import { describeDesign, firstFactorContrast, designWarningFacts } from './descr
 import { naiveComparison } from './naive-comparison'
 import { summariseConditions } from './summarise-conditions'
 import { effectVariation, tableDesignEffects, termIccs } from './term-summaries'
+import type { AnalyzeNestedOptions } from './analyze-options'
 
-export interface AnalyzeNestedOptions {
-  /** Reference level per condition column; a column left out uses its first label. */
-  reference?: Record<string, string>
-  /** Adds a seeded hierarchical bootstrap (at least 100 resamples). */
-  bootstrap?: { resamples: number; seed: string } | null
-  /** Called just before the bootstrap starts, so a caller can show it as a stage of its own. */
-  beforeBootstrap?: () => void
-}
+export type { AnalyzeNestedOptions } from './analyze-options'
 
 /** Level of every confidence interval in the result. */
 const CONFIDENCE = 0.95

@@ -1,7 +1,7 @@
 import type { BootstrapResult } from '../schemas/analysis-result'
 import { hierarchicalBootstrap, type BootstrapInput } from '../stats/hierarchical-bootstrap'
 import type { NestedDesign } from '../stats/types'
-import type { AnalyzeNestedOptions } from './analyze-nested'
+import type { AnalyzeNestedOptions } from './analyze-options'
 
 /**
  * The bootstrap section of the result document: runs the hierarchical bootstrap on the design

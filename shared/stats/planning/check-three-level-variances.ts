@@ -1,5 +1,5 @@
 import { EngineInputError } from '../engine-input-error'
-import type { ThreeLevelVariances } from '../three-level-variance'
+import type { ThreeLevelVariances } from './three-level-variances'
 
 /**
  * The three-level variances with σ²_lab's default (0) filled in, each checked to be a finite

@@ -6,7 +6,7 @@ import type {
 import type { EChartsCoreOption } from 'echarts/core'
 import type { AnalysisResult, GroupSummary } from '../../../shared/schemas/analysis-result'
 import { formatInterval, formatNumber } from '../../../shared/report/number-format'
-import type { ChartColors } from './main-chart-option'
+import type { ChartColors } from './chart-colors'
 import { chartHtml, joinHtml } from './chart-text'
 import { responseYAxis, slotXAxis, whiskerLines } from './slot-axes'
 import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'

@@ -9,17 +9,11 @@ import { formatNumber } from '../../../shared/report/number-format'
 import { termLabel } from '../../../shared/report/words'
 import { ERROR_BAR_WORDS, naiveBar, nestedBar, type Bar } from './error-bars'
 import { chartHtml } from './chart-text'
+import type { ChartColors } from './chart-colors'
 import { responseYAxis, slotXAxis, whiskerLines } from './slot-axes'
 import { UNIT_HUES, UNIT_SYMBOLS } from './unit-style'
 
-export interface ChartColors {
-  text: string
-  muted: string
-  grid: string
-  naive: string
-  nested: string
-  background: string
-}
+export type { ChartColors } from './chart-colors'
 
 /** Where things sit within a condition's slot of width 1 centred on its index. */
 export const SLOT = { unitsFrom: -0.34, unitsTo: 0.04, jitter: 0.035, naive: 0.18, nested: 0.32 } as const

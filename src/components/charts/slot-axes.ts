@@ -1,4 +1,4 @@
-import type { ChartColors } from './main-chart-option'
+import type { ChartColors } from './chart-colors'
 
 /**
  * The x axis of a chart with one slot per label: a value axis from −0.5 to n − 0.5 (so marks can

@@ -1,6 +1,6 @@
 import { computed } from 'vue'
 import { useTheme } from 'vuetify'
-import type { ChartColors } from './main-chart-option'
+import type { ChartColors } from './chart-colors'
 
 /** Text, secondary text and grid lines of every chart, so all charts read alike in light and dark. */
 export function chartInk(dark: boolean): Pick<ChartColors, 'text' | 'muted' | 'grid'> {

@@ -4,7 +4,7 @@ import type { ChartData } from '../../../shared/schemas/analyses'
 import type { RandomTerm } from '../../../shared/schemas/analysis-result'
 import { formatNumber, formatShare } from '../../../shared/report/number-format'
 import { componentLabel, factorWords, pluralOf } from '../../../shared/report/words'
-import type { ChartColors } from './main-chart-option'
+import type { ChartColors } from './chart-colors'
 
 /** What a level × condition component means, for its hover; null for a plain level. */
 function componentMeaning(name: string, random: readonly RandomTerm[]): string | null {
