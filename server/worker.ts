@@ -1,7 +1,7 @@
 import { config } from './config'
 import { db } from './db'
 import { startHealthServer, type RunningHealthServer } from './health/health-server'
-import { analysisQueue, stopAnalysisQueue, waitingRuns } from './jobs/analysis-queue'
+import { analysisQueue, stopAnalysisQueue, waitingRuns } from './queue/analysis-queue'
 import { startAnalysisRunner, stopAnalysisRunner } from './jobs/analysis-runner'
 import { logger } from './logger'
 import { pingDatabase } from './repositories/health.repo'

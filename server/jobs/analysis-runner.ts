@@ -12,7 +12,8 @@ import {
   takeBackOrphanedRuns,
   type RunOutcome,
 } from '../services/analysis-runs.service'
-import { analysisQueue } from './analysis-queue'
+import { analysisQueue } from '../queue/analysis-queue'
+import { onRunQueued } from '../queue/run-signal'
 import { AnalysisThread } from './analysis-thread'
 
 export interface AnalysisRunnerOptions {
@@ -236,22 +237,27 @@ const duration = (ms: number) =>
 // ---------------------------------------------------------------- the process-wide runner
 
 let runner: AnalysisRunner | null = null
+let stopListening: (() => void) | null = null
 
-/** Starts this process's runner (server/index.ts, server/worker.ts; tests with short timings). */
+/**
+ * Starts this process's runner (server/index.ts, server/worker.ts; tests with short timings); a
+ * version queued in this process starts at once (signalRunQueued).
+ */
 export function startAnalysisRunner(options: AnalysisRunnerOptions = {}): AnalysisRunner {
-  runner ??= new AnalysisRunner(options).start()
+  if (!runner) {
+    const started = new AnalysisRunner(options).start()
+    runner = started
+    stopListening = onRunQueued(() => started.wake())
+  }
   return runner
 }
 
 export async function stopAnalysisRunner(): Promise<void> {
   const current = runner
   runner = null
+  stopListening?.()
+  stopListening = null
   await current?.stop()
-}
-
-/** After queuing a version: start it now if this process runs analyses; otherwise a runner elsewhere polls. */
-export function wakeAnalysisRunner(): void {
-  runner?.wake()
 }
 
 export const analysisRunnerRunning = (): boolean => runner !== null

@@ -9,7 +9,7 @@ import type { RecordedExclusion } from './analyses.repo'
 import { defaultConn, type Conn } from './connection'
 
 /**
- * What a run writes on its analysis version: the queue itself is pg-boss (jobs/analysis-queue.ts),
+ * What a run writes on its analysis version: the queue itself is pg-boss (queue/analysis-queue.ts),
  * the row holds what people see. A run names itself with a claim token when it starts; every later
  * write names it too, so a run whose process was given up on (and whose job runs elsewhere now)
  * cannot overwrite the newer run.

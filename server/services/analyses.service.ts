@@ -15,7 +15,7 @@ import { ENGINE_VERSION } from '../../shared/stats/engine-version'
 import { unitsCsv, csvFilename } from '../analysis/units-csv'
 import { db } from '../db'
 import { ConflictError, NotFoundError, UnprocessableError } from '../errors/app-error'
-import { wakeAnalysisRunner } from '../jobs/analysis-runner'
+import { signalRunQueued } from '../queue/run-signal'
 import {
   findAnalysisVersion,
   findAnalysisVersionResult,
@@ -275,7 +275,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
     })
     return id
   })
-  wakeAnalysisRunner()
+  signalRunQueued()
   return getAnalysisDetail(user, analysisId)
 }
 
@@ -339,7 +339,7 @@ export async function createAnalysisVersionFor(
     })
     return next
   })
-  wakeAnalysisRunner()
+  signalRunQueued()
   return publicVersion(await versionOf(analysisId, versionNo))
 }
 

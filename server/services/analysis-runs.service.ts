@@ -1,7 +1,7 @@
 import type { AnalysisRunError, ChartData } from '../../shared/schemas/analyses'
 import type { AnalysisResult } from '../../shared/schemas/analysis-result'
 import { db } from '../db'
-import { completeRun, failRun, fetchRun, MAX_TRIES, sendRun, type QueuedRun } from '../jobs/analysis-queue'
+import { completeRun, failRun, fetchRun, MAX_TRIES, sendRun, type QueuedRun } from '../queue/analysis-queue'
 import { logger } from '../logger'
 import {
   failRunningVersion,

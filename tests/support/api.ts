@@ -4,7 +4,7 @@ import { createApp, type AppOptions } from '../../server/app'
 import { closeSharedSessionStore } from '../../server/auth/session'
 import { publicUrl } from '../../server/config'
 import { db } from '../../server/db'
-import { stopAnalysisQueue } from '../../server/jobs/analysis-queue'
+import { stopAnalysisQueue } from '../../server/queue/analysis-queue'
 
 /** Headers the Nestwise client sends on every write (see the same-origin check). */
 export const appWriteHeaders = { Origin: publicUrl, 'X-Requested-With': 'nestwise' } as const
