@@ -191,15 +191,20 @@ describe('two web processes and two workers on one database and one bucket', () 
   })
 })
 
-/** The pid of the worker whose run lock is held for `versionId`, once a worker has started it. */
+/**
+ * The pid of the worker whose run lock is held for `versionId`, once a worker has started it and
+ * its claim is committed (the lock is taken inside the claim's transaction: a process killed
+ * before the commit leaves the version queued, its try not counted).
+ */
 async function lockHolder(versionId: number, timeoutMs = 30_000): Promise<number> {
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
     const { rows } = await admin.raw(
       `SELECT a.application_name FROM pg_locks l JOIN pg_stat_activity a ON a.pid = l.pid
         WHERE l.locktype = 'advisory' AND l.objsubid = 2 AND l.objid = ?
-          AND a.application_name LIKE 'nestwise-run-locks-%'`,
-      [versionId],
+          AND a.application_name LIKE 'nestwise-run-locks-%'
+          AND EXISTS (SELECT 1 FROM analysis_versions v WHERE v.id = ? AND v.status = 'running')`,
+      [versionId, versionId],
     )
     const name = (rows as { application_name: string }[])[0]?.application_name
     if (name) return Number(name.slice('nestwise-run-locks-'.length))
