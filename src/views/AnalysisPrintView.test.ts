@@ -11,6 +11,8 @@ import { fakeFetch } from '@/testing/fake-fetch'
 import { mountWithApp } from '@/testing/mount-with-app'
 import { samiScientist } from '@/testing/users'
 import { ERROR_BAR_STORAGE_KEY } from '@/stores/display-preferences'
+import { formatDate } from '@/formatting/dates'
+import type { ReviewState } from '../../shared/schemas/reviews'
 import AnalysisPrintView from './AnalysisPrintView.vue'
 
 // Fixture: the stored engine-0.1.0 result of the seeded single-lab demo; the analysis around it is invented.
@@ -63,10 +65,34 @@ afterEach(() => {
   document.body.innerHTML = ''
 })
 
-async function openPrint(path: string) {
+// An invented sign-off of version 1 by an invented biostatistician.
+const signedAt = '2025-01-02T10:30:00.000Z'
+const signedReview: ReviewState = {
+  signOff: {
+    signedOff: true,
+    coveringSignOff: {
+      id: 5,
+      versionNo: 1,
+      signedBy: { id: 9, name: 'Bea Biostat' },
+      signedAt,
+      hash: 'b'.repeat(64),
+      hashValid: true,
+    },
+    earlierSignOffs: [],
+    tampered: [],
+  },
+  fingerprint: 'b'.repeat(64),
+  requests: [],
+  comments: [],
+  reviewers: [],
+  permissions: { requestReview: false, comment: false },
+}
+
+async function openPrint(path: string, review?: ReviewState) {
   vi.stubGlobal(
     'fetch',
     fakeFetch({
+      ...(review ? { 'GET /api/v1/analyses/1/versions/1/review': ok(review) } : {}),
       'GET /api/v1/auth/session': ok(samiScientist),
       'GET /api/v1/analyses/1': ok(analysis),
       'GET /api/v1/analyses/1/versions/1': ok(version),
@@ -90,5 +116,11 @@ describe('AnalysisPrintView', () => {
     const wrapper = await openPrint('/analyses/1/versions/1/print?bars=whiskers')
     expect(wrapper.get('[data-testid="print-error-bars"]').text()).toContain('95% CI')
     localStorage.removeItem(ERROR_BAR_STORAGE_KEY)
+  })
+
+  it('names who signed the version off, and when, in the printed header', async () => {
+    const wrapper = await openPrint('/analyses/1/versions/1/print', signedReview)
+    const chip = wrapper.get('header [data-testid="sign-off-chip"]')
+    expect(chip.text()).toBe(`Signed off by Bea Biostat, on ${formatDate(signedAt)}`)
   })
 })

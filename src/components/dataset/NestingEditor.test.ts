@@ -142,4 +142,36 @@ describe('NestingEditor', () => {
       'Scientists and PIs of the lab set the nesting',
     )
   })
+
+  it('says each fact about the saved nesting once on the tab, also while the form is being changed', async () => {
+    // Saved as suggested; the server's summary repeats the suggestion's sentence on units per level.
+    const units = '“mouse” has 12 units, 4 in each “lab”.'
+    const design = { ...neuriteDesign, explanation: ['“lab” has 3 units.', units] }
+    const wrapper = mountWithVuetify(NestingEditor, { ...base, tagging: tagging(), design })
+    const bullets = () => wrapper.findAll('li').map((li) => li.text())
+    const chains = () => wrapper.findAll('[data-testid="chain-level"]')
+    expect(bullets().filter((text) => text === units)).toHaveLength(1)
+    expect(chains()).toHaveLength(2)
+
+    // A change in the form, not saved: the suggestion is still what the summary below describes.
+    await wrapper.findAll('[data-testid="level-remove"]')[0].trigger('click')
+    expect(wrapper.find('[data-testid="nesting-form"]').text()).toContain('Changed, not saved.')
+    expect(bullets().filter((text) => text === units)).toHaveLength(1)
+    expect(chains()).toHaveLength(2)
+    expect(wrapper.findAll('[data-testid$="-placement"]')).toHaveLength(1)
+    expect(wrapper.find('[data-testid="suggestion-compact"]').exists()).toBe(true)
+    // Taking the suggestion over again still works from the short card.
+    await wrapper.get('[data-testid="use-suggestion"]').trigger('click')
+    expect(levelsOf(wrapper)).toEqual(['lab', 'mouse'])
+  })
+
+  it('explains the suggestion in full when the saved nesting is a different one', () => {
+    const wrapper = mountWithVuetify(NestingEditor, {
+      ...base,
+      tagging: tagging({ levels: ['mouse'] }),
+      design: neuriteDesign,
+    })
+    expect(wrapper.find('[data-testid="suggestion-compact"]').exists()).toBe(false)
+    expect(wrapper.findAll('[data-testid="suggestion-explanation"] li')).toHaveLength(2)
+  })
 })
