@@ -5,6 +5,7 @@ import { bacteria } from '../stats/fixtures/bacteria'
 import { grouseticks } from '../stats/fixtures/grouseticks'
 import { nestedColumnsFromTable } from '../stats/fixtures/nested-columns-from-table'
 import { analyzeNested } from './analyze-nested'
+import { noLabEffectTable } from './fixtures/invented-glmm-tables'
 
 const codes = (r: AnalysisResult) => r.warnings.map((w) => w.code)
 
@@ -115,5 +116,46 @@ describe('analyzeNested refuses a response its family cannot take', () => {
     expect(() => analyzeNested({ ...columns, response, trials, family: 'binomial' })).toThrow(
       /Row 1 has 3 successes out of 1 trials/,
     )
+  })
+})
+
+describe('analyzeNested, a real boundary fit (invented data without any lab effect)', () => {
+  // Seeded, see fixtures/invented-glmm-tables.ts: 4 labs × 8 mice, 647 neurons, spread between
+  // mice only. Live glmer comparison of this table: tests/reference/glmm-boundary-reference.test.ts.
+  const result = analyzeNested(
+    {
+      ...nestedColumnsFromTable(noLabEffectTable(), 'marker01', ['lab', 'mouse'], 'treatment'),
+      family: 'binomial',
+    },
+    { reference: { treatment: 'vehicle' } },
+  )
+
+  it('estimates the lab variances at 0, says so plainly and still converges', () => {
+    expect(result.model!.formula).toBe('marker01 ~ treatment + (1|lab) + (1|lab:treatment) + (1|lab:mouse)')
+    const variance = Object.fromEntries(result.varianceComponents.map((v) => [v.level, v.variance]))
+    expect(variance.lab).toBe(0)
+    expect(variance['lab:treatment']).toBe(0)
+    // lme4 1.1-31 glmer (bobyqa, rhoend 1e-10, tolPwrss 1e-13), run once on this table: isSingular TRUE,
+    // σ²_lab = σ²_lab:treatment = 0, σ²_lab:mouse = 0.420011569.
+    expect(variance.mouse / 0.420011569).toBeCloseTo(1, 4)
+    expect(result.singular).toBe(true)
+    expect(result.converged).toBe(true)
+    expect(codes(result)).toContain('BOUNDARY_FIT')
+    expect(codes(result)).not.toContain('NOT_CONVERGED')
+    const boundary = result.warnings.find((w) => w.code === 'BOUNDARY_FIT')!
+    expect(boundary.message).toContain('"lab", "lab:treatment" units was estimated as 0')
+  })
+
+  it('keeps the fixed effects of glmer at the boundary', () => {
+    // lme4 1.1-31 glmer as above: treatmentQZ-41 0.8974177123 (SE 0.2863734173), intercept −0.1986433535
+    // (SE 0.2019085580).
+    const [intercept, treated] = result.comparisons.mixedModel!.coefficients! as {
+      estimate: number
+      se: number
+    }[]
+    expect(intercept.estimate / -0.1986433535).toBeCloseTo(1, 4)
+    expect(intercept.se / 0.201908558).toBeCloseTo(1, 4)
+    expect(treated.estimate / 0.8974177123).toBeCloseTo(1, 4)
+    expect(treated.se / 0.2863734173).toBeCloseTo(1, 4)
   })
 })

@@ -2,6 +2,8 @@ import seedrandom from 'seedrandom'
 import { describe, expect, it } from 'vitest'
 import { EngineInputError } from './engine-input-error'
 import { fitNestedGlmm } from './fit-nested-glmm'
+import { oneRowPerMouseTable } from '../analysis/fixtures/invented-glmm-tables'
+import { glmFit } from './glmm/glm-fit'
 import { bacteria } from './fixtures/bacteria'
 import { nestedColumnsFromTable } from './fixtures/nested-columns-from-table'
 import { prepareNestedDesign } from './prepare-nested-design'
@@ -80,5 +82,24 @@ describe('fitNestedGlmm', () => {
     const design = prepareNestedDesign(nestedColumnsFromTable(zeros, 'y', ['ID'], 'trt'))
     expect(() => fitNestedGlmm(design, { family: 'binomial' })).toThrow(EngineInputError)
     expect(() => fitNestedGlmm(design, { family: 'binomial' })).toThrow(/no successes/)
+  })
+
+  it('puts the observation-level term of a 0/1 response at exactly 0 and gives the GLM', () => {
+    // One 0/1 row per mouse: the mouse term is not identified and its Laplace deviance rises only
+    // as σ⁴ from 0, where Newton used to stall at σ ≈ 3e-3 and report SEs up to 8 % above glm's.
+    // Reference: R 4.x glm(y ~ treatment, binomial), live in tests/reference/glmm-boundary-reference.test.ts;
+    // here against the engine's own GLM (glmFit), which that file and glmer-reference.test.ts check against glm().
+    for (const seed of ['a', 'b', 'c', 'd', 'e']) {
+      const design = prepareNestedDesign(
+        nestedColumnsFromTable(oneRowPerMouseTable(120, seed), 'marker01', ['mouse'], 'treatment'),
+        { observationLevelUnits: true },
+      )
+      const fit = fitNestedGlmm(design, { family: 'binomial' })
+      expect(fit.components[0].variance).toBe(0)
+      expect(fit.singular).toBe(true)
+      const plain = glmFit(fit.rows, 1)
+      plain.beta.forEach((b, i) => expect(fit.beta[i]).toBeCloseTo(b, 7))
+      plain.vcov.forEach((row, i) => expect(Math.sqrt(fit.vcovBeta[i][i] / row[i])).toBeCloseTo(1, 6))
+    }
   })
 })
