@@ -66,3 +66,22 @@ export function responseScaleName(
   if (result.outcome) return `proportion “${result.outcome.positive}” in “${result.response}”`
   return `proportion of 1 in “${result.response}”`
 }
+
+/**
+ * The caution every model deserves, shown under the warnings: what it assumes (for a binary or
+ * count model, on its link scale), what few units mean, and which designs it does not cover
+ * (common practice, no source).
+ */
+export function modelCaution(result: Pick<AnalysisResult, 'family'>): string {
+  const family = glmmFamily(result)
+  const assumption = family
+    ? `the differences between units roughly normal on the ${linkScaleName(family)} scale` +
+      (family === 'poisson' ? ', and the counts no more spread than the model allows' : '')
+    : 'the spread within and between them roughly alike across conditions'
+  return (
+    `A model is only as good as its assumptions: the units must be independent of each other, and ${assumption}. ` +
+    'With few independent units the comparison has little power, so “no difference found” is weak evidence. ' +
+    'For designs this page does not cover (repeated measures over time, crossed random factors, more than two ' +
+    'condition factors, responses that are neither measurements, yes/no nor counts) consult a statistician.'
+  )
+}

@@ -79,6 +79,9 @@ describe('ResultBody on a real yes/no result', () => {
     expect(wrapper.get('[data-testid="model-reading"]').text()).toContain('the log odds of yes (“positive”)')
     expect(wrapper.get('[data-testid="badge-design-effect"]').text()).toContain('(its log odds ratio)')
     expect(wrapper.get('[data-testid="report-results"]').text()).toContain('odds ratio')
+    const caution = wrapper.get('[data-testid="model-caution"]').text()
+    expect(caution).toContain('roughly normal on the log odds scale')
+    expect(caution).not.toMatch(/counts or proportions/)
     expect(problems).toEqual([])
   })
 })
@@ -89,6 +92,9 @@ describe('ResultBody on a real count result', () => {
     expect(wrapper.get('[data-testid="comparison-model-QZ-41-vehicle"]').text()).toMatch(/RR \d\.\d\d/)
     expect(wrapper.get('[data-testid="latent-scale-note"]').text()).toContain('ln(1 + 1/λ)')
     expect(wrapper.get('[data-testid="report-methods"]').text()).toContain('Poisson mixed model (log link)')
+    expect(wrapper.get('[data-testid="model-caution"]').text()).toContain(
+      'roughly normal on the log rate scale, and the counts no more spread than the model allows',
+    )
     expect(problems).toEqual([])
   })
 })

@@ -101,6 +101,9 @@ describe('ResultBody', () => {
     // Three labs: our caution says so, since the fixture's engine warning does not name the term.
     expect(wrapper.findAll('[data-testid="effect-variation-caution"]')).toHaveLength(2)
     expect(wrapper.get('[data-testid="badge-effective-n"]').text()).toContain('for KO − WT')
+    expect(wrapper.get('[data-testid="model-caution"]').text()).toMatch(
+      /roughly alike across conditions\. .* consult a statistician\.$/,
+    )
     expect(problems).toEqual([])
   })
 
