@@ -22,14 +22,10 @@ import { chromium } from '@playwright/test'
 import { demoScientistEmail, signInAsDemoScientist, startBenchServer, waitForHealth } from './bench-server'
 import { BENCH_SPEC, writeNestedCsv } from './generate-nested-csv'
 import { postMultipart } from './post-multipart'
+import { numberOption } from './number-option'
 
-const args = process.argv.slice(2)
-const option = (name: string, fallback: number) => {
-  const at = args.indexOf(`--${name}`)
-  return at >= 0 ? Number(args[at + 1]) : fallback
-}
-const RUNS = option('runs', 3)
-const PORT = option('port', 3198)
+const RUNS = numberOption('runs', 3)
+const PORT = numberOption('port', 3198)
 const DATABASE = 'nestwise_bench_analysis'
 
 process.env.PGDATABASE = DATABASE

@@ -14,15 +14,11 @@
 import { loadavg } from 'node:os'
 import autocannon from 'autocannon'
 import { signInAsDemoScientist, startBenchServer, waitForHealth } from './bench-server'
+import { numberOption } from './number-option'
 
-const args = process.argv.slice(2)
-const option = (name: string, fallback: number) => {
-  const at = args.indexOf(`--${name}`)
-  return at >= 0 ? Number(args[at + 1]) : fallback
-}
-const CONNECTIONS = option('connections', 200)
-const SECONDS = option('seconds', 10)
-const PORT = option('port', 3191)
+const CONNECTIONS = numberOption('connections', 200)
+const SECONDS = numberOption('seconds', 10)
+const PORT = numberOption('port', 3191)
 const DATABASE = 'nestwise_bench_http'
 
 process.env.PGDATABASE = DATABASE

@@ -25,16 +25,12 @@ import seedrandom from 'seedrandom'
 import { availableParallelism } from 'node:os'
 import { signInAsDemoScientist, startBenchServer, waitForHealth } from './bench-server'
 import { postMultipart, uploadClient } from './post-multipart'
+import { numberOption } from './number-option'
 
-const args = process.argv.slice(2)
-const option = (name: string, fallback: number) => {
-  const at = args.indexOf(`--${name}`)
-  return at >= 0 ? Number(args[at + 1]) : fallback
-}
-const RUNS = option('runs', 3)
-const ROWS = option('rows', 1_000_000)
-const PORT = option('port', 3197)
-const DECIMALS = option('decimals', 1)
+const RUNS = numberOption('runs', 3)
+const ROWS = numberOption('rows', 1_000_000)
+const PORT = numberOption('port', 3197)
+const DECIMALS = numberOption('decimals', 1)
 const DATABASE = 'nestwise_bench'
 
 process.env.PGDATABASE = DATABASE

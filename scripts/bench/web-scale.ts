@@ -17,14 +17,10 @@ import { spawn, type ChildProcess } from 'node:child_process'
 import { loadavg } from 'node:os'
 import autocannon from 'autocannon'
 import { signInAsDemoScientist } from './bench-server'
+import { numberOption } from './number-option'
 
-const args = process.argv.slice(2)
-const option = (name: string, fallback: number) => {
-  const at = args.indexOf(`--${name}`)
-  return at >= 0 ? Number(args[at + 1]) : fallback
-}
-const CONNECTIONS = option('connections', 200)
-const SECONDS = option('seconds', 60)
+const CONNECTIONS = numberOption('connections', 200)
+const SECONDS = numberOption('seconds', 60)
 const DATABASE = 'nestwise_bench_web'
 
 process.env.PGDATABASE = DATABASE

@@ -17,13 +17,9 @@ import { join, resolve } from 'node:path'
 import { signInAsDemoScientist } from './bench-server'
 import { BENCH_SPEC, writeNestedCsv } from './generate-nested-csv'
 import { postMultipart } from './post-multipart'
+import { numberOption } from './number-option'
 
-const args = process.argv.slice(2)
-const option = (name: string, fallback: number) => {
-  const at = args.indexOf(`--${name}`)
-  return at >= 0 ? Number(args[at + 1]) : fallback
-}
-const ANALYSES = option('analyses', 20)
+const ANALYSES = numberOption('analyses', 20)
 const DATABASE = 'nestwise_bench_workers'
 
 process.env.PGDATABASE = DATABASE
