@@ -290,6 +290,13 @@ describe('responseKinds', () => {
           { value: 'c', count: 1 },
         ],
       }),
+      // A measurement with a note ("n.d."): two values, but not yes/no.
+      column('soma_area', {
+        topValues: [
+          { value: '5', count: 4 },
+          { value: 'n.d.', count: 2 },
+        ],
+      }),
       number('responding', 0, 1),
       number('puncta', 0, 14),
       number('offset', -2, 5),

@@ -1,7 +1,7 @@
 import type { AnalysisDefaults, AnalysisSettings, AnalysisSettingsPatch } from '../../shared/schemas/analyses'
 import type { ColumnProfile, Tagging } from '../../shared/schemas/datasets'
 import { applySettingsChange } from '../../shared/analysis/apply-settings-change'
-import { defaultPositiveLabel } from '../../shared/analysis/binary-response'
+import { areYesNoLabels, defaultPositiveLabel } from '../../shared/analysis/binary-response'
 import { InvalidPayloadError } from '../errors/app-error'
 
 const q = (name: string) => `“${name}”`
@@ -86,7 +86,7 @@ export function labelsByColumn(columns: readonly ColumnProfile[]): Record<string
 
 /**
  * What each column could be as a response, from its profile (the form suggests a family from it):
- * binary when it holds exactly two values as text, or only 0 and 1 as numbers; count when it holds
+ * binary when it holds two labels as text (areYesNoLabels), or only 0 and 1 as numbers; count when it holds
  * whole numbers of at least 0 and is not binary.
  */
 export function responseKinds(
@@ -99,7 +99,8 @@ export function responseKinds(
     const numeric = column.type === 'integer' || column.type === 'numeric'
     const zeroOne =
       numeric && column.min !== null && column.max !== null && column.min >= 0 && column.max <= 1
-    if (labels && labels.length === 2 && (column.type === 'text' || (zeroOne && column.type === 'integer'))) {
+    const yesNo = labels !== null && (column.type === 'text' ? areYesNoLabels(labels) : labels.length === 2)
+    if (yesNo && (column.type === 'text' || (zeroOne && column.type === 'integer'))) {
       binaryColumns[column.name] = labels
       continue
     }

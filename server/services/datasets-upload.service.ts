@@ -38,6 +38,7 @@ import {
 import { findOrInsertProject, findProject } from '../repositories/projects.repo'
 import { writable } from '../access/records'
 import { getDatasetDetail, getVersionDetail } from './datasets.service'
+import { areYesNoLabels } from '../../shared/analysis/binary-response'
 
 interface StoredVersion {
   versionId: number
@@ -132,7 +133,8 @@ async function carryOverTagging(
   const stillResponse = (name: string) => {
     const p = profiles.get(name)!
     if (p.type === 'numeric' || p.type === 'integer') return true
-    return p.type === 'text' && p.distinctCount === 2 && !p.distinctCapped
+    const labels = (p.topValues ?? []).map((t) => t.value)
+    return p.type === 'text' && p.distinctCount === 2 && !p.distinctCapped && areYesNoLabels(labels)
   }
   if (!tagging.responseColumns.every(stillResponse)) return
   await insertTagging(

@@ -1,7 +1,17 @@
 import { describe, expect, it } from 'vitest'
-import { defaultPositiveLabel, readBinaryResponse } from './binary-response'
+import { areYesNoLabels, defaultPositiveLabel, readBinaryResponse } from './binary-response'
 
 // The product's own rules for reading a yes/no column (common practice, no source).
+
+describe('areYesNoLabels', () => {
+  it('takes two labels, and refuses a number with a note, one value or three', () => {
+    expect(areYesNoLabels(['branched', 'unbranched'])).toBe(true)
+    expect(areYesNoLabels(['5', 'n.d.'])).toBe(false)
+    expect(areYesNoLabels(['n.d.', '2,5'])).toBe(false)
+    expect(areYesNoLabels(['yes'])).toBe(false)
+    expect(areYesNoLabels(['a', 'b', 'c'])).toBe(false)
+  })
+})
 
 describe('defaultPositiveLabel', () => {
   it('counts 1 as yes in a 0/1 column, however the 1 is written', () => {

@@ -38,6 +38,23 @@ export function defaultPositiveLabel(
   return sorted[Math.min(1, sorted.length - 1)]
 }
 
+/**
+ * Whether a text column's values can be the two answers of a yes/no response: exactly two, neither
+ * reading as a number in either decimal style. "5" and "n.d." are a measurement with a note, not
+ * yes/no (common practice, no source).
+ *
+ * @example
+ * areYesNoLabels(['branched', 'unbranched']) // → true
+ * areYesNoLabels(['5', 'n.d.']) // → false
+ */
+export function areYesNoLabels(values: readonly string[]): boolean {
+  const readsAsNumber = (value: string) => {
+    const text = value.trim()
+    return text !== '' && Number.isFinite(Number(text.replace(',', '.')))
+  }
+  return values.length === 2 && !values.some(readsAsNumber)
+}
+
 export interface BinaryReading {
   /** 1 for the value counted as yes, 0 for the other, NaN for a missing value (code −1). */
   values: Float64Array

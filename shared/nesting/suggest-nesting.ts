@@ -1,5 +1,6 @@
 import type { ColumnType, NestingSuggestion } from '../schemas/datasets'
 import { levelSentences, placementOf, placementSentence } from './describe-design'
+import { areYesNoLabels } from '../analysis/binary-response'
 import {
   childrenPerParent,
   countPaths,
@@ -236,6 +237,7 @@ function yesNoResponse(
       c.type === 'text' &&
       c.distinctCount === 2 &&
       c.coded !== null &&
+      areYesNoLabels(c.coded.labels) &&
       c.name !== condition &&
       !nameWords(c.name).some((w) => UNIT_WORDS.has(w)),
   )
