@@ -8,6 +8,7 @@ import { holmAdjust } from '../stats/holm-adjust'
 import { latentResidualVariance } from '../stats/latent-residual-variance'
 import { modelFormula } from '../stats/model-formula'
 import { prepareNestedDesign } from '../stats/prepare-nested-design'
+import { quadraticForm } from '../stats/reml/quadratic-form'
 import { nestedSufficientStats } from '../stats/reml/sufficient-stats'
 import { typeThreeHypotheses } from '../stats/type-three-hypotheses'
 import type { NestedColumns, NestedDesign } from '../stats/types'
@@ -65,7 +66,7 @@ export function analyzeNestedGlmm(
   const residual = latentResidualVariance(fit.link, meanLinearPredictor(design, fit), randomTotal)
   const total = randomTotal + residual
   const shares = [...fit.components.map((c) => c.variance / total), residual / total]
-  const designEffectOf = (l: number[]) => quadratic(l, fit.vcovBeta) / quadratic(l, naiveFit.vcov)
+  const designEffectOf = (l: number[]) => quadraticForm(l, fit.vcovBeta) / quadraticForm(l, naiveFit.vcov)
 
   const counts = cellTotals(design, trials)
   const groups = cellSummaries(design, fit, naiveFit, counts)
@@ -156,12 +157,6 @@ function unit(p: number, j: number): number[] {
   return Array.from({ length: p }, (_, k) => (k === j ? 1 : 0))
 }
 
-function quadratic(v: number[], M: number[][]): number {
-  let s = 0
-  for (let i = 0; i < v.length; i++) for (let j = 0; j < v.length; j++) s += v[i] * M[i][j] * v[j]
-  return s
-}
-
 /** Mean of xᵢᵀβ over the observations (the fixed part only). */
 function meanLinearPredictor(design: NestedDesign, fit: NestedGlmmFit): number {
   const p = fit.beta.length
@@ -204,7 +199,7 @@ function cellSummaries(
     const l = cellMeanRow(design, c)
     const model = waldTest(fit.beta, fit.vcovBeta, l, CONFIDENCE)
     const plain = waldTest(naive.beta, naive.vcov, l, CONFIDENCE)
-    const deff = quadratic(l, fit.vcovBeta) / quadratic(l, naive.vcov)
+    const deff = quadraticForm(l, fit.vcovBeta) / quadraticForm(l, naive.vcov)
     const observed = counts.y[c] / counts.n[c]
     const slope = (eta: number) => FAMILIES[fit.family].weight(mean(eta))
     const summary: GroupSummary = {

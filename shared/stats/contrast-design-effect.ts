@@ -1,5 +1,6 @@
 import { evaluateNestedReml } from './reml/evaluate-nested-reml'
 import { nestedSufficientStats } from './reml/sufficient-stats'
+import { quadraticForm } from './reml/quadratic-form'
 import type { NestedDesign, NestedFit } from './types'
 
 const independentCache = new WeakMap<NestedDesign, number[][]>()
@@ -31,11 +32,5 @@ export function contrastDesignEffect(design: NestedDesign, fit: NestedFit, weigh
     independentCache.set(design, independent)
   }
   const total = fit.components.reduce((s, c) => s + c.variance, 0)
-  return quadratic(weights, fit.vcovBeta) / (total * quadratic(weights, independent))
-}
-
-function quadratic(v: number[], M: number[][]): number {
-  let s = 0
-  for (let i = 0; i < v.length; i++) for (let j = 0; j < v.length; j++) s += v[i] * M[i][j] * v[j]
-  return s
+  return quadraticForm(weights, fit.vcovBeta) / (total * quadraticForm(weights, independent))
 }

@@ -1,4 +1,5 @@
 import { EngineInputError } from './engine-input-error'
+import { quadraticForm } from './reml/quadratic-form'
 import { satterthwaiteIngredients } from './reml/satterthwaite-ingredients'
 import { studentTTwoSidedP } from './reml/student-t-two-sided-p'
 import type { NestedDesign, NestedFit } from './types'
@@ -53,10 +54,4 @@ export function satterthwaiteContrast(
   const se = Math.sqrt(variance)
   const t = estimate / se
   return { estimate, se, df, t, p: studentTTwoSidedP(t, df) }
-}
-
-function quadraticForm(v: number[], M: number[][]): number {
-  let s = 0
-  for (let i = 0; i < v.length; i++) for (let j = 0; j < v.length; j++) s += v[i] * M[i][j] * v[j]
-  return s
 }

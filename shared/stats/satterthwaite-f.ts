@@ -1,5 +1,6 @@
 import { EngineInputError } from './engine-input-error'
 import { fUpperP } from './reml/f-upper-p'
+import { quadraticForm } from './reml/quadratic-form'
 import { satterthwaiteIngredients } from './reml/satterthwaite-ingredients'
 import { symmetricEigen } from './reml/symmetric-eigen'
 import type { NestedDesign, NestedFit } from './types'
@@ -76,10 +77,4 @@ function denominatorDf(nu: number[]): number {
   if (nu.some((v) => v <= 2)) return 2
   const E = nu.reduce((s, v) => s + v / (v - 2), 0)
   return (2 * E) / (E - nu.length)
-}
-
-function quadraticForm(v: number[], M: number[][]): number {
-  let s = 0
-  for (let i = 0; i < v.length; i++) for (let j = 0; j < v.length; j++) s += v[i] * M[i][j] * v[j]
-  return s
 }
