@@ -10,7 +10,7 @@ import { normalQuantile } from '../stats/normal-quantile'
 import { effectVariationSentence } from './effect-variation'
 import { glmmModelName, linkScaleName, measureName, ratioName, type GlmmFamily } from './family-words'
 import { formatDf, formatInterval, formatNumber, formatP } from './number-format'
-import { randomDescription, unitsCheckSentence } from './report-parts'
+import { adjustedFor, factorsDescription, levelsDescription, unitsCheckSentence } from './report-parts'
 import { componentLabel, listWords, pluralOf, termLabel } from './words'
 
 /**
@@ -37,31 +37,13 @@ export function responseWords({ result, family, trials }: GlmmReportFacts): stri
   return `${q(result.response)} (1 = yes)`
 }
 
-function levelsDescription(result: AnalysisResult): string {
-  const crossed = randomDescription(result)
-  if (crossed) return crossed
-  const levels = result.levels.map((l) => `${q(l.name)} (${l.nUnits} units)`)
-  return levels.length === 1
-    ? `a random intercept for ${levels[0]}`
-    : `random intercepts for ${listWords(levels)}, each nested in the one before`
-}
-
-function adjusted(result: AnalysisResult): string {
-  const covariates = result.covariates ?? []
-  return covariates.length ? `, adjusted for ${listWords(covariates.map((c) => q(c.name)))}` : ''
-}
-
 function modelSentence(facts: GlmmReportFacts): string {
   const { result, family } = facts
   const subject = responseWords(facts)
-  const model = `${glmmModelName(family)} fitted by maximum likelihood (Laplace approximation)${adjusted(result)}, with ${levelsDescription(result)}`
-  const factors = result.factors ?? []
-  if (factors.length === 2) {
-    const described = listWords(
-      factors.map((f) => `${q(f.name)} (${listWords(f.labels)}; reference ${f.reference})`),
-    )
-    return `${capitalised(subject)} ${verb(subject)} compared between the design cells of ${described}, crossed with their interaction, with ${model}.`
-  }
+  const model = `${glmmModelName(family)} fitted by maximum likelihood (Laplace approximation)${adjustedFor(result)}, with ${levelsDescription(result)}`
+  const factors = factorsDescription(result)
+  if (factors)
+    return `${capitalised(subject)} ${verb(subject)} compared between the design cells of ${factors}, crossed with their interaction, with ${model}.`
   if (result.condition) {
     const conditions = result.groups.map((g) => g.condition)
     return `${capitalised(subject)} ${verb(subject)} compared between the conditions of ${q(result.condition)} (${listWords(conditions)}; reference ${result.reference}) with ${model}.`

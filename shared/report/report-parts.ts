@@ -53,6 +53,16 @@ export function randomDescription(result: AnalysisResult): string | null {
   return `random intercepts for ${listWords(items)}, so that ${listWords(effects)} (the maximal nested model)`
 }
 
+/** The random part: "random intercepts for “lab” (3 units) and “mouse” (12 units), each nested in the one before", or `randomDescription`'s when it has level × condition terms. */
+export function levelsDescription(result: AnalysisResult): string {
+  const crossed = randomDescription(result)
+  if (crossed) return crossed
+  const levels = result.levels.map((l) => `${q(l.name)} (${l.nUnits} units)`)
+  return levels.length === 1
+    ? `a random intercept for ${levels[0]}`
+    : `random intercepts for ${listWords(levels)}, each nested in the one before`
+}
+
 export function formulaSentence(result: AnalysisResult): string | null {
   return result.model ? `In lme4 notation the model was ${result.model.formula}.` : null
 }

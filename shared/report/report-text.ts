@@ -9,7 +9,7 @@ import {
   effectVariationSentences,
   factorsDescription,
   formulaSentence,
-  randomDescription,
+  levelsDescription,
   simpleEffectsSentence,
   slopesSentence,
   termsMethodSentence,
@@ -48,15 +48,6 @@ function unitsPerCondition(result: AnalysisResult): string | null {
   if (!result.conditionLevel) return null
   const parts = result.groups.map((g) => `${g.nUnits ?? '?'} (${g.condition})`)
   return `n = ${parts.join(', ')} units of “${result.conditionLevel}”`
-}
-
-function levelsDescription(result: AnalysisResult): string {
-  const crossed = randomDescription(result)
-  if (crossed) return crossed
-  const levels = result.levels.map((l) => `“${l.name}” (${l.nUnits} units)`)
-  return levels.length === 1
-    ? `a random intercept for ${levels[0]}`
-    : `random intercepts for ${listWords(levels)}, each nested in the one before`
 }
 
 function modelSentence(result: AnalysisResult): string {
