@@ -1,4 +1,4 @@
-import type { AnalysisResult, GroupSummary, HeadlineQuantity, WaldContrast } from '../schemas/analysis-result'
+import type { AnalysisResult, GroupSummary, WaldContrast } from '../schemas/analysis-result'
 import { cellMeanRow } from '../stats/cell-mean-row'
 import { ENGINE_VERSION } from '../stats/engine-version'
 import { fitNestedGlmm, type NestedGlmmFit } from '../stats/fit-nested-glmm'
@@ -19,7 +19,7 @@ import { bootstrapIfAsked } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
 import { checkGlmmResponse } from './check-glmm-response'
 import { compareUnitMeans } from './compare-unit-means'
-import { describeDesign, firstFactorContrast, designWarningFacts, unitsPerCell } from './describe-design'
+import { describeDesign, designWarningFacts, headlineQuantity, unitsPerCell } from './describe-design'
 import { glmmNaiveComparison } from './glmm-naive-comparison'
 import { effectVariation, tableDesignEffects, termIccs } from './term-summaries'
 
@@ -71,7 +71,7 @@ export function analyzeNestedGlmm(
   const counts = cellTotals(design, trials)
   const groups = cellSummaries(design, fit, naiveFit, counts)
   const contrasts = pairwise(design, fit, designEffectOf)
-  const headline = headlineOf(design, contrasts, designEffectOf)
+  const headline = headlineQuantity(design, contrasts, designEffectOf)
   const hypotheses = hypothesesOf(design)
   const firstPair = contrasts.length > 0 ? { a: contrasts[0].a, b: contrasts[0].b } : null
   const unitMeans = compareUnitMeans(design, firstPair, trials)
@@ -264,28 +264,6 @@ function pairwise(
   }
   const adjusted = holmAdjust(pairs.map((p) => p.p))
   return pairs.map((p, i) => ({ ...p, pHolm: adjusted[i] }))
-}
-
-function headlineOf(
-  design: NestedDesign,
-  contrasts: WaldContrast[],
-  designEffectOf: (l: number[]) => number,
-): HeadlineQuantity {
-  if (design.factors.length === 0) {
-    const deff = designEffectOf(cellMeanRow(design, 0))
-    return { label: 'mean', designEffect: deff, effectiveN: design.nObs / deff }
-  }
-  if (design.factors.length === 1) {
-    const first = contrasts[0]
-    return {
-      label: `${first.a} − ${first.b}`,
-      designEffect: first.designEffect,
-      effectiveN: first.effectiveN,
-    }
-  }
-  const { label, weights, nObs } = firstFactorContrast(design)
-  const deff = designEffectOf(weights)
-  return { label, designEffect: deff, effectiveN: nObs / deff }
 }
 
 /** One Wald hypothesis per fixed term (a χ² does not depend on which rows span it). */

@@ -1,11 +1,5 @@
-import type {
-  AnalysisResult,
-  BalancedAnovaCheck,
-  HeadlineQuantity,
-  MixedModelContrast,
-} from '../schemas/analysis-result'
+import type { AnalysisResult, BalancedAnovaCheck, MixedModelContrast } from '../schemas/analysis-result'
 import { anovaNestedBalanced } from '../stats/anova-nested-balanced'
-import { cellMeanRow } from '../stats/cell-mean-row'
 import { cellMeans } from '../stats/cell-means'
 import { contrastDesignEffect } from '../stats/contrast-design-effect'
 import { ENGINE_VERSION } from '../stats/engine-version'
@@ -23,7 +17,7 @@ import { bootstrapIfAsked } from './bootstrap-for-result'
 import { buildWarnings } from './build-warnings'
 import { analyzeNestedGlmm } from './analyze-nested-glmm'
 import { compareUnitMeans } from './compare-unit-means'
-import { describeDesign, firstFactorContrast, designWarningFacts } from './describe-design'
+import { describeDesign, designWarningFacts, headlineQuantity } from './describe-design'
 import { naiveComparison } from './naive-comparison'
 import { summariseConditions } from './summarise-conditions'
 import { effectVariation, tableDesignEffects, termIccs } from './term-summaries'
@@ -82,7 +76,7 @@ export function analyzeNested(columns: NestedColumns, options: AnalyzeNestedOpti
   const terms = fixedTermTests(design, fit)
   const unitMeans = compareUnitMeans(design, firstPair)
   const naive = naiveComparison(design, firstPair, hypothesesFor(design))
-  const headline = headlineQuantity(design, fit, contrasts)
+  const headline = headlineQuantity(design, contrasts, (l) => contrastDesignEffect(design, fit, l))
   const bootstrap = bootstrapIfAsked(design, contrasts, options, CONFIDENCE)
 
   const { random, ...described } = describeDesign(design)
@@ -158,33 +152,6 @@ function withDesignEffect(design: NestedDesign, fit: NestedFit, pair: PairwiseCo
     design.cells.counts[design.cells.labels.indexOf(pair.a)] +
     design.cells.counts[design.cells.labels.indexOf(pair.b)]
   return { ...contrast, designEffect: deff, effectiveN: n / deff }
-}
-
-/**
- * The quantity the headline badges describe: the first comparison of the first factor (its
- * first label against the reference, averaged over the second factor's labels), or the mean
- * without a condition.
- */
-function headlineQuantity(
-  design: NestedDesign,
-  fit: NestedFit,
-  contrasts: MixedModelContrast[],
-): HeadlineQuantity {
-  if (design.factors.length === 0) {
-    const deff = contrastDesignEffect(design, fit, cellMeanRow(design, 0))
-    return { label: 'mean', designEffect: deff, effectiveN: design.nObs / deff }
-  }
-  if (design.factors.length === 1) {
-    const first = contrasts[0]
-    return {
-      label: `${first.a} − ${first.b}`,
-      designEffect: first.designEffect!,
-      effectiveN: first.effectiveN!,
-    }
-  }
-  const { label, weights, nObs } = firstFactorContrast(design)
-  const deff = contrastDesignEffect(design, fit, weights)
-  return { label, designEffect: deff, effectiveN: nObs / deff }
 }
 
 /** F test of all conditions equal: the factor's term test when there is one factor with 3 or more labels. */

@@ -1,4 +1,9 @@
-import type { AnalysisResult, EffectVariation, RandomTerm } from '../schemas/analysis-result'
+import type {
+  AnalysisResult,
+  EffectVariation,
+  HeadlineQuantity,
+  RandomTerm,
+} from '../schemas/analysis-result'
 import { cellMeanRow } from '../stats/cell-mean-row'
 import { observationsPerUnit } from '../stats/observations-per-unit'
 import type { NestedDesign } from '../stats/types'
@@ -106,7 +111,7 @@ export function unitsPerCell(design: NestedDesign): number[] | null {
  * The first factor's first label against its reference, averaged over the second factor's
  * labels (two factors): the quantity the headline describes. Weights on β and its observations.
  */
-export function firstFactorContrast(design: NestedDesign): {
+function firstFactorContrast(design: NestedDesign): {
   label: string
   weights: number[]
   nObs: number
@@ -122,6 +127,34 @@ export function firstFactorContrast(design: NestedDesign): {
     nObs += design.cells.counts[kB + j] + design.cells.counts[j]
   }
   return { label: `${a.labels[1]} − ${a.labels[0]} (averaged over ${b.name})`, weights, nObs }
+}
+
+/**
+ * The quantity the headline badges describe: the first comparison of the first factor (its
+ * first label against the reference, averaged over the second factor's labels), or the mean
+ * without a condition. `designEffectOf` gives the design effect of lᵀβ under the fitted model
+ * (REML or GLMM); one factor reuses the first contrast's own.
+ */
+export function headlineQuantity(
+  design: NestedDesign,
+  contrasts: readonly { a: string; b: string; designEffect?: number; effectiveN?: number }[],
+  designEffectOf: (weights: number[]) => number,
+): HeadlineQuantity {
+  if (design.factors.length === 0) {
+    const deff = designEffectOf(cellMeanRow(design, 0))
+    return { label: 'mean', designEffect: deff, effectiveN: design.nObs / deff }
+  }
+  if (design.factors.length === 1) {
+    const first = contrasts[0]
+    return {
+      label: `${first.a} − ${first.b}`,
+      designEffect: first.designEffect!,
+      effectiveN: first.effectiveN!,
+    }
+  }
+  const { label, weights, nObs } = firstFactorContrast(design)
+  const deff = designEffectOf(weights)
+  return { label, designEffect: deff, effectiveN: nObs / deff }
 }
 
 /**
