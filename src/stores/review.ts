@@ -1,5 +1,5 @@
 import { defineStore } from 'pinia'
-import { computed, ref } from 'vue'
+import { ref } from 'vue'
 import type { ReviewState } from '../../shared/schemas/reviews'
 import * as reviewsApi from '@/api/reviews'
 import { asApiError, type ApiError } from '@/api/http'
@@ -15,11 +15,6 @@ export const useReviewStore = defineStore('review', () => {
   const loadError = ref<ApiError | null>(null)
   const actionError = ref<ApiError | null>(null)
   const busy = ref(false)
-
-  /** The sign-off covering this version, or null. */
-  const covering = computed(() =>
-    state.value?.signOff.signedOff ? state.value.signOff.coveringSignOff : null,
-  )
 
   async function load(analysisId: number, versionNo: number): Promise<void> {
     if (key.value?.analysisId !== analysisId || key.value.versionNo !== versionNo) state.value = null
@@ -54,5 +49,5 @@ export const useReviewStore = defineStore('review', () => {
     }
   }
 
-  return { key, state, loadError, actionError, busy, covering, load, reload, act }
+  return { key, state, loadError, actionError, busy, load, reload, act }
 })
