@@ -2,6 +2,7 @@
 import { afterEach, describe, expect, it } from 'vitest'
 import { mount } from '@vue/test-utils'
 import { computePlan } from '../../../shared/planning/compute-plan'
+import { consortium } from '../../../shared/planning/fixtures/consortium'
 import { PlanInputs, type PlanResult } from '../../../shared/schemas/plans'
 import { createNestwiseVuetify } from '@/plugins/vuetify'
 import { stubMissingBrowserApis } from '@/testing/mount-with-app'
@@ -10,16 +11,6 @@ import PlanResultPanel from './PlanResultPanel.vue'
 afterEach(() => {
   document.body.innerHTML = ''
 })
-
-/** Invented consortium numbers (see shared/planning/compute-plan.test.ts): the effect's SD between labs 4. */
-const consortium = {
-  icc: 20 / 120,
-  spread: { kind: 'total', sdTotal: Math.sqrt(120) },
-  difference: 6,
-  costPerUnit: 100,
-  costPerObs: 1,
-  outer: { name: 'lab', minLabs: 2, maxLabs: 20, costPerLab: 2000, effectSd: 4 },
-} as const
 
 function mountPanel(result: PlanResult, extra: Record<string, unknown> = {}) {
   stubMissingBrowserApis()

@@ -1,17 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { PlanInputs } from '../../../shared/schemas/plans'
 import { computePlan } from '../../../shared/planning/compute-plan'
+import { consortium as inputs } from '../../../shared/planning/fixtures/consortium'
 import { ceilingSentence } from './ceiling-words'
-
-/** Invented consortium numbers: SD √120 inside a lab and arm (ICC 1/6), δ 6, the effect's SD between labs 4. */
-const inputs = {
-  icc: 20 / 120,
-  spread: { kind: 'total', sdTotal: Math.sqrt(120) },
-  difference: 6,
-  costPerUnit: 100,
-  costPerObs: 1,
-  outer: { name: 'lab', minLabs: 2, maxLabs: 20, costPerLab: 2000, effectSd: 4 },
-} as const
 
 describe('ceilingSentence', () => {
   it('names the largest number of labs drawn whose ceiling stays below the target, and how many labs it takes', () => {

@@ -1,22 +1,13 @@
 import { describe, expect, it } from 'vitest'
 import { computePlan } from '../../../shared/planning/compute-plan'
+import { consortium } from '../../../shared/planning/fixtures/consortium'
 import { PlanInputs } from '../../../shared/schemas/plans'
 import { labCurvesOption, planTableText } from './plan-chart-options'
 
 const colors = { text: '#000', muted: '#666', grid: '#ccc', accent: '#c60' }
 const words = { outer: 'lab', outers: 'labs', unit: 'mouse', units: 'mice', perArm: false }
 
-/** Invented consortium numbers (see shared/planning/compute-plan.test.ts). */
-const result = computePlan(
-  PlanInputs.parse({
-    icc: 20 / 120,
-    spread: { kind: 'total', sdTotal: Math.sqrt(120) },
-    difference: 6,
-    costPerUnit: 100,
-    costPerObs: 1,
-    outer: { name: 'lab', minLabs: 2, maxLabs: 20, costPerLab: 2000, effectSd: 4 },
-  }),
-)
+const result = computePlan(PlanInputs.parse(consortium))
 
 type Series = { name: string; data: number[][]; markLine?: { data: { yAxis: number }[] } }
 
