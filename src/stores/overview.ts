@@ -1,11 +1,11 @@
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import type { CurrentUser } from '../../shared/schemas/auth'
+import { REVIEWER_ROLE, rolesOf } from '../../shared/access'
 import { listAnalyses } from '@/api/analyses'
 import { listDatasets } from '@/api/datasets'
 import { listMyReviews } from '@/api/reviews'
 import { overviewSteps, type OverviewFacts } from '@/components/overview/next-step'
-import { labsWhereRole } from '@/components/overview/role-checks'
 
 /**
  * What the overview shows each person: their next steps by role, from their labs' datasets and
@@ -29,7 +29,7 @@ export const useOverviewStore = defineStore('overview', () => {
       return
     }
     loading.value = true
-    const reviewer = labsWhereRole(who, 'biostatistician').size > 0
+    const reviewer = rolesOf(who).has(REVIEWER_ROLE)
     const settle = async <T>(work: Promise<T>): Promise<T | null> => {
       try {
         return await work

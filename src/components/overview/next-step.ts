@@ -3,9 +3,8 @@ import type { AnalysisListItem } from '../../../shared/schemas/analyses'
 import type { CurrentUser } from '../../../shared/schemas/auth'
 import type { DatasetSummary } from '../../../shared/schemas/datasets'
 import type { ReviewRequest } from '../../../shared/schemas/reviews'
-import { writableLabs } from '../../../shared/access'
+import { ledLabs, writableLabs } from '../../../shared/access'
 import { unitAdequacy } from '@/components/dataset/unit-badge'
-import { labsWhereRole } from './role-checks'
 
 export interface NextStep {
   id:
@@ -102,8 +101,8 @@ function plural(n: number, one: string, many: string): string {
 export function overviewSteps(user: CurrentUser, facts: OverviewFacts): NextStep[] {
   const steps: NextStep[] = []
   const memberOf = new Set(user.memberships.map((m) => m.labId))
-  const writable = labsWhereRole(user, 'scientist', 'pi')
-  const piLabs = labsWhereRole(user, 'pi')
+  const writable = new Set(writableLabs(user).map((m) => m.labId))
+  const piLabs = new Set(ledLabs(user).map((m) => m.labId))
 
   const reviews = (facts.reviews ?? []).filter((r) => r.status === 'open')
   if (reviews.length) {
