@@ -1,14 +1,11 @@
 // @vitest-environment happy-dom
 import { afterEach, describe, expect, it } from 'vitest'
-import { mount } from '@vue/test-utils'
 import { AnalysisSettings } from '../../../shared/schemas/analyses'
 import { AnalysisResult } from '../../../shared/schemas/analysis-result'
 import { analyzeNested } from '../../../shared/analysis/analyze-nested'
 import { buildChartData } from '../../../shared/analysis/chart-data'
 import type { Factor, NestedColumns } from '../../../shared/stats/types'
-import { createNestwiseVuetify } from '@/plugins/vuetify'
-import { stubMissingBrowserApis } from '@/testing/mount-with-app'
-import ResultBody from './ResultBody.vue'
+import { mountResultBody } from '@/testing/mount-result-body'
 
 /**
  * The result page on what the engine really returns for two factors and a covariate (not a
@@ -74,19 +71,10 @@ describe('ResultBody on a real two-factor result', () => {
       covariates: ['soma_area_um2'],
       levels: ['lab', 'mouse'],
     })
-    stubMissingBrowserApis()
-    const wrapper = mount(ResultBody, {
-      props: { version: { id: 1, settings, chart, result }, name: 'Invented', errorBar: 'sem' as const },
-      global: {
-        plugins: [createNestwiseVuetify()],
-        stubs: { AnalysisChart: true },
-        config: {
-          warnHandler: (message) => void problems.push(message),
-          errorHandler: (error) => void problems.push(String(error)),
-        },
-      },
-      attachTo: document.body,
-    })
+    const wrapper = mountResultBody(
+      { version: { id: 1, settings, chart, result }, name: 'Invented', errorBar: 'sem' },
+      problems,
+    )
     expect(wrapper.get('[data-testid="interaction-section"]').text()).toContain('genotype and treatment')
     const terms = wrapper.findAll('[data-testid="terms-table"] tbody tr').map((tr) => tr.find('td').text())
     expect(terms).toEqual(

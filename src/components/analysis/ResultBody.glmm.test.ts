@@ -1,15 +1,12 @@
 // @vitest-environment happy-dom
 import { afterEach, describe, expect, it } from 'vitest'
-import { mount } from '@vue/test-utils'
 import { AnalysisSettings } from '../../../shared/schemas/analyses'
 import { AnalysisResult } from '../../../shared/schemas/analysis-result'
 import { analyzeNested } from '../../../shared/analysis/analyze-nested'
 import { buildChartData } from '../../../shared/analysis/chart-data'
 import { inventedNeuronTable } from '../../../shared/analysis/fixtures/invented-glmm-tables'
 import { nestedColumnsFromTable } from '../../../shared/stats/fixtures/nested-columns-from-table'
-import { createNestwiseVuetify } from '@/plugins/vuetify'
-import { stubMissingBrowserApis } from '@/testing/mount-with-app'
-import ResultBody from './ResultBody.vue'
+import { mountResultBody } from '@/testing/mount-result-body'
 
 /**
  * The result page on what the engine really returns for a yes/no and a count response: an
@@ -40,19 +37,10 @@ function mountResult(family: 'binomial' | 'poisson') {
     family,
     positive: family === 'binomial' ? 'positive' : null,
   })
-  stubMissingBrowserApis()
-  const wrapper = mount(ResultBody, {
-    props: { version: { id: 1, settings, chart, result }, name: 'Invented', errorBar: 'sem' as const },
-    global: {
-      plugins: [createNestwiseVuetify()],
-      stubs: { AnalysisChart: true },
-      config: {
-        warnHandler: (message) => void problems.push(message),
-        errorHandler: (error) => void problems.push(String(error)),
-      },
-    },
-    attachTo: document.body,
-  })
+  const wrapper = mountResultBody(
+    { version: { id: 1, settings, chart, result }, name: 'Invented', errorBar: 'sem' },
+    problems,
+  )
   return { wrapper, result }
 }
 

@@ -1,13 +1,10 @@
 // @vitest-environment happy-dom
 import { afterEach, describe, expect, it } from 'vitest'
-import { mount } from '@vue/test-utils'
 import { AnalysisSettings, type ChartData } from '../../../shared/schemas/analyses'
 import { AnalysisResult } from '../../../shared/schemas/analysis-result'
 import demo from '../../../shared/report/fixtures/single-lab-demo.json'
 import { twoFactorResult } from '../../../shared/report/fixtures/two-factor-result'
-import { createNestwiseVuetify } from '@/plugins/vuetify'
-import { stubMissingBrowserApis } from '@/testing/mount-with-app'
-import ResultBody from './ResultBody.vue'
+import { mountResultBody } from '@/testing/mount-result-body'
 
 // Fixtures: the stored result of the seeded single-lab demo as engine 0.1.0 wrote it (no field of
 // engine 0.2), read through today's schema like the server reads it; and the invented two-factor
@@ -39,9 +36,9 @@ afterEach(() => {
 })
 
 function mountBody(result: AnalysisResult) {
-  stubMissingBrowserApis()
-  return mount(ResultBody, {
-    props: {
+  // Any Vue warning or render error fails the test: "renders without errors" means none.
+  return mountResultBody(
+    {
       version: {
         id: 1,
         settings: oldSettings,
@@ -49,19 +46,10 @@ function mountBody(result: AnalysisResult) {
         result,
       },
       name: 'Test analysis',
-      errorBar: 'sem' as const,
+      errorBar: 'sem',
     },
-    global: {
-      plugins: [createNestwiseVuetify()],
-      stubs: { AnalysisChart: true },
-      // Any Vue warning or render error fails the test: "renders without errors" means none.
-      config: {
-        warnHandler: (message) => void problems.push(message),
-        errorHandler: (error) => void problems.push(String(error)),
-      },
-    },
-    attachTo: document.body,
-  })
+    problems,
+  )
 }
 
 describe('ResultBody', () => {
