@@ -1,7 +1,7 @@
 import type { Knex } from 'knex'
 
 /**
- * Analysis runs move to pg-boss (server/jobs/analysis-queue.ts), which keeps its jobs in a schema
+ * Analysis runs move to pg-boss (server/queue/analysis-queue.ts), which keeps its jobs in a schema
  * of its own (`pgboss`) that it creates and upgrades at start-up; this migration never touches it.
  * The version row stops being the job: it keeps what people see (status, progress, result) and
  * names its pg-boss job in `job_id`. The lease column goes (a run's liveness is now a PostgreSQL
@@ -10,7 +10,7 @@ import type { Knex } from 'knex'
  *
  * Versions stored before keep reading as they were: finished ones are untouched (their freeze
  * trigger forbids changes anyway), and queued or running ones have no job yet, so the first
- * process that starts the queue gives each one a job (adoptUnqueuedVersions).
+ * process that starts the queue gives each one a job (adoptVersionsWithoutJob).
  */
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.alterTable('analysis_versions', (t) => {

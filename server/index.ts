@@ -7,6 +7,7 @@ import { startAnalysisRunner, stopAnalysisRunner } from './jobs/analysis-runner'
 import { logger } from './logger'
 import { startMailRuntime } from './mail/mail-runtime'
 import { startOriginalsRuntime } from './originals'
+import { sweepDatasetLeftovers } from './services/datasets-upload.service'
 
 // Give in-flight requests this long to finish on shutdown before connections are cut.
 const SHUTDOWN_GRACE_MS = 10_000
@@ -37,6 +38,16 @@ const originals = startOriginalsRuntime().catch((err: unknown) => {
   logger.error('the local fake S3 could not start; uploads and downloads of originals will fail', { err })
   return undefined
 })
+
+// Once per web process (the one that takes uploads), after the originals' store is up: clear what
+// a crash could have left (see sweepDatasetLeftovers).
+void originals
+  .then(() => sweepDatasetLeftovers())
+  .then((swept) => {
+    if (swept.versions || swept.tables || swept.tempFiles || swept.originals)
+      logger.info('swept dataset leftovers', swept)
+  })
+  .catch((err: unknown) => logger.error('dataset leftover sweep failed', { err }))
 
 // Queued analyses run in worker threads of this process (one by default, so `npm start` needs no
 // second process); with ANALYSIS_WORKERS=0 only worker processes (server/worker.ts) run them.

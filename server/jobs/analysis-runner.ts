@@ -259,5 +259,3 @@ export async function stopAnalysisRunner(): Promise<void> {
   stopListening = null
   await current?.stop()
 }
-
-export const analysisRunnerRunning = (): boolean => runner !== null

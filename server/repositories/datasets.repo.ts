@@ -347,14 +347,6 @@ export async function setExcludedRowCount(
   await conn('dataset_versions').where({ id: versionId }).update({ excluded_row_count: count })
 }
 
-export async function countVersionsWithSha(sha256: string, conn: Conn = defaultConn): Promise<number> {
-  const row = await conn('dataset_versions')
-    .where({ sha256 })
-    .count<{ count: number }[]>('* as count')
-    .first()
-  return Number(row?.count ?? 0)
-}
-
 /** Hashes of every stored original, for the sweep of orphan files. */
 export async function listVersionHashes(conn: Conn = defaultConn): Promise<Set<string>> {
   const rows: { sha256: string }[] = await conn('dataset_versions').distinct('sha256')

@@ -25,11 +25,7 @@ import {
 } from '../services/datasets-exclusions.service'
 import { columnSummary, previewRows } from '../services/datasets-preview.service'
 import { getDesign, getTagging, getTaggingHistory, saveTagging } from '../services/datasets-tagging.service'
-import {
-  addVersionFromUpload,
-  createDatasetFromUpload,
-  sweepDatasetLeftovers,
-} from '../services/datasets-upload.service'
+import { addVersionFromUpload, createDatasetFromUpload } from '../services/datasets-upload.service'
 import {
   deleteDatasetFor,
   getDatasetDetail,
@@ -42,29 +38,12 @@ import {
 import { uploadRoute } from '../uploads/upload-intake'
 import { uploadProgress } from '../uploads/upload-progress'
 
-let sweptOnce = false
-
-/** Once per process: clear what a crash could have left (see sweepDatasetLeftovers). */
-function sweepOnce(): void {
-  if (sweptOnce) return
-  sweptOnce = true
-  setImmediate(() => {
-    sweepDatasetLeftovers()
-      .then((swept) => {
-        if (swept.versions || swept.tables || swept.tempFiles || swept.originals)
-          logger.info('swept dataset leftovers', swept)
-      })
-      .catch((err) => logger.error('dataset leftover sweep failed', { err }))
-  })
-}
-
 /**
  * /api/v1/datasets — upload, list, preview, tag, exclude. Documented in docs/api-datasets.md.
  * Uploads are parsed and stored within the request (201 when ready, 4xx naming row and column when
  * not); meanwhile GET /uploads/:token reports progress to the uploader.
  */
 export function datasetsRoutes(): Router {
-  sweepOnce()
   const router = Router()
   router.use(requireUser)
 

@@ -1,5 +1,5 @@
 import type { Readable } from 'node:stream'
-import type { Exclusion } from '../../shared/schemas/datasets'
+import type { ColumnProfile, Exclusion } from '../../shared/schemas/datasets'
 import { readBinaryResponse, type BinaryProblem } from '../../shared/analysis/binary-response'
 import type { Factor, NestedColumns } from '../../shared/stats/types'
 import { NotFoundError, UnprocessableError } from '../errors/app-error'
@@ -13,7 +13,14 @@ import { defaultConn, type Conn } from '../repositories/connection'
 import { logger } from '../logger'
 
 export async function shapeOf(version: VersionRecord, conn: Conn = defaultConn): Promise<RowTableShape> {
-  const columns = await listColumns(version.id, conn)
+  return shapeFrom(version, await listColumns(version.id, conn))
+}
+
+/** The row table's shape from the version's columns when the caller has them already (they never change). */
+export function shapeFrom(
+  version: VersionRecord,
+  columns: readonly Pick<ColumnProfile, 'name' | 'position' | 'type'>[],
+): RowTableShape {
   return {
     versionId: version.id,
     decimalMark: version.decimalMark,

@@ -35,6 +35,7 @@ import { activeExclusions, currentTagging } from '../repositories/datasets-annot
 import { findVersion, listColumns, listVersions, type VersionRecord } from '../repositories/datasets.repo'
 import { recordAudit } from './audit.service'
 import { queueVersion } from './analysis-runs.service'
+import { shapeFrom } from '../rows-store/read-back'
 import { keptYesNoValues } from './analysis-response-checks.service'
 import { checkSettingsAgainstRows } from './analysis-design-checks.service'
 import {
@@ -163,19 +164,20 @@ export async function getAnalysisDefaults(
 }
 
 /**
- * A version's columns, tagging and what each column can be as a response. A tagged text response
- * whose profile shows more than two values may hold two in the kept rows (the others excluded):
- * its kept values make it a yes/no column.
+ * A version's columns (and its row table's shape, read from them once), tagging and what each
+ * column can be as a response. A tagged text response whose profile shows more than two values may
+ * hold two in the kept rows (the others excluded): its kept values make it a yes/no column.
  */
 async function taggingAndColumns(version: VersionRecord) {
   const [columns, tagging] = await Promise.all([listColumns(version.id), currentTagging(version.id)])
+  const shape = shapeFrom(version, columns)
   const kinds = responseKinds(columns)
   const response = columns.find((c) => c.name === tagging?.responseColumns[0])
   if (response?.type === 'text' && !kinds.binaryColumns[response.name]) {
-    const values = await keptYesNoValues(version, response.name)
+    const values = await keptYesNoValues(version, shape, response.name)
     if (values) kinds.binaryColumns[response.name] = values
   }
-  return { columns, tagging, kinds }
+  return { columns, shape, tagging, kinds }
 }
 
 export interface UnitsCsvFile {
@@ -231,7 +233,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
   const dataset = await readable(user, 'dataset', input.datasetId)
   await writable(user, 'lab', dataset.labId, { subject: 'analysis' })
   const version = await readyDatasetVersion(dataset.id, input.datasetVersionNo)
-  const { columns, tagging, kinds } = await taggingAndColumns(version)
+  const { columns, shape, tagging, kinds } = await taggingAndColumns(version)
   const asked = mergeSettings(
     settingsFromTagging({ tagging, columns, binaryColumns: kinds.binaryColumns }),
     input.settings,
@@ -241,7 +243,7 @@ export async function createAnalysisFor(user: CurrentUser, input: AnalysisCreate
 
   const analysisId = await db.transaction(async (trx) => {
     const exclusions = await recordExclusions(version.id, trx)
-    const settings = await checkSettingsAgainstRows(version, asked, exclusions, trx)
+    const settings = await checkSettingsAgainstRows(version, shape, asked, exclusions, trx)
     const id = await insertAnalysis(
       {
         labId: dataset.labId,
@@ -297,14 +299,16 @@ export async function createAnalysisVersionFor(
     input.datasetVersionNo ?? newest.datasetVersion.versionNo,
   )
   const asked = mergeSettings(newest.settings, input.settings)
-  checkSettingsAgainstColumns(asked, await listColumns(datasetVersion.id), datasetVersion.versionNo)
+  const columns = await listColumns(datasetVersion.id)
+  checkSettingsAgainstColumns(asked, columns, datasetVersion.versionNo)
+  const shape = shapeFrom(datasetVersion, columns)
 
   const versionNo = await db.transaction(async (trx) => {
     const next = await lockAnalysisForNewVersion(analysisId, trx)
     const latest = (await listAnalysisVersions(analysisId, trx))[0]
     const exclusions = await recordExclusions(datasetVersion.id, trx)
     // Before the comparison: it settles what the asked settings leave open (the value counted as yes).
-    const settings = await checkSettingsAgainstRows(datasetVersion, asked, exclusions, trx)
+    const settings = await checkSettingsAgainstRows(datasetVersion, shape, asked, exclusions, trx)
     const unchanged =
       latest.datasetVersion.id === datasetVersion.id &&
       isDeepStrictEqual(latest.exclusions, exclusions) &&

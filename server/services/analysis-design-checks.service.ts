@@ -11,7 +11,7 @@ import {
 import { checkResponseForFamily } from './analysis-response-checks.service'
 import type { VersionRecord } from '../repositories/datasets.repo'
 import type { Conn } from '../repositories/connection'
-import { fileRow, shapeOf } from '../rows-store/read-back'
+import { fileRow } from '../rows-store/read-back'
 
 const q = (name: string) => `“${name}”`
 
@@ -35,11 +35,11 @@ type AppliedExclusions = readonly Pick<Exclusion, 'kind' | 'rule' | 'unit'>[]
  */
 export async function checkSettingsAgainstRows(
   version: VersionRecord,
+  shape: RowTableShape,
   settings: AnalysisSettings,
   exclusions: AppliedExclusions,
   conn: Conn,
 ): Promise<AnalysisSettings> {
-  const shape = await shapeOf(version, conn)
   const excluded = excludedSql(shape, exclusions)
   await checkCovariatesHoldNumbers(version, shape, settings.covariates, excluded, conn)
   if (settings.conditions.length === 2) {

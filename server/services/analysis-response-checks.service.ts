@@ -3,7 +3,6 @@ import type { AnalysisSettings } from '../../shared/schemas/analyses'
 import { InvalidPayloadError } from '../errors/app-error'
 import { parseNumberText } from '../rows-store/number-text'
 import { activeExclusions } from '../repositories/datasets-annotations.repo'
-import { shapeOf } from '../rows-store/read-back'
 import {
   excludedSql,
   firstRowNotWholeNumber,
@@ -122,8 +121,11 @@ export async function checkResponseForFamily(
  * shows three, but the tagging accepted it as yes/no. Numbers are not labels: a numbers column
  * whose stray text is excluded stays a measurement.
  */
-export async function keptYesNoValues(version: VersionRecord, name: string): Promise<string[] | null> {
-  const shape = await shapeOf(version)
+export async function keptYesNoValues(
+  version: VersionRecord,
+  shape: RowTableShape,
+  name: string,
+): Promise<string[] | null> {
   const column = shape.columns.get(name)
   if (!column) return null
   const excluded = excludedSql(shape, await activeExclusions(version.id))

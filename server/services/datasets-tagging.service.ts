@@ -96,6 +96,7 @@ async function publicDesign(
 async function validate(
   version: VersionRecord,
   shape: RowTableShape,
+  exclusions: readonly Exclusion[],
   input: TaggingInput,
 ): Promise<DesignFacts> {
   const all = [
@@ -109,7 +110,6 @@ async function validate(
       issues: unknown.map((name) => ({ path: 'columns', message: `Unknown column ${name}` })),
     })
   }
-  const exclusions = await activeExclusions(version.id)
   const excluded = excludedSql(shape, exclusions)
   for (const name of input.responseColumns) {
     const column = shape.columns.get(name)!
@@ -240,7 +240,8 @@ export async function saveTagging(
 ): Promise<TaggingResult> {
   const { dataset, version } = await writable(user, 'datasetVersion', { datasetId, versionNo })
   const shape = await shapeOf(version)
-  const facts = await validate(version, shape, input)
+  const exclusions = await activeExclusions(version.id)
+  const facts = await validate(version, shape, exclusions, input)
   const tagging = await db.transaction(async (trx) => {
     await insertTagging(
       {
@@ -264,7 +265,6 @@ export async function saveTagging(
     })
     return (await currentTagging(version.id, trx))!
   })
-  const exclusions = await activeExclusions(version.id)
   return { tagging, design: await publicDesign(facts, shape, exclusions, input.responseColumns) }
 }
 
