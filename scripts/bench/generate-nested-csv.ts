@@ -1,4 +1,5 @@
-import { closeSync, openSync, writeSync } from 'node:fs'
+import { closeSync, existsSync, mkdirSync, openSync, writeSync } from 'node:fs'
+import { join, resolve } from 'node:path'
 import seedrandom from 'seedrandom'
 
 /**
@@ -42,6 +43,18 @@ export const QUICK_SPEC: NestedCsvSpec = {
   animalsPerLab: 10,
   minCells: 100,
   maxCells: 300,
+}
+
+/** The benchmark data set (BENCH_SPEC) in .bench/analysis, written the first time it is asked for. */
+export function benchCsv(): string {
+  const dir = resolve('.bench/analysis')
+  mkdirSync(dir, { recursive: true })
+  const csvPath = join(dir, `${BENCH_SPEC.seed}.csv`)
+  if (!existsSync(csvPath)) {
+    const rows = writeNestedCsv(csvPath, BENCH_SPEC)
+    console.log(`[bench] wrote ${rows.toLocaleString('en-US')} rows → ${csvPath}`)
+  }
+  return csvPath
 }
 
 export const CSV_HEADER = 'lab,animal,treatment,neurite_length_um'
