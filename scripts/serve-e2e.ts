@@ -11,23 +11,10 @@ process.env.NODE_ENV = 'test'
 process.env.LOGIN_RATE_LIMIT = '1000'
 
 const { ensurePostgres } = await import('./lib/postgres')
-const { databasesNamed, dropDatabase, prepareDatabase } = await import('./lib/database')
-
-const isRunning = (pid: number) => {
-  try {
-    process.kill(pid, 0)
-    return true
-  } catch (error) {
-    return (error as NodeJS.ErrnoException).code === 'EPERM'
-  }
-}
+const { dropOrphanedDatabases, prepareDatabase } = await import('./lib/database')
 
 ensurePostgres()
 // Databases of earlier runs that were killed before their teardown (named after their runner's pid).
-for (const name of await databasesNamed(E2E_PREFIX)) {
-  const pid = Number(name.slice(E2E_PREFIX.length))
-  if (name !== process.env.PGDATABASE && Number.isInteger(pid) && pid > 0 && !isRunning(pid))
-    await dropDatabase(name)
-}
+await dropOrphanedDatabases(E2E_PREFIX, process.env.PGDATABASE)
 await prepareDatabase(process.env.PGDATABASE, { fresh: true, seed: true })
 await import('../server/index')

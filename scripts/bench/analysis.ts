@@ -16,11 +16,10 @@
  * Targets: stored result drawn < 2 s; fresh run < 5 s.
  */
 import { spawnSync } from 'node:child_process'
-import { existsSync, mkdirSync } from 'node:fs'
-import { join, resolve } from 'node:path'
+import { existsSync } from 'node:fs'
 import { chromium } from '@playwright/test'
 import { demoScientistEmail, signInAsDemoScientist, startBenchServer, waitForHealth } from './bench-server'
-import { BENCH_SPEC, writeNestedCsv } from './generate-nested-csv'
+import { benchCsv } from './generate-nested-csv'
 import { postMultipart } from './post-multipart'
 import { numberOption } from './number-option'
 
@@ -38,13 +37,7 @@ const seconds = (ms: number) => `${(ms / 1000).toFixed(2)} s`
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]
 
 // ---------------------------------------------------------------- data and server
-const dir = resolve('.bench/analysis')
-mkdirSync(dir, { recursive: true })
-const csvPath = join(dir, `${BENCH_SPEC.seed}.csv`)
-if (!existsSync(csvPath)) {
-  const rows = writeNestedCsv(csvPath, BENCH_SPEC)
-  console.log(`[bench] wrote ${rows.toLocaleString('en-US')} rows → ${csvPath}`)
-}
+const csvPath = benchCsv()
 if (!existsSync('dist/client/index.html')) {
   console.log('[bench] building the client (dist/client)…')
   const built = spawnSync('npx', ['vite', 'build'], { stdio: 'inherit' })

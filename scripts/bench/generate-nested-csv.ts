@@ -1,4 +1,5 @@
-import { closeSync, openSync, writeSync } from 'node:fs'
+import { closeSync, existsSync, mkdirSync, openSync, writeSync } from 'node:fs'
+import { join, resolve } from 'node:path'
 import seedrandom from 'seedrandom'
 
 /**
@@ -42,6 +43,18 @@ export const QUICK_SPEC: NestedCsvSpec = {
   animalsPerLab: 10,
   minCells: 100,
   maxCells: 300,
+}
+
+/** The benchmark data set (BENCH_SPEC) in .bench/analysis, written the first time it is asked for. */
+export function benchCsv(): string {
+  const dir = resolve('.bench/analysis')
+  mkdirSync(dir, { recursive: true })
+  const csvPath = join(dir, `${BENCH_SPEC.seed}.csv`)
+  if (!existsSync(csvPath)) {
+    const rows = writeNestedCsv(csvPath, BENCH_SPEC)
+    console.log(`[bench] wrote ${rows.toLocaleString('en-US')} rows → ${csvPath}`)
+  }
+  return csvPath
 }
 
 export const CSV_HEADER = 'lab,animal,treatment,neurite_length_um'
@@ -94,51 +107,44 @@ const pad = (n: number) => String(n).padStart(2, '0')
 
 /** Writes the CSV to `path` and returns the number of data rows. */
 export function writeNestedCsv(path: string, spec: NestedCsvSpec): number {
-  const uniform = seedrandom(spec.seed)
-  const normal = normalSource(uniform)
-  const fd = openSync(path, 'w')
-  let rows = 0
-  try {
-    writeSync(fd, CSV_HEADER + '\n')
-    for (let lab = 1; lab <= spec.labs; lab++) {
-      const labLabel = `lab-${pad(lab)}`
-      const labShift = spec.labSd * normal()
-      const armShift = [spec.labTreatmentSd * normal(), spec.labTreatmentSd * normal()]
-      const treatedAnimals = new Set(
-        shuffledIndices(spec.animalsPerLab, uniform).slice(0, Math.floor(spec.animalsPerLab / 2)),
-      )
-      for (let animal = 0; animal < spec.animalsPerLab; animal++) {
-        const treated = treatedAnimals.has(animal)
-        const treatment = treated ? 'NW-117' : 'vehicle'
-        const prefix = `${labLabel},m${pad(animal + 1)},${treatment},`
-        const centre =
-          spec.grandMean +
-          labShift +
-          armShift[treated ? 1 : 0] +
-          spec.animalSd * normal() +
-          (treated ? spec.compoundEffect : 0)
-        const cells = spec.minCells + Math.floor(uniform() * (spec.maxCells - spec.minCells + 1))
-        const lines: string[] = new Array(cells)
-        for (let cell = 0; cell < cells; cell++)
-          lines[cell] = prefix + (centre + spec.residualSd * normal()).toFixed(3)
-        writeSync(fd, lines.join('\n') + '\n')
-        rows += cells
-      }
-    }
-  } finally {
-    closeSync(fd)
-  }
-  return rows
+  return writeConsortiumCsv(
+    path,
+    CSV_HEADER,
+    { ...spec, baseline: spec.grandMean },
+    (normal, centre) => () => (centre + spec.residualSd * normal()).toFixed(3),
+  )
 }
 
 /** Writes the yes/no table to `path` and returns the number of data rows. */
 export function writeBinaryCsv(path: string, spec: BinaryCsvSpec): number {
+  return writeConsortiumCsv(
+    path,
+    BINARY_HEADER,
+    { ...spec, baseline: spec.baselineLogOdds },
+    (_, eta, uniform) => {
+      const p = 1 / (1 + Math.exp(-eta))
+      return () => (uniform() < p ? '1' : '0')
+    },
+  )
+}
+
+/**
+ * The consortium both tables share: per lab a shift and one per arm, half of its animals (at
+ * random) given NW-117, per animal a centre (baseline + lab + arm + animal + the compound's
+ * effect) and a random number of cells whose values `cellsOf` draws around that centre.
+ */
+function writeConsortiumCsv(
+  path: string,
+  header: string,
+  spec: Omit<NestedCsvSpec, 'grandMean' | 'residualSd'> & { baseline: number },
+  cellsOf: (normal: () => number, centre: number, uniform: () => number) => () => string,
+): number {
   const uniform = seedrandom(spec.seed)
   const normal = normalSource(uniform)
   const fd = openSync(path, 'w')
   let rows = 0
   try {
-    writeSync(fd, BINARY_HEADER + '\n')
+    writeSync(fd, header + '\n')
     for (let lab = 1; lab <= spec.labs; lab++) {
       const labShift = spec.labSd * normal()
       const armShift = [spec.labTreatmentSd * normal(), spec.labTreatmentSd * normal()]
@@ -148,16 +154,16 @@ export function writeBinaryCsv(path: string, spec: BinaryCsvSpec): number {
       for (let animal = 0; animal < spec.animalsPerLab; animal++) {
         const treated = treatedAnimals.has(animal)
         const prefix = `lab-${pad(lab)},m${pad(animal + 1)},${treated ? 'NW-117' : 'vehicle'},`
-        const eta =
-          spec.baselineLogOdds +
+        const centre =
+          spec.baseline +
           labShift +
           armShift[treated ? 1 : 0] +
           spec.animalSd * normal() +
           (treated ? spec.compoundEffect : 0)
-        const p = 1 / (1 + Math.exp(-eta))
+        const cell = cellsOf(normal, centre, uniform)
         const cells = spec.minCells + Math.floor(uniform() * (spec.maxCells - spec.minCells + 1))
         const lines: string[] = new Array(cells)
-        for (let cell = 0; cell < cells; cell++) lines[cell] = prefix + (uniform() < p ? '1' : '0')
+        for (let c = 0; c < cells; c++) lines[c] = prefix + cell()
         writeSync(fd, lines.join('\n') + '\n')
         rows += cells
       }

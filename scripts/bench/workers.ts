@@ -11,11 +11,9 @@
  * Prints both wall times, their ratio, the median run of one analysis inside a worker, the median
  * create request (it checks the settings against the kept rows), and the load average before and after each phase (2 cores here; other work on the machine counts).
  */
-import { existsSync, mkdirSync } from 'node:fs'
 import { loadavg } from 'node:os'
-import { join, resolve } from 'node:path'
 import { signInAsDemoScientist } from './bench-server'
-import { BENCH_SPEC, writeNestedCsv } from './generate-nested-csv'
+import { benchCsv } from './generate-nested-csv'
 import { postMultipart } from './post-multipart'
 import { numberOption } from './number-option'
 
@@ -35,13 +33,7 @@ const load = () =>
     .join(' ')
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]
 
-const dir = resolve('.bench/analysis')
-mkdirSync(dir, { recursive: true })
-const csvPath = join(dir, `${BENCH_SPEC.seed}.csv`)
-if (!existsSync(csvPath)) {
-  const rows = writeNestedCsv(csvPath, BENCH_SPEC)
-  console.log(`[bench] wrote ${rows.toLocaleString('en-US')} rows → ${csvPath}`)
-}
+const csvPath = benchCsv()
 
 ensurePostgres()
 await prepareDatabase(DATABASE, { fresh: true, seed: true })

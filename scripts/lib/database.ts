@@ -57,12 +57,34 @@ export async function dropDatabase(name: string): Promise<void> {
 }
 
 /** Names of the databases that start with `prefix`. */
-export async function databasesNamed(prefix: string): Promise<string[]> {
+async function databasesNamed(prefix: string): Promise<string[]> {
   const admin = connectTo('postgres')
   try {
     const result = await admin.raw('select datname from pg_database where starts_with(datname, ?)', [prefix])
     return (result.rows as { datname: string }[]).map((r) => r.datname)
   } finally {
     await admin.destroy()
+  }
+}
+
+const isRunning = (pid: number) => {
+  try {
+    process.kill(pid, 0)
+    return true
+  } catch (error) {
+    return (error as NodeJS.ErrnoException).code === 'EPERM'
+  }
+}
+
+/**
+ * Drops the databases of earlier runs killed before their teardown: those named `prefix` + the
+ * pid of a process no longer running (and anything after it). `current` and its own `current_…`
+ * databases are kept.
+ */
+export async function dropOrphanedDatabases(prefix: string, current: string): Promise<void> {
+  for (const name of await databasesNamed(prefix)) {
+    const pid = Number(/^\d+/.exec(name.slice(prefix.length))?.[0])
+    if (name === current || name.startsWith(`${current}_`)) continue
+    if (Number.isInteger(pid) && pid > 0 && !isRunning(pid)) await dropDatabase(name)
   }
 }

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs'
 import { expect, test, type Page } from '@playwright/test'
-import { attachScreenshot, signIn } from './support/demo'
+import { attachScreenshot, signIn, uploadCsv } from './support/demo'
+import { generator } from './support/generator'
 
 /**
  * A yes/no response from upload to result, as the demo scientist does it: an invented table of
@@ -9,18 +10,6 @@ import { attachScreenshot, signIn } from './support/demo'
  * scientist confirming it, and the result read as an odds ratio with the variance on the latent
  * scale.
  */
-
-/** Small deterministic generator (mulberry32), so the invented table is the same on every run. */
-function generator(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
 
 /**
  * One row per neuron: lab, mouse, treatment, marker (positive/negative), puncta. 3 labs × 8 mice
@@ -73,16 +62,12 @@ test('a scientist analyses marker-positive neurons as a yes/no response', async 
   await page.goto('/sign-in')
   await signIn(page, 'sami@example.org')
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Welcome, Sami')
-  await page.goto('/datasets/upload')
-  await page.getByTestId('upload-project').locator('input').fill('Marker pilot')
-  await page.getByTestId('upload-project').locator('input').press('Tab')
-  await page.getByTestId('upload-file-input').setInputFiles({
-    name: 'marker-neurons.csv',
-    mimeType: 'text/csv',
-    buffer: Buffer.from(inventedCsv(), 'utf8'),
+  await uploadCsv(page, {
+    project: 'Marker pilot',
+    file: 'marker-neurons.csv',
+    csv: inventedCsv(),
+    name: datasetName,
   })
-  await page.getByTestId('upload-name').locator('input').fill(datasetName)
-  await page.getByTestId('upload-start').click()
   await expect(page).toHaveURL(/\/datasets\/\d+/, { timeout: 60_000 })
 
   // A new analysis straight away: the response, then the kind the form suggests for it.

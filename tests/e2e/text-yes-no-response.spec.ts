@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test'
 import { inventedNeuronRows } from '../../shared/analysis/fixtures/invented-glmm-tables'
-import { attachScreenshot, signIn } from './support/demo'
+import { attachScreenshot, signIn, uploadCsv } from './support/demo'
 
 /**
  * A table whose only response is a yes/no written as text: the invented neurons in mice in three
@@ -36,16 +36,12 @@ test('a scientist tags a yes/no text column as the response and reads the odds r
   await page.goto('/sign-in')
   await signIn(page, 'sami@example.org')
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Welcome, Sami')
-  await page.goto('/datasets/upload')
-  await page.getByTestId('upload-project').locator('input').fill('Marker pilot')
-  await page.getByTestId('upload-project').locator('input').press('Tab')
-  await page.getByTestId('upload-file-input').setInputFiles({
-    name: 'marker-only.csv',
-    mimeType: 'text/csv',
-    buffer: Buffer.from(yesNoOnlyCsv(), 'utf8'),
+  await uploadCsv(page, {
+    project: 'Marker pilot',
+    file: 'marker-only.csv',
+    csv: yesNoOnlyCsv(),
+    name: datasetName,
   })
-  await page.getByTestId('upload-name').locator('input').fill(datasetName)
-  await page.getByTestId('upload-start').click()
   await expect(page).toHaveURL(/\/datasets\/\d+\?tab=nesting$/, { timeout: 60_000 })
   await expect(page.getByTestId('nesting-status')).toHaveText('Nesting not saved yet')
 

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs'
 import { expect, test, type Page } from '@playwright/test'
-import { attachScreenshot, signIn } from './support/demo'
+import { attachScreenshot, signIn, uploadCsv } from './support/demo'
+import { generator } from './support/generator'
 
 /**
  * A genotype × treatment design from upload to result, as the demo scientist does it: upload an
@@ -12,18 +13,6 @@ import { attachScreenshot, signIn } from './support/demo'
 const LABS = ['nimbus', 'corvid', 'aster']
 const GENOTYPES = ['WT', 'KO']
 const TREATMENTS = ['vehicle', 'KX-9']
-
-/** Small deterministic generator (mulberry32), so the invented table is the same on every run. */
-function generator(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
 
 /**
  * An invented table: 3 labs × 8 mice (2 per genotype × treatment cell in each lab) × 6 neurons.
@@ -71,16 +60,12 @@ test('a scientist analyses a genotype × treatment table with a covariate', asyn
   await page.goto('/sign-in')
   await signIn(page, 'sami@example.org')
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Welcome, Sami')
-  await page.goto('/datasets/upload')
-  await page.getByTestId('upload-project').locator('input').fill('Neurite pilot')
-  await page.getByTestId('upload-project').locator('input').press('Tab')
-  await page.getByTestId('upload-file-input').setInputFiles({
-    name: 'neurites-genotype-treatment.csv',
-    mimeType: 'text/csv',
-    buffer: Buffer.from(inventedCsv(), 'utf8'),
+  await uploadCsv(page, {
+    project: 'Neurite pilot',
+    file: 'neurites-genotype-treatment.csv',
+    csv: inventedCsv(),
+    name: datasetName,
   })
-  await page.getByTestId('upload-name').locator('input').fill(datasetName)
-  await page.getByTestId('upload-start').click()
 
   // Take the suggested nesting; rows are listed by treatment within lab, so the suggestion may
   // nest mice in treatments, and a scientist takes a condition out of the levels: lab › mouse.

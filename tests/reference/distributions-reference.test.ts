@@ -8,17 +8,16 @@
  * (qt(1e-300, 2.5) is 9e-6 off). F tails with df1 ≥ 10 are checked down to p = 1e-250, below which
  * stdlib's incomplete beta underflows. Skips, loudly, only when Rscript is not installed.
  */
-import { execFileSync, spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { dirname, join } from 'node:path'
-import { fileURLToPath } from 'node:url'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { chiSquareUpperP } from '../../shared/stats/chi-square-upper-p'
 import { normalUpperP } from '../../shared/stats/normal-upper-p'
 import { fUpperP } from '../../shared/stats/reml/f-upper-p'
 import { studentTQuantile } from '../../shared/stats/student-t-quantile'
 import { studentTUpperP } from '../../shared/stats/student-t-upper-p'
+import { rscriptAvailable, runRScript } from './r-reference'
 
 type Kind = 't_upper' | 'f_upper' | 'chisq_upper' | 'normal_upper' | 't_quantile'
 interface Request {
@@ -80,9 +79,7 @@ function tolerance(r: Request, reference: number): number | null {
   return 1e-10
 }
 
-const rscript = spawnSync('Rscript', ['--version'], { encoding: 'utf8' })
-const hasR = !rscript.error && rscript.status === 0
-if (!hasR) console.warn('distributions-reference: Rscript not found, the live comparison with R is SKIPPED.')
+const hasR = rscriptAvailable('distributions-reference', 'the live comparison with R')
 
 describe.skipIf(!hasR)('t, F, χ² and normal distributions against R (live)', () => {
   const dir = mkdtempSync(join(tmpdir(), 'nestwise-distributions-'))
@@ -97,8 +94,7 @@ describe.skipIf(!hasR)('t, F, χ² and normal distributions against R (live)', (
       csv,
       requests.map((r) => [r.kind, cell(r.x), cell(r.df1), cell(r.df2)].join(',')).join('\n'),
     )
-    const script = join(dirname(fileURLToPath(import.meta.url)), 'distributions-reference.R')
-    const out = execFileSync('Rscript', [script, csv], { encoding: 'utf8', timeout: 60_000 })
+    const out = runRScript('distributions-reference.R', [csv], 60_000)
     reference = out.trim().split('\n').map(Number)
   }, 60_000)
 

@@ -9,14 +9,11 @@
  * (relative to the largest), 1e-6 absolute near zero. Also: the same fixed effects without random
  * terms are R's glm. Skips, loudly, only when Rscript is not installed.
  */
-import { execFileSync, spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { dirname, join } from 'node:path'
-import { fileURLToPath } from 'node:url'
+import { join } from 'node:path'
 import seedrandom from 'seedrandom'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { cellMeanRow } from '../../shared/stats/cell-mean-row'
 import { fitNestedGlmm } from '../../shared/stats/fit-nested-glmm'
 import { glmFit } from '../../shared/stats/glmm/glm-fit'
 import { bacteria } from '../../shared/stats/fixtures/bacteria'
@@ -26,6 +23,13 @@ import { modelFormula } from '../../shared/stats/model-formula'
 import { prepareNestedDesign } from '../../shared/stats/prepare-nested-design'
 import type { NestedDesign } from '../../shared/stats/types'
 import { waldTest } from '../../shared/stats/wald-test'
+import {
+  cellContrastRows,
+  referenceCsv,
+  referenceFromSpecs,
+  rscriptAvailable,
+  WorstDifferences,
+} from './r-reference'
 
 type Table = Record<string, readonly (string | number)[]>
 
@@ -192,7 +196,7 @@ const cases: Case[] = [
   },
 ]
 
-const worst = new Map<string, { rel: number; where: string }>()
+const worst = new WorstDifferences(ABS_TOL)
 function agree(
   quantity: string,
   where: string,
@@ -203,20 +207,14 @@ function agree(
 ): void {
   const diff = Math.abs(ours - theirs)
   const rel = diff / Math.max(scale, 1e-300)
-  const shown = diff <= ABS_TOL ? Math.min(rel, diff) : rel
-  const prev = worst.get(quantity)
-  if (!prev || shown > prev.rel) worst.set(quantity, { rel: shown, where })
+  worst.note(quantity, where, rel, diff)
   expect(
     diff <= ABS_TOL || rel <= tolerance,
     `${where} ${quantity}: ours ${ours}, glmer ${theirs} (relative ${rel.toExponential(2)})`,
   ).toBe(true)
 }
 
-const hasR = (() => {
-  const r = spawnSync('Rscript', ['--version'], { encoding: 'utf8' })
-  return !r.error && r.status === 0
-})()
-if (!hasR) console.warn('glmer-reference: Rscript not found, the live glmer comparison is SKIPPED.')
+const hasR = rscriptAvailable('glmer-reference', 'the live glmer comparison')
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Reference = Record<string, any>
@@ -232,7 +230,7 @@ describe.skipIf(!hasR)('nested GLMM engine against lme4 glmer (live R)', () => {
       const design = prepareNestedDesign(columns, { reference: c.reference, observationLevelUnits: true })
       designs.set(c.id, design)
       const csv = join(dir, `${c.id}.csv`)
-      writeFileSync(csv, referenceCsv(c))
+      writeFileSync(csv, referenceCsv(c.table, caseColumns(c)))
       return {
         id: c.id,
         csv,
@@ -243,20 +241,12 @@ describe.skipIf(!hasR)('nested GLMM engine against lme4 glmer (live R)', () => {
         contrasts: contrastRows(design),
       }
     })
-    const specPath = join(dir, 'spec.json')
-    writeFileSync(specPath, JSON.stringify(specs))
-    const script = join(dirname(fileURLToPath(import.meta.url)), 'glmer-reference.R')
-    reference = JSON.parse(
-      execFileSync('Rscript', [script, specPath], { encoding: 'utf8', timeout: 240_000, maxBuffer: 1 << 26 }),
-    )
+    reference = referenceFromSpecs('glmer-reference.R', dir, specs, 240_000)
   }, 240_000)
 
   afterAll(() => {
     rmSync(dir, { recursive: true, force: true })
-    const lines = [...worst.entries()].map(
-      ([q, w]) => `  ${q.padEnd(18)} ${w.rel.toExponential(2)}  (${w.where})`,
-    )
-    if (lines.length) console.log(`glmer-reference: largest differences per quantity\n${lines.join('\n')}`)
+    worst.report('glmer-reference: largest differences per quantity', 18)
   })
 
   for (const c of cases) {
@@ -304,37 +294,17 @@ describe.skipIf(!hasR)('nested GLMM engine against lme4 glmer (live R)', () => {
 
 /** Coefficients, cell means (link scale), then every pair of cells. */
 function contrastRows(design: NestedDesign): number[][] {
-  const p = design.fixed.columns.length
-  const unit = design.fixed.columns.map((_, j) => Array.from({ length: p }, (__, k) => (k === j ? 1 : 0)))
-  const means = design.cells.labels.map((_, c) => cellMeanRow(design, c))
-  const pairs: number[][] = []
-  for (let i = 0; i < means.length; i++)
-    for (let j = i + 1; j < means.length; j++) pairs.push(means[j].map((v, k) => v - means[i][k]))
+  const { unit, means, pairs } = cellContrastRows(design)
   return [...unit, ...means, ...pairs]
 }
 
-function referenceCsv(c: Case): string {
-  const columns = [
+/** The case's own columns, as the file a user would refit the formula on. */
+function caseColumns(c: Case): string[] {
+  return [
     c.response,
     ...(c.trials ? [c.trials] : []),
     ...(c.conditions ?? []),
     ...(c.covariates ?? []),
     ...c.levels,
   ]
-  const n = c.table[c.response].length
-  const rows = [columns.map(quote).join(',')]
-  for (let r = 0; r < n; r++)
-    rows.push(
-      columns
-        .map((name) => {
-          const v = c.table[name][r]
-          return typeof v === 'number' ? String(v) : quote(v)
-        })
-        .join(','),
-    )
-  return rows.join('\n') + '\n'
-}
-
-function quote(s: string): string {
-  return `"${s.replace(/"/g, '""')}"`
 }

@@ -18,19 +18,23 @@
  * Data: invented, seeded (shared/analysis/fixtures/invented-glmm-tables.ts). Skips, loudly, only
  * when Rscript is not installed.
  */
-import { execFileSync, spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { dirname, join } from 'node:path'
-import { fileURLToPath } from 'node:url'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { analyzeNested } from '../../shared/analysis/analyze-nested'
 import { noLabEffectTable, oneRowPerMouseTable } from '../../shared/analysis/fixtures/invented-glmm-tables'
 import type { AnalysisResult, WaldContrast } from '../../shared/schemas/analysis-result'
-import { cellMeanRow } from '../../shared/stats/cell-mean-row'
 import { nestedColumnsFromTable } from '../../shared/stats/fixtures/nested-columns-from-table'
 import { prepareNestedDesign } from '../../shared/stats/prepare-nested-design'
 import type { NestedColumns, NestedDesign } from '../../shared/stats/types'
+import {
+  cellContrastRows,
+  referenceCsv,
+  referenceFromSpecs,
+  rscriptAvailable,
+  WorstDifferences,
+} from './r-reference'
 
 type Table = Record<string, readonly (string | number)[]>
 
@@ -76,25 +80,18 @@ const cases: Case[] = [
   },
 ]
 
-const worst = new Map<string, { rel: number; where: string }>()
+const worst = new WorstDifferences(ABS_TOL)
 function agree(quantity: string, where: string, ours: number, theirs: number, tolerance: number): void {
   const diff = Math.abs(ours - theirs)
   const rel = diff / Math.max(Math.abs(theirs), 1e-300)
-  const shown = diff <= ABS_TOL ? Math.min(rel, diff) : rel
-  const prev = worst.get(quantity)
-  if (!prev || shown > prev.rel) worst.set(quantity, { rel: shown, where })
+  worst.note(quantity, where, rel, diff)
   expect(
     (tolerance > GLM_TOL && diff <= ABS_TOL) || rel <= tolerance,
     `${where} ${quantity}: ours ${ours}, R ${theirs} (relative ${rel.toExponential(2)})`,
   ).toBe(true)
 }
 
-const hasR = (() => {
-  const r = spawnSync('Rscript', ['--version'], { encoding: 'utf8' })
-  return !r.error && r.status === 0
-})()
-if (!hasR)
-  console.warn('glmm-boundary-reference: Rscript not found, the live glm/glmer comparison is SKIPPED.')
+const hasR = rscriptAvailable('glmm-boundary-reference', 'the live glm/glmer comparison')
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Reference = Record<string, any>
@@ -127,21 +124,12 @@ describe.skipIf(!hasR)('boundary fits of the binary and count models against R (
         contrasts: contrastRows(design),
       }
     })
-    const specPath = join(dir, 'spec.json')
-    writeFileSync(specPath, JSON.stringify(specs))
-    const script = join(dirname(fileURLToPath(import.meta.url)), 'glmm-boundary-reference.R')
-    reference = JSON.parse(
-      execFileSync('Rscript', [script, specPath], { encoding: 'utf8', timeout: 120_000, maxBuffer: 1 << 24 }),
-    )
+    reference = referenceFromSpecs('glmm-boundary-reference.R', dir, specs, 120_000)
   }, 120_000)
 
   afterAll(() => {
     rmSync(dir, { recursive: true, force: true })
-    const lines = [...worst.entries()].map(
-      ([q, w]) => `  ${q.padEnd(22)} ${w.rel.toExponential(2)}  (${w.where})`,
-    )
-    if (lines.length)
-      console.log(`glmm-boundary-reference: largest differences per quantity\n${lines.join('\n')}`)
+    worst.report('glmm-boundary-reference: largest differences per quantity', 22)
   })
 
   /** Coefficients, then every pair of cells, in the order the result lists them. */
@@ -202,8 +190,7 @@ describe.skipIf(!hasR)('boundary fits of the binary and count models against R (
       const theirs = refVar.get(term.grouping.join(':'))!
       const ours = result.varianceComponents[t].variance
       const rel = Math.abs(ours - theirs) / largest
-      const prev = worst.get('glmer variance')
-      if (!prev || rel > prev.rel) worst.set('glmer variance', { rel, where: `${c.id}/${term.name}` })
+      worst.note('glmer variance', `${c.id}/${term.name}`, rel)
       expect(rel, `${term.name}: ours ${ours}, glmer ${theirs}`).toBeLessThanOrEqual(5e-3)
     })
     expect(refVar.get('lab')).toBeLessThan(1e-8) // lme4 glmer, live: at the boundary too
@@ -214,26 +201,6 @@ describe.skipIf(!hasR)('boundary fits of the binary and count models against R (
 
 /** Coefficients (unit rows), then every pair of cells (later minus earlier), as the result lists them. */
 function contrastRows(design: NestedDesign): number[][] {
-  const p = design.fixed.columns.length
-  const unit = design.fixed.columns.map((_, j) => Array.from({ length: p }, (__, k) => (k === j ? 1 : 0)))
-  const means = design.cells.labels.map((_, c) => cellMeanRow(design, c))
-  const pairs: number[][] = []
-  for (let i = 0; i < means.length; i++)
-    for (let j = i + 1; j < means.length; j++) pairs.push(means[j].map((v, k) => v - means[i][k]))
+  const { unit, pairs } = cellContrastRows(design)
   return [...unit, ...pairs]
-}
-
-function referenceCsv(table: Table, columns: string[]): string {
-  const n = table[columns[0]].length
-  const quote = (s: string) => `"${s.replace(/"/g, '""')}"`
-  const rows = [columns.map(quote).join(',')]
-  for (let r = 0; r < n; r++)
-    rows.push(
-      columns
-        .map((name) =>
-          typeof table[name][r] === 'number' ? String(table[name][r]) : quote(String(table[name][r])),
-        )
-        .join(','),
-    )
-  return rows.join('\n') + '\n'
 }

@@ -8,13 +8,10 @@
  * factors, a covariate). Agreement required: 1e-4 relative (1e-6 absolute near zero) on
  * variances, estimates and SEs, 1e-3 on df and p. Skips, loudly, only when Rscript is not installed.
  */
-import { execFileSync, spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { dirname, join } from 'node:path'
-import { fileURLToPath } from 'node:url'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { cellMeanRow } from '../../shared/stats/cell-mean-row'
 import { cellMeans } from '../../shared/stats/cell-means'
 import { fitNestedReml } from '../../shared/stats/fit-nested-reml'
 import { fixedCoefficients } from '../../shared/stats/fixed-coefficients'
@@ -34,6 +31,13 @@ import { prepareNestedDesign } from '../../shared/stats/prepare-nested-design'
 import { studentTTwoSidedP } from '../../shared/stats/reml/student-t-two-sided-p'
 import type { NestedDesign } from '../../shared/stats/types'
 import { simulateNestedTable, type NestedSimulation } from '../../shared/stats/fixtures/simulate-nested-table'
+import {
+  cellContrastRows,
+  referenceCsv,
+  referenceFromSpecs,
+  rscriptAvailable,
+  WorstDifferences,
+} from './r-reference'
 
 type Table = Record<string, readonly (string | number)[]>
 
@@ -289,14 +293,12 @@ const REL_TOL = 1e-4
 const LOOSE_TOL = 1e-3
 const ABS_TOL = 1e-6
 /** Largest relative difference seen per quantity, reported after the run. */
-const worst = new Map<string, { rel: number; where: string }>()
+const worst = new WorstDifferences(ABS_TOL)
 
 function agree(quantity: string, where: string, ours: number, theirs: number, tolerance = REL_TOL): void {
   const diff = Math.abs(ours - theirs)
   const rel = diff / Math.max(Math.abs(theirs), Math.abs(ours), 1e-300)
-  const shown = diff <= ABS_TOL ? Math.min(rel, diff) : rel
-  const prev = worst.get(quantity)
-  if (!prev || shown > prev.rel) worst.set(quantity, { rel: shown, where })
+  worst.note(quantity, where, rel, diff)
   expect(
     diff <= ABS_TOL || rel <= tolerance,
     `${where} ${quantity}: ours ${ours}, lme4/lmerTest ${theirs} (relative difference ${rel.toExponential(2)})`,
@@ -308,9 +310,7 @@ function agreeLoosely(quantity: string, where: string, ours: number, theirs: num
   agree(quantity, where, ours, theirs, LOOSE_TOL)
 }
 
-const rscript = spawnSync('Rscript', ['--version'], { encoding: 'utf8' })
-const hasR = !rscript.error && rscript.status === 0
-if (!hasR) console.warn('lmer-reference: Rscript not found, the live lme4/lmerTest comparison is SKIPPED.')
+const hasR = rscriptAvailable('lmer-reference', 'the live lme4/lmerTest comparison')
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Reference = Record<string, any>
@@ -328,7 +328,7 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
       )
       designs.set(c.id, design)
       const csv = join(dir, `${c.id}.csv`)
-      writeFileSync(csv, referenceCsv(c))
+      writeFileSync(csv, referenceCsv(c.table, caseColumns(c)))
       const { rows, holm } = contrastRows(design)
       return {
         id: c.id,
@@ -340,23 +340,12 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
         holm,
       }
     })
-    const specPath = join(dir, 'spec.json')
-    writeFileSync(specPath, JSON.stringify(specs))
-    const script = join(dirname(fileURLToPath(import.meta.url)), 'lmer-reference.R')
-    const out = execFileSync('Rscript', [script, specPath], {
-      encoding: 'utf8',
-      timeout: 180_000,
-      maxBuffer: 1 << 26,
-    })
-    reference = JSON.parse(out)
+    reference = referenceFromSpecs('lmer-reference.R', dir, specs, 180_000)
   }, 180_000)
 
   afterAll(() => {
     rmSync(dir, { recursive: true, force: true })
-    const lines = [...worst.entries()].map(
-      ([q, w]) => `  ${q.padEnd(22)} ${w.rel.toExponential(2)}  (${w.where})`,
-    )
-    if (lines.length) console.log(`lmer-reference: largest differences per quantity\n${lines.join('\n')}`)
+    worst.report('lmer-reference: largest differences per quantity', 22)
   })
 
   it('covers the public data sets, boundary fits, level × condition terms, two factors and covariates', () => {
@@ -447,36 +436,14 @@ describe.skipIf(!hasR)('nested REML engine against lme4/lmerTest (live R)', () =
 
 /** Coefficients, cell means, then pairwise cell contrasts (Holm-adjusted together in R). */
 function contrastRows(design: NestedDesign): { rows: number[][]; holm: number[] } {
-  const p = design.fixed.columns.length
-  const unit = design.fixed.columns.map((_, j) => Array.from({ length: p }, (__, k) => (k === j ? 1 : 0)))
-  const means = design.cells.labels.map((_, c) => cellMeanRow(design, c))
-  const pairs: number[][] = []
-  for (let i = 0; i < means.length; i++)
-    for (let j = i + 1; j < means.length; j++) pairs.push(means[j].map((v, k) => v - means[i][k]))
+  const { unit, means, pairs } = cellContrastRows(design)
   const first = unit.length + means.length
   return { rows: [...unit, ...means, ...pairs], holm: pairs.map((_, i) => first + i + 1) }
 }
 
 /** The case's own columns, as the file a user would refit the formula on. */
-function referenceCsv(c: Case): string {
-  const columns = [c.response, ...(c.conditions ?? []), ...(c.covariates ?? []), ...c.levels]
-  const n = c.table[c.response].length
-  const rows = [columns.map(quote).join(',')]
-  for (let r = 0; r < n; r++) {
-    rows.push(
-      columns
-        .map((name) => {
-          const v = c.table[name][r]
-          return typeof v === 'number' ? (Number.isNaN(v) ? 'NA' : String(v)) : quote(v)
-        })
-        .join(','),
-    )
-  }
-  return rows.join('\n') + '\n'
-}
-
-function quote(s: string): string {
-  return `"${s.replace(/"/g, '""')}"`
+function caseColumns(c: Case): string[] {
+  return [c.response, ...(c.conditions ?? []), ...(c.covariates ?? []), ...c.levels]
 }
 
 function unquote(name: string): string {

@@ -9,9 +9,9 @@ import {
   rmSync,
   writeFileSync,
 } from 'node:fs'
-import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
+import { freePortSync } from '../../scripts/lib/ports'
 
 /**
  * A PostgreSQL cluster of a test's own, on a free port in a temporary folder, that the test may stop
@@ -50,17 +50,6 @@ function run(bin: string, args: string[]): void {
     throw new Error(`${bin} ${args.join(' ')} failed: ${result.stderr || result.stdout}`)
 }
 
-export function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer()
-    server.once('error', reject)
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address()
-      server.close(() => resolve(typeof address === 'object' && address ? address.port : 0))
-    })
-  })
-}
-
 export async function startThrowawayCluster(login: {
   user: string
   password: string
@@ -72,7 +61,7 @@ export async function startThrowawayCluster(login: {
   const pwfile = join(dir, 'pw')
   writeFileSync(pwfile, `${login.password}\n`, { mode: 0o644 })
   if (isRoot) spawnSync('chown', ['-R', 'postgres:postgres', dir])
-  const port = await freePort()
+  const port = freePortSync()
   run(join(bin, 'initdb'), [
     '-D',
     data,

@@ -35,3 +35,20 @@ export async function demoAnalysis(page: Page, name: string): Promise<{ id: numb
   expect(found, `demo analysis "${name}"`).toBeTruthy()
   return found!
 }
+
+/** From the upload page, uploads `csv` as the file `file` into `project`, named `name`, and starts the upload. */
+export async function uploadCsv(
+  page: Page,
+  upload: { project: string; file: string; csv: string; name: string },
+): Promise<void> {
+  await page.goto('/datasets/upload')
+  await page.getByTestId('upload-project').locator('input').fill(upload.project)
+  await page.getByTestId('upload-project').locator('input').press('Tab')
+  await page.getByTestId('upload-file-input').setInputFiles({
+    name: upload.file,
+    mimeType: 'text/csv',
+    buffer: Buffer.from(upload.csv, 'utf8'),
+  })
+  await page.getByTestId('upload-name').locator('input').fill(upload.name)
+  await page.getByTestId('upload-start').click()
+}
